@@ -1,0 +1,2 @@
+/** rhosigma as a library: the engine's layers. */
+export * as linalg from './linalg/index.js';
