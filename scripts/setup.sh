@@ -5,7 +5,7 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-debs=(python3-numpy python3-scipy python3-cvxopt libopenblas0-pthread)
+debs=(python3-numpy python3-scipy python3-cvxopt python3-pytest libopenblas0-pthread)
 missing=()
 for p in "${debs[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q 'install ok installed' || missing+=("$p")
