@@ -1,0 +1,300 @@
+/**
+ * Small real dense kernels for the SDP solver's per-block work: products, Cholesky with a
+ * dependent-row guard, a cyclic Jacobi symmetric eigensolver and a one-sided Jacobi SVD.
+ *
+ * Why hand-written instead of ml-matrix: the interior-point method does this work on every cone
+ * block at every iteration, and the problems of this field have thousands of 2×2 or 4×4 blocks.
+ * ml-matrix wraps every matrix in an object of arrays-of-arrays; on a 2×2 block the wrapping costs
+ * more than the arithmetic (measured on this machine, Node 20: 2×2 Cholesky via
+ * `new CholeskyDecomposition(new Matrix(...))` ≈ 1.6 µs, `cholesky()` below on a Float64Array
+ * ≈ 0.05 µs). Jacobi methods are chosen for their high relative accuracy on the graded matrices
+ * that appear near the optimum (scaled complementarity pairs), not for speed on large blocks.
+ *
+ * Does not: handle complex matrices (complex Hermitian blocks enter the solver through their real
+ * embedding), check arguments, or allocate more than the result.
+ *
+ * Cost: products O(n^3); Cholesky n^3/3; Jacobi eigen and SVD about 6–10 sweeps of O(n^3) each,
+ * fine for the block sizes of this field (n ≤ ~100) and slow beyond a few hundred.
+ * All matrices are row-major Float64Arrays of n×n entries.
+ */
+
+/** out = A·B (n×n). `out` must not alias A or B. */
+export function matMul(a: Float64Array, b: Float64Array, n: number, out: Float64Array = new Float64Array(n * n)): Float64Array {
+  out.fill(0);
+  for (let i = 0; i < n; i++) {
+    const io = i * n;
+    for (let k = 0; k < n; k++) {
+      const aik = a[io + k];
+      if (aik === 0) continue;
+      const ko = k * n;
+      for (let j = 0; j < n; j++) out[io + j] += aik * b[ko + j];
+    }
+  }
+  return out;
+}
+
+/** out = Aᵀ·B. */
+export function matTMul(a: Float64Array, b: Float64Array, n: number, out: Float64Array = new Float64Array(n * n)): Float64Array {
+  out.fill(0);
+  for (let k = 0; k < n; k++) {
+    const ko = k * n;
+    for (let i = 0; i < n; i++) {
+      const aki = a[ko + i];
+      if (aki === 0) continue;
+      const io = i * n;
+      for (let j = 0; j < n; j++) out[io + j] += aki * b[ko + j];
+    }
+  }
+  return out;
+}
+
+/** out = A·Bᵀ. */
+export function matMulT(a: Float64Array, b: Float64Array, n: number, out: Float64Array = new Float64Array(n * n)): Float64Array {
+  for (let i = 0; i < n; i++) {
+    const io = i * n;
+    for (let j = 0; j < n; j++) {
+      const jo = j * n;
+      let s = 0;
+      for (let k = 0; k < n; k++) s += a[io + k] * b[jo + k];
+      out[io + j] = s;
+    }
+  }
+  return out;
+}
+
+/** Gᵀ·M·G for symmetric M; result symmetrized. */
+export function congruenceT(g: Float64Array, m: Float64Array, n: number): Float64Array {
+  const t = matMul(m, g, n);
+  const r = matTMul(g, t, n);
+  symmetrize(r, n);
+  return r;
+}
+
+/** G·M·Gᵀ for symmetric M; result symmetrized. */
+export function congruence(g: Float64Array, m: Float64Array, n: number): Float64Array {
+  const t = matMulT(m, g, n);
+  const r = matMul(g, t, n);
+  symmetrize(r, n);
+  return r;
+}
+
+export function symmetrize(a: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const v = 0.5 * (a[i * n + j] + a[j * n + i]);
+      a[i * n + j] = v;
+      a[j * n + i] = v;
+    }
+  }
+}
+
+/** Frobenius inner product Σ a_ij b_ij. */
+export function dot(a: Float64Array, b: Float64Array): number {
+  let s = 0;
+  for (let k = 0; k < a.length; k++) s += a[k] * b[k];
+  return s;
+}
+
+/**
+ * Lower Cholesky factor of a symmetric positive definite matrix, or null when a pivot is not
+ * positive (the matrix is not numerically positive definite). Reads only the lower triangle.
+ */
+export function cholesky(a: Float64Array, n: number): Float64Array | null {
+  const l = new Float64Array(n * n);
+  for (let j = 0; j < n; j++) {
+    let d = a[j * n + j];
+    for (let k = 0; k < j; k++) d -= l[j * n + k] * l[j * n + k];
+    if (!(d > 0)) return null;
+    const ljj = Math.sqrt(d);
+    l[j * n + j] = ljj;
+    for (let i = j + 1; i < n; i++) {
+      let s = a[i * n + j];
+      for (let k = 0; k < j; k++) s -= l[i * n + k] * l[j * n + k];
+      l[i * n + j] = s / ljj;
+    }
+  }
+  return l;
+}
+
+/** Pivots replaced by this value when a row is numerically dependent on earlier rows. */
+export const HUGE_PIVOT = 1e64;
+
+/**
+ * Cholesky of a symmetric positive semidefinite matrix in place (lower triangle), for Schur
+ * complements. A pivot that falls below `relTol` times the row's original diagonal marks a
+ * constraint numerically dependent on earlier ones: it is set to HUGE_PIVOT, which makes that
+ * component of the solution (numerically) zero, the standard treatment of dependent equality
+ * constraints in interior-point codes. Returns the number of such pivots.
+ */
+export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-13): number {
+  let dependent = 0;
+  for (let j = 0; j < n; j++) {
+    const jo = j * n;
+    const orig = a[jo + j];
+    let d = orig;
+    for (let k = 0; k < j; k++) d -= a[jo + k] * a[jo + k];
+    let ljj: number;
+    if (!(d > relTol * Math.abs(orig)) || !(d > 0)) {
+      ljj = HUGE_PIVOT;
+      dependent++;
+    } else ljj = Math.sqrt(d);
+    a[jo + j] = ljj;
+    for (let i = j + 1; i < n; i++) {
+      const io = i * n;
+      let s = a[io + j];
+      for (let k = 0; k < j; k++) s -= a[io + k] * a[jo + k];
+      a[io + j] = s / ljj;
+    }
+    for (let k = j + 1; k < n; k++) a[jo + k] = 0;
+  }
+  return dependent;
+}
+
+/** Solve L·x = b in place (L lower, n×n), for `cols` right-hand sides stored row-major n×cols. */
+export function forwardSolve(l: Float64Array, n: number, b: Float64Array, cols = 1): void {
+  for (let i = 0; i < n; i++) {
+    const io = i * n;
+    for (let c = 0; c < cols; c++) {
+      let s = b[i * cols + c];
+      for (let k = 0; k < i; k++) s -= l[io + k] * b[k * cols + c];
+      b[i * cols + c] = s / l[io + i];
+    }
+  }
+}
+
+/** Solve Lᵀ·x = b in place. */
+export function backSolveT(l: Float64Array, n: number, b: Float64Array, cols = 1): void {
+  for (let i = n - 1; i >= 0; i--) {
+    for (let c = 0; c < cols; c++) {
+      let s = b[i * cols + c];
+      for (let k = i + 1; k < n; k++) s -= l[k * n + i] * b[k * cols + c];
+      b[i * cols + c] = s / l[i * n + i];
+    }
+  }
+}
+
+/**
+ * Eigenvalues (and optionally eigenvectors as columns of V) of a symmetric matrix by cyclic
+ * Jacobi rotations. Input is not modified.
+ */
+export function symEig(a: Float64Array, n: number, wantVectors = false): { values: Float64Array; vectors: Float64Array | null } {
+  const m = Float64Array.from(a);
+  const v = wantVectors ? new Float64Array(n * n) : null;
+  if (v) for (let i = 0; i < n; i++) v[i * n + i] = 1;
+  for (let sweep = 0; sweep < 60; sweep++) {
+    let off = 0;
+    let diag = 0;
+    for (let i = 0; i < n; i++) {
+      diag += m[i * n + i] * m[i * n + i];
+      for (let j = i + 1; j < n; j++) off += m[i * n + j] * m[i * n + j];
+    }
+    if (off <= 1e-32 * diag || off === 0) break;
+    for (let p = 0; p < n; p++) {
+      for (let q = p + 1; q < n; q++) {
+        const apq = m[p * n + q];
+        if (apq === 0) continue;
+        const app = m[p * n + p];
+        const aqq = m[q * n + q];
+        if (Math.abs(apq) < 1e-300) {
+          m[p * n + q] = m[q * n + p] = 0;
+          continue;
+        }
+        const theta = (aqq - app) / (2 * apq);
+        const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+        const c = 1 / Math.sqrt(t * t + 1);
+        const s = t * c;
+        for (let k = 0; k < n; k++) {
+          const mkp = m[k * n + p];
+          const mkq = m[k * n + q];
+          m[k * n + p] = c * mkp - s * mkq;
+          m[k * n + q] = s * mkp + c * mkq;
+        }
+        for (let k = 0; k < n; k++) {
+          const mpk = m[p * n + k];
+          const mqk = m[q * n + k];
+          m[p * n + k] = c * mpk - s * mqk;
+          m[q * n + k] = s * mpk + c * mqk;
+        }
+        m[p * n + q] = m[q * n + p] = 0;
+        if (v) {
+          for (let k = 0; k < n; k++) {
+            const vkp = v[k * n + p];
+            const vkq = v[k * n + q];
+            v[k * n + p] = c * vkp - s * vkq;
+            v[k * n + q] = s * vkp + c * vkq;
+          }
+        }
+      }
+    }
+  }
+  const values = new Float64Array(n);
+  for (let i = 0; i < n; i++) values[i] = m[i * n + i];
+  return { values, vectors: v };
+}
+
+/** Smallest eigenvalue of a symmetric matrix. */
+export function minEig(a: Float64Array, n: number): number {
+  if (n === 1) return a[0];
+  if (n === 2) {
+    const m = 0.5 * (a[0] + a[3]);
+    const d = 0.5 * (a[0] - a[3]);
+    return m - Math.hypot(d, a[1]);
+  }
+  const { values } = symEig(a, n);
+  let mn = Infinity;
+  for (const x of values) if (x < mn) mn = x;
+  return mn;
+}
+
+/**
+ * Singular value decomposition B = U·diag(σ)·Vᵀ by one-sided Jacobi (Hestenes): rotations
+ * orthogonalize the columns of B·V. Returns σ and V; the columns of B·V are σ_i u_i. Chosen for
+ * its high relative accuracy on small singular values (the complementarity products near the
+ * optimum), which forming BᵀB would square away.
+ */
+export function svdJacobi(b: Float64Array, n: number): { sigma: Float64Array; v: Float64Array } {
+  const u = Float64Array.from(b);
+  const v = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) v[i * n + i] = 1;
+  for (let sweep = 0; sweep < 60; sweep++) {
+    let rotated = false;
+    for (let p = 0; p < n; p++) {
+      for (let q = p + 1; q < n; q++) {
+        let alpha = 0;
+        let beta = 0;
+        let gamma = 0;
+        for (let k = 0; k < n; k++) {
+          const up = u[k * n + p];
+          const uq = u[k * n + q];
+          alpha += up * up;
+          beta += uq * uq;
+          gamma += up * uq;
+        }
+        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta)) continue;
+        rotated = true;
+        const zeta = (beta - alpha) / (2 * gamma);
+        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
+        const c = 1 / Math.sqrt(1 + t * t);
+        const s = c * t;
+        for (let k = 0; k < n; k++) {
+          const up = u[k * n + p];
+          const uq = u[k * n + q];
+          u[k * n + p] = c * up - s * uq;
+          u[k * n + q] = s * up + c * uq;
+          const vp = v[k * n + p];
+          const vq = v[k * n + q];
+          v[k * n + p] = c * vp - s * vq;
+          v[k * n + q] = s * vp + c * vq;
+        }
+      }
+    }
+    if (!rotated) break;
+  }
+  const sigma = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += u[k * n + j] * u[k * n + j];
+    sigma[j] = Math.sqrt(s);
+  }
+  return { sigma, v };
+}

@@ -1,0 +1,342 @@
+/**
+ * The Schur complement system of one interior-point iteration, assembled block by block and
+ * factored by its group structure.
+ *
+ *   [ M    A_f ] [Δy  ]   [r ]      M_ij = Σ_k ⟨A_ik, W_k A_jk W_k⟩ + Σ_p a_ip a_jp d_p
+ *   [ A_fᵀ  0  ] [Δx_f] = [r_f]     (W_k: NT scaling of PSD block k; d_p = x_p/s_p on the orthant)
+ *
+ * Assembly cost is per block: block k of internal size n touched by m_k constraints costs at most
+ * m_k·min(nnz·n², 2n³) + m_k²·nnz, whichever of "form W A W densely" or "pair sparse entries
+ * directly" is cheaper for each constraint (partial-trace constraints have n^(1/2)-ish entries).
+ * Nothing is ever of size "total dimension squared".
+ *
+ * Factorization follows compile.ts's grouping: M restricted to a group is dense (Cholesky of each
+ * group, hand-written for the tiny sizes here, see dense.ts), groups are coupled only through
+ * global rows and the free columns, which are eliminated last in one dense reduced system:
+ * R = [M_gg A_fg; A_fgᵀ 0] − Σ_groups B_gᵀ D_g⁻¹ B_g. R is factored by our guarded Cholesky when
+ * there are no free variables (positive definite) and by ml-matrix's LU otherwise (symmetric
+ * indefinite). Cost per factorization: Σ_g (n_g³/3 + n_g²·r + n_g·r²) + r³ with r = globals + free,
+ * i.e. linear in the number of groups when r is small.
+ *
+ * Does not: reorder within a group (no fill-reducing ordering), exploit sparsity inside a group,
+ * or detect that a chain of two-block constraints merged everything into one large group (then
+ * it is a plain dense Cholesky of M, still correct).
+ */
+import { LuDecomposition, Matrix } from 'ml-matrix';
+import { backSolveT, choleskyInPlaceGuarded, forwardSolve } from './dense.js';
+import type { Compiled } from './compile.js';
+
+export class SchurSystem {
+  private readonly cp: Compiled;
+  private readonly nG: number;
+  private readonly r: number;
+  private readonly D: Float64Array[];
+  private readonly B: Float64Array[];
+  private readonly R: Float64Array;
+  // Unfactored copies for iterative refinement.
+  private readonly D0: Float64Array[];
+  private readonly B0: Float64Array[];
+  private readonly R0: Float64Array;
+  private lu: LuDecomposition | null = null;
+  dependent = 0;
+
+  constructor(cp: Compiled) {
+    this.cp = cp;
+    this.nG = cp.globals.length;
+    this.r = this.nG + cp.nF;
+    this.D = cp.groups.map((g) => new Float64Array(g.length * g.length));
+    this.B = cp.groups.map((g) => new Float64Array(g.length * this.r));
+    this.R = new Float64Array(this.r * this.r);
+    this.D0 = this.D.map((d) => new Float64Array(d.length));
+    this.B0 = this.B.map((d) => new Float64Array(d.length));
+    this.R0 = new Float64Array(this.R.length);
+  }
+
+  private addPair(i: number, j: number, v: number): void {
+    const cp = this.cp;
+    const gi = cp.groupOf[i];
+    const gj = cp.groupOf[j];
+    const li = cp.localIndex[i];
+    const lj = cp.localIndex[j];
+    if (gi >= 0 && gj >= 0) {
+      // same group necessarily
+      const n = cp.groups[gi].length;
+      const d = this.D[gi];
+      d[li * n + lj] += v;
+      if (i !== j) d[lj * n + li] += v;
+    } else if (gi >= 0) {
+      this.B[gi][li * this.r + lj] += v;
+    } else if (gj >= 0) {
+      this.B[gj][lj * this.r + li] += v;
+    } else {
+      this.R[li * this.r + lj] += v;
+      if (i !== j) this.R[lj * this.r + li] += v;
+    }
+  }
+
+  /**
+   * Assemble and factor for scalings W (per PSD block, dense n×n) and orthant weights d.
+   */
+  assembleAndFactor(W: Float64Array[], d: Float64Array): void {
+    const cp = this.cp;
+    for (const a of this.D) a.fill(0);
+    for (const a of this.B) a.fill(0);
+    this.R.fill(0);
+    cp.psd.forEach((blk, k) => this.assembleBlock(blk, W[k]));
+    for (let p = 0; p < cp.nL; p++) {
+      const s = cp.linColPtr[p];
+      const e = cp.linColPtr[p + 1];
+      const dp = d[p];
+      for (let a = s; a < e; a++) {
+        const va = cp.linColVal[a] * dp;
+        const i = cp.linColRow[a];
+        for (let b = a; b < e; b++) this.addPair(i, cp.linColRow[b], va * cp.linColVal[b]);
+      }
+    }
+    // Free columns (constant).
+    for (let i = 0; i < cp.m; i++) {
+      for (let e = cp.freeRowPtr[i]; e < cp.freeRowPtr[i + 1]; e++) {
+        const col = this.nG + cp.freeIdx[e];
+        const v = cp.freeVal[e];
+        const g = cp.groupOf[i];
+        const li = cp.localIndex[i];
+        if (g >= 0) this.B[g][li * this.r + col] += v;
+        else {
+          this.R[li * this.r + col] += v;
+          this.R[col * this.r + li] += v;
+        }
+      }
+    }
+    this.D.forEach((a, g) => this.D0[g].set(a));
+    this.B.forEach((a, g) => this.B0[g].set(a));
+    this.R0.set(this.R);
+    this.factor();
+  }
+
+  private assembleBlock(blk: Compiled['psd'][number], w: Float64Array): void {
+    const n = blk.n;
+    const mk = blk.cons.length;
+    if (mk === 0) return;
+    const nnz = blk.tv.map((v) => v.length);
+    const suffix = new Float64Array(mk + 1);
+    for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + nnz[a];
+    const T = new Float64Array(n * n);
+    const tmp = new Float64Array(n * n);
+    for (let a = 0; a < mk; a++) {
+      const pa = blk.tp[a];
+      const qa = blk.tq[a];
+      const va = blk.tv[a];
+      const i = blk.cons[a];
+      const formCost = Math.min(nnz[a] * n * n, 2 * n * n * n) + suffix[a];
+      const pairCost = 2 * nnz[a] * suffix[a];
+      if (formCost < pairCost) {
+        // T = W A_a W
+        if (nnz[a] * n < 2 * n * n) {
+          T.fill(0);
+          for (let t = 0; t < nnz[a]; t++) {
+            const p = pa[t];
+            const q = qa[t];
+            const v = va[t];
+            for (let r = 0; r < n; r++) {
+              const wrp = w[r * n + p] * v;
+              const wrq = w[r * n + q] * v;
+              const ro = r * n;
+              if (p === q) {
+                for (let c = 0; c < n; c++) T[ro + c] += wrp * w[p * n + c];
+              } else {
+                for (let c = 0; c < n; c++) T[ro + c] += wrp * w[q * n + c] + wrq * w[p * n + c];
+              }
+            }
+          }
+        } else {
+          const A = new Float64Array(n * n);
+          for (let t = 0; t < nnz[a]; t++) {
+            A[pa[t] * n + qa[t]] = va[t];
+            A[qa[t] * n + pa[t]] = va[t];
+          }
+          // tmp = W A ; T = tmp W
+          tmp.fill(0);
+          for (let r = 0; r < n; r++) {
+            for (let k = 0; k < n; k++) {
+              const wrk = w[r * n + k];
+              if (wrk === 0) continue;
+              for (let c = 0; c < n; c++) tmp[r * n + c] += wrk * A[k * n + c];
+            }
+          }
+          T.fill(0);
+          for (let r = 0; r < n; r++) {
+            for (let k = 0; k < n; k++) {
+              const t = tmp[r * n + k];
+              if (t === 0) continue;
+              for (let c = 0; c < n; c++) T[r * n + c] += t * w[k * n + c];
+            }
+          }
+        }
+        for (let bIdx = a; bIdx < mk; bIdx++) {
+          const pb = blk.tp[bIdx];
+          const qb = blk.tq[bIdx];
+          const vb = blk.tv[bIdx];
+          let s = 0;
+          for (let t = 0; t < vb.length; t++) {
+            const p = pb[t];
+            const q = qb[t];
+            s += p === q ? vb[t] * T[p * n + q] : vb[t] * (T[p * n + q] + T[q * n + p]);
+          }
+          this.addPair(i, blk.cons[bIdx], s);
+        }
+      } else {
+        for (let bIdx = a; bIdx < mk; bIdx++) {
+          const pb = blk.tp[bIdx];
+          const qb = blk.tq[bIdx];
+          const vb = blk.tv[bIdx];
+          let s = 0;
+          for (let u = 0; u < vb.length; u++) {
+            const p = pb[u];
+            const q = qb[u];
+            // ⟨E_pq, W E_rs W⟩ with E symmetric unit (both mirrors)
+            for (let t = 0; t < va.length; t++) {
+              const r = pa[t];
+              const c = qa[t];
+              let val: number;
+              if (r === c) val = w[p * n + r] * w[r * n + q];
+              else val = w[p * n + r] * w[c * n + q] + w[p * n + c] * w[r * n + q];
+              s += (p === q ? 1 : 2) * vb[u] * va[t] * val;
+            }
+          }
+          this.addPair(i, blk.cons[bIdx], s);
+        }
+      }
+    }
+  }
+
+  private factor(): void {
+    const r = this.r;
+    this.dependent = 0;
+    this.cp.groups.forEach((g, gi) => {
+      const n = g.length;
+      const d = this.D[gi];
+      this.dependent += choleskyInPlaceGuarded(d, n);
+      if (r > 0) {
+        const F = this.B[gi];
+        forwardSolve(d, n, F, r); // F = L⁻¹ B
+        // R −= Fᵀ F
+        for (let k = 0; k < n; k++) {
+          const ko = k * r;
+          for (let a = 0; a < r; a++) {
+            const fa = F[ko + a];
+            if (fa === 0) continue;
+            for (let b = 0; b < r; b++) this.R[a * r + b] -= fa * F[ko + b];
+          }
+        }
+      }
+    });
+    this.lu = null;
+    if (r === 0) return;
+    if (this.cp.nF === 0) {
+      this.dependent += choleskyInPlaceGuarded(this.R, r);
+    } else {
+      const rows: number[][] = [];
+      for (let a = 0; a < r; a++) rows.push(Array.from(this.R.subarray(a * r, (a + 1) * r)));
+      this.lu = new LuDecomposition(new Matrix(rows));
+    }
+  }
+
+  /** Solve once with the factored system (no refinement). */
+  private solveOnce(rhs: Float64Array): Float64Array {
+    const cp = this.cp;
+    const r = this.r;
+    const out = new Float64Array(cp.m + cp.nF);
+    const zs: Float64Array[] = [];
+    const rr = new Float64Array(r);
+    for (let a = 0; a < this.nG; a++) rr[a] = rhs[cp.globals[a]];
+    for (let f = 0; f < cp.nF; f++) rr[this.nG + f] = rhs[cp.m + f];
+    cp.groups.forEach((g, gi) => {
+      const n = g.length;
+      const z = new Float64Array(n);
+      for (let a = 0; a < n; a++) z[a] = rhs[g[a]];
+      forwardSolve(this.D[gi], n, z);
+      zs.push(z);
+      if (r > 0) {
+        const F = this.B[gi];
+        for (let k = 0; k < n; k++) {
+          const zk = z[k];
+          if (zk === 0) continue;
+          for (let a = 0; a < r; a++) rr[a] -= F[k * r + a] * zk;
+        }
+      }
+    });
+    let u = rr;
+    if (r > 0) {
+      if (this.lu) {
+        const sol = this.lu.solve(Matrix.columnVector(Array.from(rr)));
+        u = Float64Array.from(sol.getColumn(0));
+      } else {
+        forwardSolve(this.R, r, u);
+        backSolveT(this.R, r, u);
+      }
+    }
+    cp.groups.forEach((g, gi) => {
+      const n = g.length;
+      const z = zs[gi];
+      if (r > 0) {
+        const F = this.B[gi];
+        for (let k = 0; k < n; k++) {
+          let s = 0;
+          for (let a = 0; a < r; a++) s += F[k * r + a] * u[a];
+          z[k] -= s;
+        }
+      }
+      backSolveT(this.D[gi], n, z);
+      for (let a = 0; a < n; a++) out[g[a]] = z[a];
+    });
+    for (let a = 0; a < this.nG; a++) out[cp.globals[a]] = u[a];
+    for (let f = 0; f < cp.nF; f++) out[cp.m + f] = u[this.nG + f];
+    return out;
+  }
+
+  /** Multiply by the unfactored system. */
+  private multiply(v: Float64Array): Float64Array {
+    const cp = this.cp;
+    const r = this.r;
+    const out = new Float64Array(v.length);
+    const u = new Float64Array(r);
+    for (let a = 0; a < this.nG; a++) u[a] = v[cp.globals[a]];
+    for (let f = 0; f < cp.nF; f++) u[this.nG + f] = v[cp.m + f];
+    const ru = new Float64Array(r);
+    for (let a = 0; a < r; a++) {
+      let s = 0;
+      for (let b = 0; b < r; b++) s += this.R0[a * r + b] * u[b];
+      ru[a] = s;
+    }
+    cp.groups.forEach((g, gi) => {
+      const n = g.length;
+      const D = this.D0[gi];
+      const B = this.B0[gi];
+      for (let a = 0; a < n; a++) {
+        let s = 0;
+        for (let b = 0; b < n; b++) s += D[a * n + b] * v[g[b]];
+        for (let c = 0; c < r; c++) s += B[a * r + c] * u[c];
+        out[g[a]] = s;
+        const va = v[g[a]];
+        if (va !== 0) for (let c = 0; c < r; c++) ru[c] += B[a * r + c] * va;
+      }
+    });
+    for (let a = 0; a < this.nG; a++) out[cp.globals[a]] = ru[a];
+    for (let f = 0; f < cp.nF; f++) out[cp.m + f] = ru[this.nG + f];
+    return out;
+  }
+
+  /** Solve with `refinements` steps of iterative refinement against the unfactored system. */
+  solve(rhs: Float64Array, refinements = 1): Float64Array {
+    let x = this.solveOnce(rhs);
+    if (this.dependent > 0) return x; // refinement would fight the dropped rows
+    for (let k = 0; k < refinements; k++) {
+      const ax = this.multiply(x);
+      const res = new Float64Array(rhs.length);
+      for (let a = 0; a < rhs.length; a++) res[a] = rhs[a] - ax[a];
+      const dx = this.solveOnce(res);
+      for (let a = 0; a < x.length; a++) x[a] += dx[a];
+    }
+    return x;
+  }
+}
