@@ -1,0 +1,5 @@
+/**
+ * Imports every op module so that each registers itself (src/ops/registry.ts). One line per module;
+ * whoever adds an op module adds its line here and then runs `npm run schema`.
+ */
+import './matrix-ops.js';

@@ -1,0 +1,656 @@
+/**
+ * The codec between the protocol's plain data (PROTOCOL.md, "Values") and the engine's objects: matrices,
+ * kets, states, channels, subsystem lists and numbers in; matrices, states, channels and numbers out.
+ *
+ * Every reader throws a RhoError whose path is the full place in the request ("rho.matrix[1][0]"), so op
+ * modules pass the argument's name as `path` and rethrow nothing. Sizes are checked from array lengths
+ * BEFORE anything is allocated (limits exported below), so a hostile request costs O(its length) at most.
+ * States are validated (Hermitian, positive semidefinite, unit trace within the tolerance), never repaired.
+ *
+ * Deliberately not here: any physics beyond validation (no channel is checked for trace preservation —
+ * `Channel` does not assume it), and no JSON parsing (callers hand over parsed values).
+ * The JSON Schema fragments in `schemas` describe the same values for op argument schemas; the readers
+ * re-check everything themselves, since engine code may call them on data that never met a schema.
+ *
+ * Cost: O(entries) to read a matrix (expression strings are parsed one by one, up to 500 characters each);
+ * one Hermitian eigendecomposition, O(n^3), per state (positivity) and per Choi matrix (Kraus form).
+ */
+import {
+  CMatrix, adjoint, frobeniusNorm, mul, zeros,
+} from '../linalg/cmatrix.js';
+import { product } from '../linalg/subsystems.js';
+import { RhoError } from '../errors.js';
+import type { Channel, State } from '../quantum/types.js';
+import { choiToKraus } from '../quantum/channels.js';
+import { checkDensityMatrix, checkDims, checkHermitian, checkPositive, checkSquareFinite } from '../quantum/validate.js';
+import { readExpression } from './expressions.js';
+
+/** Largest number of rows or columns of any matrix, and largest ket length. */
+export const MAX_DIMENSION = 1024;
+/** Largest number of entries of one matrix (MAX_DIMENSION² — a 1024×1024 complex matrix is 16 MiB). */
+export const MAX_ENTRIES = MAX_DIMENSION * MAX_DIMENSION;
+/** Largest number of Kraus operators of one channel. */
+export const MAX_KRAUS = 1024;
+/** Largest total number of entries over all Kraus operators of one channel (64 MiB as complex doubles). */
+export const MAX_CHANNEL_ENTRIES = 4 * MAX_ENTRIES;
+/** Largest number of subsystems in a `dims` list. */
+export const MAX_SUBSYSTEMS = 64;
+
+export interface NumberRange {
+  min?: number;
+  max?: number;
+  minExclusive?: boolean;
+  maxExclusive?: boolean;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Small helpers
+
+function isPlainObject(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+function describe(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'object') return 'an object';
+  if (typeof v === 'string') return 'a string';
+  return `a ${typeof v}`;
+}
+
+function refuseUnknownKeys(value: Record<string, unknown>, allowed: readonly string[], path: string, what: string): void {
+  for (const key of Object.keys(value)) {
+    if (!allowed.includes(key)) {
+      throw new RhoError(
+        'invalid-argument',
+        `Unknown field "${key}" in ${what}; the fields are ${allowed.map((k) => `"${k}"`).join(', ')}.`,
+        `${path}.${key}`,
+      );
+    }
+  }
+}
+
+function tooLarge(path: string, what: string, size: number, limit: number): RhoError {
+  return new RhoError('too-large', `${what} is ${size}, above the limit of ${limit}.`, path, { size, limit });
+}
+
+/** A finite real number at `path`. */
+function realEntry(v: unknown, path: string): number {
+  if (typeof v !== 'number') {
+    throw new RhoError('invalid-argument', `Expected a number here, not ${describe(v)}.`, path);
+  }
+  if (!Number.isFinite(v)) throw new RhoError('invalid-argument', 'The entry is NaN or infinite; entries must be finite.', path);
+  return v;
+}
+
+/** A number or an expression string at `path`, as a complex pair. */
+function complexEntry(v: unknown, path: string): { re: number; im: number } {
+  if (typeof v === 'string') return readExpression(v, path);
+  if (typeof v === 'number') return { re: realEntry(v, path), im: 0 };
+  throw new RhoError('invalid-argument', `Expected a number or an expression string here, not ${describe(v)}.`, path);
+}
+
+/** Shape of rows-of-arrays data, checked for emptiness and the size limits, without reading entries. */
+function rowsShape(value: unknown, path: string): { rows: number; cols: number } {
+  if (!Array.isArray(value)) {
+    throw new RhoError('invalid-argument', `Expected a list of rows, not ${describe(value)}.`, path);
+  }
+  if (value.length === 0) throw new RhoError('invalid-argument', 'The matrix has no rows.', path);
+  if (value.length > MAX_DIMENSION) throw tooLarge(path, 'The number of rows', value.length, MAX_DIMENSION);
+  const first = value[0];
+  if (!Array.isArray(first)) {
+    throw new RhoError('invalid-argument', `Each row must be a list of entries, not ${describe(first)}.`, `${path}[0]`);
+  }
+  if (first.length === 0) throw new RhoError('invalid-argument', 'The row is empty.', `${path}[0]`);
+  if (first.length > MAX_DIMENSION) throw tooLarge(`${path}[0]`, 'The number of columns', first.length, MAX_DIMENSION);
+  return { rows: value.length, cols: first.length };
+}
+
+/** The shape a matrix value claims, from array lengths only (for size checks before reading). */
+function peekShape(value: unknown, path: string): { rows: number; cols: number } {
+  if (isPlainObject(value) && 're' in value) return rowsShape(value.re, `${path}.re`);
+  return rowsShape(value, path);
+}
+
+/** Fill `target` (re or im storage) from rows, all of length `cols`. */
+function fillRows(
+  value: unknown[],
+  path: string,
+  cols: number,
+  entry: (v: unknown, p: string, k: number) => void,
+): void {
+  for (let i = 0; i < value.length; i++) {
+    const row = value[i];
+    const rowPath = `${path}[${i}]`;
+    if (!Array.isArray(row)) {
+      throw new RhoError('invalid-argument', `Each row must be a list of entries, not ${describe(row)}.`, rowPath);
+    }
+    if (row.length !== cols) {
+      throw new RhoError(
+        'dimension-mismatch',
+        `Row ${i} has ${row.length} entries but row 0 has ${cols}; all rows must have the same length.`,
+        rowPath,
+      );
+    }
+    for (let j = 0; j < cols; j++) entry(row[j], `${rowPath}[${j}]`, i * cols + j);
+  }
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Matrices and kets
+
+/**
+ * A complex matrix from any of the protocol's forms: rows of numbers, rows mixing numbers and expression
+ * strings, or {"re": rows, "im": rows} (im optional; both numbers only). Rectangular matrices are allowed.
+ */
+export function readMatrix(value: unknown, path: string): CMatrix {
+  if (isPlainObject(value)) {
+    if (!('re' in value)) {
+      const hint = 'matrix' in value || 'ket' in value ? ' (this looks like a state; give its matrix here)' : '';
+      throw new RhoError(
+        'invalid-argument',
+        `Expected a matrix: rows of numbers or expression strings, or {"re": rows, "im": rows}${hint}.`,
+        path,
+      );
+    }
+    refuseUnknownKeys(value, ['re', 'im'], path, 'a complex matrix');
+    const { rows, cols } = rowsShape(value.re, `${path}.re`);
+    const m = zeros(rows, cols);
+    fillRows(value.re as unknown[], `${path}.re`, cols, (v, p, k) => {
+      m.re[k] = realEntry(v, p);
+    });
+    if (value.im !== undefined) {
+      const shape = rowsShape(value.im, `${path}.im`);
+      if (shape.rows !== rows || shape.cols !== cols) {
+        throw new RhoError(
+          'dimension-mismatch',
+          `The imaginary part is ${shape.rows}x${shape.cols} but the real part is ${rows}x${cols}.`,
+          `${path}.im`,
+        );
+      }
+      fillRows(value.im as unknown[], `${path}.im`, cols, (v, p, k) => {
+        m.im[k] = realEntry(v, p);
+      });
+    }
+    return m;
+  }
+  if (!Array.isArray(value)) {
+    throw new RhoError(
+      'invalid-argument',
+      `Expected a matrix (rows of numbers or expression strings, or {"re", "im"}), not ${describe(value)}.`,
+      path,
+    );
+  }
+  const { rows, cols } = rowsShape(value, path);
+  const m = zeros(rows, cols);
+  fillRows(value, path, cols, (v, p, k) => {
+    const z = complexEntry(v, p);
+    m.re[k] = z.re;
+    m.im[k] = z.im;
+  });
+  return m;
+}
+
+/** A square matrix (finite, non-empty). */
+export function readSquareMatrix(value: unknown, path: string): CMatrix {
+  const m = readMatrix(value, path);
+  checkSquareFinite(m, path);
+  return m;
+}
+
+/** A Hermitian matrix within the tolerance (relative to its Frobenius norm; see quantum/validate.ts). */
+export function readHermitian(value: unknown, path: string, tol: number): CMatrix {
+  const m = readSquareMatrix(value, path);
+  checkHermitian(m, tol, path);
+  return m;
+}
+
+/** A ket as an n×1 column: a list of numbers or expression strings, or {"re": list, "im": list}. */
+export function readKet(value: unknown, path: string): CMatrix {
+  const list = (v: unknown, p: string): unknown[] => {
+    if (!Array.isArray(v)) throw new RhoError('invalid-argument', `Expected a list of amplitudes, not ${describe(v)}.`, p);
+    if (v.length === 0) throw new RhoError('invalid-argument', 'The ket has no amplitudes.', p);
+    if (v.length > MAX_DIMENSION) throw tooLarge(p, 'The length of the ket', v.length, MAX_DIMENSION);
+    return v;
+  };
+  if (isPlainObject(value)) {
+    refuseUnknownKeys(value, ['re', 'im'], path, 'a complex ket');
+    if (value.re === undefined) throw new RhoError('missing-argument', 'A complex ket needs its real part "re".', `${path}.re`);
+    const re = list(value.re, `${path}.re`);
+    const v = zeros(re.length, 1);
+    re.forEach((x, k) => {
+      v.re[k] = realEntry(x, `${path}.re[${k}]`);
+    });
+    if (value.im !== undefined) {
+      const im = list(value.im, `${path}.im`);
+      if (im.length !== re.length) {
+        throw new RhoError('dimension-mismatch', `The imaginary part has ${im.length} amplitudes, the real part ${re.length}.`, `${path}.im`);
+      }
+      im.forEach((x, k) => {
+        v.im[k] = realEntry(x, `${path}.im[${k}]`);
+      });
+    }
+    return v;
+  }
+  const entries = list(value, path);
+  const v = zeros(entries.length, 1);
+  entries.forEach((x, k) => {
+    const z = complexEntry(x, `${path}[${k}]`);
+    v.re[k] = z.re;
+    v.im[k] = z.im;
+  });
+  return v;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Dimensions, labels, subsystems, numbers
+
+/** A list of subsystem dimensions; when `size` is given they must multiply to it. */
+export function readDims(value: unknown, path: string, size?: number): number[] {
+  if (!Array.isArray(value)) {
+    throw new RhoError('invalid-argument', `Subsystem dimensions must be a list of positive integers, not ${describe(value)}.`, path);
+  }
+  if (value.length === 0) throw new RhoError('invalid-argument', 'Subsystem dimensions must not be empty.', path);
+  if (value.length > MAX_SUBSYSTEMS) throw tooLarge(path, 'The number of subsystems', value.length, MAX_SUBSYSTEMS);
+  value.forEach((d, k) => {
+    if (typeof d !== 'number' || !Number.isInteger(d) || d < 1) {
+      throw new RhoError('invalid-argument', `A subsystem dimension must be a positive integer, not ${JSON.stringify(d) ?? describe(d)}.`, `${path}[${k}]`);
+    }
+  });
+  const dims = value as number[];
+  if (size !== undefined && product(dims) !== size) {
+    throw new RhoError(
+      'dimension-mismatch',
+      `The subsystem dimensions [${dims.join(', ')}] multiply to ${product(dims)}, but the matrix side is ${size}.`,
+      path,
+    );
+  }
+  return [...dims];
+}
+
+/** Subsystem labels: distinct non-empty strings, one per subsystem. */
+export function readLabels(value: unknown, path: string, count: number): string[] {
+  if (!Array.isArray(value)) throw new RhoError('invalid-argument', `Labels must be a list of strings, not ${describe(value)}.`, path);
+  if (value.length !== count) {
+    throw new RhoError('dimension-mismatch', `There are ${value.length} labels for ${count} subsystems.`, path);
+  }
+  const seen = new Set<string>();
+  value.forEach((l, k) => {
+    if (typeof l !== 'string' || l.length === 0) throw new RhoError('invalid-argument', 'A label must be a non-empty string.', `${path}[${k}]`);
+    if (seen.has(l)) throw new RhoError('invalid-argument', `The label "${l}" is used twice.`, `${path}[${k}]`);
+    seen.add(l);
+  });
+  return [...(value as string[])];
+}
+
+/**
+ * A list of distinct subsystem indices in 0..count−1 (an empty list is allowed; callers that need one
+ * subsystem at least say so). With `labels`, entries may also be label strings, resolved to indices.
+ */
+export function readSystems(
+  value: unknown,
+  path: string,
+  count: number,
+  options: { labels?: readonly string[]; allowEmpty?: boolean } = {},
+): number[] {
+  if (!Array.isArray(value)) {
+    throw new RhoError('invalid-argument', `Expected a list of subsystem indices, not ${describe(value)}.`, path);
+  }
+  if (value.length === 0 && options.allowEmpty === false) {
+    throw new RhoError('invalid-argument', 'The list of subsystems must not be empty.', path);
+  }
+  if (value.length > count) {
+    throw new RhoError('invalid-argument', `${value.length} subsystems are listed but there are only ${count}.`, path);
+  }
+  const seen = new Set<number>();
+  return value.map((s, k) => {
+    const p = `${path}[${k}]`;
+    let index: number;
+    if (typeof s === 'string' && options.labels) {
+      index = options.labels.indexOf(s);
+      if (index < 0) throw new RhoError('invalid-argument', `No subsystem is labelled "${s}" (labels: ${options.labels.join(', ')}).`, p);
+    } else if (typeof s === 'number' && Number.isInteger(s)) {
+      index = s;
+      if (index < 0 || index >= count) {
+        throw new RhoError('invalid-argument', `Subsystem ${s} does not exist: the subsystems are numbered 0..${count - 1}.`, p);
+      }
+    } else {
+      throw new RhoError('invalid-argument', `A subsystem is given by its index (an integer from 0)${options.labels ? ' or its label' : ''}.`, p);
+    }
+    if (seen.has(index)) throw new RhoError('invalid-argument', `Subsystem ${JSON.stringify(s)} is listed twice.`, p);
+    seen.add(index);
+    return index;
+  });
+}
+
+/** A finite number, optionally inside a range. */
+export function readNumber(value: unknown, path: string, range: NumberRange = {}): number {
+  if (typeof value !== 'number') throw new RhoError('invalid-argument', `Expected a number, not ${describe(value)}.`, path);
+  if (!Number.isFinite(value)) throw new RhoError('invalid-argument', 'The number must be finite.', path);
+  const { min, max, minExclusive, maxExclusive } = range;
+  const low = min !== undefined && (minExclusive ? value <= min : value < min);
+  const high = max !== undefined && (maxExclusive ? value >= max : value > max);
+  if (low || high) {
+    const lo = min === undefined ? '(-∞' : `${minExclusive ? '(' : '['}${min}`;
+    const hi = max === undefined ? '∞)' : `${max}${maxExclusive ? ')' : ']'}`;
+    throw new RhoError('invalid-argument', `The value ${value} is outside the allowed range ${lo}, ${hi}.`, path, { value });
+  }
+  return value;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// States
+
+const STATE_KEYS = ['matrix', 'ket', 'dims', 'labels'] as const;
+
+function readStateWith(value: unknown, path: string, tol: number, check: 'density' | 'positive'): State {
+  // A bare matrix stands for {"matrix": M} (one system).
+  const obj: Record<string, unknown> = Array.isArray(value) || (isPlainObject(value) && 're' in value) ? { matrix: value } : (value as Record<string, unknown>);
+  const bare = obj !== value;
+  const at = (key: string) => (bare ? path : `${path}.${key}`);
+  if (!isPlainObject(obj)) {
+    throw new RhoError(
+      'invalid-argument',
+      `Expected a state: {"matrix": M, "dims"?, "labels"?} or {"ket": v, "dims"?, "labels"?}, not ${describe(value)}.`,
+      path,
+    );
+  }
+  refuseUnknownKeys(obj, STATE_KEYS, path, 'a state');
+  if (obj.matrix !== undefined && obj.ket !== undefined) {
+    throw new RhoError('invalid-argument', 'Give a state either as "matrix" or as "ket", not both.', path);
+  }
+  if (obj.matrix === undefined && obj.ket === undefined) {
+    throw new RhoError('missing-argument', 'A state needs a "matrix" (or a "ket").', `${path}.matrix`);
+  }
+  let matrix: CMatrix;
+  if (obj.ket !== undefined) {
+    const v = readKet(obj.ket, at('ket'));
+    const norm2 = frobeniusNorm(v) ** 2;
+    if (Math.abs(norm2 - 1) > tol) {
+      throw new RhoError(
+        'trace-not-one',
+        `The ket has squared norm ${norm2}, not 1 (tolerance ${tol}); kets are not normalised for you.`,
+        at('ket'),
+        { norm: Math.sqrt(norm2) },
+      );
+    }
+    matrix = mul(v, adjoint(v));
+  } else {
+    matrix = readSquareMatrix(obj.matrix, at('matrix'));
+  }
+  const n = matrix.rows;
+  const dims = obj.dims === undefined ? [n] : readDims(obj.dims, at('dims'), n);
+  checkDims(matrix, dims, at('dims'));
+  const labels = obj.labels === undefined ? undefined : readLabels(obj.labels, at('labels'), dims.length);
+  if (obj.ket === undefined) {
+    if (check === 'density') checkDensityMatrix(matrix, tol, at('matrix'));
+    else checkPositive(matrix, tol, at('matrix'));
+  }
+  return labels ? { matrix, dims, labels } : { matrix, dims };
+}
+
+/** A density matrix (Hermitian, positive semidefinite, unit trace within `tol`); dims default [n]. */
+export function readState(value: unknown, path: string, tol: number): State {
+  return readStateWith(value, path, tol, 'density');
+}
+
+/** A positive semidefinite operator of any trace (the σ of a divergence), in the state's form. */
+export function readOperatorState(value: unknown, path: string, tol: number): State {
+  return readStateWith(value, path, tol, 'positive');
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Channels
+
+const CHANNEL_KEYS = ['kraus', 'choi', 'inputDims', 'outputDims'] as const;
+
+/**
+ * A channel from Kraus operators or a Choi matrix (convention J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor
+ * first). Kraus operators must share one shape prod(outputDims) × prod(inputDims); inputDims and
+ * outputDims default to [cols] and [rows]. A Choi matrix needs inputDims or outputDims (the other one
+ * follows from its side) and must be Hermitian and positive semidefinite within `tol`, else
+ * 'not-completely-positive'; the Kraus form comes from its eigendecomposition (quantum/channels.ts,
+ * choiToKraus: eigenvalues at or below tol·λ_max are dropped, a tolerance-dependent rank decision).
+ * Trace preservation is not checked here.
+ */
+export function readChannel(value: unknown, path: string, tol: number): Channel {
+  if (!isPlainObject(value)) {
+    throw new RhoError('invalid-argument', `Expected a channel: {"kraus": [...]} or {"choi": M}, with inputDims and outputDims; not ${describe(value)}.`, path);
+  }
+  refuseUnknownKeys(value, CHANNEL_KEYS, path, 'a channel');
+  if (value.kraus !== undefined && value.choi !== undefined) {
+    throw new RhoError('invalid-argument', 'Give a channel either by "kraus" or by "choi", not both.', path);
+  }
+  if (value.kraus === undefined && value.choi === undefined) {
+    throw new RhoError('missing-argument', 'A channel needs "kraus" operators (or a "choi" matrix).', `${path}.kraus`);
+  }
+  if (value.kraus !== undefined) return readKrausChannel(value, path);
+  return readChoiChannel(value, path, tol);
+}
+
+function readKrausChannel(value: Record<string, unknown>, path: string): Channel {
+  const list = value.kraus;
+  const p = `${path}.kraus`;
+  if (!Array.isArray(list)) throw new RhoError('invalid-argument', `"kraus" must be a list of matrices, not ${describe(list)}.`, p);
+  if (list.length === 0) throw new RhoError('invalid-argument', 'The list of Kraus operators is empty.', p);
+  if (list.length > MAX_KRAUS) throw tooLarge(p, 'The number of Kraus operators', list.length, MAX_KRAUS);
+  // Size check over all operators before reading any.
+  let total = 0;
+  list.forEach((k, idx) => {
+    const { rows, cols } = peekShape(k, `${p}[${idx}]`);
+    total += rows * cols;
+  });
+  if (total > MAX_CHANNEL_ENTRIES) throw tooLarge(p, 'The total number of Kraus entries', total, MAX_CHANNEL_ENTRIES);
+  const kraus = list.map((k, idx) => readMatrix(k, `${p}[${idx}]`));
+  const { rows, cols } = kraus[0];
+  kraus.forEach((k, idx) => {
+    if (k.rows !== rows || k.cols !== cols) {
+      throw new RhoError(
+        'dimension-mismatch',
+        `Kraus operator ${idx} is ${k.rows}x${k.cols} but operator 0 is ${rows}x${cols}; all must have one shape.`,
+        `${p}[${idx}]`,
+      );
+    }
+  });
+  const inputDims = value.inputDims === undefined ? [cols] : readDims(value.inputDims, `${path}.inputDims`);
+  const outputDims = value.outputDims === undefined ? [rows] : readDims(value.outputDims, `${path}.outputDims`);
+  if (product(inputDims) !== cols) {
+    throw new RhoError('dimension-mismatch', `inputDims multiply to ${product(inputDims)} but the Kraus operators have ${cols} columns.`, `${path}.inputDims`);
+  }
+  if (product(outputDims) !== rows) {
+    throw new RhoError('dimension-mismatch', `outputDims multiply to ${product(outputDims)} but the Kraus operators have ${rows} rows.`, `${path}.outputDims`);
+  }
+  return { kraus, inputDims, outputDims };
+}
+
+function readChoiChannel(value: Record<string, unknown>, path: string, tol: number): Channel {
+  const p = `${path}.choi`;
+  const J = readSquareMatrix(value.choi, p);
+  const n = J.rows;
+  let inputDims: number[];
+  let outputDims: number[];
+  if (value.inputDims === undefined && value.outputDims === undefined) {
+    throw new RhoError('missing-argument', 'A Choi matrix needs "inputDims" (or "outputDims") to tell the input and output apart.', `${path}.inputDims`);
+  }
+  if (value.inputDims !== undefined) {
+    inputDims = readDims(value.inputDims, `${path}.inputDims`);
+    const din = product(inputDims);
+    if (n % din !== 0) {
+      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the input dimension ${din}.`, `${path}.inputDims`);
+    }
+    outputDims = value.outputDims === undefined ? [n / din] : readDims(value.outputDims, `${path}.outputDims`);
+  } else {
+    outputDims = readDims(value.outputDims, `${path}.outputDims`);
+    const dout = product(outputDims);
+    if (n % dout !== 0) {
+      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the output dimension ${dout}.`, `${path}.outputDims`);
+    }
+    inputDims = [n / dout];
+  }
+  if (product(inputDims) * product(outputDims) !== n) {
+    throw new RhoError(
+      'dimension-mismatch',
+      `The Choi matrix is ${n}x${n} but input and output dimensions multiply to ${product(inputDims) * product(outputDims)}.`,
+      p,
+    );
+  }
+  checkHermitian(J, tol, p);
+  try {
+    return choiToKraus(J, inputDims, outputDims, tol);
+  } catch (err) {
+    // quantum/channels.ts names its argument "choi"; put the request's path in front.
+    if (err instanceof RhoError && err.path !== undefined && err.path.startsWith('choi')) {
+      throw new RhoError(err.code, err.message, `${path}.${err.path}`, err.detail);
+    }
+    throw err;
+  }
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Writers
+
+function cleanZero(x: number): number {
+  return x === 0 ? 0 : x; // no -0 in answers
+}
+
+/** A matrix as plain data: real rows when every imaginary part is zero, else {re, im}. */
+export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: number[][] } {
+  let complex = false;
+  for (let k = 0; k < m.im.length; k++) {
+    if (m.im[k] !== 0) {
+      complex = true;
+      break;
+    }
+  }
+  const re: number[][] = [];
+  const im: number[][] = [];
+  for (let i = 0; i < m.rows; i++) {
+    const r = new Array<number>(m.cols);
+    for (let j = 0; j < m.cols; j++) r[j] = cleanZero(m.re[i * m.cols + j]);
+    re.push(r);
+    if (complex) {
+      const s = new Array<number>(m.cols);
+      for (let j = 0; j < m.cols; j++) s[j] = cleanZero(m.im[i * m.cols + j]);
+      im.push(s);
+    }
+  }
+  return complex ? { re, im } : re;
+}
+
+/** A matrix always as {re, im} (for answers whose shape should not depend on the data). */
+export function writeComplexMatrix(m: CMatrix): { re: number[][]; im: number[][] } {
+  const re: number[][] = [];
+  const im: number[][] = [];
+  for (let i = 0; i < m.rows; i++) {
+    re.push(Array.from(m.re.subarray(i * m.cols, (i + 1) * m.cols), cleanZero));
+    im.push(Array.from(m.im.subarray(i * m.cols, (i + 1) * m.cols), cleanZero));
+  }
+  return { re, im };
+}
+
+/** A number as plain data: ±Infinity become "Infinity"/"-Infinity"; NaN is a programming error and throws. */
+export function writeNumber(x: number): number | 'Infinity' | '-Infinity' {
+  if (x === Infinity) return 'Infinity';
+  if (x === -Infinity) return '-Infinity';
+  if (Number.isNaN(x)) throw new Error('writeNumber: NaN reached the ops layer');
+  return cleanZero(x);
+}
+
+export function writeState(s: State): { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } {
+  const out: { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } = {
+    matrix: writeMatrix(s.matrix),
+    dims: [...s.dims],
+  };
+  if (s.labels) out.labels = [...s.labels];
+  return out;
+}
+
+export function writeChannel(c: Channel): {
+  kraus: (number[][] | { re: number[][]; im: number[][] })[];
+  inputDims: number[];
+  outputDims: number[];
+} {
+  return { kraus: c.kraus.map(writeMatrix), inputDims: [...c.inputDims], outputDims: [...c.outputDims] };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// JSON Schema fragments for op argument schemas (the readers above re-check everything).
+
+const realRows = {
+  type: 'array',
+  minItems: 1,
+  maxItems: MAX_DIMENSION,
+  items: { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: 'number' } },
+};
+const matrixSchema = {
+  description:
+    'A matrix: rows of numbers, rows of numbers and expression strings ("1/2", "i/sqrt(2)"), or {"re": rows, "im": rows} with im optional.',
+  anyOf: [
+    {
+      type: 'array',
+      minItems: 1,
+      maxItems: MAX_DIMENSION,
+      items: { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: ['number', 'string'] } },
+    },
+    { type: 'object', properties: { re: realRows, im: realRows }, required: ['re'], additionalProperties: false },
+  ],
+};
+const realList = { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: 'number' } };
+const ketSchema = {
+  description: 'A ket of unit norm: a list of numbers or expression strings, or {"re": list, "im": list}.',
+  anyOf: [
+    { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: ['number', 'string'] } },
+    { type: 'object', properties: { re: realList, im: realList }, required: ['re'], additionalProperties: false },
+  ],
+};
+const dimsSchema = {
+  description: 'Subsystem dimensions, first subsystem most significant (as in the Kronecker product).',
+  type: 'array',
+  minItems: 1,
+  maxItems: MAX_SUBSYSTEMS,
+  items: { type: 'integer', minimum: 1 },
+};
+const labelsSchema = { description: 'One distinct name per subsystem.', type: 'array', items: { type: 'string', minLength: 1 } };
+const stateSchema = {
+  description:
+    'A state: {"matrix": M, "dims"?, "labels"?} or {"ket": v, "dims"?, "labels"?}; a bare matrix stands for {"matrix": M}.',
+  anyOf: [
+    {
+      type: 'object',
+      properties: { matrix: matrixSchema, dims: dimsSchema, labels: labelsSchema },
+      required: ['matrix'],
+    },
+    { type: 'object', properties: { ket: ketSchema, dims: dimsSchema, labels: labelsSchema }, required: ['ket'] },
+    matrixSchema,
+  ],
+};
+const channelSchema = {
+  description:
+    'A channel: {"kraus": [M, ...]} or {"choi": J} with "inputDims" and "outputDims"; Choi convention J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor first.',
+  anyOf: [
+    {
+      type: 'object',
+      properties: { kraus: { type: 'array', minItems: 1, maxItems: MAX_KRAUS, items: matrixSchema }, inputDims: dimsSchema, outputDims: dimsSchema },
+      required: ['kraus'],
+    },
+    { type: 'object', properties: { choi: matrixSchema, inputDims: dimsSchema, outputDims: dimsSchema }, required: ['choi'] },
+  ],
+};
+const systemsSchema = {
+  description: 'Subsystem indices counted from 0 (or labels, where the state has them), each at most once.',
+  type: 'array',
+  maxItems: MAX_SUBSYSTEMS,
+  items: { type: ['integer', 'string'] },
+};
+
+/** JSON Schema fragments for the protocol's values, to use inside op argument schemas. Do not mutate. */
+export const schemas = {
+  matrix: matrixSchema,
+  ket: ketSchema,
+  dims: dimsSchema,
+  labels: labelsSchema,
+  state: stateSchema,
+  channel: channelSchema,
+  systems: systemsSchema,
+  number: { type: 'number' },
+} as const;
