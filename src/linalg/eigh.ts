@@ -2,19 +2,35 @@
  * The Hermitian eigensolver: H = V diag(λ) V*, eigenvalues ascending.
  *
  * Stage 1 reduces H to real symmetric tridiagonal form with complex Householder reflectors
- * (as in the textbook algorithm, Golub & Van Loan, Matrix Computations, §8.3), then a diagonal
- * unitary of phases makes the off-diagonal real and non-negative. Stage 2 is the implicit QL
- * iteration with Wilkinson-type shifts on the tridiagonal matrix (the classic tql2 procedure of
- * Bowdler, Martin, Reinsch & Wilkinson), accumulating real rotations. Eigenvectors are then
- * V = Q D Z with Q the reflectors, D the phases and Z the real rotations.
+ * (Golub & Van Loan, Matrix Computations, 4th ed., §8.3.1), working on the lower triangle only:
+ * the Hermitian matrix–vector product and the rank-2 update of step k are fused with those of
+ * step k+1 into a single pass over the trailing triangle, so each step reads and writes the matrix
+ * once. A diagonal unitary of phases then makes the off-diagonal real and non-negative.
  *
- * Hand-written because no JavaScript library offers a complex Hermitian eigensolver: mathjs's
- * `eigs` on complex input and ml-matrix's real symmetric solver on the 2n embedding are both far
- * slower (see bench/eigh.ts). Storage is split real/imaginary Float64Arrays, row-major; the
- * rotations act on rows of Z^T so the innermost loops are contiguous.
+ * Stage 2 (eigenvalues only) is the implicit QL iteration with Wilkinson-type shifts (the tql1/
+ * tql2 procedures of Bowdler, Martin, Reinsch & Wilkinson), O(n²).
  *
- * Cost: about (16/3) n^3 real flops for the reduction, O(n^2) for eigenvalues alone and about
- * 3 n^3 more for the vectors. The input is taken to be Hermitian: only its Hermitian part is used.
+ * Stage 2 (with vectors) is Cuppen's divide and conquer (Cuppen 1981; the form used by LAPACK's
+ * dstedc/dlaed0–dlaed4): split the tridiagonal by a rank-one tear, solve the halves, deflate small
+ * components and close pairs (Dongarra & Sorensen 1987), solve the secular equation for the rest
+ * with a safeguarded two-pole rational iteration (in the spirit of Li's "middle way", LAPACK
+ * dlaed4), and build the eigenvectors of the rank-one update from the recomputed vector ẑ of Gu &
+ * Eisenstat (SIAM J. Matrix Anal. Appl. 16 (1995) 172–191), which keeps them orthogonal to
+ * working precision. Blocks of at most 24 rows are solved by QL with accumulated rotations.
+ *
+ * Stage 3 forms V = Q D Z: the real tridiagonal eigenvectors Z, the phases D and the reflectors Q,
+ * applied eigenvector by eigenvector (two at a time) with the axpy of one reflector fused with the
+ * dot product of the next.
+ *
+ * Hand-written because no JavaScript library offers a fast complex Hermitian eigensolver: mathjs's
+ * `eigs` and ml-matrix's real symmetric solver on the 2n embedding are one to three orders of
+ * magnitude slower (see bench/eigh.ts). Storage is split real/imaginary Float64Arrays, row-major.
+ * What it does not do: no subset of eigenvalues, no multithreading, no blocked (BLAS-3) reduction,
+ * no SIMD; it does not check that the input is Hermitian (only its Hermitian part is used).
+ *
+ * Cost: about (16/3) n³ real flops for the reduction, O(n²) for eigenvalues alone, and with
+ * vectors about 8 n³ for the back-transformation plus at most about (4/3) n³ for divide and
+ * conquer (less when deflation is frequent: clustered or degenerate spectra).
  */
 import { CMatrix, zeros } from './cmatrix.js';
 
@@ -27,6 +43,10 @@ export interface EighResult {
 
 export class EigenSolverError extends Error {}
 
+const EPS = 2 ** -52;
+/** Squared norm below which a column of the (unit-scaled) matrix counts as already reduced. */
+const TINY2 = 1e-290;
+
 export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResult {
   const wantVectors = options.vectors ?? true;
   const n = h.rows;
@@ -35,9 +55,11 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
 
   // Work on the Hermitian part, scaled to unit largest entry (guards against overflow/underflow).
   let scaleBy = 0;
+  const hr = h.re;
+  const hi = h.im;
   for (let k = 0; k < n * n; k++) {
-    const a = Math.abs(h.re[k]) + Math.abs(h.im[k]);
-    if (!Number.isFinite(a)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
+    const a = Math.abs(hr[k]) + Math.abs(hi[k]);
+    if (!(a < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
     if (a > scaleBy) scaleBy = a;
   }
   if (scaleBy === 0) {
@@ -46,104 +68,25 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
     return { values: new Float64Array(n), vectors: wantVectors ? vectors : undefined };
   }
   const inv = 1 / scaleBy;
+  // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
   const are = new Float64Array(n * n);
   const aim = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      are[i * n + j] = 0.5 * (h.re[i * n + j] + h.re[j * n + i]) * inv;
-      aim[i * n + j] = 0.5 * (h.im[i * n + j] - h.im[j * n + i]) * inv;
+    for (let j = 0; j <= i; j++) {
+      are[i * n + j] = 0.5 * (hr[i * n + j] + hr[j * n + i]) * inv;
+      aim[i * n + j] = 0.5 * (hi[i * n + j] - hi[j * n + i]) * inv;
     }
+    aim[i * n + i] = 0;
   }
 
   const d = new Float64Array(n);
   const eRe = new Float64Array(n);
   const eIm = new Float64Array(n);
-  // Reflector k acts on indices k+1..n-1; its vector is stored at vRe/vIm[k*n + k+1 ..].
-  const vRe = wantVectors ? new Float64Array(n * n) : new Float64Array(n);
-  const vIm = wantVectors ? new Float64Array(n * n) : new Float64Array(n);
+  // Reflector k (I - beta_k v v*) acts on indices k+1..n-1; v is stored at vRe/vIm[k*n + k+1 ..].
+  const vRe = new Float64Array(n * n);
+  const vIm = new Float64Array(n * n);
   const betas = new Float64Array(n);
-  const pRe = new Float64Array(n);
-  const pIm = new Float64Array(n);
-
-  for (let k = 0; k < n - 2; k++) {
-    d[k] = are[k * n + k];
-    const base = wantVectors ? k * n : 0;
-    let xnorm2 = 0;
-    for (let i = k + 1; i < n; i++) {
-      const xr = are[i * n + k];
-      const xi = aim[i * n + k];
-      xnorm2 += xr * xr + xi * xi;
-    }
-    const x0r = are[(k + 1) * n + k];
-    const x0i = aim[(k + 1) * n + k];
-    const alpha = Math.hypot(x0r, x0i);
-    const xnorm = Math.sqrt(xnorm2);
-    if (xnorm === 0 || xnorm2 - alpha * alpha === 0) {
-      // Column already reduced: no reflector needed.
-      eRe[k] = x0r;
-      eIm[k] = x0i;
-      betas[k] = 0;
-      continue;
-    }
-    const phr = alpha > 0 ? x0r / alpha : 1;
-    const phi = alpha > 0 ? x0i / alpha : 0;
-    for (let i = k + 1; i < n; i++) {
-      vRe[base + i] = are[i * n + k];
-      vIm[base + i] = aim[i * n + k];
-    }
-    vRe[base + k + 1] += phr * xnorm;
-    vIm[base + k + 1] += phi * xnorm;
-    const beta = 1 / (xnorm * (xnorm + alpha));
-    betas[k] = beta;
-    eRe[k] = -phr * xnorm;
-    eIm[k] = -phi * xnorm;
-
-    // p = beta A22 v, K = beta/2 v* p, w = p - K v, A22 -= v w* + w v*.
-    let vp = 0;
-    for (let i = k + 1; i < n; i++) {
-      let sr = 0;
-      let si = 0;
-      const row = i * n;
-      for (let j = k + 1; j < n; j++) {
-        const ar = are[row + j];
-        const ai = aim[row + j];
-        const br = vRe[base + j];
-        const bi = vIm[base + j];
-        sr += ar * br - ai * bi;
-        si += ar * bi + ai * br;
-      }
-      pRe[i] = beta * sr;
-      pIm[i] = beta * si;
-      vp += vRe[base + i] * pRe[i] + vIm[base + i] * pIm[i];
-    }
-    const K = 0.5 * beta * vp;
-    for (let i = k + 1; i < n; i++) {
-      pRe[i] -= K * vRe[base + i];
-      pIm[i] -= K * vIm[base + i];
-    }
-    for (let i = k + 1; i < n; i++) {
-      const row = i * n;
-      const vir = vRe[base + i];
-      const vii = vIm[base + i];
-      const wir = pRe[i];
-      const wii = pIm[i];
-      for (let j = k + 1; j < n; j++) {
-        const vjr = vRe[base + j];
-        const vji = vIm[base + j];
-        const wjr = pRe[j];
-        const wji = pIm[j];
-        // v_i conj(w_j) + w_i conj(v_j)
-        are[row + j] -= vir * wjr + vii * wji + wir * vjr + wii * vji;
-        aim[row + j] -= vii * wjr - vir * wji + wii * vjr - wir * vji;
-      }
-    }
-  }
-  if (n >= 2) {
-    d[n - 2] = are[(n - 2) * n + n - 2];
-    eRe[n - 2] = are[(n - 1) * n + n - 2];
-    eIm[n - 2] = aim[(n - 1) * n + n - 2];
-  }
-  d[n - 1] = are[(n - 1) * n + n - 1];
+  tridiagonalize(are, aim, n, d, eRe, eIm, vRe, vIm, betas);
 
   // Phases making the off-diagonal real: delta_{k+1} = delta_k e_k / |e_k|.
   const e = new Float64Array(n);
@@ -151,7 +94,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   const dIm = new Float64Array(n);
   dRe[0] = 1;
   for (let k = 0; k < n - 1; k++) {
-    const m = Math.hypot(eRe[k], eIm[k]);
+    const m = Math.sqrt(eRe[k] * eRe[k] + eIm[k] * eIm[k]);
     e[k] = m;
     if (m > 0) {
       const ur = eRe[k] / m;
@@ -164,55 +107,40 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
     }
   }
 
-  const zt = wantVectors ? new Float64Array(n * n) : null;
-  if (zt) for (let i = 0; i < n; i++) zt[i * n + i] = 1;
-  tridiagonalQL(d, e, zt, n);
+  if (!wantVectors) {
+    tridiagonalQL(d, e, null, n);
+    const values = Float64Array.from(d).sort();
+    for (let i = 0; i < n; i++) values[i] *= scaleBy;
+    return { values };
+  }
 
-  // Sort ascending.
-  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => d[a] - d[b]);
+  // zt: row j holds tridiagonal eigenvector j (ascending eigenvalues after divide and conquer).
+  const zt = new Float64Array(n * n);
+  divideAndConquer(d, e, zt, n);
   const values = new Float64Array(n);
-  for (let i = 0; i < n; i++) values[i] = d[order[i]] * scaleBy;
-  if (!zt) return { values };
+  for (let i = 0; i < n; i++) values[i] = d[i] * scaleBy;
 
-  // M = D Z (column c of Z is row c of zt), then apply reflectors from the last to the first.
+  // Mt: row c = eigenvector c of H, built as D z_c and then Q applied.
+  const mRe = new Float64Array(n * n);
+  const mIm = new Float64Array(n * n);
+  for (let c = 0; c < n; c++) {
+    const row = c * n;
+    for (let r = 0; r < n; r++) {
+      const z = zt[row + r];
+      mRe[row + r] = dRe[r] * z;
+      mIm[row + r] = dIm[r] * z;
+    }
+  }
+  applyReflectors(mRe, mIm, n, vRe, vIm, betas);
+
   const V = zeros(n, n);
   const Vr = V.re;
   const Vi = V.im;
   for (let c = 0; c < n; c++) {
-    const src = order[c] * n;
-    for (let j = 0; j < n; j++) {
-      const z = zt[src + j];
-      Vr[j * n + c] = dRe[j] * z;
-      Vi[j * n + c] = dIm[j] * z;
-    }
-  }
-  const sRe = new Float64Array(n);
-  const sIm = new Float64Array(n);
-  for (let k = n - 3; k >= 0; k--) {
-    const beta = betas[k];
-    if (beta === 0) continue;
-    const base = k * n;
-    sRe.fill(0);
-    sIm.fill(0);
-    for (let i = k + 1; i < n; i++) {
-      const vr = vRe[base + i];
-      const vi = -vIm[base + i]; // conj(v_i)
-      const row = i * n;
-      for (let c = 0; c < n; c++) {
-        const mr = Vr[row + c];
-        const mi = Vi[row + c];
-        sRe[c] += vr * mr - vi * mi;
-        sIm[c] += vr * mi + vi * mr;
-      }
-    }
-    for (let i = k + 1; i < n; i++) {
-      const vr = beta * vRe[base + i];
-      const vi = beta * vIm[base + i];
-      const row = i * n;
-      for (let c = 0; c < n; c++) {
-        Vr[row + c] -= vr * sRe[c] - vi * sIm[c];
-        Vi[row + c] -= vr * sIm[c] + vi * sRe[c];
-      }
+    const row = c * n;
+    for (let r = 0; r < n; r++) {
+      Vr[r * n + c] = mRe[row + r];
+      Vi[r * n + c] = mIm[row + r];
     }
   }
   return { values, vectors: V };
@@ -224,6 +152,678 @@ export function eigvalsh(h: CMatrix): Float64Array {
 }
 
 /**
+ * Householder reduction of the Hermitian matrix whose lower triangle is (are, aim) to tridiagonal
+ * form: diagonal d, subdiagonal e (complex, e[k] at position (k+1, k)). Reflector k is stored in
+ * row k of vRe/vIm with its beta in betas[k] (0 when the column needed no reflection).
+ *
+ * Step k: p = beta A22 v, w = p - (beta/2)(v* p) v, A22 -= v w* + w v*. The update of step k is
+ * applied to column k+1 first, reflector k+1 is formed from it, and then one pass over the rest of
+ * the lower triangle both applies the update of step k and accumulates A33 v_{k+1}.
+ */
+function tridiagonalize(
+  are: Float64Array, aim: Float64Array, n: number,
+  d: Float64Array, eRe: Float64Array, eIm: Float64Array,
+  vRe: Float64Array, vIm: Float64Array, betas: Float64Array,
+): void {
+  const pRe = new Float64Array(n);
+  const pIm = new Float64Array(n);
+  // Current update vectors (v, w) of the previous step, full length n (zeros outside range).
+  let haveUpdate = false;
+  let wRe = new Float64Array(n);
+  let wIm = new Float64Array(n);
+  let nwRe = new Float64Array(n);
+  let nwIm = new Float64Array(n);
+  let prevBase = 0;
+
+  for (let k = 0; k < n; k++) {
+    const pb = prevBase;
+    // 1. Apply the pending update (from step k-1) to column k, rows k..n-1.
+    if (haveUpdate) {
+      const vkr = vRe[pb + k];
+      const vki = vIm[pb + k];
+      const wkr = wRe[k];
+      const wki = wIm[k];
+      for (let i = k; i < n; i++) {
+        const vir = vRe[pb + i];
+        const vii = vIm[pb + i];
+        const wir = wRe[i];
+        const wii = wIm[i];
+        are[i * n + k] -= vir * wkr + vii * wki + wir * vkr + wii * vki;
+        aim[i * n + k] -= vii * wkr - vir * wki + wii * vkr - wir * vki;
+      }
+      aim[k * n + k] = 0;
+    }
+    d[k] = are[k * n + k];
+    if (k >= n - 1) break;
+
+    // 2. Reflector k from column k, rows k+1..n-1.
+    const base = k * n;
+    let xnorm2 = 0;
+    for (let i = k + 1; i < n; i++) {
+      const xr = are[i * n + k];
+      const xi = aim[i * n + k];
+      xnorm2 += xr * xr + xi * xi;
+    }
+    const x0r = are[(k + 1) * n + k];
+    const x0i = aim[(k + 1) * n + k];
+    const alpha2 = x0r * x0r + x0i * x0i;
+    let beta = 0;
+    // The matrix is scaled to unit largest entry: a column part below 1e-145 in norm is left in
+    // place (an absolute perturbation far below rounding of ‖H‖), which also keeps squares clear
+    // of underflow.
+    if (k < n - 2 && xnorm2 - alpha2 > TINY2) {
+      const alpha = Math.sqrt(alpha2);
+      const xnorm = Math.sqrt(xnorm2);
+      const phr = alpha > 0 ? x0r / alpha : 1;
+      const phi = alpha > 0 ? x0i / alpha : 0;
+      // v = (x + phase·‖x‖ e1) / ‖x + phase·‖x‖ e1‖, so that H = I - 2 v v* with beta = 2.
+      const sc = 1 / Math.sqrt(2 * xnorm * (xnorm + alpha));
+      for (let i = k + 1; i < n; i++) {
+        vRe[base + i] = are[i * n + k] * sc;
+        vIm[base + i] = aim[i * n + k] * sc;
+      }
+      vRe[base + k + 1] += phr * xnorm * sc;
+      vIm[base + k + 1] += phi * xnorm * sc;
+      beta = 2;
+      eRe[k] = -phr * xnorm;
+      eIm[k] = -phi * xnorm;
+    } else {
+      // Column already reduced (or the last 2x2 block): no reflector.
+      eRe[k] = x0r;
+      eIm[k] = x0i;
+    }
+    betas[k] = beta;
+
+    // 3. One pass over rows/cols k+1..n-1 of the lower triangle: apply the pending update and
+    //    accumulate p = A22 v for the new reflector.
+    const useV = beta !== 0;
+    if (!haveUpdate && !useV) continue;
+    for (let i = k + 1; i < n; i++) {
+      pRe[i] = 0;
+      pIm[i] = 0;
+    }
+    for (let i = k + 1; i < n; i++) {
+      const row = i * n;
+      const uir = useV ? vRe[base + i] : 0;
+      const uii = useV ? vIm[base + i] : 0;
+      let sr = 0;
+      let si = 0;
+      if (haveUpdate) {
+        const vir = vRe[pb + i];
+        const vii = vIm[pb + i];
+        const wir = wRe[i];
+        const wii = wIm[i];
+        if (useV) {
+          for (let j = k + 1; j < i; j++) {
+            const vjr = vRe[pb + j];
+            const vji = vIm[pb + j];
+            const wjr = wRe[j];
+            const wji = wIm[j];
+            const ar = are[row + j] - (vir * wjr + vii * wji + wir * vjr + wii * vji);
+            const ai = aim[row + j] - (vii * wjr - vir * wji + wii * vjr - wir * vji);
+            are[row + j] = ar;
+            aim[row + j] = ai;
+            const ujr = vRe[base + j];
+            const uji = vIm[base + j];
+            sr += ar * ujr - ai * uji;
+            si += ar * uji + ai * ujr;
+            pRe[j] += ar * uir + ai * uii;
+            pIm[j] += ar * uii - ai * uir;
+          }
+        } else {
+          for (let j = k + 1; j < i; j++) {
+            const vjr = vRe[pb + j];
+            const vji = vIm[pb + j];
+            const wjr = wRe[j];
+            const wji = wIm[j];
+            are[row + j] -= vir * wjr + vii * wji + wir * vjr + wii * vji;
+            aim[row + j] -= vii * wjr - vir * wji + wii * vjr - wir * vji;
+          }
+        }
+        are[row + i] -= 2 * (vir * wir + vii * wii);
+      } else {
+        for (let j = k + 1; j < i; j++) {
+          const ar = are[row + j];
+          const ai = aim[row + j];
+          const ujr = vRe[base + j];
+          const uji = vIm[base + j];
+          sr += ar * ujr - ai * uji;
+          si += ar * uji + ai * ujr;
+          pRe[j] += ar * uir + ai * uii;
+          pIm[j] += ar * uii - ai * uir;
+        }
+      }
+      const dii = are[row + i];
+      pRe[i] += sr + dii * uir;
+      pIm[i] += si + dii * uii;
+    }
+    haveUpdate = false;
+    if (!useV) continue;
+
+    // 4. w = beta p - (beta^2/2)(v* p) v for the next step.
+    let vpr = 0;
+    for (let i = k + 1; i < n; i++) vpr += vRe[base + i] * pRe[i] + vIm[base + i] * pIm[i];
+    const K = 0.5 * beta * beta * vpr;
+    for (let i = k + 1; i < n; i++) {
+      nwRe[i] = beta * pRe[i] - K * vRe[base + i];
+      nwIm[i] = beta * pIm[i] - K * vIm[base + i];
+    }
+    const tr = wRe;
+    const ti = wIm;
+    wRe = nwRe;
+    wIm = nwIm;
+    nwRe = tr;
+    nwIm = ti;
+    haveUpdate = true;
+    prevBase = base;
+  }
+}
+
+/**
+ * Q applied to the rows of (mRe, mIm), each row one vector: m <- H_0 H_1 ... H_{n-3} m. Two rows
+ * at a time; the update by reflector k is fused with the dot product for reflector k-1.
+ */
+function applyReflectors(
+  mRe: Float64Array, mIm: Float64Array, n: number,
+  vRe: Float64Array, vIm: Float64Array, betas: Float64Array,
+): void {
+  let last = n - 3;
+  while (last >= 0 && betas[last] === 0) last--;
+  if (last < 0) return;
+  for (let c = 0; c < n; c += 2) {
+    const two = c + 1 < n;
+    const a = c * n;
+    const b = two ? a + n : a; // row b is a duplicate of a when n is odd (results discarded)
+    // s = beta v* m for reflector `last`.
+    let k = last;
+    let base = k * n;
+    let s0r = 0, s0i = 0, s1r = 0, s1i = 0;
+    for (let i = k + 1; i < n; i++) {
+      const vr = vRe[base + i];
+      const vi = vIm[base + i];
+      const ar = mRe[a + i], ai = mIm[a + i];
+      const br = mRe[b + i], bi = mIm[b + i];
+      s0r += vr * ar + vi * ai;
+      s0i += vr * ai - vi * ar;
+      s1r += vr * br + vi * bi;
+      s1i += vr * bi - vi * br;
+    }
+    while (k >= 0) {
+      const beta = betas[k];
+      s0r *= beta; s0i *= beta; s1r *= beta; s1i *= beta;
+      // Next reflector with nonzero beta.
+      let nk = k - 1;
+      while (nk >= 0 && betas[nk] === 0) nk--;
+      if (nk < 0) {
+        for (let i = k + 1; i < n; i++) {
+          const vr = vRe[base + i];
+          const vi = vIm[base + i];
+          mRe[a + i] -= vr * s0r - vi * s0i;
+          mIm[a + i] -= vr * s0i + vi * s0r;
+          if (two) {
+            mRe[b + i] -= vr * s1r - vi * s1i;
+            mIm[b + i] -= vr * s1i + vi * s1r;
+          }
+        }
+        break;
+      }
+      const nbase = nk * n;
+      let t0r = 0, t0i = 0, t1r = 0, t1i = 0;
+      // Indices nk+1..k are untouched by reflector k.
+      for (let i = nk + 1; i <= k; i++) {
+        const ur = vRe[nbase + i];
+        const ui = vIm[nbase + i];
+        const ar = mRe[a + i], ai = mIm[a + i];
+        const br = mRe[b + i], bi = mIm[b + i];
+        t0r += ur * ar + ui * ai;
+        t0i += ur * ai - ui * ar;
+        t1r += ur * br + ui * bi;
+        t1i += ur * bi - ui * br;
+      }
+      for (let i = k + 1; i < n; i++) {
+        const vr = vRe[base + i];
+        const vi = vIm[base + i];
+        const ar = mRe[a + i] - (vr * s0r - vi * s0i);
+        const ai = mIm[a + i] - (vr * s0i + vi * s0r);
+        const br = mRe[b + i] - (vr * s1r - vi * s1i);
+        const bi = mIm[b + i] - (vr * s1i + vi * s1r);
+        mRe[a + i] = ar;
+        mIm[a + i] = ai;
+        mRe[b + i] = br;
+        mIm[b + i] = bi;
+        const ur = vRe[nbase + i];
+        const ui = vIm[nbase + i];
+        t0r += ur * ar + ui * ai;
+        t0i += ur * ai - ui * ar;
+        t1r += ur * br + ui * bi;
+        t1i += ur * bi - ui * br;
+      }
+      s0r = t0r; s0i = t0i; s1r = t1r; s1i = t1i;
+      k = nk;
+      base = nbase;
+    }
+  }
+}
+
+/** Blocks at most this size are solved by QL with accumulated rotations. */
+const SMALL_BLOCK = 24;
+
+/**
+ * Eigen-decomposition of the symmetric tridiagonal matrix (d, e) by divide and conquer. On return
+ * d holds the eigenvalues ascending and row j of zt (n x n, initially zero) eigenvector j.
+ */
+function divideAndConquer(d: Float64Array, e: Float64Array, zt: Float64Array, n: number): void {
+  const work = new MergeWork(n);
+  solveBlock(d, e, zt, n, 0, n, work);
+}
+
+class MergeWork {
+  readonly z: Float64Array;
+  readonly dk: Float64Array;
+  readonly zk: Float64Array;
+  readonly kept: Int32Array;
+  readonly deflated: Int32Array;
+  readonly kind: Int8Array;
+  readonly org: Int32Array;
+  readonly tau: Float64Array;
+  readonly delta: Float64Array;
+  readonly zhat: Float64Array;
+  readonly u: Float64Array;
+  readonly qt: Float64Array;
+  readonly out: Float64Array;
+  readonly vals: Float64Array;
+  readonly order: Int32Array;
+  readonly colOrder: Int32Array;
+  readonly perm: Int32Array;
+  constructor(n: number) {
+    this.z = new Float64Array(n);
+    this.dk = new Float64Array(n);
+    this.zk = new Float64Array(n);
+    this.kept = new Int32Array(n);
+    this.deflated = new Int32Array(n);
+    this.kind = new Int8Array(n);
+    this.org = new Int32Array(n);
+    this.tau = new Float64Array(n);
+    this.delta = new Float64Array(n);
+    this.zhat = new Float64Array(n);
+    this.u = new Float64Array(n * n);
+    this.qt = new Float64Array(n * n);
+    this.out = new Float64Array(n * n);
+    this.vals = new Float64Array(n);
+    this.order = new Int32Array(n);
+    this.colOrder = new Int32Array(n);
+    this.perm = new Int32Array(n);
+  }
+}
+
+function solveBlock(
+  d: Float64Array, e: Float64Array, zt: Float64Array, n: number, s: number, m: number, w: MergeWork,
+): void {
+  if (m <= SMALL_BLOCK) {
+    const ld = d.slice(s, s + m);
+    const le = new Float64Array(m);
+    for (let i = 0; i < m - 1; i++) le[i] = e[s + i];
+    const lz = new Float64Array(m * m);
+    for (let i = 0; i < m; i++) lz[i * m + i] = 1;
+    tridiagonalQL(ld, le, lz, m);
+    const idx = Array.from({ length: m }, (_, i) => i).sort((a, b) => ld[a] - ld[b]);
+    for (let j = 0; j < m; j++) {
+      d[s + j] = ld[idx[j]];
+      const src = idx[j] * m;
+      const dst = (s + j) * n + s;
+      for (let r = 0; r < m; r++) zt[dst + r] = lz[src + r];
+    }
+    return;
+  }
+  const n1 = m >> 1;
+  const beta = e[s + n1 - 1];
+  const ab = Math.abs(beta);
+  d[s + n1 - 1] -= ab;
+  d[s + n1] -= ab;
+  solveBlock(d, e, zt, n, s, n1, w);
+  solveBlock(d, e, zt, n, s + n1, m - n1, w);
+  merge(d, zt, n, s, n1, m, beta, w);
+}
+
+/**
+ * Merge step: the block [s, s+m) is diag(T1, T2) + rho u u^T with the halves already solved
+ * (eigenvalues ascending in d, vectors in rows of zt). Finds the eigen-decomposition of
+ * D + rho z z^T and rotates the vectors.
+ */
+function merge(
+  d: Float64Array, zt: Float64Array, n: number, s: number, n1: number, m: number, beta: number, w: MergeWork,
+): void {
+  const z = w.z;
+  const rho = 2 * Math.abs(beta);
+  const sgn = beta < 0 ? -1 : 1;
+  const r2 = Math.SQRT1_2;
+  for (let j = 0; j < n1; j++) z[j] = zt[(s + j) * n + s + n1 - 1] * r2;
+  for (let j = n1; j < m; j++) z[j] = sgn * zt[(s + j) * n + s + n1] * r2;
+
+  // Merge the two ascending lists of eigenvalues into one order.
+  const order = w.order;
+  {
+    let a = 0;
+    let b = n1;
+    for (let p = 0; p < m; p++) {
+      if (b >= m || (a < n1 && d[s + a] <= d[s + b])) order[p] = a++;
+      else order[p] = b++;
+    }
+  }
+  let dmax = 0;
+  let zmax = 0;
+  for (let j = 0; j < m; j++) {
+    dmax = Math.max(dmax, Math.abs(d[s + j]));
+    zmax = Math.max(zmax, Math.abs(z[j]));
+  }
+  const tol = 8 * EPS * Math.max(dmax, zmax);
+
+  // Deflation (Dongarra & Sorensen): tiny z components, and close pairs via a Givens rotation.
+  // kind: 1 = vector lives in the top half only, 3 = bottom half only, 2 = both.
+  const kind = w.kind;
+  for (let j = 0; j < m; j++) kind[j] = j < n1 ? 1 : 3;
+  const kept = w.kept;
+  const deflated = w.deflated;
+  let nk = 0;
+  let nd = 0;
+  if (rho * zmax <= tol) {
+    for (let p = 0; p < m; p++) deflated[nd++] = order[p];
+  } else {
+    let pj = -1;
+    for (let p = 0; p < m; p++) {
+      const j = order[p];
+      if (rho * Math.abs(z[j]) <= tol) {
+        deflated[nd++] = j;
+        continue;
+      }
+      if (pj < 0) {
+        pj = j;
+        continue;
+      }
+      let sn = z[pj];
+      let cs = z[j];
+      const tau = Math.sqrt(cs * cs + sn * sn);
+      const t = d[s + j] - d[s + pj];
+      cs /= tau;
+      sn = -sn / tau;
+      if (Math.abs(t * cs * sn) <= tol) {
+        z[j] = tau;
+        z[pj] = 0;
+        // Rotate the vectors pj and j: x' = c x + s y, y' = c y - s x.
+        const xa = (s + pj) * n + s;
+        const ya = (s + j) * n + s;
+        for (let r = 0; r < m; r++) {
+          const x = zt[xa + r];
+          const y = zt[ya + r];
+          zt[xa + r] = cs * x + sn * y;
+          zt[ya + r] = cs * y - sn * x;
+        }
+        if (kind[pj] !== kind[j]) {
+          kind[j] = 2;
+          kind[pj] = 2;
+        }
+        const dp = d[s + pj];
+        const dj = d[s + j];
+        d[s + pj] = dp * cs * cs + dj * sn * sn;
+        d[s + j] = dp * sn * sn + dj * cs * cs;
+        deflated[nd++] = pj;
+        pj = j;
+      } else {
+        kept[nk++] = pj;
+        pj = j;
+      }
+    }
+    if (pj >= 0) kept[nk++] = pj;
+  }
+
+  const vals = w.vals;
+  const out = w.out; // rows: new vectors (local components 0..m-1), K kept first then deflated
+  if (nk > 0) {
+    const dk = w.dk;
+    const zk = w.zk;
+    for (let i = 0; i < nk; i++) {
+      dk[i] = d[s + kept[i]];
+      zk[i] = z[kept[i]];
+    }
+    solveSecular(nk, dk, zk, rho, w);
+    const tauA = w.tau;
+    const org = w.org;
+    const u = w.u; // u[i*nk + j] = (d_j - lambda_i), later the eigenvector entries
+    for (let i = 0; i < nk; i++) {
+      const o = dk[org[i]];
+      const t = tauA[i];
+      const row = i * nk;
+      for (let j = 0; j < nk; j++) u[row + j] = dk[j] - o - t;
+      vals[i] = o + t;
+    }
+    // Gu–Eisenstat: zhat_j^2 = prod_i (lambda_i - d_j) / (rho prod_{i != j} (d_i - d_j)).
+    const zhat = w.zhat;
+    for (let j = 0; j < nk; j++) {
+      let p = -u[j * nk + j] / rho;
+      const dj = dk[j];
+      for (let i = 0; i < nk; i++) {
+        if (i === j) continue;
+        p *= -u[i * nk + j] / (dk[i] - dj);
+      }
+      const a = Math.sqrt(Math.max(p, 0));
+      zhat[j] = zk[j] >= 0 ? a : -a;
+    }
+    for (let i = 0; i < nk; i++) {
+      const row = i * nk;
+      let ss = 0;
+      for (let j = 0; j < nk; j++) {
+        const x = zhat[j] / u[row + j];
+        u[row + j] = x;
+        ss += x * x;
+      }
+      const sc = 1 / Math.sqrt(ss);
+      for (let j = 0; j < nk; j++) u[row + j] *= sc;
+    }
+    // New vectors: out_i = sum_j u_ij old_{kept j}. Columns grouped by kind so the top half
+    // uses kinds 1, 2 and the bottom half kinds 2, 3 (the zero blocks are skipped).
+    const colOrder = w.colOrder;
+    let c1 = 0;
+    for (let j = 0; j < nk; j++) if (kind[kept[j]] === 1) colOrder[c1++] = j;
+    let c2 = c1;
+    for (let j = 0; j < nk; j++) if (kind[kept[j]] === 2) colOrder[c2++] = j;
+    let c3 = c2;
+    for (let j = 0; j < nk; j++) if (kind[kept[j]] === 3) colOrder[c3++] = j;
+    // qt[r * nk + q] = component r of old vector kept[colOrder[q]]; u permuted likewise.
+    const qt = w.qt;
+    for (let q = 0; q < nk; q++) {
+      const src = (s + kept[colOrder[q]]) * n + s;
+      for (let r = 0; r < m; r++) qt[r * nk + q] = zt[src + r];
+    }
+    const uq = w.delta.length >= nk ? w.delta : new Float64Array(nk);
+    for (let i = 0; i < nk; i++) {
+      const row = i * nk;
+      for (let q = 0; q < nk; q++) uq[q] = u[row + colOrder[q]];
+      for (let q = 0; q < nk; q++) u[row + q] = uq[q];
+    }
+    // out[i*m + r] = sum_q u[i, q] qt[r, q], q over [0, c2) for r < n1 and [c1, nk) for r >= n1.
+    gemmNT(u, qt, out, nk, nk, m, 0, n1, 0, c2);
+    gemmNT(u, qt, out, nk, nk, m, n1, m, c1, nk);
+  }
+  for (let q = 0; q < nd; q++) {
+    const j = deflated[q];
+    vals[nk + q] = d[s + j];
+    const src = (s + j) * n + s;
+    const dst = (nk + q) * m;
+    for (let r = 0; r < m; r++) out[dst + r] = zt[src + r];
+  }
+  // Sort all m eigenpairs ascending and write back.
+  const perm = w.perm;
+  const idx = Array.from({ length: m }, (_, i) => i).sort((a, b) => vals[a] - vals[b]);
+  for (let i = 0; i < m; i++) perm[i] = idx[i];
+  for (let i = 0; i < m; i++) {
+    const src = perm[i] * m;
+    d[s + i] = vals[perm[i]];
+    const dst = (s + i) * n + s;
+    for (let r = 0; r < m; r++) zt[dst + r] = out[src + r];
+  }
+}
+
+/**
+ * out[i*m + r] = sum_{q in [q0, q1)} u[i*ku + q] * qt[r*ku + q] for all i < rows, r in [r0, r1).
+ * Register-blocked 2 x 2 dot products.
+ */
+function gemmNT(
+  u: Float64Array, qt: Float64Array, out: Float64Array,
+  rows: number, ku: number, m: number, r0: number, r1: number, q0: number, q1: number,
+): void {
+  let i = 0;
+  for (; i + 1 < rows; i += 2) {
+    const ua = i * ku;
+    const ub = ua + ku;
+    const oa = i * m;
+    const ob = oa + m;
+    let r = r0;
+    for (; r + 1 < r1; r += 2) {
+      const qa = r * ku;
+      const qb = qa + ku;
+      let s00 = 0, s01 = 0, s10 = 0, s11 = 0;
+      for (let q = q0; q < q1; q++) {
+        const x0 = u[ua + q];
+        const x1 = u[ub + q];
+        const y0 = qt[qa + q];
+        const y1 = qt[qb + q];
+        s00 += x0 * y0;
+        s01 += x0 * y1;
+        s10 += x1 * y0;
+        s11 += x1 * y1;
+      }
+      out[oa + r] = s00;
+      out[oa + r + 1] = s01;
+      out[ob + r] = s10;
+      out[ob + r + 1] = s11;
+    }
+    if (r < r1) {
+      const qa = r * ku;
+      let s0 = 0, s1 = 0;
+      for (let q = q0; q < q1; q++) {
+        const y = qt[qa + q];
+        s0 += u[ua + q] * y;
+        s1 += u[ub + q] * y;
+      }
+      out[oa + r] = s0;
+      out[ob + r] = s1;
+    }
+  }
+  if (i < rows) {
+    const ua = i * ku;
+    const oa = i * m;
+    for (let r = r0; r < r1; r++) {
+      const qa = r * ku;
+      let s0 = 0;
+      for (let q = q0; q < q1; q++) s0 += u[ua + q] * qt[qa + q];
+      out[oa + r] = s0;
+    }
+  }
+}
+
+/**
+ * Roots of the secular equation f(λ) = 1 + rho Σ_j z_j² / (d_j - λ) = 0 with rho > 0, d strictly
+ * ascending and z_j ≠ 0: root i lies in (d_i, d_{i+1}) (the last in (d_{k-1}, d_{k-1} + rho|z|²)).
+ * Each root is stored as an offset tau[i] from the nearer pole d[org[i]], so that the differences
+ * d_j - λ_i are computed without cancellation. Safeguarded iteration: a two-pole rational model
+ * matching f and f' at the current point (the "middle way"), falling back to bisection of the
+ * bracket whenever the model's root leaves it.
+ */
+function solveSecular(k: number, d: Float64Array, z: Float64Array, rho: number, w: MergeWork): void {
+  const zz = w.zhat; // scratch: z_j^2 (zhat is recomputed afterwards)
+  const del = w.delta;
+  let zsum = 0;
+  for (let j = 0; j < k; j++) {
+    zz[j] = z[j] * z[j];
+    zsum += zz[j];
+  }
+  for (let i = 0; i < k; i++) {
+    let o: number;
+    let lo: number;
+    let hi: number;
+    const last = i === k - 1;
+    if (!last) {
+      const gap = d[i + 1] - d[i];
+      const mid = 0.5 * gap;
+      // f at the midpoint decides which pole is nearer to the root.
+      let f = 0;
+      for (let j = 0; j < k; j++) f += zz[j] / (d[j] - d[i] - mid);
+      f = 1 + rho * f;
+      if (f >= 0) {
+        o = i;
+        lo = 0;
+        hi = mid;
+      } else {
+        o = i + 1;
+        lo = -mid;
+        hi = 0;
+      }
+    } else {
+      o = i;
+      lo = 0;
+      hi = rho * zsum;
+    }
+    const dO = d[o];
+    for (let j = 0; j < k; j++) del[j] = d[j] - dO;
+    // Poles bounding the interval, relative to the origin.
+    const pl = del[i];
+    const pr = last ? Infinity : del[i + 1];
+    let tau = 0.5 * (lo + hi);
+    for (let iter = 0; iter < 200; iter++) {
+      let psi = 0;
+      let dpsi = 0;
+      let phi = 0;
+      let dphi = 0;
+      for (let j = 0; j <= i; j++) {
+        const t = 1 / (del[j] - tau);
+        const a = zz[j] * t;
+        psi += a;
+        dpsi += a * t;
+      }
+      for (let j = i + 1; j < k; j++) {
+        const t = 1 / (del[j] - tau);
+        const a = zz[j] * t;
+        phi += a;
+        dphi += a * t;
+      }
+      const f = 1 + rho * (psi + phi);
+      if (f === 0) break;
+      if (f < 0) lo = tau;
+      else hi = tau;
+      // Error bound on f in the spirit of LAPACK dlaed4.
+      const err = EPS * (8 + 8 * rho * (phi - psi) + 3 * Math.abs(tau) * rho * (dpsi + dphi));
+      if (Math.abs(f) <= err) break;
+      const d1 = pl - tau;
+      const s1 = rho * d1 * d1 * dpsi;
+      let eta: number;
+      if (last) {
+        // One-pole model: c + s1/(d1 - eta) = 0.
+        const c = f - s1 / d1;
+        eta = c > 0 ? d1 + s1 / c : NaN;
+      } else {
+        const d2 = pr - tau;
+        const s2 = rho * d2 * d2 * dphi;
+        const c = f - s1 / d1 - s2 / d2;
+        const B = c * (d1 + d2) + s1 + s2;
+        const C = f * d1 * d2;
+        const disc = Math.max(B * B - 4 * c * C, 0);
+        const den = B >= 0 ? B + Math.sqrt(disc) : B - Math.sqrt(disc);
+        eta = den !== 0 ? (2 * C) / den : NaN;
+      }
+      let next = tau + eta;
+      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+      if (next === tau || hi - lo <= 2 * EPS * Math.max(Math.abs(lo), Math.abs(hi))) {
+        tau = next;
+        break;
+      }
+      tau = next;
+    }
+    w.org[i] = o;
+    w.tau[i] = tau;
+  }
+}
+
+/**
  * Implicit QL on the symmetric tridiagonal matrix with diagonal d and off-diagonal e
  * (e[i] couples i and i+1; e[n-1] unused). On return d holds the eigenvalues (unsorted).
  * When zt is given (n x n, row-major, initially the identity) its row i becomes eigenvector i.
@@ -232,13 +832,12 @@ function tridiagonalQL(d: Float64Array, e: Float64Array, zt: Float64Array | null
   e[n - 1] = 0;
   let f = 0;
   let tst1 = 0;
-  const eps = 2 ** -52;
   const maxIter = 60;
   for (let l = 0; l < n; l++) {
     tst1 = Math.max(tst1, Math.abs(d[l]) + Math.abs(e[l]));
     let m = l;
     while (m < n) {
-      if (Math.abs(e[m]) <= eps * tst1) break;
+      if (Math.abs(e[m]) <= EPS * tst1) break;
       m++;
     }
     if (m > l) {
@@ -268,7 +867,7 @@ function tridiagonalQL(d: Float64Array, e: Float64Array, zt: Float64Array | null
           s2 = s;
           g = c * e[i];
           h = c * p;
-          r = Math.hypot(p, e[i]);
+          r = hypot(p, e[i]);
           e[i + 1] = s * r;
           s = e[i] / r;
           c = p / r;
@@ -287,9 +886,23 @@ function tridiagonalQL(d: Float64Array, e: Float64Array, zt: Float64Array | null
         p = (-s * s2 * c3 * el1 * e[l]) / dl1;
         e[l] = s * p;
         d[l] = c * p;
-      } while (Math.abs(e[l]) > eps * tst1);
+      } while (Math.abs(e[l]) > EPS * tst1);
     }
     d[l] = d[l] + f;
     e[l] = 0;
   }
+}
+
+/** sqrt(a² + b²) without Math.hypot's cost; rescales only when squares could over/underflow. */
+function hypot(a: number, b: number): number {
+  const x = Math.abs(a);
+  const y = Math.abs(b);
+  const big = x > y ? x : y;
+  if (big > 1e150 || big < 1e-150) {
+    if (big === 0) return 0;
+    const sx = x / big;
+    const sy = y / big;
+    return big * Math.sqrt(sx * sx + sy * sy);
+  }
+  return Math.sqrt(x * x + y * y);
 }
