@@ -1,0 +1,49 @@
+/** Small helpers shared by the entropy/divergence tests: unitaries, states with a given spectrum, channels from Kraus operators. */
+import { CMatrix, diagonal, mul, adjoint, eigh, zeros, add, trace, scale, identity, sub, frobeniusNorm } from '../../src/linalg/index.js';
+import { randomComplex, randomHermitian } from '../helpers/random.js';
+
+export function unitary(n: number, r: () => number): CMatrix {
+  return eigh(randomHermitian(n, r)).vectors!;
+}
+
+/** U diag(p) U* for a given unitary. */
+export function inBasis(U: CMatrix, p: number[]): CMatrix {
+  return mul(mul(U, diagonal(p)), adjoint(U));
+}
+
+/** Random probability vector (some entries may be forced to zero by `zeros`). */
+export function randomProbabilities(n: number, r: () => number, zeroAt: number[] = []): number[] {
+  const p = Array.from({ length: n }, (_, i) => (zeroAt.includes(i) ? 0 : 0.05 + r()));
+  const s = p.reduce((a, b) => a + b, 0);
+  return p.map((x) => x / s);
+}
+
+/**
+ * A random channel from `k` Kraus operators (d_out × d_in), made trace preserving by
+ * K_i ← K_i S^{-1/2} with S = Σ K_i* K_i. Returns the action X ↦ Σ K_i X K_i*, built here from the Kraus operators.
+ */
+export function randomChannel(dIn: number, dOut: number, k: number, r: () => number): (x: CMatrix) => CMatrix {
+  const raw = Array.from({ length: k }, () => randomComplex(dOut, dIn, r));
+  let S = zeros(dIn, dIn);
+  for (const K of raw) S = add(S, mul(adjoint(K), K));
+  const e = eigh(S);
+  const inv = mul(mul(e.vectors!, diagonal(Array.from(e.values, (v) => 1 / Math.sqrt(v)))), adjoint(e.vectors!));
+  const kraus = raw.map((K) => mul(K, inv));
+  // Sanity: Σ K* K = 1.
+  let T = zeros(dIn, dIn);
+  for (const K of kraus) T = add(T, mul(adjoint(K), K));
+  if (frobeniusNorm(sub(T, identity(dIn))) > 1e-10) throw new Error('random channel is not trace preserving');
+  return (x) => {
+    let out = zeros(dOut, dOut);
+    for (const K of kraus) out = add(out, mul(mul(K, x), adjoint(K)));
+    return out;
+  };
+}
+
+export function normalise(m: CMatrix): CMatrix {
+  return scale(m, 1 / trace(m).re);
+}
+
+export const close = (a: number, b: number, tol: number, what: string): void => {
+  if (!(Math.abs(a - b) <= tol * Math.max(1, Math.abs(b)))) throw new Error(`${what}: ${a} vs ${b} (tolerance ${tol})`);
+};
