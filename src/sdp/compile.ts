@@ -87,8 +87,9 @@ function addTriplet(t: Triplets, n: number, p: number, q: number, v: number): vo
 }
 
 /** Add a Hermitian entry (i, j, re + i·im) (mirrored when i ≠ j) into internal triplets. */
-function addEntry(t: Triplets, cone: Cone, n: number, i: number, j: number, re: number, im: number, path: string): void {
+function addEntry(t: Triplets, cone: Cone, n: number, i: number, j: number, re: number, im: number, termPath: string, index: number | null): void {
   const size = cone.size;
+  const path = index === null ? termPath : `${termPath}.entries[${index}]`;
   if (!Number.isInteger(i) || !Number.isInteger(j) || i < 0 || j < 0 || i >= size || j >= size) {
     throw new RhoError('dimension-mismatch', `entry (${i}, ${j}) is outside the ${size}×${size} block`, path);
   }
@@ -149,7 +150,7 @@ function parseTerms(terms: readonly BlockTerm[], cones: readonly Cone[], place: 
   const out: ParsedTerms = { psd: new Map(), lin: new Map(), free: new Map() };
   if (!Array.isArray(terms)) throw new RhoError('invalid-argument', 'terms must be an array', path);
   terms.forEach((term, ti) => {
-    const tp = `${path}[${ti}]`;
+    const tp = path + '[' + ti + ']';
     const k = (term as any)?.block;
     if (!Number.isInteger(k) || k < 0 || k >= cones.length) throw new RhoError('invalid-argument', `block ${k} does not exist`, `${tp}.block`);
     const cone = cones[k];
@@ -161,7 +162,7 @@ function parseTerms(terms: readonly BlockTerm[], cones: readonly Cone[], place: 
       if ('entries' in term) {
         (term.entries as readonly Entry[]).forEach((e: Entry, ei: number) => {
           if (!isArr(e) || e.length < 3) throw new RhoError('invalid-argument', 'a matrix entry is [row, col, re] or [row, col, re, im]', `${tp}.entries[${ei}]`);
-          addEntry(t!, cone, n, e[0], e[1], e[2] as number, (e[3] as number | undefined) ?? 0, `${tp}.entries[${ei}]`);
+          addEntry(t!, cone, n, e[0], e[1], e[2] as number, (e[3] as number | undefined) ?? 0, tp, ei);
         });
       } else if ('matrix' in term) {
         const { re, im } = readDense(term, cone.size, `${tp}.matrix`);
@@ -181,7 +182,7 @@ function parseTerms(terms: readonly BlockTerm[], cones: readonly Cone[], place: 
             }
             const vr = 0.5 * (a + b);
             const vi = i === j ? 0 : 0.5 * (ai - bi);
-            if (vr !== 0 || vi !== 0) addEntry(t, cone, n, i, j, vr, vi, `${tp}.matrix`);
+            if (vr !== 0 || vi !== 0) addEntry(t, cone, n, i, j, vr, vi, `${tp}.matrix`, null);
           }
         }
       } else {
@@ -189,18 +190,18 @@ function parseTerms(terms: readonly BlockTerm[], cones: readonly Cone[], place: 
       }
     } else {
       const target = pl.type === 'lin' ? out.lin : out.free;
-      const add = (i: number, v: number, p: string) => {
-        if (!Number.isInteger(i) || i < 0 || i >= cone.size) throw new RhoError('dimension-mismatch', `index ${i} is outside the block of size ${cone.size}`, p);
-        if (!Number.isFinite(v)) throw new RhoError('invalid-argument', 'coefficients must be finite numbers', p);
+      const add = (i: number, v: number, pth: () => string) => {
+        if (!Number.isInteger(i) || i < 0 || i >= cone.size) throw new RhoError('dimension-mismatch', `index ${i} is outside the block of size ${cone.size}`, pth());
+        if (!Number.isFinite(v)) throw new RhoError('invalid-argument', 'coefficients must be finite numbers', pth());
         if (v !== 0) target.set(pl.offset + i, (target.get(pl.offset + i) ?? 0) + v);
       };
       if ('vector' in term) {
         if (!isArr(term.vector) || term.vector.length !== cone.size) throw new RhoError('dimension-mismatch', `vector must have ${cone.size} entries`, `${tp}.vector`);
-        (term.vector as readonly number[]).forEach((v: number, i: number) => add(i, v, `${tp}.vector[${i}]`));
+        (term.vector as readonly number[]).forEach((v: number, i: number) => add(i, v, () => `${tp}.vector[${i}]`));
       } else if ('entries' in term) {
         (term.entries as readonly Entry[]).forEach((e: Entry, ei: number) => {
           if (!isArr(e) || e.length !== 2) throw new RhoError('invalid-argument', 'a vector entry is [index, value]', `${tp}.entries[${ei}]`);
-          add(e[0], e[1], `${tp}.entries[${ei}]`);
+          add(e[0], e[1], () => `${tp}.entries[${ei}]`);
         });
       } else {
         throw new RhoError('invalid-argument', `block ${k} is a vector block: give "vector" or "entries"`, tp);
@@ -247,10 +248,10 @@ export function compile(problem: SdpProblem): Compiled {
   const atomsOf: number[][] = [];
   const nb = psdSizes.length;
   problem.constraints.forEach((con, i) => {
-    const path = `constraints[${i}]`;
+    const path = 'constraints[' + i + ']';
     if (!con || !Number.isFinite(con.equals)) throw new RhoError('invalid-argument', 'each constraint needs a finite "equals"', `${path}.equals`);
     b[i] = con.equals;
-    const t = parseTerms(con.terms, cones, place, psdSizes, `${path}.terms`);
+    const t = parseTerms(con.terms, cones, place, psdSizes, path + '.terms');
     const atoms: number[] = [];
     for (const [k, trip] of t.psd) {
       if (trip.size === 0) continue;

@@ -63,19 +63,19 @@ export function matMulT(a: Float64Array, b: Float64Array, n: number, out: Float6
 }
 
 /** Gᵀ·M·G for symmetric M; result symmetrized. */
-export function congruenceT(g: Float64Array, m: Float64Array, n: number): Float64Array {
-  const t = matMul(m, g, n);
-  const r = matTMul(g, t, n);
-  symmetrize(r, n);
-  return r;
+export function congruenceT(g: Float64Array, m: Float64Array, n: number, out: Float64Array = new Float64Array(n * n), tmp: Float64Array = new Float64Array(n * n)): Float64Array {
+  matMul(m, g, n, tmp);
+  matTMul(g, tmp, n, out);
+  symmetrize(out, n);
+  return out;
 }
 
 /** G·M·Gᵀ for symmetric M; result symmetrized. */
-export function congruence(g: Float64Array, m: Float64Array, n: number): Float64Array {
-  const t = matMulT(m, g, n);
-  const r = matMul(g, t, n);
-  symmetrize(r, n);
-  return r;
+export function congruence(g: Float64Array, m: Float64Array, n: number, out: Float64Array = new Float64Array(n * n), tmp: Float64Array = new Float64Array(n * n)): Float64Array {
+  matMulT(m, g, n, tmp);
+  matMul(g, tmp, n, out);
+  symmetrize(out, n);
+  return out;
 }
 
 export function symmetrize(a: Float64Array, n: number): void {
@@ -99,8 +99,8 @@ export function dot(a: Float64Array, b: Float64Array): number {
  * Lower Cholesky factor of a symmetric positive definite matrix, or null when a pivot is not
  * positive (the matrix is not numerically positive definite). Reads only the lower triangle.
  */
-export function cholesky(a: Float64Array, n: number): Float64Array | null {
-  const l = new Float64Array(n * n);
+export function cholesky(a: Float64Array, n: number, l: Float64Array = new Float64Array(n * n)): Float64Array | null {
+  l.fill(0);
   for (let j = 0; j < n; j++) {
     let d = a[j * n + j];
     for (let k = 0; k < j; k++) d -= l[j * n + k] * l[j * n + k];
@@ -177,8 +177,9 @@ export function backSolveT(l: Float64Array, n: number, b: Float64Array, cols = 1
  * Eigenvalues (and optionally eigenvectors as columns of V) of a symmetric matrix by cyclic
  * Jacobi rotations. Input is not modified.
  */
-export function symEig(a: Float64Array, n: number, wantVectors = false): { values: Float64Array; vectors: Float64Array | null } {
-  const m = Float64Array.from(a);
+export function symEig(a: Float64Array, n: number, wantVectors = false, work?: Float64Array): { values: Float64Array; vectors: Float64Array | null } {
+  const m = work ? work.subarray(0, n * n) : new Float64Array(n * n);
+  m.set(a.subarray(0, n * n));
   const v = wantVectors ? new Float64Array(n * n) : null;
   if (v) for (let i = 0; i < n; i++) v[i * n + i] = 1;
   for (let sweep = 0; sweep < 60; sweep++) {
@@ -233,14 +234,14 @@ export function symEig(a: Float64Array, n: number, wantVectors = false): { value
 }
 
 /** Smallest eigenvalue of a symmetric matrix. */
-export function minEig(a: Float64Array, n: number): number {
+export function minEig(a: Float64Array, n: number, work?: Float64Array): number {
   if (n === 1) return a[0];
   if (n === 2) {
     const m = 0.5 * (a[0] + a[3]);
     const d = 0.5 * (a[0] - a[3]);
     return m - Math.hypot(d, a[1]);
   }
-  const { values } = symEig(a, n);
+  const { values } = symEig(a, n, false, work);
   let mn = Infinity;
   for (const x of values) if (x < mn) mn = x;
   return mn;
@@ -252,9 +253,16 @@ export function minEig(a: Float64Array, n: number): number {
  * its high relative accuracy on small singular values (the complementarity products near the
  * optimum), which forming BᵀB would square away.
  */
-export function svdJacobi(b: Float64Array, n: number): { sigma: Float64Array; v: Float64Array } {
-  const u = Float64Array.from(b);
-  const v = new Float64Array(n * n);
+export function svdJacobi(
+  b: Float64Array,
+  n: number,
+  v: Float64Array = new Float64Array(n * n),
+  sigma: Float64Array = new Float64Array(n),
+  work?: Float64Array,
+): { sigma: Float64Array; v: Float64Array } {
+  const u = work ? work.subarray(0, n * n) : new Float64Array(n * n);
+  u.set(b.subarray(0, n * n));
+  v.fill(0);
   for (let i = 0; i < n; i++) v[i * n + i] = 1;
   for (let sweep = 0; sweep < 60; sweep++) {
     let rotated = false;
@@ -290,7 +298,6 @@ export function svdJacobi(b: Float64Array, n: number): { sigma: Float64Array; v:
     }
     if (!rotated) break;
   }
-  const sigma = new Float64Array(n);
   for (let j = 0; j < n; j++) {
     let s = 0;
     for (let k = 0; k < n; k++) s += u[k * n + j] * u[k * n + j];

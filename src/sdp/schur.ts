@@ -38,6 +38,11 @@ export class SchurSystem {
   private readonly B0: Float64Array[];
   private readonly R0: Float64Array;
   private lu: LuDecomposition | null = null;
+  // Scratch for block assembly, sized by the largest block (no allocation per block).
+  private readonly sT: Float64Array;
+  private readonly sTmp: Float64Array;
+  private readonly sA: Float64Array;
+  private readonly sSuffix: Float64Array;
   dependent = 0;
 
   constructor(cp: Compiled) {
@@ -50,6 +55,12 @@ export class SchurSystem {
     this.D0 = this.D.map((d) => new Float64Array(d.length));
     this.B0 = this.B.map((d) => new Float64Array(d.length));
     this.R0 = new Float64Array(this.R.length);
+    const nmax = Math.max(1, ...cp.psd.map((b) => b.n));
+    const mmax = Math.max(1, ...cp.psd.map((b) => b.cons.length));
+    this.sT = new Float64Array(nmax * nmax);
+    this.sTmp = new Float64Array(nmax * nmax);
+    this.sA = new Float64Array(nmax * nmax);
+    this.sSuffix = new Float64Array(mmax + 1);
   }
 
   private addPair(i: number, j: number, v: number): void {
@@ -117,23 +128,24 @@ export class SchurSystem {
     const n = blk.n;
     const mk = blk.cons.length;
     if (mk === 0) return;
-    const nnz = blk.tv.map((v) => v.length);
-    const suffix = new Float64Array(mk + 1);
-    for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + nnz[a];
-    const T = new Float64Array(n * n);
-    const tmp = new Float64Array(n * n);
+    const nnz = (a: number) => blk.tv[a].length;
+    const suffix = this.sSuffix;
+    suffix[mk] = 0;
+    for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + nnz(a);
+    const T = this.sT.subarray(0, n * n);
+    const tmp = this.sTmp.subarray(0, n * n);
     for (let a = 0; a < mk; a++) {
       const pa = blk.tp[a];
       const qa = blk.tq[a];
       const va = blk.tv[a];
       const i = blk.cons[a];
-      const formCost = Math.min(nnz[a] * n * n, 2 * n * n * n) + suffix[a];
-      const pairCost = 2 * nnz[a] * suffix[a];
+      const formCost = Math.min(nnz(a) * n * n, 2 * n * n * n) + suffix[a];
+      const pairCost = 2 * nnz(a) * suffix[a];
       if (formCost < pairCost) {
         // T = W A_a W
-        if (nnz[a] * n < 2 * n * n) {
+        if (nnz(a) * n < 2 * n * n) {
           T.fill(0);
-          for (let t = 0; t < nnz[a]; t++) {
+          for (let t = 0; t < nnz(a); t++) {
             const p = pa[t];
             const q = qa[t];
             const v = va[t];
@@ -149,8 +161,9 @@ export class SchurSystem {
             }
           }
         } else {
-          const A = new Float64Array(n * n);
-          for (let t = 0; t < nnz[a]; t++) {
+          const A = this.sA.subarray(0, n * n);
+          A.fill(0);
+          for (let t = 0; t < nnz(a); t++) {
             A[pa[t] * n + qa[t]] = va[t];
             A[qa[t] * n + pa[t]] = va[t];
           }
@@ -246,16 +259,19 @@ export class SchurSystem {
     const cp = this.cp;
     const r = this.r;
     const out = new Float64Array(cp.m + cp.nF);
-    const zs: Float64Array[] = [];
     const rr = new Float64Array(r);
     for (let a = 0; a < this.nG; a++) rr[a] = rhs[cp.globals[a]];
     for (let f = 0; f < cp.nF; f++) rr[this.nG + f] = rhs[cp.m + f];
-    cp.groups.forEach((g, gi) => {
+    // Local parts are solved in `out` in place (group g's entries at its constraints' positions),
+    // using one scratch vector per group size.
+    const groups = cp.groups;
+    for (let gi = 0; gi < groups.length; gi++) {
+      const g = groups[gi];
       const n = g.length;
-      const z = new Float64Array(n);
+      const z = this.zScratch(n);
       for (let a = 0; a < n; a++) z[a] = rhs[g[a]];
       forwardSolve(this.D[gi], n, z);
-      zs.push(z);
+      for (let a = 0; a < n; a++) out[g[a]] = z[a];
       if (r > 0) {
         const F = this.B[gi];
         for (let k = 0; k < n; k++) {
@@ -264,7 +280,7 @@ export class SchurSystem {
           for (let a = 0; a < r; a++) rr[a] -= F[k * r + a] * zk;
         }
       }
-    });
+    }
     let u = rr;
     if (r > 0) {
       if (this.lu) {
@@ -275,9 +291,11 @@ export class SchurSystem {
         backSolveT(this.R, r, u);
       }
     }
-    cp.groups.forEach((g, gi) => {
+    for (let gi = 0; gi < groups.length; gi++) {
+      const g = groups[gi];
       const n = g.length;
-      const z = zs[gi];
+      const z = this.zScratch(n);
+      for (let a = 0; a < n; a++) z[a] = out[g[a]];
       if (r > 0) {
         const F = this.B[gi];
         for (let k = 0; k < n; k++) {
@@ -288,10 +306,16 @@ export class SchurSystem {
       }
       backSolveT(this.D[gi], n, z);
       for (let a = 0; a < n; a++) out[g[a]] = z[a];
-    });
+    }
     for (let a = 0; a < this.nG; a++) out[cp.globals[a]] = u[a];
     for (let f = 0; f < cp.nF; f++) out[cp.m + f] = u[this.nG + f];
     return out;
+  }
+
+  private zBuf = new Float64Array(16);
+  private zScratch(n: number): Float64Array {
+    if (this.zBuf.length < n) this.zBuf = new Float64Array(n);
+    return this.zBuf.subarray(0, n);
   }
 
   /** Multiply by the unfactored system. */

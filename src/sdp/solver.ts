@@ -45,37 +45,29 @@ export const DEFAULT_OPTIONS = {
   stepFraction: 0.98,
 } as const;
 
-interface Iterate {
-  X: Float64Array[];
-  S: Float64Array[];
-  xL: Float64Array;
-  sL: Float64Array;
-  xF: Float64Array;
-  y: Float64Array;
-  tau: number;
-  kappa: number;
-}
-
-interface Direction {
-  dX: Float64Array[];
-  dS: Float64Array[];
-  /** scaled directions (λ-space) */
-  dXs: Float64Array[];
-  dSs: Float64Array[];
-  dxL: Float64Array;
-  dsL: Float64Array;
-  dxLs: Float64Array;
-  dsLs: Float64Array;
-  dxF: Float64Array;
-  dy: Float64Array;
-  dtau: number;
-  dkappa: number;
+/** Per-PSD-block storage in one buffer, allocated once per solve (small blocks: no GC churn). */
+class Blocks {
+  readonly data: Float64Array;
+  readonly v: Float64Array[];
+  constructor(sizes: readonly number[]) {
+    let total = 0;
+    for (const s of sizes) total += s;
+    this.data = new Float64Array(total);
+    this.v = [];
+    let off = 0;
+    for (const s of sizes) {
+      this.v.push(this.data.subarray(off, off + s));
+      off += s;
+    }
+  }
 }
 
 /** A(x): constraint values of the cone and free parts. */
-function applyA(cp: Compiled, X: Float64Array[], xL: Float64Array, xF: Float64Array): Float64Array {
-  const out = new Float64Array(cp.m);
-  cp.psd.forEach((blk, k) => {
+function applyA(cp: Compiled, X: Float64Array[], xL: Float64Array, xF: Float64Array | null, out: Float64Array = new Float64Array(cp.m)): Float64Array {
+  out.fill(0);
+  const psd = cp.psd;
+  for (let k = 0; k < psd.length; k++) {
+    const blk = psd[k];
     const x = X[k];
     const n = blk.n;
     for (let a = 0; a < blk.cons.length; a++) {
@@ -86,21 +78,24 @@ function applyA(cp: Compiled, X: Float64Array[], xL: Float64Array, xF: Float64Ar
       for (let t = 0; t < v.length; t++) s += (p[t] === q[t] ? 1 : 2) * v[t] * x[p[t] * n + q[t]];
       out[blk.cons[a]] += s;
     }
-  });
+  }
   for (let i = 0; i < cp.m; i++) {
     let s = 0;
     for (let e = cp.linRowPtr[i]; e < cp.linRowPtr[i + 1]; e++) s += cp.linVal[e] * xL[cp.linIdx[e]];
-    for (let e = cp.freeRowPtr[i]; e < cp.freeRowPtr[i + 1]; e++) s += cp.freeVal[e] * xF[cp.freeIdx[e]];
+    if (xF) for (let e = cp.freeRowPtr[i]; e < cp.freeRowPtr[i + 1]; e++) s += cp.freeVal[e] * xF[cp.freeIdx[e]];
     out[i] += s;
   }
   return out;
 }
 
-/** Aᵀy: dense symmetric per PSD block, orthant vector, free vector. */
-function applyAT(cp: Compiled, y: Float64Array): { M: Float64Array[]; L: Float64Array; F: Float64Array } {
-  const M = cp.psd.map((blk) => {
+/** Aᵀy into M (dense symmetric per PSD block), L (orthant), F (free). */
+function applyAT(cp: Compiled, y: Float64Array, M: Float64Array[], L: Float64Array, F: Float64Array): void {
+  const psd = cp.psd;
+  for (let k = 0; k < psd.length; k++) {
+    const blk = psd[k];
     const n = blk.n;
-    const out = new Float64Array(n * n);
+    const out = M[k];
+    out.fill(0);
     for (let a = 0; a < blk.cons.length; a++) {
       const yi = y[blk.cons[a]];
       if (yi === 0) continue;
@@ -112,17 +107,15 @@ function applyAT(cp: Compiled, y: Float64Array): { M: Float64Array[]; L: Float64
         if (p[t] !== q[t]) out[q[t] * n + p[t]] += yi * v[t];
       }
     }
-    return out;
-  });
-  const L = new Float64Array(cp.nL);
-  const F = new Float64Array(cp.nF);
+  }
+  L.fill(0);
+  F.fill(0);
   for (let i = 0; i < cp.m; i++) {
     const yi = y[i];
     if (yi === 0) continue;
     for (let e = cp.linRowPtr[i]; e < cp.linRowPtr[i + 1]; e++) L[cp.linIdx[e]] += yi * cp.linVal[e];
     for (let e = cp.freeRowPtr[i]; e < cp.freeRowPtr[i + 1]; e++) F[cp.freeIdx[e]] += yi * cp.freeVal[e];
   }
-  return { M, L, F };
 }
 
 function dotv(a: ArrayLike<number>, b: ArrayLike<number>): number {
@@ -135,14 +128,13 @@ function norm2(a: ArrayLike<number>): number {
   return Math.sqrt(dotv(a, a));
 }
 
-/** Largest α ≤ cap with diag(λ) + α·D ⪰ 0 (D symmetric n×n). */
-function maxStepPsd(lambda: Float64Array, D: Float64Array, n: number): number {
-  const t = new Float64Array(n * n);
+/** Largest α with diag(λ) + α·D ⪰ 0 (D symmetric n×n); Infinity when D ⪰ 0. */
+function maxStepPsd(lambda: Float64Array, D: Float64Array, n: number, t: Float64Array, work: Float64Array): number {
   for (let i = 0; i < n; i++) {
     const si = 1 / Math.sqrt(lambda[i]);
-    for (let j = 0; j < n; j++) t[i * n + j] = D[i * n + j] * si / Math.sqrt(lambda[j]);
+    for (let j = 0; j < n; j++) t[i * n + j] = (D[i * n + j] * si) / Math.sqrt(lambda[j]);
   }
-  const mn = minEig(t, n);
+  const mn = minEig(t, n, work);
   return mn < 0 ? -1 / mn : Infinity;
 }
 
@@ -186,6 +178,13 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   const stepFraction = options.stepFraction ?? DEFAULT_OPTIONS.stepFraction;
   const nb = cp.psd.length;
   const nu = cp.degree;
+  const m = cp.m;
+  const nL = cp.nL;
+  const nF = cp.nF;
+  const sizes = cp.psd.map((blk) => blk.n);
+  const sq = sizes.map((n) => n * n);
+  const nmax = Math.max(1, ...sizes);
+  const mat = () => new Blocks(sq);
 
   // Data norms.
   const b = cp.b;
@@ -194,22 +193,63 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   for (const blk of cp.psd) cn2 += dotv(blk.c, blk.c);
   const cnorm = Math.sqrt(cn2);
 
-  // Starting point.
-  const it: Iterate = {
-    X: cp.psd.map((blk) => {
-      const a = new Float64Array(blk.n * blk.n);
-      for (let i = 0; i < blk.n; i++) a[i * blk.n + i] = 1;
-      return a;
-    }),
-    S: [],
-    xL: new Float64Array(cp.nL).fill(1),
-    sL: new Float64Array(cp.nL).fill(1),
-    xF: new Float64Array(cp.nF),
-    y: new Float64Array(cp.m),
-    tau: 1,
-    kappa: 1,
-  };
-  it.S = it.X.map((a) => Float64Array.from(a));
+  // Iterate, started at x = s = e, y = 0, τ = κ = 1.
+  const X = mat();
+  const S = mat();
+  cp.psd.forEach((blk, k) => {
+    for (let i = 0; i < blk.n; i++) X.v[k][i * blk.n + i] = S.v[k][i * blk.n + i] = 1;
+  });
+  const xL = new Float64Array(nL).fill(1);
+  const sL = new Float64Array(nL).fill(1);
+  const xF = new Float64Array(nF);
+  const y = new Float64Array(m);
+  let tau = 1;
+  let kappa = 1;
+
+  // Work storage, allocated once.
+  const G = mat();
+  const W = mat();
+  const lam = new Blocks(sizes);
+  const Lx = mat();
+  const Ls = mat();
+  const Bm = mat();
+  const V = mat();
+  const Dc = mat();
+  const WrdW = mat();
+  const rdK = mat();
+  const atyM = mat();
+  const Z = mat();
+  const T = mat();
+  const dS = mat();
+  const dSs = mat();
+  const dXs = mat();
+  const dX = mat();
+  const corr = mat();
+  const tmp1 = new Float64Array(nmax * nmax);
+  const tmp2 = new Float64Array(nmax * nmax);
+  const atyL = new Float64Array(nL);
+  const atyF = new Float64Array(nF);
+  const rp = new Float64Array(m);
+  const rdL = new Float64Array(nL);
+  const rdF = new Float64Array(nF);
+  const Ax = new Float64Array(m);
+  const gL = new Float64Array(nL);
+  const lamL = new Float64Array(nL);
+  const dL = new Float64Array(nL);
+  const DcL = new Float64Array(nL);
+  const zL = new Float64Array(nL);
+  const TL = new Float64Array(nL);
+  const dsL = new Float64Array(nL);
+  const dxL = new Float64Array(nL);
+  const dsLs = new Float64Array(nL);
+  const dxLs = new Float64Array(nL);
+  const corrL = new Float64Array(nL);
+  const dxF = new Float64Array(nF);
+  const dy = new Float64Array(m);
+  const h1 = new Float64Array(m + nF);
+  const h2 = new Float64Array(m + nF);
+  const adc = new Float64Array(m);
+  const AT = new Float64Array(m);
 
   const schur = new SchurSystem(cp);
   let status: SdpStatus = 'iteration-limit';
@@ -219,101 +259,187 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   let lastStep = 0;
   let lastSigma = 0;
 
-  // Residuals of the current iterate.
+  // Residuals of the current iterate (into rp, rdK, rdL, rdF) and scalars.
+  let rg = 0;
+  let cx = 0;
+  let by = 0;
+  let xs = 0;
+  let mu = 0;
+  let rdNorm = 0;
   const residuals = () => {
-    const Ax = applyA(cp, it.X, it.xL, it.xF);
-    const rp = new Float64Array(cp.m);
-    for (let i = 0; i < cp.m; i++) rp[i] = Ax[i] - b[i] * it.tau;
-    const aty = applyAT(cp, it.y);
-    const rdK = cp.psd.map((blk, k) => {
-      const r = new Float64Array(blk.n * blk.n);
-      const S = it.S[k];
-      for (let e = 0; e < r.length; e++) r[e] = -aty.M[k][e] - S[e] + blk.c[e] * it.tau;
-      return r;
-    });
-    const rdL = new Float64Array(cp.nL);
-    for (let p = 0; p < cp.nL; p++) rdL[p] = -aty.L[p] - it.sL[p] + cp.cL[p] * it.tau;
-    const rdF = new Float64Array(cp.nF);
-    for (let p = 0; p < cp.nF; p++) rdF[p] = -aty.F[p] + cp.cF[p] * it.tau;
-    let cx = dotv(cp.cL, it.xL) + dotv(cp.cF, it.xF);
-    cp.psd.forEach((blk, k) => (cx += dotv(blk.c, it.X[k])));
-    const by = dotv(b, it.y);
-    const rg = by - cx - it.kappa;
-    let xs = dotv(it.xL, it.sL);
-    for (let k = 0; k < nb; k++) xs += dotv(it.X[k], it.S[k]);
-    const mu = (xs + it.tau * it.kappa) / (nu + 1);
-    let rd2 = dotv(rdL, rdL) + dotv(rdF, rdF);
-    for (const r of rdK) rd2 += dotv(r, r);
-    return { rp, rdK, rdL, rdF, rg, cx, by, xs, mu, rdNorm: Math.sqrt(rd2), aty };
+    applyA(cp, X.v, xL, xF, Ax);
+    for (let i = 0; i < m; i++) rp[i] = Ax[i] - b[i] * tau;
+    applyAT(cp, y, atyM.v, atyL, atyF);
+    for (let e = 0; e < rdK.data.length; e++) rdK.data[e] = -atyM.data[e] - S.data[e];
+    for (let k = 0; k < nb; k++) {
+      const c = cp.psd[k].c;
+      const r = rdK.v[k];
+      for (let e = 0; e < r.length; e++) r[e] += c[e] * tau;
+    }
+    for (let p = 0; p < nL; p++) rdL[p] = -atyL[p] - sL[p] + cp.cL[p] * tau;
+    for (let p = 0; p < nF; p++) rdF[p] = -atyF[p] + cp.cF[p] * tau;
+    cx = dotv(cp.cL, xL) + dotv(cp.cF, xF);
+    for (let k = 0; k < nb; k++) cx += dotv(cp.psd[k].c, X.v[k]);
+    by = dotv(b, y);
+    rg = by - cx - kappa;
+    xs = dotv(xL, sL) + dotv(X.data, S.data);
+    mu = (xs + tau * kappa) / (nu + 1);
+    rdNorm = Math.sqrt(dotv(rdL, rdL) + dotv(rdF, rdF) + dotv(rdK.data, rdK.data));
   };
 
-  const metrics = (res: ReturnType<typeof residuals>): IterationInfo => {
-    const t = it.tau;
-    const pobj = res.cx / t;
-    const dobj = res.by / t;
+  const metrics = (): IterationInfo => {
+    const pobj = cx / tau;
+    const dobj = by / tau;
     return {
       iteration: iter,
       primalObjective: pobj,
       dualObjective: dobj,
-      gap: res.xs / (t * t),
+      gap: xs / (tau * tau),
       relativeGap: Math.abs(pobj - dobj) / (1 + Math.abs(pobj) + Math.abs(dobj)),
-      primalResidual: norm2(res.rp) / t / (1 + nb2),
-      dualResidual: res.rdNorm / t / (1 + cnorm),
-      tau: it.tau,
-      kappa: it.kappa,
+      primalResidual: norm2(rp) / tau / (1 + nb2),
+      dualResidual: rdNorm / tau / (1 + cnorm),
+      tau,
+      kappa,
       step: lastStep,
       sigma: lastSigma,
     };
   };
 
-  const checkInfeasible = (res: ReturnType<typeof residuals>): boolean => {
-    // Dual ray: A^T y + s = c τ − r_d.
-    if (res.by > 0) {
+  const checkInfeasible = (): boolean => {
+    // Dual ray: Aᵀy + s = c τ − r_d.
+    if (by > 0) {
       let r2 = 0;
-      cp.psd.forEach((blk, k) => {
-        for (let e = 0; e < blk.c.length; e++) {
-          const v = blk.c[e] * it.tau - res.rdK[k][e];
-          r2 += v * v;
-        }
-      });
-      for (let p = 0; p < cp.nL; p++) r2 += (cp.cL[p] * it.tau - res.rdL[p]) ** 2;
-      for (let p = 0; p < cp.nF; p++) r2 += (cp.cF[p] * it.tau - res.rdF[p]) ** 2;
-      const resid = Math.sqrt(r2) / res.by;
+      for (let k = 0; k < nb; k++) {
+        const c = cp.psd[k].c;
+        const r = rdK.v[k];
+        for (let e = 0; e < c.length; e++) r2 += (c[e] * tau - r[e]) ** 2;
+      }
+      for (let p = 0; p < nL; p++) r2 += (cp.cL[p] * tau - rdL[p]) ** 2;
+      for (let p = 0; p < nF; p++) r2 += (cp.cF[p] * tau - rdF[p]) ** 2;
+      const resid = Math.sqrt(r2) / by;
       if (resid / Math.max(1, cnorm) <= feasTol) {
-        const scale = 1 / res.by;
+        const scale = 1 / by;
         certificate = {
           kind: 'dual-ray',
-          y: Array.from(it.y, (v) => v * scale),
-          s: userBlocks(cp, it.S, it.sL, null, scale),
+          y: Array.from(y, (v) => v * scale),
+          s: userBlocks(cp, S.v, sL, null, scale),
           bDotY: 1,
           residual: resid,
         };
         status = 'primal-infeasible';
-        message = 'the constraints admit no X in the cone: a dual ray (Farkas certificate) was found';
+        message = 'the constraints admit no point in the cone: a dual ray (Farkas certificate) was found';
         return true;
       }
     }
-    if (res.cx < 0) {
+    if (cx < 0) {
       // Primal ray: A x = r_p + b τ.
       let r2 = 0;
-      for (let i = 0; i < cp.m; i++) r2 += (res.rp[i] + b[i] * it.tau) ** 2;
-      const resid = Math.sqrt(r2) / -res.cx;
+      for (let i = 0; i < m; i++) r2 += (rp[i] + b[i] * tau) ** 2;
+      const resid = Math.sqrt(r2) / -cx;
       if (resid / Math.max(1, nb2) <= feasTol) {
-        const scale = 1 / -res.cx;
-        certificate = { kind: 'primal-ray', x: userBlocks(cp, it.X, it.xL, it.xF, scale), cDotX: -1, residual: resid };
+        const scale = 1 / -cx;
+        certificate = { kind: 'primal-ray', x: userBlocks(cp, X.v, xL, xF, scale), cDotX: -1, residual: resid };
         status = 'dual-infeasible';
-        message = 'the dual has no feasible point; the primal is unbounded below if it is feasible: a primal ray was found';
+        message = 'the dual has no feasible point (the primal is unbounded below if feasible): a primal ray was found';
         return true;
       }
     }
     return false;
   };
 
-  let res = residuals();
+  // Scalars fixed within one iteration, used by direction().
+  let denomBase = 0;
+  let pvCached: Float64Array = new Float64Array(0);
+
+  /**
+   * One Newton direction: residual weight eta, centring target sigmaMu, corrector terms (in corr /
+   * corrL when useCorr) and corrTK. Writes dX, dS, dXs, dSs, dxL, dsL, dxLs, dsLs, dxF, dy.
+   */
+  const direction = (eta: number, sigmaMu: number, useCorr: boolean, corrTK: number): { dtau: number; dkappa: number } => {
+    for (let k = 0; k < nb; k++) {
+      const n = sizes[k];
+      const l = lam.v[k];
+      const z = Z.v[k];
+      const cr = corr.v[k];
+      for (let i = 0; i < n; i++) {
+        for (let j = 0; j < n; j++) {
+          const r = (i === j ? sigmaMu - l[i] * l[i] : 0) - (useCorr ? cr[i * n + j] : 0);
+          z[i * n + j] = (2 * r) / (l[i] + l[j]);
+        }
+      }
+      const t = T.v[k];
+      congruence(G.v[k], z, n, t, tmp1);
+      const wr = WrdW.v[k];
+      for (let e = 0; e < t.length; e++) t[e] -= eta * wr[e];
+    }
+    for (let p = 0; p < nL; p++) {
+      zL[p] = (sigmaMu - lamL[p] * lamL[p] - (useCorr ? corrL[p] : 0)) / lamL[p];
+      TL[p] = gL[p] * zL[p] - eta * dL[p] * rdL[p];
+    }
+    const rtk = sigmaMu - tau * kappa - corrTK;
+    applyA(cp, T.v, TL, null, AT);
+    for (let i = 0; i < m; i++) h1[i] = -eta * rp[i] - AT[i];
+    for (let f = 0; f < nF; f++) h1[m + f] = eta * rdF[f];
+    const qv = schur.solve(h1);
+    let bq = 0;
+    let adcq = 0;
+    for (let i = 0; i < m; i++) {
+      bq += b[i] * qv[i];
+      adcq += adc[i] * qv[i];
+    }
+    let cT = dotv(cp.cL, TL);
+    for (let k = 0; k < nb; k++) cT += dotv(cp.psd[k].c, T.v[k]);
+    let cfqf = 0;
+    for (let f = 0; f < nF; f++) cfqf += cp.cF[f] * qv[m + f];
+    const dtau = (-eta * rg - bq + cT + adcq + cfqf + rtk / tau) / denomBase;
+    const pv = pvCached;
+    for (let i = 0; i < m; i++) dy[i] = qv[i] + pv[i] * dtau;
+    for (let f = 0; f < nF; f++) dxF[f] = qv[m + f] + pv[m + f] * dtau;
+    applyAT(cp, dy, atyM.v, atyL, atyF);
+    for (let k = 0; k < nb; k++) {
+      const n = sizes[k];
+      const c = cp.psd[k].c;
+      const ds = dS.v[k];
+      const am = atyM.v[k];
+      const rd = rdK.v[k];
+      for (let e = 0; e < ds.length; e++) ds[e] = -am[e] + c[e] * dtau + eta * rd[e];
+      const dss = dSs.v[k];
+      congruenceT(G.v[k], ds, n, dss, tmp1);
+      const dxs = dXs.v[k];
+      const z = Z.v[k];
+      for (let e = 0; e < dxs.length; e++) dxs[e] = z[e] - dss[e];
+      congruence(G.v[k], dxs, n, dX.v[k], tmp1);
+    }
+    for (let p = 0; p < nL; p++) {
+      dsL[p] = -atyL[p] + cp.cL[p] * dtau + eta * rdL[p];
+      dsLs[p] = gL[p] * dsL[p];
+      dxLs[p] = zL[p] - dsLs[p];
+      dxL[p] = gL[p] * dxLs[p];
+    }
+    const dkappa = (rtk - kappa * dtau) / tau;
+    return { dtau, dkappa };
+  };
+
+  const maxStep = (d: { dtau: number; dkappa: number }): number => {
+    let a = Infinity;
+    for (let k = 0; k < nb; k++) {
+      const n = sizes[k];
+      a = Math.min(a, maxStepPsd(lam.v[k], dXs.v[k], n, tmp1, tmp2), maxStepPsd(lam.v[k], dSs.v[k], n, tmp1, tmp2));
+    }
+    for (let p = 0; p < nL; p++) {
+      if (dxLs[p] < 0) a = Math.min(a, -lamL[p] / dxLs[p]);
+      if (dsLs[p] < 0) a = Math.min(a, -lamL[p] / dsLs[p]);
+    }
+    if (d.dtau < 0) a = Math.min(a, -tau / d.dtau);
+    if (d.dkappa < 0) a = Math.min(a, -kappa / d.dkappa);
+    return a;
+  };
+
+  residuals();
   for (;;) {
-    const info = metrics(res);
+    const info = metrics();
     if (iter > 0) options.onIteration?.(info);
-    if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(res.mu)) {
+    if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(mu)) {
       status = 'inaccurate';
       message = 'the iteration produced non-finite numbers';
       break;
@@ -322,7 +448,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       status = 'optimal';
       break;
     }
-    if (checkInfeasible(res)) break;
+    if (checkInfeasible()) break;
     if (iter >= maxIter) {
       status = 'iteration-limit';
       message = `stopped after ${maxIter} iterations`;
@@ -334,26 +460,26 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       break;
     }
 
-    // --- NT scaling ---
-    const G: Float64Array[] = [];
-    const lam: Float64Array[] = [];
-    const W: Float64Array[] = [];
+    // --- NT scaling: X = L Lᵀ, S = R Rᵀ, Rᵀ L = U Σ Vᵀ, G = L V Σ^(−1/2), W = G Gᵀ ---
     let scalingFailed = false;
     for (let k = 0; k < nb; k++) {
-      const n = cp.psd[k].n;
-      const Lx = cholesky(it.X[k], n);
-      const Ls = cholesky(it.S[k], n);
-      if (!Lx || !Ls) {
+      const n = sizes[k];
+      const lx = cholesky(X.v[k], n, Lx.v[k]);
+      const ls = cholesky(S.v[k], n, Ls.v[k]);
+      if (!lx || !ls) {
         scalingFailed = true;
         break;
       }
-      const Bm = matTMul(Ls, Lx, n); // Rᵀ L
-      const { sigma, v } = svdJacobi(Bm, n);
-      const g = matMul(Lx, v, n);
-      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) g[i * n + j] /= Math.sqrt(sigma[j]);
-      G.push(g);
-      lam.push(sigma);
-      const w = new Float64Array(n * n);
+      matTMul(ls, lx, n, Bm.v[k]);
+      const sigma = lam.v[k];
+      svdJacobi(Bm.v[k], n, V.v[k], sigma, tmp1);
+      const g = G.v[k];
+      matMul(lx, V.v[k], n, g);
+      for (let j = 0; j < n; j++) {
+        const f = 1 / Math.sqrt(sigma[j]);
+        for (let i = 0; i < n; i++) g[i * n + j] *= f;
+      }
+      const w = W.v[k];
       for (let i = 0; i < n; i++) {
         for (let j = i; j < n; j++) {
           let s = 0;
@@ -362,156 +488,57 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
           w[j * n + i] = s;
         }
       }
-      W.push(w);
     }
-    if (scalingFailed) {
+    let bad = scalingFailed;
+    for (let k = 0; k < nb && !bad; k++) for (const l of lam.v[k]) if (!(l > 0)) bad = true;
+    if (bad) {
       status = 'inaccurate';
       message = 'an iterate lost positive definiteness in floating point';
       break;
     }
-    const gL = new Float64Array(cp.nL);
-    const lamL = new Float64Array(cp.nL);
-    const dL = new Float64Array(cp.nL);
-    for (let p = 0; p < cp.nL; p++) {
-      gL[p] = Math.sqrt(it.xL[p] / it.sL[p]);
-      lamL[p] = Math.sqrt(it.xL[p] * it.sL[p]);
-      dL[p] = it.xL[p] / it.sL[p];
+    for (let p = 0; p < nL; p++) {
+      gL[p] = Math.sqrt(xL[p] / sL[p]);
+      lamL[p] = Math.sqrt(xL[p] * sL[p]);
+      dL[p] = xL[p] / sL[p];
     }
 
-    schur.assembleAndFactor(W, dL);
+    schur.assembleAndFactor(W.v, dL);
 
-    // D c and its images.
-    const Dc = cp.psd.map((blk, k) => congruence(W[k], blk.c, blk.n));
-    const DcL = new Float64Array(cp.nL);
-    for (let p = 0; p < cp.nL; p++) DcL[p] = dL[p] * cp.cL[p];
-    const adc = applyA(cp, Dc, DcL, new Float64Array(cp.nF));
+    // D c = W C W (orthant: d∘c), A(Dc), ⟨c, Dc⟩, and p = K⁻¹ [A D c + b; c_f].
+    for (let k = 0; k < nb; k++) congruence(W.v[k], cp.psd[k].c, sizes[k], Dc.v[k], tmp1);
+    for (let p = 0; p < nL; p++) DcL[p] = dL[p] * cp.cL[p];
+    applyA(cp, Dc.v, DcL, null, adc);
     let cDc = dotv(cp.cL, DcL);
-    cp.psd.forEach((blk, k) => (cDc += dotv(blk.c, Dc[k])));
-    const h2 = new Float64Array(cp.m + cp.nF);
-    for (let i = 0; i < cp.m; i++) h2[i] = adc[i] + b[i];
-    for (let f = 0; f < cp.nF; f++) h2[cp.m + f] = cp.cF[f];
-    const pv = schur.solve(h2);
+    for (let k = 0; k < nb; k++) cDc += dotv(cp.psd[k].c, Dc.v[k]);
+    for (let i = 0; i < m; i++) h2[i] = adc[i] + b[i];
+    for (let f = 0; f < nF; f++) h2[m + f] = cp.cF[f];
+    pvCached = schur.solve(h2);
+    const pv = pvCached;
     let bp = 0;
-    for (let i = 0; i < cp.m; i++) bp += b[i] * pv[i];
     let adcp = 0;
-    for (let i = 0; i < cp.m; i++) adcp += adc[i] * pv[i];
+    for (let i = 0; i < m; i++) {
+      bp += b[i] * pv[i];
+      adcp += adc[i] * pv[i];
+    }
     let cfpf = 0;
-    for (let f = 0; f < cp.nF; f++) cfpf += cp.cF[f] * pv[cp.m + f];
-    const denomBase = bp - (adcp - cDc) - cfpf + it.kappa / it.tau;
+    for (let f = 0; f < nF; f++) cfpf += cp.cF[f] * pv[m + f];
+    denomBase = bp - (adcp - cDc) - cfpf + kappa / tau;
+    for (let k = 0; k < nb; k++) congruence(W.v[k], rdK.v[k], sizes[k], WrdW.v[k], tmp1);
 
-    // Scaled residual transforms W r_d W (fixed for this iteration).
-    const WrdW = cp.psd.map((blk, k) => congruence(W[k], res.rdK[k], blk.n));
-
-    const direction = (eta: number, sigmaMu: number, corr: Float64Array[] | null, corrL: Float64Array | null, corrTK: number): Direction => {
-      // Complementarity right-hand sides in λ-space.
-      const Z: Float64Array[] = [];
-      const T: Float64Array[] = [];
-      for (let k = 0; k < nb; k++) {
-        const n = cp.psd[k].n;
-        const l = lam[k];
-        const z = new Float64Array(n * n);
-        for (let i = 0; i < n; i++) {
-          for (let j = 0; j < n; j++) {
-            let r = (i === j ? sigmaMu - l[i] * l[i] : 0) - (corr ? corr[k][i * n + j] : 0);
-            z[i * n + j] = (2 * r) / (l[i] + l[j]);
-          }
-        }
-        Z.push(z);
-        const rc = congruence(G[k], z, n);
-        for (let e = 0; e < rc.length; e++) rc[e] -= eta * WrdW[k][e];
-        T.push(rc);
-      }
-      const zL = new Float64Array(cp.nL);
-      const TL = new Float64Array(cp.nL);
-      for (let p = 0; p < cp.nL; p++) {
-        zL[p] = (sigmaMu - lamL[p] * lamL[p] - (corrL ? corrL[p] : 0)) / lamL[p];
-        TL[p] = gL[p] * zL[p] - eta * dL[p] * res.rdL[p];
-      }
-      const rtk = sigmaMu - it.tau * it.kappa - corrTK;
-      const AT = applyA(cp, T, TL, new Float64Array(cp.nF));
-      const h1 = new Float64Array(cp.m + cp.nF);
-      for (let i = 0; i < cp.m; i++) h1[i] = -eta * res.rp[i] - AT[i];
-      for (let f = 0; f < cp.nF; f++) h1[cp.m + f] = eta * res.rdF[f];
-      const qv = schur.solve(h1);
-      let bq = 0;
-      let adcq = 0;
-      for (let i = 0; i < cp.m; i++) {
-        bq += b[i] * qv[i];
-        adcq += adc[i] * qv[i];
-      }
-      let cT = dotv(cp.cL, TL);
-      cp.psd.forEach((blk, k) => (cT += dotv(blk.c, T[k])));
-      let cfqf = 0;
-      for (let f = 0; f < cp.nF; f++) cfqf += cp.cF[f] * qv[cp.m + f];
-      const cu = cT + adcq;
-      const dtau = (-eta * res.rg - bq + cu + cfqf + rtk / it.tau) / denomBase;
-      const dy = new Float64Array(cp.m);
-      for (let i = 0; i < cp.m; i++) dy[i] = qv[i] + pv[i] * dtau;
-      const dxF = new Float64Array(cp.nF);
-      for (let f = 0; f < cp.nF; f++) dxF[f] = qv[cp.m + f] + pv[cp.m + f] * dtau;
-      const aty = applyAT(cp, dy);
-      const dS: Float64Array[] = [];
-      const dX: Float64Array[] = [];
-      const dSs: Float64Array[] = [];
-      const dXs: Float64Array[] = [];
-      for (let k = 0; k < nb; k++) {
-        const blk = cp.psd[k];
-        const n = blk.n;
-        const ds = new Float64Array(n * n);
-        for (let e = 0; e < ds.length; e++) ds[e] = -aty.M[k][e] + blk.c[e] * dtau + eta * res.rdK[k][e];
-        const dss = congruenceT(G[k], ds, n);
-        const dxs = new Float64Array(n * n);
-        for (let e = 0; e < dxs.length; e++) dxs[e] = Z[k][e] - dss[e];
-        dS.push(ds);
-        dSs.push(dss);
-        dXs.push(dxs);
-        dX.push(congruence(G[k], dxs, n));
-      }
-      const dsL = new Float64Array(cp.nL);
-      const dxL = new Float64Array(cp.nL);
-      const dsLs = new Float64Array(cp.nL);
-      const dxLs = new Float64Array(cp.nL);
-      for (let p = 0; p < cp.nL; p++) {
-        dsL[p] = -aty.L[p] + cp.cL[p] * dtau + eta * res.rdL[p];
-        dsLs[p] = gL[p] * dsL[p];
-        dxLs[p] = zL[p] - dsLs[p];
-        dxL[p] = gL[p] * dxLs[p];
-      }
-      const dkappa = (rtk - it.kappa * dtau) / it.tau;
-      return { dX, dS, dXs, dSs, dxL, dsL, dxLs, dsLs, dxF, dy, dtau, dkappa };
-    };
-
-    const maxStep = (d: Direction): number => {
-      let a = Infinity;
-      for (let k = 0; k < nb; k++) {
-        const n = cp.psd[k].n;
-        a = Math.min(a, maxStepPsd(lam[k], d.dXs[k], n), maxStepPsd(lam[k], d.dSs[k], n));
-      }
-      for (let p = 0; p < cp.nL; p++) {
-        if (d.dxLs[p] < 0) a = Math.min(a, -lamL[p] / d.dxLs[p]);
-        if (d.dsLs[p] < 0) a = Math.min(a, -lamL[p] / d.dsLs[p]);
-      }
-      if (d.dtau < 0) a = Math.min(a, -it.tau / d.dtau);
-      if (d.dkappa < 0) a = Math.min(a, -it.kappa / d.dkappa);
-      return a;
-    };
-
-    // Predictor (affine scaling).
-    const aff = direction(1, 0, null, null, 0);
+    // Predictor (affine scaling direction).
+    const aff = direction(1, 0, false, 0);
     const alphaAff = Math.min(1, maxStep(aff));
     let sigma = Math.max(0, Math.min(1, 1 - alphaAff));
     sigma = sigma * sigma * sigma;
-    // Mehrotra corrector: second-order term (ΔX_a ∘ ΔS_a) in λ-space.
-    const corr = cp.psd.map((blk, k) => {
-      const n = blk.n;
-      const a = matMul(aff.dXs[k], aff.dSs[k], n);
-      const out = new Float64Array(n * n);
-      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) out[i * n + j] = 0.5 * (a[i * n + j] + a[j * n + i]);
-      return out;
-    });
-    const corrL = new Float64Array(cp.nL);
-    for (let p = 0; p < cp.nL; p++) corrL[p] = aff.dxLs[p] * aff.dsLs[p];
-    const dir = direction(1 - sigma, sigma * res.mu, corr, corrL, aff.dtau * aff.dkappa);
+    // Mehrotra corrector: the second-order term ΔX_a ∘ ΔS_a in λ-space.
+    for (let k = 0; k < nb; k++) {
+      const n = sizes[k];
+      matMul(dXs.v[k], dSs.v[k], n, tmp2);
+      const out = corr.v[k];
+      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) out[i * n + j] = 0.5 * (tmp2[i * n + j] + tmp2[j * n + i]);
+    }
+    for (let p = 0; p < nL; p++) corrL[p] = dxLs[p] * dsLs[p];
+    const dir = direction(1 - sigma, sigma * mu, true, aff.dtau * aff.dkappa);
     const alpha = Math.min(1, stepFraction * maxStep(dir));
     if (!(alpha > 1e-10)) {
       status = 'inaccurate';
@@ -519,36 +546,31 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       break;
     }
 
-    // Update.
-    for (let k = 0; k < nb; k++) {
-      const X = it.X[k];
-      const S = it.S[k];
-      for (let e = 0; e < X.length; e++) {
-        X[e] += alpha * dir.dX[k][e];
-        S[e] += alpha * dir.dS[k][e];
-      }
+    for (let e = 0; e < X.data.length; e++) {
+      X.data[e] += alpha * dX.data[e];
+      S.data[e] += alpha * dS.data[e];
     }
-    for (let p = 0; p < cp.nL; p++) {
-      it.xL[p] += alpha * dir.dxL[p];
-      it.sL[p] += alpha * dir.dsL[p];
+    for (let p = 0; p < nL; p++) {
+      xL[p] += alpha * dxL[p];
+      sL[p] += alpha * dsL[p];
     }
-    for (let f = 0; f < cp.nF; f++) it.xF[f] += alpha * dir.dxF[f];
-    for (let i = 0; i < cp.m; i++) it.y[i] += alpha * dir.dy[i];
-    it.tau += alpha * dir.dtau;
-    it.kappa += alpha * dir.dkappa;
+    for (let f = 0; f < nF; f++) xF[f] += alpha * dxF[f];
+    for (let i = 0; i < m; i++) y[i] += alpha * dy[i];
+    tau += alpha * dir.dtau;
+    kappa += alpha * dir.dkappa;
     lastStep = alpha;
     lastSigma = sigma;
     iter++;
-    res = residuals();
+    residuals();
   }
 
-  const info = metrics(res);
-  const t = it.tau;
+  const info = metrics();
+  const inv = 1 / tau;
   return {
     status,
-    x: userBlocks(cp, it.X, it.xL, it.xF, 1 / t),
-    y: Array.from(it.y, (v) => v / t),
-    s: userBlocks(cp, it.S, it.sL, null, 1 / t),
+    x: userBlocks(cp, X.v, xL, xF, inv),
+    y: Array.from(y, (v) => v * inv),
+    s: userBlocks(cp, S.v, sL, null, inv),
     primalObjective: info.primalObjective,
     dualObjective: info.dualObjective,
     gap: info.primalObjective - info.dualObjective,
