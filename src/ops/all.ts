@@ -3,3 +3,5 @@
  * whoever adds an op module adds its line here and then runs `npm run schema`.
  */
 import './matrix-ops.js';
+import './channel-ops.js';
+import './distance-ops.js';
