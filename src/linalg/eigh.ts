@@ -242,7 +242,12 @@ function tridiagonalize(
       pRe[i] = 0;
       pIm[i] = 0;
     }
-    for (let i = k + 1; i < n; i++) {
+    let i0 = k + 1;
+    if (haveUpdate && useV) {
+      // Main case, two rows at a time: the loads of v_j, w_j, u_j and p_j are shared.
+      for (; i0 + 1 < n; i0 += 2) fusedRowPair(are, aim, n, i0, k + 1, vRe, vIm, pb, wRe, wIm, base, pRe, pIm);
+    }
+    for (let i = i0; i < n; i++) {
       const row = i * n;
       const uir = useV ? vRe[base + i] : 0;
       const uii = useV ? vIm[base + i] : 0;
@@ -317,6 +322,63 @@ function tridiagonalize(
     haveUpdate = true;
     prevBase = base;
   }
+}
+
+/**
+ * Rows i and i+1 of the fused pass (columns j0..i+1 of the lower triangle): apply the update
+ * A -= v w* + w v* (v at vRe/vIm[pb + ..], w in wRe/wIm) and accumulate p += A u for the new
+ * reflector u (at vRe/vIm[base + ..]), using A's Hermitian symmetry for the upper triangle.
+ */
+function fusedRowPair(
+  are: Float64Array, aim: Float64Array, n: number, i: number, j0: number,
+  vRe: Float64Array, vIm: Float64Array, pb: number, wRe: Float64Array, wIm: Float64Array, base: number,
+  pRe: Float64Array, pIm: Float64Array,
+): void {
+  const i1 = i + 1;
+  const row0 = i * n;
+  const row1 = row0 + n;
+  const v0r = vRe[pb + i], v0i = vIm[pb + i], w0r = wRe[i], w0i = wIm[i];
+  const v1r = vRe[pb + i1], v1i = vIm[pb + i1], w1r = wRe[i1], w1i = wIm[i1];
+  const u0r = vRe[base + i], u0i = vIm[base + i];
+  const u1r = vRe[base + i1], u1i = vIm[base + i1];
+  let s0r = 0, s0i = 0, s1r = 0, s1i = 0;
+  for (let j = j0; j < i; j++) {
+    const vjr = vRe[pb + j];
+    const vji = vIm[pb + j];
+    const wjr = wRe[j];
+    const wji = wIm[j];
+    const ujr = vRe[base + j];
+    const uji = vIm[base + j];
+    const a0r = are[row0 + j] - (v0r * wjr + v0i * wji + w0r * vjr + w0i * vji);
+    const a0i = aim[row0 + j] - (v0i * wjr - v0r * wji + w0i * vjr - w0r * vji);
+    const a1r = are[row1 + j] - (v1r * wjr + v1i * wji + w1r * vjr + w1i * vji);
+    const a1i = aim[row1 + j] - (v1i * wjr - v1r * wji + w1i * vjr - w1r * vji);
+    are[row0 + j] = a0r;
+    aim[row0 + j] = a0i;
+    are[row1 + j] = a1r;
+    aim[row1 + j] = a1i;
+    s0r += a0r * ujr - a0i * uji;
+    s0i += a0r * uji + a0i * ujr;
+    s1r += a1r * ujr - a1i * uji;
+    s1i += a1r * uji + a1i * ujr;
+    pRe[j] += a0r * u0r + a0i * u0i + a1r * u1r + a1i * u1i;
+    pIm[j] += a0r * u0i - a0i * u0r + a1r * u1i - a1i * u1r;
+  }
+  // Element (i+1, i) and the two diagonal entries.
+  const ar = are[row1 + i] - (v1r * w0r + v1i * w0i + w1r * v0r + w1i * v0i);
+  const ai = aim[row1 + i] - (v1i * w0r - v1r * w0i + w1i * v0r - w1r * v0i);
+  are[row1 + i] = ar;
+  aim[row1 + i] = ai;
+  const d0 = are[row0 + i] - 2 * (v0r * w0r + v0i * w0i);
+  const d1 = are[row1 + i1] - 2 * (v1r * w1r + v1i * w1i);
+  are[row0 + i] = d0;
+  are[row1 + i1] = d1;
+  s1r += ar * u0r - ai * u0i;
+  s1i += ar * u0i + ai * u0r;
+  pRe[i] += s0r + d0 * u0r + ar * u1r + ai * u1i;
+  pIm[i] += s0i + d0 * u0i + ar * u1i - ai * u1r;
+  pRe[i1] += s1r + d1 * u1r;
+  pIm[i1] += s1i + d1 * u1i;
 }
 
 /**
