@@ -122,7 +122,7 @@ interface Node {
   [key: string]: any;
 }
 
-function evaluateNode(node: Node): C {
+function evaluateNode(node: Node, vars: Record<string, C> = {}): C {
   let z: C;
   switch (node.type) {
     case 'ConstantNode': {
@@ -132,21 +132,25 @@ function evaluateNode(node: Node): C {
       break;
     }
     case 'SymbolNode': {
+      if (Object.hasOwn(vars, node.name)) {
+        z = vars[node.name];
+        break;
+      }
       const make = Object.hasOwn(SYMBOLS, node.name) ? SYMBOLS[node.name] : undefined;
       if (!make) throw new ExpressionError(`unknown symbol "${node.name}" (allowed: ${EXPRESSION_SYMBOLS.join(', ')})`);
       z = make();
       break;
     }
     case 'ParenthesisNode':
-      z = evaluateNode(node.content);
+      z = evaluateNode(node.content, vars);
       break;
     case 'OperatorNode': {
       const args: Node[] = node.args;
       if (node.implicit) throw new ExpressionError('write multiplication explicitly (2*i, not 2i)');
-      if (args.length === 1 && node.fn === 'unaryMinus') z = evaluateNode(args[0]).neg();
-      else if (args.length === 1 && node.fn === 'unaryPlus') z = evaluateNode(args[0]);
+      if (args.length === 1 && node.fn === 'unaryMinus') z = evaluateNode(args[0], vars).neg();
+      else if (args.length === 1 && node.fn === 'unaryPlus') z = evaluateNode(args[0], vars);
       else if (args.length === 2 && Object.hasOwn(BINARY, node.fn)) {
-        z = BINARY[node.fn](evaluateNode(args[0]), evaluateNode(args[1]));
+        z = BINARY[node.fn](evaluateNode(args[0], vars), evaluateNode(args[1], vars));
       } else throw new ExpressionError(`the operator "${node.op}" is not allowed (allowed: + - * / ^)`);
       break;
     }
@@ -159,7 +163,7 @@ function evaluateNode(node: Node): C {
         );
       }
       if (node.args.length !== 1) throw new ExpressionError(`${name} takes exactly one argument`);
-      z = FUNCTIONS[name](evaluateNode(node.args[0]));
+      z = FUNCTIONS[name](evaluateNode(node.args[0], vars));
       break;
     }
     default:
@@ -234,4 +238,49 @@ export function readExpression(text: unknown, path: string): { re: number; im: n
 
 function clip(s: string, n = 80): string {
   return s.length > n ? `${s.slice(0, n)}…` : s;
+}
+
+/**
+ * A real function of one variable from an expression string in that variable (e.g. "(1+t)/2" in t),
+ * with the same allow-list as readExpression plus the variable name (which must not be i, pi or e).
+ * Parsed once; a syntax error or a disallowed construct throws RhoError('parse-error', ..., path) at
+ * once (the expression is also tried at the variable = 1/2 to surface those). Each call returns the
+ * real part, or NaN where the value is undefined (division by zero, non-finite) or has an imaginary
+ * part above 1e-12 relative: callers decide what NaN means (a removable singularity, an error).
+ */
+export function compileRealFunction(text: unknown, variable: string, path: string): (x: number) => number {
+  if (typeof text !== 'string') throw new RhoError('parse-error', 'An expression must be a string.', path);
+  if (text.length > MAX_EXPRESSION_LENGTH) {
+    throw new RhoError('parse-error', `The expression is longer than ${MAX_EXPRESSION_LENGTH} characters.`, path);
+  }
+  if (text.trim() === '') throw new RhoError('parse-error', 'The expression is empty.', path);
+  if (Object.hasOwn(SYMBOLS, variable)) throw new Error(`compileRealFunction: "${variable}" is a reserved symbol`);
+  let tree: Node;
+  try {
+    tree = parse(text) as unknown as Node;
+  } catch (err) {
+    const why = err instanceof Error ? err.message : String(err);
+    throw new RhoError('parse-error', `Cannot read the expression "${clip(text)}": ${clip(why)}.`, path);
+  }
+  const at = (x: number): C => {
+    const vars: Record<string, C> = { [variable]: new Complex(x, 0) };
+    return evaluateNode(tree, vars);
+  };
+  try {
+    at(0.5);
+  } catch (err) {
+    if (err instanceof ExpressionError && !/division by zero|not finite|zero raised/.test(err.message)) {
+      const why = err.message.replace(`(allowed: ${EXPRESSION_SYMBOLS.join(', ')})`, `(allowed: ${[...EXPRESSION_SYMBOLS, variable].join(', ')})`);
+      throw new RhoError('parse-error', `Cannot use the expression "${clip(text)}": ${why}.`, path);
+    }
+    if (!(err instanceof ExpressionError)) throw new RhoError('parse-error', `Cannot evaluate the expression "${clip(text)}".`, path);
+  }
+  return (x: number): number => {
+    try {
+      const z = at(x);
+      return Math.abs(z.im) <= 1e-12 * Math.max(Math.abs(z.re), 1e-300) ? z.re : NaN;
+    } catch {
+      return NaN;
+    }
+  };
 }

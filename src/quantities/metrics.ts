@@ -167,7 +167,12 @@ export function metricFromFunction(f: (t: number) => number, name = 'custom', pa
     if (y <= 0) return x * f0;
     if (x <= 0) return y * f0;
     // y f(x/y) = x f(y/x); evaluate with the ratio ≤ 1 for the best-conditioned argument.
-    return x <= y ? y * fs(x / y) : x * fs(y / x);
+    const t = x <= y ? x / y : y / x;
+    const v = fs(t);
+    if (!Number.isFinite(v) || v <= 0) {
+      throw new RhoError('invalid-argument', `The metric function is not positive and finite at t = ${t} (f(t) = ${v}).`, path);
+    }
+    return x <= y ? y * v : x * v;
   };
   return { name, f: fs, mean, warnings };
 }
