@@ -382,87 +382,115 @@ function fusedRowPair(
 }
 
 /**
- * Q applied to the rows of (mRe, mIm), each row one vector: m <- H_0 H_1 ... H_{n-3} m. Two rows
- * at a time; the update by reflector k is fused with the dot product for reflector k-1.
+ * Q applied to the rows of (mRe, mIm), each row one vector: m <- H_0 H_1 ... H_{n-3} m, where
+ * H_k = I - beta_k v_k v_k*. Reflectors are taken in pairs (a > b, a applied first): with
+ * x = v* m on the unmodified vector, s_a = beta_a x_a and s_b = beta_b (x_b - (v_b* v_a) s_a),
+ * and H_b H_a m = m - v_a s_a - v_b s_b (a two-reflector compact WY form). Each pass over a
+ * vector applies one pair and accumulates the dot products of the next pair; two vectors at a
+ * time share the loads of the reflectors. Reflector rows hold zeros at indices <= k.
  */
 function applyReflectors(
   mRe: Float64Array, mIm: Float64Array, n: number,
   vRe: Float64Array, vIm: Float64Array, betas: Float64Array,
 ): void {
-  let last = n - 3;
-  while (last >= 0 && betas[last] === 0) last--;
-  if (last < 0) return;
+  // Pairs in application order; a lone last reflector is paired with itself at beta 0.
+  const list: number[] = [];
+  for (let k = n - 3; k >= 0; k--) if (betas[k] !== 0) list.push(k);
+  if (list.length === 0) return;
+  const np = (list.length + 1) >> 1;
+  const pa = new Int32Array(np);
+  const pbk = new Int32Array(np);
+  const bb = new Float64Array(np);
+  const cRe = new Float64Array(np);
+  const cIm = new Float64Array(np);
+  for (let q = 0; q < np; q++) {
+    const a = list[2 * q];
+    const b = 2 * q + 1 < list.length ? list[2 * q + 1] : a;
+    pa[q] = a;
+    pbk[q] = b;
+    bb[q] = b === a ? 0 : betas[b];
+    // c = v_b* v_a over the range of a.
+    let cr = 0;
+    let ci = 0;
+    const ab = a * n;
+    const bbase = b * n;
+    for (let i = a + 1; i < n; i++) {
+      const xr = vRe[ab + i], xi = vIm[ab + i];
+      const yr = vRe[bbase + i], yi = vIm[bbase + i];
+      cr += yr * xr + yi * xi;
+      ci += yr * xi - yi * xr;
+    }
+    cRe[q] = cr;
+    cIm[q] = ci;
+  }
   for (let c = 0; c < n; c += 2) {
     const two = c + 1 < n;
-    const a = c * n;
-    const b = two ? a + n : a; // row b is a duplicate of a when n is odd (results discarded)
-    // s = beta v* m for reflector `last`.
-    let k = last;
-    let base = k * n;
-    let s0r = 0, s0i = 0, s1r = 0, s1i = 0;
-    for (let i = k + 1; i < n; i++) {
-      const vr = vRe[base + i];
-      const vi = vIm[base + i];
-      const ar = mRe[a + i], ai = mIm[a + i];
-      const br = mRe[b + i], bi = mIm[b + i];
-      s0r += vr * ar + vi * ai;
-      s0i += vr * ai - vi * ar;
-      s1r += vr * br + vi * bi;
-      s1i += vr * bi - vi * br;
+    const r0 = c * n;
+    const r1 = two ? r0 + n : r0;
+    // Dot products for the first pair.
+    let a = pa[0];
+    let b = pbk[0];
+    let A = a * n;
+    let B = b * n;
+    let xa0r = 0, xa0i = 0, xb0r = 0, xb0i = 0, xa1r = 0, xa1i = 0, xb1r = 0, xb1i = 0;
+    for (let i = b + 1; i < n; i++) {
+      const ar = vRe[A + i], ai = vIm[A + i], br = vRe[B + i], bi = vIm[B + i];
+      const m0r = mRe[r0 + i], m0i = mIm[r0 + i], m1r = mRe[r1 + i], m1i = mIm[r1 + i];
+      xa0r += ar * m0r + ai * m0i; xa0i += ar * m0i - ai * m0r;
+      xb0r += br * m0r + bi * m0i; xb0i += br * m0i - bi * m0r;
+      xa1r += ar * m1r + ai * m1i; xa1i += ar * m1i - ai * m1r;
+      xb1r += br * m1r + bi * m1i; xb1i += br * m1i - bi * m1r;
     }
-    while (k >= 0) {
-      const beta = betas[k];
-      s0r *= beta; s0i *= beta; s1r *= beta; s1i *= beta;
-      // Next reflector with nonzero beta.
-      let nk = k - 1;
-      while (nk >= 0 && betas[nk] === 0) nk--;
-      if (nk < 0) {
-        for (let i = k + 1; i < n; i++) {
-          const vr = vRe[base + i];
-          const vi = vIm[base + i];
-          mRe[a + i] -= vr * s0r - vi * s0i;
-          mIm[a + i] -= vr * s0i + vi * s0r;
+    for (let q = 0; q < np; q++) {
+      // Coefficients of pair q.
+      const ba = betas[a];
+      const bq = bb[q];
+      const cr = cRe[q], ci = cIm[q];
+      const sa0r = ba * xa0r, sa0i = ba * xa0i, sa1r = ba * xa1r, sa1i = ba * xa1i;
+      const sb0r = bq * (xb0r - (cr * sa0r - ci * sa0i));
+      const sb0i = bq * (xb0i - (cr * sa0i + ci * sa0r));
+      const sb1r = bq * (xb1r - (cr * sa1r - ci * sa1i));
+      const sb1i = bq * (xb1i - (cr * sa1i + ci * sa1r));
+      if (q + 1 === np) {
+        for (let i = b + 1; i < n; i++) {
+          const ar = vRe[A + i], ai = vIm[A + i], br = vRe[B + i], bi = vIm[B + i];
+          mRe[r0 + i] -= ar * sa0r - ai * sa0i + br * sb0r - bi * sb0i;
+          mIm[r0 + i] -= ar * sa0i + ai * sa0r + br * sb0i + bi * sb0r;
           if (two) {
-            mRe[b + i] -= vr * s1r - vi * s1i;
-            mIm[b + i] -= vr * s1i + vi * s1r;
+            mRe[r1 + i] -= ar * sa1r - ai * sa1i + br * sb1r - bi * sb1i;
+            mIm[r1 + i] -= ar * sa1i + ai * sa1r + br * sb1i + bi * sb1r;
           }
         }
         break;
       }
-      const nbase = nk * n;
-      let t0r = 0, t0i = 0, t1r = 0, t1i = 0;
-      // Indices nk+1..k are untouched by reflector k.
-      for (let i = nk + 1; i <= k; i++) {
-        const ur = vRe[nbase + i];
-        const ui = vIm[nbase + i];
-        const ar = mRe[a + i], ai = mIm[a + i];
-        const br = mRe[b + i], bi = mIm[b + i];
-        t0r += ur * ar + ui * ai;
-        t0i += ur * ai - ui * ar;
-        t1r += ur * br + ui * bi;
-        t1i += ur * bi - ui * br;
+      const a2 = pa[q + 1];
+      const b2 = pbk[q + 1];
+      const A2 = a2 * n;
+      const B2 = b2 * n;
+      xa0r = 0; xa0i = 0; xb0r = 0; xb0i = 0; xa1r = 0; xa1i = 0; xb1r = 0; xb1i = 0;
+      // Indices b2+1..b are untouched by pair q.
+      for (let i = b2 + 1; i <= b; i++) {
+        const ar = vRe[A2 + i], ai = vIm[A2 + i], br = vRe[B2 + i], bi = vIm[B2 + i];
+        const m0r = mRe[r0 + i], m0i = mIm[r0 + i], m1r = mRe[r1 + i], m1i = mIm[r1 + i];
+        xa0r += ar * m0r + ai * m0i; xa0i += ar * m0i - ai * m0r;
+        xb0r += br * m0r + bi * m0i; xb0i += br * m0i - bi * m0r;
+        xa1r += ar * m1r + ai * m1i; xa1i += ar * m1i - ai * m1r;
+        xb1r += br * m1r + bi * m1i; xb1i += br * m1i - bi * m1r;
       }
-      for (let i = k + 1; i < n; i++) {
-        const vr = vRe[base + i];
-        const vi = vIm[base + i];
-        const ar = mRe[a + i] - (vr * s0r - vi * s0i);
-        const ai = mIm[a + i] - (vr * s0i + vi * s0r);
-        const br = mRe[b + i] - (vr * s1r - vi * s1i);
-        const bi = mIm[b + i] - (vr * s1i + vi * s1r);
-        mRe[a + i] = ar;
-        mIm[a + i] = ai;
-        mRe[b + i] = br;
-        mIm[b + i] = bi;
-        const ur = vRe[nbase + i];
-        const ui = vIm[nbase + i];
-        t0r += ur * ar + ui * ai;
-        t0i += ur * ai - ui * ar;
-        t1r += ur * br + ui * bi;
-        t1i += ur * bi - ui * br;
+      for (let i = b + 1; i < n; i++) {
+        let ar = vRe[A + i], ai = vIm[A + i], br = vRe[B + i], bi = vIm[B + i];
+        const m0r = mRe[r0 + i] - (ar * sa0r - ai * sa0i + br * sb0r - bi * sb0i);
+        const m0i = mIm[r0 + i] - (ar * sa0i + ai * sa0r + br * sb0i + bi * sb0r);
+        const m1r = mRe[r1 + i] - (ar * sa1r - ai * sa1i + br * sb1r - bi * sb1i);
+        const m1i = mIm[r1 + i] - (ar * sa1i + ai * sa1r + br * sb1i + bi * sb1r);
+        mRe[r0 + i] = m0r; mIm[r0 + i] = m0i; mRe[r1 + i] = m1r; mIm[r1 + i] = m1i;
+        ar = vRe[A2 + i]; ai = vIm[A2 + i]; br = vRe[B2 + i]; bi = vIm[B2 + i];
+        xa0r += ar * m0r + ai * m0i; xa0i += ar * m0i - ai * m0r;
+        xb0r += br * m0r + bi * m0i; xb0i += br * m0i - bi * m0r;
+        xa1r += ar * m1r + ai * m1i; xa1i += ar * m1i - ai * m1r;
+        xb1r += br * m1r + bi * m1i; xb1i += br * m1i - bi * m1r;
       }
-      s0r = t0r; s0i = t0i; s1r = t1r; s1i = t1i;
-      k = nk;
-      base = nbase;
+      a = a2; b = b2; A = A2; B = B2;
     }
   }
 }
