@@ -315,6 +315,7 @@ defineOp({
     };
     if (r.idempotenceDefect !== undefined) out.idempotenceDefect = r.idempotenceDefect;
     if (r.reason) out.reason = r.reason;
+    if (r.notes) out.notes = r.notes;
     return out;
   },
 });

@@ -10,12 +10,10 @@
  * pinching in the computational basis (the dephasing that defines the relative entropy of
  * coherence).
  *
- * The value is the Umegaki relative entropy D(ρ‖σ) = Tr ρ (log ρ − log σ), computed here from the
- * eigendecompositions of ρ and σ = E(ρ):
- *   D = Σ_i λ_i log λ_i − Σ_ij λ_i |⟨a_i|b_j⟩|² log μ_j   (supports only),
- * +Infinity with a reason when ρ leaks out of supp σ (Tr ρ (1 − Π_σ) above the tolerance). (It is
- * computed locally rather than through the divergence module so that this file only depends on
- * linalg; the two agree, see the tests.)
+ * The value is the Umegaki relative entropy D(ρ‖σ) = Tr ρ (log ρ − log σ) with σ = E(ρ), from
+ * divergences.ts (umegakiRelativeEntropy: +Infinity with a reason when ρ leaks out of supp σ, the
+ * leakage Tr ρ(1 − Π_σ) decided against the support tolerance). The entropies of the gap come from
+ * entropy.ts (vonNeumannEntropy), with the same support tolerance.
  *
  * For a trace-preserving conditional expectation onto a subalgebra, log E(ρ) lies in the algebra,
  * so Tr ρ log E(ρ) = Tr E(ρ) log E(ρ) and D(ρ‖E(ρ)) = H(E(ρ)) − H(ρ) (e.g. Petz, Quantum Information
@@ -31,9 +29,10 @@
  * one product of eigenvector matrices, O(n³).
  */
 import { CMatrix, adjoint, mul, sub, zeros } from '../linalg/cmatrix.js';
-import { eigh } from '../linalg/eigh.js';
-import { DEFAULT_SUPPORT_TOLERANCE, zeroThreshold } from '../linalg/functions.js';
+import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import { traceNorm } from '../linalg/norms.js';
+import { umegakiRelativeEntropy } from './divergences.js';
+import { vonNeumannEntropy } from './entropy.js';
 import { RhoError } from '../errors.js';
 import type { Channel } from '../quantum/types.js';
 
@@ -56,12 +55,8 @@ export interface ExpectationDivergenceResult {
   leakage: number;
   /** ‖E(E(ρ)) − E(ρ)‖₁ when E was given as a channel or by blocks (0 up to rounding for a conditional expectation). */
   idempotenceDefect?: number;
-}
-
-function entropyOf(values: ArrayLike<number>, thr: number, lb: number): number {
-  let h = 0;
-  for (let i = 0; i < values.length; i++) if (values[i] > thr) h -= values[i] * Math.log(values[i]);
-  return h / lb;
+  /** Notes from the divergence computation (e.g. a leakage below the tolerance treated as zero). */
+  notes?: string[];
 }
 
 /** D(ρ‖σ) (Umegaki) with σ = E(ρ) given, plus the entropy gap H(σ) − H(ρ). */
@@ -71,46 +66,17 @@ export function divergenceToExpectation(rho: CMatrix, expectation: CMatrix, opti
   }
   const base = options.base ?? 2;
   const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
-  const lb = Math.log(base);
-  const n = rho.rows;
-  const a = eigh(rho, { vectors: true });
-  const b = eigh(expectation, { vectors: true });
-  const ta = zeroThreshold(a.values, tol);
-  const tb = zeroThreshold(b.values, tol);
-  // Overlaps |⟨a_i|b_j⟩|² from A* B.
-  const O = mul(adjoint(a.vectors!), b.vectors!);
-  let cross = 0; // Σ λ_i |⟨a_i|b_j⟩|² ln μ_j over both supports
-  let inside = 0; // Tr ρ Π_σ
-  for (let i = 0; i < n; i++) {
-    const l = a.values[i];
-    if (!(l > ta)) continue;
-    for (let j = 0; j < n; j++) {
-      const m = b.values[j];
-      if (!(m > tb)) continue;
-      const w = O.re[i * n + j] ** 2 + O.im[i * n + j] ** 2;
-      inside += l * w;
-      cross += l * w * Math.log(m);
-    }
-  }
-  let traceRho = 0;
-  for (let i = 0; i < n; i++) if (a.values[i] > ta) traceRho += a.values[i];
-  const leakage = Math.max(traceRho - inside, 0);
-  const hRho = entropyOf(a.values, ta, lb);
-  const hSigma = entropyOf(b.values, tb, lb);
+  const d = umegakiRelativeEntropy(rho, expectation, { base, tol });
+  const gap = vonNeumannEntropy(expectation, { base, tol }) - vonNeumannEntropy(rho, { base, tol });
   const result: ExpectationDivergenceResult = {
-    value: 0,
+    // A rounding-level negative (ρ already in the algebra) becomes 0: D ≥ 0 (Klein's inequality).
+    value: d.value < 0 && d.value > -1e-12 ? 0 : d.value,
     expectation,
-    entropyGap: hSigma - hRho,
-    leakage,
+    entropyGap: gap,
+    leakage: d.leakage,
   };
-  if (leakage > tol * Math.max(traceRho, Number.MIN_VALUE)) {
-    result.value = Infinity;
-    result.reason = `supp rho is not contained in supp E(rho): Tr rho(1 - P) = ${leakage.toExponential(3)} exceeds the tolerance ${tol}, with P the support projector of E(rho)`;
-    return result;
-  }
-  // −H(ρ) − Tr ρ log σ, in the base.
-  const d = -hRho - cross / lb;
-  result.value = d < 0 && d > -1e-12 ? 0 : d;
+  if (d.reason) result.reason = d.reason;
+  if (d.notes && d.notes.length) result.notes = d.notes;
   return result;
 }
 
