@@ -170,7 +170,7 @@ def embed(a):
 def solve_with_cvxopt(problem, mats, cfull):
     cones = problem["cones"]
     m = len(problem["constraints"])
-    b = np.array([c["equals"] for c in problem["constraints"]])
+    b = np.array([c["equals"] for c in problem["constraints"]], dtype=float)
     gl_rows, hl = [], []
     gs, hs = [], []
     for k, c in enumerate(cones):
@@ -213,6 +213,60 @@ def solve_with_cvxopt(problem, mats, cfull):
     raise RuntimeError("cvxopt did not reach an optimal solution")
 
 
+def parse_problem(problem):
+    """Read a problem in rhosigma's format back into full coefficient matrices (mats, cfull)."""
+    cones = problem["cones"]
+
+    def full(term):
+        c = cones[term["block"]]
+        n = c["size"]
+        if c["kind"] in ("nonnegative", "free"):
+            if "vector" in term:
+                return np.array(term["vector"], dtype=float)
+            v = np.zeros(n)
+            for i, x in term["entries"]:
+                v[i] += x
+            return v
+        a = np.zeros((n, n), dtype=complex)
+        if "matrix" in term:
+            mm = term["matrix"]
+            if isinstance(mm, dict):
+                a += np.array(mm["re"]) + 1j * np.array(mm["im"])
+            else:
+                a += np.array(mm)
+            return a
+        for e in term["entries"]:
+            i, j, re = e[0], e[1], e[2]
+            im = e[3] if len(e) > 3 else 0.0
+            a[i, j] += re + 1j * im
+            if i != j:
+                a[j, i] += re - 1j * im
+        return a
+
+    mats = [[(t["block"], full(t)) for t in con["terms"]] for con in problem["constraints"]]
+    cfull = []
+    for k, c in enumerate(cones):
+        n = c["size"]
+        ck = np.zeros(n) if c["kind"] == "nonnegative" else np.zeros((n, n), dtype=complex)
+        for t in problem["objective"]:
+            if t["block"] == k:
+                ck = ck + full(t)
+        cfull.append(ck)
+    return mats, cfull
+
+
+def timed(problem, mats, cfull, repeats):
+    import time
+    times = []
+    sol = None
+    for _ in range(max(1, repeats)):
+        t0 = time.perf_counter()
+        sol = solve_with_cvxopt(problem, mats, cfull)
+        times.append(time.perf_counter() - t0)
+    times.sort()
+    return sol, times[len(times) // 2]
+
+
 SHAPES = [
     {"name": "two real blocks", "blocks": [["symmetric", 3], ["symmetric", 2]], "m": 4, "touch": 2},
     {"name": "real, Hermitian and orthant", "blocks": [["symmetric", 4], ["hermitian", 3], ["nonnegative", 3]], "m": 6, "touch": 2},
@@ -228,7 +282,18 @@ def main():
     ap.add_argument("--seed", type=int, default=20240601)
     ap.add_argument("--count", type=int, default=12)
     ap.add_argument("--out", default="-")
+    ap.add_argument("--time", type=int, default=0, help="also time cvxopt: median of this many solves per case")
+    ap.add_argument("--solve-stdin", action="store_true", help="solve the problems in {problems: [...]} read from stdin")
     args = ap.parse_args()
+    if args.solve_stdin:
+        data = json.load(sys.stdin)
+        results = []
+        for problem in data["problems"]:
+            mats, cfull = parse_problem(problem)
+            sol, sec = timed(problem, mats, cfull, args.time)
+            results.append({"optimal": -sol["primal objective"], "seconds": sec, "iterations": sol["iterations"]})
+        sys.stdout.write(json.dumps({"cvxopt": cvxopt.__version__, "results": results}))
+        return
     rng = np.random.default_rng(args.seed)
     cases = []
     for c in range(args.count):
@@ -244,7 +309,10 @@ def main():
                 continue
         else:
             raise RuntimeError(f"no instance of shape {shape['name']} solved by cvxopt")
+        seconds = timed(problem, mats, cfull, args.time)[1] if args.time > 0 else None
         cases.append({
+            "shape": shape["name"],
+            "cvxoptSeconds": seconds,
             "name": f"{shape['name']} #{c}",
             "problem": problem,
             "optimal": -sol["primal objective"],

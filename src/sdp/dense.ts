@@ -189,7 +189,7 @@ export function symEig(a: Float64Array, n: number, wantVectors = false, work?: F
       diag += m[i * n + i] * m[i * n + i];
       for (let j = i + 1; j < n; j++) off += m[i * n + j] * m[i * n + j];
     }
-    if (off <= 1e-32 * diag || off === 0) break;
+    if (off <= (4 * n * Number.EPSILON) ** 2 * diag || off === 0) break;
     for (let p = 0; p < n; p++) {
       for (let q = p + 1; q < n; q++) {
         const apq = m[p * n + q];
@@ -264,6 +264,8 @@ export function svdJacobi(
   u.set(b.subarray(0, n * n));
   v.fill(0);
   for (let i = 0; i < n; i++) v[i * n + i] = 1;
+  // Columns count as orthogonal at a few ulps times n (a tighter test is never met in rounding).
+  const tol = 4 * n * Number.EPSILON;
   for (let sweep = 0; sweep < 60; sweep++) {
     let rotated = false;
     for (let p = 0; p < n; p++) {
@@ -278,7 +280,7 @@ export function svdJacobi(
           beta += uq * uq;
           gamma += up * uq;
         }
-        if (gamma === 0 || Math.abs(gamma) <= 1e-15 * Math.sqrt(alpha * beta)) continue;
+        if (gamma === 0 || Math.abs(gamma) <= tol * Math.sqrt(alpha * beta)) continue;
         rotated = true;
         const zeta = (beta - alpha) / (2 * gamma);
         const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
