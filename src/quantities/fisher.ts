@@ -26,7 +26,7 @@
  *
  * Cost: one eigendecomposition, O(n³).
  */
-import { CMatrix, adjoint, mul } from '../linalg/cmatrix.js';
+import { CMatrix, adjoint, maxAbs, mul } from '../linalg/cmatrix.js';
 import { eigh } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE, zeroThreshold } from '../linalg/functions.js';
 import { MetricFunction, SLD_METRIC, monotoneMetric } from './metrics.js';
@@ -57,7 +57,7 @@ export function quantumFisherInformation(rho: CMatrix, derivative: CMatrix, opti
   const vectorTol = options.vectorTol ?? 1e-12;
   const r = monotoneMetric(rho, derivative, derivative, metric, { tol, vectorTol, dropKernelBlock: true });
   const warnings = [...r.warnings];
-  const scale = Math.max(...Array.from({ length: derivative.rows * derivative.cols }, (_, k) => Math.hypot(derivative.re[k], derivative.im[k])), 0);
+  const scale = maxAbs(derivative);
   if (r.kernelBlock > 1e3 * vectorTol * Math.max(scale, Number.MIN_VALUE)) {
     warnings.push(
       `The derivative has a kernel–kernel block of norm ${r.kernelBlock.toExponential(3)} in rho's eigenbasis; a smooth family of states has none there, so that block was dropped.`,
