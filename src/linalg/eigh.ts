@@ -19,8 +19,13 @@
  * working precision. Blocks of at most 24 rows are solved by QL with accumulated rotations.
  *
  * Stage 3 forms V = Q D Z: the real tridiagonal eigenvectors Z, the phases D and the reflectors Q,
- * applied eigenvector by eigenvector (two at a time) with the axpy of one reflector fused with the
- * dot product of the next.
+ * applied two eigenvectors at a time, reflectors in pairs (a two-reflector compact WY form), the
+ * update by one pair fused with the dot products of the next.
+ *
+ * Where the time goes (n = 256, values and vectors): about a third in the reduction, a third in
+ * the back-transformation and the rest in divide and conquer (mostly its matrix products). All of
+ * it is scalar double arithmetic; LAPACK on OpenBLAS runs the same flop count with SIMD and
+ * blocked BLAS-3 kernels, which is why it stays several times faster at n = 256.
  *
  * Hand-written because no JavaScript library offers a fast complex Hermitian eigensolver: mathjs's
  * `eigs` and ml-matrix's real symmetric solver on the 2n embedding are one to three orders of
