@@ -8,3 +8,4 @@ export * from './chernoff.js';
 export * from './metrics.js';
 export * from './fisher.js';
 export * from './expectation.js';
+export * from './conditional.js';
