@@ -63,7 +63,7 @@ export function requestSchema(def: OpDefinition): Record<string, unknown> {
     description: def.summary,
     ...rest,
     type: 'object',
-    properties: { op: { const: def.name }, ...COMMON_FIELDS, ...properties },
+    properties: { op: { const: def.name }, ...properties, ...COMMON_FIELDS },
     required: ['op', ...(required ?? [])],
     additionalProperties: additionalProperties ?? false,
   };
