@@ -3,5 +3,11 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/setup.sh
+# The reference checks need Debian's numpy, scipy, cvxopt and pytest; fail loudly rather than let a
+# suite skip when they are missing.
+/usr/bin/python3 -c 'import numpy, scipy, cvxopt, pytest' || {
+  echo "test: /usr/bin/python3 lacks numpy/scipy/cvxopt/pytest; scripts/setup.sh should have installed them" >&2
+  exit 1
+}
 npm run --silent typecheck
 node scripts/run-tests.mjs "$@"
