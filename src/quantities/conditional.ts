@@ -320,7 +320,7 @@ function sandwichedOptimised(
   let cur = evaluate(normalise(fromDiag(SB.support.map((i) => SB.values[i]))), true)!;
   let iterations = 0;
   let stoppingRule = `reached the iteration limit ${maxIterations}`;
-  let finalChange = NaN;
+  let finalChange = 0;
   let gapBound = gapOf(cur);
   let flat = 0;
   const p = ((alpha - 1) * (alpha - 1)) / (2 * alpha);

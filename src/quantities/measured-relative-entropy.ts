@@ -152,7 +152,7 @@ function ascend(rhoS: CMatrix, sigmaS: CMatrix, x0: Float64Array, maxIterations:
   let cur = evaluate(x, rhoS, sigmaS);
   let iterations = 0;
   let stoppingRule = `reached the iteration limit ${maxIterations}`;
-  let finalChange = NaN;
+  let finalChange = 0;
   let stall = 0;
   while (iterations < maxIterations) {
     const gnorm = Math.sqrt(dot(cur.grad, cur.grad));
