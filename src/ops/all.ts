@@ -6,4 +6,3 @@ import './matrix-ops.js';
 import './channel-ops.js';
 import './distance-ops.js';
 import './entropy-ops.js';
-import './guessing-ops.js';
