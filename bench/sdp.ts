@@ -26,6 +26,7 @@ function median(xs: number[]): number {
 function timeOurs(p: SdpProblem, repeats: number): { ms: number; iterations: number; value: number; status: string } {
   const times: number[] = [];
   let last = solveSdp(p);
+  for (let w = 0; w < 3; w++) last = solveSdp(p); // let the JIT settle
   for (let r = 0; r < repeats; r++) {
     const t0 = performance.now();
     last = solveSdp(p);

@@ -174,6 +174,35 @@ describe('SDP solver: published facts', () => {
   });
 });
 
+describe('SDP solver: free variables and redundant rows (worked by hand; common practice, no published source)', () => {
+  it('a free variable is unrestricted: min x0 + 2x1 − z s.t. x0 + x1 = 1, z − x0 = 1/2, x ≥ 0 has value −1/2 at x = (1, 0), z = 3/2', () => {
+    const a = solveSdp({
+      cones: [{ kind: 'nonnegative', size: 2 }, { kind: 'free', size: 1 }],
+      objective: [{ block: 0, vector: [1, 2] }, { block: 1, vector: [-1] }],
+      constraints: [
+        { terms: [{ block: 0, vector: [1, 1] }], equals: 1 },
+        { terms: [{ block: 1, vector: [1] }, { block: 0, entries: [[0, -1]] }], equals: 0.5 },
+      ],
+    });
+    assert.equal(a.status, 'optimal');
+    assert.ok(Math.abs(a.primalObjective + 0.5) < 1e-7);
+    assert.ok(Math.abs((a.x[1] as number[])[0] - 1.5) < 1e-6);
+  });
+
+  it('a duplicated (linearly dependent) constraint leaves the optimum, the smallest eigenvalue of C, unchanged (Rayleigh–Ritz; Horn & Johnson Thm 4.2.2)', () => {
+    const C = [[2, 1], [1, 2]]; // eigenvalues 1 and 3
+    const tr = [[0, 0, 1], [1, 1, 1]] as const;
+    const a = solveSdp({
+      cones: [{ kind: 'symmetric', size: 2 }],
+      objective: [{ block: 0, matrix: C }],
+      constraints: [{ terms: [{ block: 0, entries: tr }], equals: 1 }, { terms: [{ block: 0, entries: [[0, 0, 2], [1, 1, 2]] }], equals: 2 }],
+    });
+    assert.equal(a.status, 'optimal');
+    assert.ok(Math.abs(a.primalObjective - 1) < 1e-7);
+    assert.ok(a.dependentConstraints >= 1, 'the dependent row is reported');
+  });
+});
+
 describe('SDP solver: progress and cancellation (common practice, no published source)', () => {
   it('reports every iteration and stops with status cancelled and the last iterate when asked', () => {
     const edges: [number, number][] = [[0, 1], [1, 2], [2, 3], [3, 4], [4, 0]];
