@@ -1,0 +1,381 @@
+/**
+ * Guesswork: the least expected (number of guesses)^k needed to find the value of a classical variable
+ * X by asking "is it x?" one value at a time, without and with quantum side information.
+ *
+ * WITHOUT SIDE INFORMATION (Massey 1994, ISIT; Arikan 1996, IEEE Trans. Inf. Theory 42, 99): guessing
+ * in order of decreasing probability is optimal for every moment k > 0 (rearrangement: the positions
+ * 1 < 2 < ... are increasing and p_(1) ≥ p_(2) ≥ ...), so
+ *
+ *   G_k(X) = Σ_i i^k p_(i).
+ *
+ * WITH QUANTUM SIDE INFORMATION (ensemble {p_x, ρ_x}): the guesser measures B with a POVM whose
+ * outcomes are guessing orders g (permutations of the alphabet), then guesses in the order g:
+ *
+ *   G_k(X|B) = min { Σ_g Tr M_g C_g : M_g ⪰ 0, Σ_g M_g = 1 },   C_g = Σ_x p_x (pos_g(x))^k ρ_x     (primal)
+ *            = max { Tr Y : Y ⪯ C_g for every order g }                                            (dual)
+ *
+ * (Hanson, Katariya, Leditzky & Wilde, "Guesswork with quantum side information", IEEE Trans. Inf.
+ * Theory 68 (2022) — formulation recalled from memory.) Both problems are strictly feasible (M_g = 1/N,
+ * Y = −c·1), so strong duality holds and the optimum is attained.
+ *
+ * Method: the primal is handed to rhosigma's own interior-point solver (src/sdp) with one Hermitian
+ * d×d block per order and d² real equality rows for Σ_g M_g = 1. Two checkable bounds are returned
+ * beside the solver's objectives:
+ *   upper: orders whose element has weight Tr M_g / d above `weightTolerance` are kept, renormalised
+ *          (M'_g = G^{−1/2} M_g G^{−1/2}, G = Σ_kept M_g) into a POVM up to rounding; its cost
+ *          Σ Tr M'_g C_g is achieved by that (returned) strategy.
+ *   lower: Y is rebuilt from the multipliers; with ε = max_g max(0, −λ_min(C_g − Y)), Y − ε·1 is dual
+ *          feasible, so G_k(X|B) ≥ Tr Y − d·ε (weak duality).
+ * Both are floating-point evidence, not proofs. Which orders appear in the strategy is a tolerance
+ * decision (an interior-point iterate gives every order a tiny positive element); the dropped weight
+ * is reported. With ties, the optimal measurement is not unique and the solver returns a mixture.
+ *
+ * REDUCTION: symbols of probability zero never need to be guessed before the others (moving them to
+ * the end shortens every other symbol's position), so only orders of the support are searched, with
+ * the zero-probability symbols appended in increasing index. The search is refused ('too-large')
+ * when the support has more than 6 symbols (720 orders), the side information is larger than
+ * MAX_SIDE_DIMENSION, or (orders × d²) exceeds MAX_SDP_SIZE.
+ *
+ * Deliberately not here: reductions by symmetry of the ensemble, the Rényi-entropy bounds on
+ * guesswork, parsing (src/ops/guesswork-ops.ts). States are validated here too (density matrices of
+ * one size, within the tolerance) because engine callers may bypass the codec.
+ *
+ * Cost: closed form O(n log n). SDP: N = n_support! blocks of size d (real embedding 2d), d²
+ * constraints; each interior-point iteration costs about O(N d⁶) for the Schur complement plus O(d⁶)
+ * to factor it, typically 10–30 iterations; plus N eigendecompositions of d×d matrices.
+ */
+import {
+  CMatrix, add, combine, eigh, hermitianPart, mul, trace, traceOfProductRe, zeros,
+} from '../linalg/index.js';
+import { fromSpectrum } from '../linalg/functions.js';
+import { RhoError } from '../errors.js';
+import { checkNumber, checkProbabilities } from '../quantum/arguments.js';
+import { checkDensityMatrix, DEFAULT_TOLERANCE } from '../quantum/validate.js';
+import {
+  solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpAnswer, type SdpOptions,
+} from '../sdp/index.js';
+
+/** Largest support of X searched over all orders (6! = 720 orders). */
+export const MAX_SUPPORT = 6;
+/** Largest dimension of the side information (the SDP has d² constraints and a d²×d² Schur complement). */
+export const MAX_SIDE_DIMENSION = 32;
+/**
+ * Largest (number of orders) × d² searched: the solve time grows with both (about 10 s at the limit on
+ * one core, e.g. 720 orders with d = 4; 6 orders with d = 32 take about 25 s).
+ */
+export const MAX_SDP_SIZE = 720 * 16;
+/** Default weight Tr M_g / d below which an order is left out of the returned strategy. */
+export const DEFAULT_WEIGHT_TOLERANCE = 1e-7;
+
+export interface ClassicalGuesswork {
+  /** Σ_i i^k p_(i). */
+  value: number;
+  /** The optimal order: symbol indices by decreasing probability (ties: smaller index first). */
+  order: number[];
+  moment: number;
+  /** true when two nonzero probabilities are equal (within the tolerance), so other orders are optimal too. */
+  ties: boolean;
+}
+
+/** Σ_x p_x (position of x in `order`)^k, positions counted from 1. */
+export function orderCost(order: readonly number[], probabilities: readonly number[], moment = 1): number {
+  let s = 0;
+  order.forEach((x, i) => {
+    s += probabilities[x] * Math.pow(i + 1, moment);
+  });
+  return s;
+}
+
+/** All orders (permutations) of the given items, in lexicographic order of positions. */
+export function allOrders<T>(items: readonly T[]): T[][] {
+  if (items.length <= 1) return [items.slice()];
+  const out: T[][] = [];
+  items.forEach((first, i) => {
+    const rest = items.filter((_, j) => j !== i);
+    for (const tail of allOrders(rest)) out.push([first, ...tail]);
+  });
+  return out;
+}
+
+function factorial(n: number): number {
+  let f = 1;
+  for (let i = 2; i <= n; i++) f *= i;
+  return f;
+}
+
+function checkMoment(moment: number): number {
+  return checkNumber(moment, 'moment', { min: 0, minExclusive: true });
+}
+
+/**
+ * Guesswork without side information: guess by decreasing probability (Massey 1994; Arikan 1996).
+ * Probabilities must be nonnegative and sum to 1 within `tol` (entries in [−tol, 0) count as 0).
+ */
+export function guessworkClassical(probabilities: readonly number[], moment = 1, tol = DEFAULT_TOLERANCE): ClassicalGuesswork {
+  checkProbabilities(probabilities, 'probabilities', tol);
+  checkMoment(moment);
+  const p = probabilities.map((x) => Math.max(0, x));
+  const order = p.map((_, i) => i).sort((a, b) => p[b] - p[a] || a - b);
+  let ties = false;
+  for (let i = 1; i < order.length; i++) {
+    const a = p[order[i - 1]];
+    const b = p[order[i]];
+    if (b > 0 && a - b <= tol) ties = true;
+  }
+  return { value: orderCost(order, p, moment), order, moment, ties };
+}
+
+/** One guessing order the measurement can output, with its (renormalised) POVM element. */
+export interface GuessingOrder {
+  /** The order: symbol indices, first guess first (zero-probability symbols appended at the end). */
+  order: number[];
+  /** Probability that the measurement outputs this order: Σ_x p_x Tr M_g ρ_x. */
+  probability: number;
+  /** Tr M_g / d: the element's share of the identity. */
+  weight: number;
+  /** The POVM element M_g (after renormalisation over the kept orders). */
+  element: CMatrix;
+}
+
+export interface GuessworkCertificate {
+  status: SdpAnswer['status'];
+  primalObjective: number;
+  dualObjective: number;
+  /** |primal − dual| and |gap| / (1 + |primal| + |dual|). */
+  gap: number;
+  relativeGap: number;
+  primalResidual: number;
+  dualResidual: number;
+  iterations: number;
+  /** Tr Y − d·ε for the dual point Y shifted into feasibility (weak duality). */
+  lowerBound: number;
+  /** Cost of the returned (renormalised) strategy: achieved by it. */
+  upperBound: number;
+  message?: string;
+}
+
+export interface QuantumGuesswork {
+  /** The solver's primal objective (lies between the bounds up to the residuals). */
+  value: number;
+  moment: number;
+  /** Orders with weight above weightTolerance, largest probability first. */
+  strategy: GuessingOrder[];
+  certificate: GuessworkCertificate;
+  /** The dual operator Y of the solve (Y ⪯ C_g for every order, up to the residuals). */
+  dualOperator: CMatrix;
+  /** Σ Tr M_g / d over the orders left out of the strategy (before renormalisation). */
+  droppedWeight: number;
+  weightTolerance: number;
+  /** Number of orders searched (n_support!). */
+  ordersSearched: number;
+  /** Symbols of probability zero, placed last in every order. */
+  zeroProbabilitySymbols: number[];
+  /** The classical guesswork of X alone, for comparison (G_k(X|B) ≤ G_k(X)). */
+  withoutSideInformation: number;
+  /** Present when the solver stopped short of 'optimal' but close enough to report. */
+  warning?: string;
+}
+
+export interface QuantumGuessworkOptions {
+  /** k, default 1. */
+  moment?: number;
+  /** Validation tolerance for the probabilities and states, default 1e-9. */
+  tolerance?: number;
+  /** Orders with Tr M_g / d at or below this are left out of the strategy (default 1e-7). */
+  weightTolerance?: number;
+  /** Passed to the SDP solver. */
+  sdp?: SdpOptions;
+}
+
+/** Y = Σ_i y_i A_i for the coordinate rows of Σ_g M_g = 1 (matrixCoordinates order, coordinateEntry convention). */
+function coordinateOperator(d: number, y: readonly number[]): CMatrix {
+  const z = zeros(d, d);
+  matrixCoordinates(d, true).forEach((c, k) => {
+    const v = y[k];
+    if (c.i === c.j) z.re[c.i * d + c.i] += v;
+    else if (c.part === 're') {
+      // entry [i, j, 1/2] mirrored: A_ij = A_ji = 1/2
+      z.re[c.i * d + c.j] += v / 2;
+      z.re[c.j * d + c.i] += v / 2;
+    } else {
+      // entry [i, j, 0, 1/2] mirrored: A_ij = i/2, A_ji = −i/2
+      z.im[c.i * d + c.j] += v / 2;
+      z.im[c.j * d + c.i] -= v / 2;
+    }
+  });
+  return z;
+}
+
+function minEigenvalue(h: CMatrix): number {
+  return eigh(hermitianPart(h), { vectors: false }).values[0];
+}
+
+/** G^{−1/2} M G^{−1/2} for each M, G = Σ M (pseudo-inverse root on G's support). */
+function renormalise(elements: readonly CMatrix[]): CMatrix[] {
+  if (elements.length === 0) return [];
+  const d = elements[0].rows;
+  let g = zeros(d, d);
+  for (const m of elements) g = add(g, m);
+  const e = eigh(hermitianPart(g));
+  const top = Math.max(...e.values, 0);
+  const root = fromSpectrum(e.vectors!, Array.from(e.values, (v) => (v > 1e-14 * top ? 1 / Math.sqrt(v) : 0)));
+  return elements.map((m) => hermitianPart(mul(mul(root, m), root)));
+}
+
+function readStates(states: readonly CMatrix[], count: number, tol: number): CMatrix[] {
+  if (states.length !== count) {
+    throw new RhoError('dimension-mismatch', `There are ${count} probabilities but ${states.length} states; give one state per symbol.`, 'states');
+  }
+  const d = states[0].rows;
+  states.forEach((s, x) => {
+    if (s.rows !== d || s.cols !== d) {
+      throw new RhoError('dimension-mismatch', `State ${x} is ${s.rows}×${s.cols}, state 0 is ${d}×${d}; all states must have one size.`, `states[${x}]`);
+    }
+    checkDensityMatrix(s, tol, `states[${x}]`);
+  });
+  if (d > MAX_SIDE_DIMENSION) {
+    throw new RhoError('too-large', `The side information has dimension ${d}, above the limit of ${MAX_SIDE_DIMENSION} for the guesswork SDP.`, 'states', { size: d, limit: MAX_SIDE_DIMENSION });
+  }
+  return states.map((s) => hermitianPart(s));
+}
+
+/**
+ * Guesswork of X given quantum side information B, for the ensemble {p_x, ρ_x}, by the SDP over
+ * POVMs indexed by guessing orders (see the module comment). Throws 'too-large' for a support of more
+ * than MAX_SUPPORT symbols, 'solver-failed' when the solver does not reach a usable answer.
+ */
+export function guessworkWithSideInformation(
+  probabilities: readonly number[],
+  states: readonly CMatrix[],
+  options: QuantumGuessworkOptions = {},
+): QuantumGuesswork {
+  const tol = options.tolerance ?? DEFAULT_TOLERANCE;
+  const moment = checkMoment(options.moment ?? 1);
+  const weightTolerance = options.weightTolerance ?? DEFAULT_WEIGHT_TOLERANCE;
+  checkNumber(weightTolerance, 'weightTolerance', { min: 0, max: 1 });
+  checkProbabilities(probabilities, 'probabilities', tol);
+  const rho = readStates(states, probabilities.length, tol);
+  const d = rho[0].rows;
+  const p = probabilities.map((x) => Math.max(0, x));
+
+  const support = p.map((_, x) => x).filter((x) => p[x] > 0);
+  const zeroSymbols = p.map((_, x) => x).filter((x) => p[x] === 0);
+  if (support.length > MAX_SUPPORT) {
+    throw new RhoError(
+      'too-large',
+      `X has ${support.length} symbols of nonzero probability; the guesswork SDP searches all orders and is limited to ${MAX_SUPPORT} (${720} orders).`,
+      'probabilities',
+      { size: support.length, limit: MAX_SUPPORT },
+    );
+  }
+  const count = factorial(support.length);
+  if (count * d * d > MAX_SDP_SIZE) {
+    throw new RhoError(
+      'too-large',
+      `The guesswork SDP would have ${count} blocks of size ${d} (orders × d² = ${count * d * d}), above the limit of ${MAX_SDP_SIZE}.`,
+      'states',
+      { size: count * d * d, limit: MAX_SDP_SIZE },
+    );
+  }
+  const orders = allOrders(support).map((o) => [...o, ...zeroSymbols]);
+  // C_g = Σ_x p_x pos_g(x)^k ρ_x (zero-probability symbols contribute nothing).
+  const costs = orders.map((o) => {
+    const w: number[] = [];
+    const mats: CMatrix[] = [];
+    o.forEach((x, i) => {
+      if (p[x] > 0) {
+        w.push(p[x] * Math.pow(i + 1, moment));
+        mats.push(rho[x]);
+      }
+    });
+    return hermitianPart(combine(w, mats));
+  });
+
+  const n = orders.length;
+  const constraints: Constraint[] = matrixCoordinates(d, true).map((c) => {
+    const e = coordinateEntry(c.i, c.j, c.part);
+    const terms: BlockTerm[] = orders.map((_, g) => ({ block: g, entries: [e] }));
+    return { terms, equals: c.i === c.j ? 1 : 0, label: `sum of POVM elements (${c.i}, ${c.j}) ${c.part}` };
+  });
+  const answer = solveSdp(
+    {
+      cones: orders.map(() => ({ kind: 'hermitian' as const, size: d })),
+      objective: costs.map((c, g) => ({ block: g, matrix: c })),
+      constraints,
+    },
+    options.sdp,
+  );
+  const warning = acceptAnswer(answer);
+
+  // Lower bound from the dual: Y − ε·1 is feasible.
+  const y = coordinateOperator(d, answer.y);
+  let eps = 0;
+  for (const c of costs) eps = Math.max(eps, -minEigenvalue(combine([1, -1], [c, y])));
+  const lowerBound = trace(y).re - d * eps;
+
+  // The strategy: orders of non-negligible weight, renormalised into a POVM.
+  const elements = answer.x as CMatrix[];
+  const weights = elements.map((m) => trace(m).re / d);
+  const kept: number[] = [];
+  let dropped = 0;
+  weights.forEach((w, g) => {
+    if (w > weightTolerance) kept.push(g);
+    else dropped += Math.max(0, w);
+  });
+  const povm = renormalise(kept.map((g) => elements[g]));
+  const average = combine(p, rho);
+  let upperBound = 0;
+  const strategy: GuessingOrder[] = kept.map((g, k) => {
+    upperBound += traceOfProductRe(povm[k], costs[g]);
+    return {
+      order: orders[g],
+      probability: traceOfProductRe(povm[k], average),
+      weight: trace(povm[k]).re / d,
+      element: povm[k],
+    };
+  });
+  strategy.sort((a, b) => b.probability - a.probability);
+
+  const certificate: GuessworkCertificate = {
+    status: answer.status,
+    primalObjective: answer.primalObjective,
+    dualObjective: answer.dualObjective,
+    gap: Math.abs(answer.gap),
+    relativeGap: answer.relativeGap,
+    primalResidual: answer.primalResidual,
+    dualResidual: answer.dualResidual,
+    iterations: answer.iterations,
+    lowerBound,
+    upperBound,
+  };
+  if (answer.message) certificate.message = answer.message;
+  const out: QuantumGuesswork = {
+    value: answer.primalObjective,
+    moment,
+    strategy,
+    certificate,
+    dualOperator: y,
+    droppedWeight: dropped,
+    weightTolerance,
+    ordersSearched: n,
+    zeroProbabilitySymbols: zeroSymbols,
+    withoutSideInformation: guessworkClassical(p, moment, tol).value,
+  };
+  if (warning) out.warning = warning;
+  return out;
+}
+
+/** 'optimal' passes; 'inaccurate'/'iteration-limit' within 1e-5 pass with a warning; anything else throws. */
+function acceptAnswer(answer: SdpAnswer): string | undefined {
+  if (answer.status === 'optimal') return undefined;
+  const loose = Math.max(answer.relativeGap, answer.primalResidual, answer.dualResidual);
+  if ((answer.status === 'inaccurate' || answer.status === 'iteration-limit') && loose <= 1e-5) {
+    return `The SDP solver stopped with status "${answer.status}" (relative gap ${answer.relativeGap.toExponential(2)}, residuals ${answer.primalResidual.toExponential(2)} / ${answer.dualResidual.toExponential(2)}); the value is accurate to about that much.`;
+  }
+  throw new RhoError(
+    'solver-failed',
+    `The guesswork SDP did not solve: status "${answer.status}"${answer.message ? ` (${answer.message})` : ''}.`,
+    undefined,
+    { status: answer.status, relativeGap: answer.relativeGap, primalResidual: answer.primalResidual, dualResidual: answer.dualResidual },
+  );
+}
