@@ -1,0 +1,261 @@
+/**
+ * Guessing probability of a classical variable X from quantum side information B: for an ensemble
+ * {p_x, ρ_x},
+ *
+ *   p_guess(X|B) = max { Σ_x p_x Tr M_x ρ_x : M_x ⪰ 0, Σ_x M_x = 1 }            (primal)
+ *                = min { Tr Y : Y ⪰ p_x ρ_x for every x }                           (dual)
+ *
+ * (Holevo 1973, J. Multivariate Anal. 3, 337; Yuen, Kennedy & Lax 1975, IEEE Trans. Inf. Theory 21,
+ * 125). At the optimum Y = Σ_x p_x ρ_x M_x, and (Y − p_x ρ_x) M_x = 0 for every x (the Holevo /
+ * Yuen–Kennedy–Lax optimality conditions).
+ *
+ * Method: the primal is handed to rhosigma's own interior-point solver (src/sdp) with one Hermitian
+ * d×d block per M_x and d² real equality rows for Σ_x M_x = 1. The dual operator Y is rebuilt from
+ * the solver's multipliers. Because an interior-point iterate satisfies the constraints only to its
+ * residuals, two checkable bounds are returned beside the solver's objectives:
+ *   lower: the measurement is renormalised, M'_x = G^{−1/2} M_x G^{−1/2} with G = Σ_x M_x, which is a
+ *          POVM up to rounding, and Σ_x p_x Tr M'_x ρ_x is a value that measurement achieves;
+ *   upper: with ε = max_x max(0, −λ_min(Y − p_x ρ_x)), Y + ε·1 is dual feasible, so
+ *          p_guess ≤ Tr Y + d·ε (weak duality).
+ * Both are floating-point evidence, not proofs (eigenvalues carry rounding of order 1e-15·‖Y‖).
+ *
+ * Also here (shared by the other SDP-based quantities of src/oneshot and src/recovery): the
+ * certificate every SDP answer carries, and a helper that writes Re Σ c_kl X_kl as solver entries.
+ *
+ * Deliberately not here: the closed form for two states (Helstrom) — the tests compare against it —,
+ * guesswork, and input validation beyond shapes and probabilities (the ops layer validates states).
+ *
+ * Cost: the SDP has n blocks of size d and d² constraints; each interior-point iteration is about
+ * O(n d⁶ + d⁶) for the Schur complement, typically 10–30 iterations. Plus n eigendecompositions.
+ */
+import {
+  CMatrix, add, eigh, identity, mul, scale, sub, trace, traceOfProductRe, zeros, hermitianPart,
+} from '../linalg/index.js';
+import { fromSpectrum } from '../linalg/functions.js';
+import { RhoError } from '../errors.js';
+import { checkProbabilities } from '../quantum/arguments.js';
+import {
+  solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type Entry, type SdpAnswer,
+  type SdpOptions,
+} from '../sdp/index.js';
+
+/** What every SDP-based answer carries about the solve (DESIGN.md: "Every SDP-based answer carries its certificate"). */
+export interface SolverCertificate {
+  status: SdpAnswer['status'];
+  /** Objectives in the sign of the quantity (maximisations are reported as maximisations). */
+  primalObjective: number;
+  dualObjective: number;
+  /** |primal − dual| and |gap| / (1 + |primal| + |dual|). */
+  gap: number;
+  relativeGap: number;
+  /** Relative residuals of the primal and dual equality constraints, as the solver reports them. */
+  primalResidual: number;
+  dualResidual: number;
+  iterations: number;
+  message?: string;
+}
+
+/** The certificate of a solver answer; `negate` for maximisations written as minimisations. */
+export function solverCertificate(answer: SdpAnswer, negate: boolean): SolverCertificate {
+  const sign = negate ? -1 : 1;
+  const c: SolverCertificate = {
+    status: answer.status,
+    primalObjective: sign * answer.primalObjective,
+    dualObjective: sign * answer.dualObjective,
+    gap: Math.abs(answer.gap),
+    relativeGap: answer.relativeGap,
+    primalResidual: answer.primalResidual,
+    dualResidual: answer.dualResidual,
+    iterations: answer.iterations,
+  };
+  if (answer.message) c.message = answer.message;
+  return c;
+}
+
+/**
+ * Throws 'solver-failed' unless the answer is usable: status 'optimal', or 'inaccurate' /
+ * 'iteration-limit' with relative gap and residuals below 1e-5 (then the caller reports a warning).
+ * Returns the warning text, or undefined when the status is 'optimal'.
+ */
+export function acceptSdpAnswer(answer: SdpAnswer, what: string): string | undefined {
+  if (answer.status === 'optimal') return undefined;
+  const loose = Math.max(answer.relativeGap, answer.primalResidual, answer.dualResidual);
+  if ((answer.status === 'inaccurate' || answer.status === 'iteration-limit') && loose <= 1e-5) {
+    return `The SDP solver stopped with status "${answer.status}" (relative gap ${answer.relativeGap.toExponential(2)}, residuals ${answer.primalResidual.toExponential(2)} / ${answer.dualResidual.toExponential(2)}); the value is accurate to about that much.`;
+  }
+  throw new RhoError(
+    'solver-failed',
+    `The SDP for ${what} did not solve: status "${answer.status}"${answer.message ? ` (${answer.message})` : ''}.`,
+    undefined,
+    { status: answer.status, relativeGap: answer.relativeGap, primalResidual: answer.primalResidual, dualResidual: answer.dualResidual },
+  );
+}
+
+/**
+ * Solver entries E (on one block) with ⟨E, X⟩ = Re Σ c·X_kl over the given terms [k, l, c_re, c_im].
+ * Uses the entry convention of src/sdp/types.ts: an off-diagonal entry [r, s, v] stands for A_rs = v
+ * and A_sr = conj v, so ⟨A, X⟩ = 2 Re(conj(v) X_rs); hence v = conj(c)/2 at (k, l) when k < l, and
+ * v = c/2 at (l, k) when k > l (X_kl = conj X_lk); on the diagonal v = Re c.
+ */
+export function realPartEntries(terms: readonly (readonly [number, number, number, number])[]): Entry[] {
+  const out: Entry[] = [];
+  for (const [k, l, cr, ci] of terms) {
+    if (cr === 0 && ci === 0) continue;
+    if (k === l) {
+      if (cr !== 0) out.push([k, k, cr]);
+    } else if (k < l) {
+      out.push([k, l, cr / 2, -ci / 2]);
+    } else {
+      out.push([l, k, cr / 2, ci / 2]);
+    }
+  }
+  return out;
+}
+
+/** Σ_i y_i A_i for constraints that are the real coordinates of a d×d matrix (matrixCoordinates order). */
+export function coordinateCombination(d: number, y: readonly number[], offset = 0): CMatrix {
+  const z = zeros(d, d);
+  let k = offset;
+  for (const c of matrixCoordinates(d, true)) {
+    const v = y[k++];
+    if (c.i === c.j) {
+      z.re[c.i * d + c.i] += v;
+    } else if (c.part === 're') {
+      z.re[c.i * d + c.j] += v / 2;
+      z.re[c.j * d + c.i] += v / 2;
+    } else {
+      z.im[c.i * d + c.j] += v / 2;
+      z.im[c.j * d + c.i] -= v / 2;
+    }
+  }
+  return z;
+}
+
+/** Smallest eigenvalue of a Hermitian matrix (its Hermitian part, to absorb rounding). */
+export function minEigenvalue(h: CMatrix): number {
+  return eigh(hermitianPart(h), { vectors: false }).values[0];
+}
+
+/** G^{−1/2} M G^{−1/2} for every M, with G = Σ M (on G's support; G is close to 1 in practice). */
+export function renormalisePovm(elements: readonly CMatrix[]): CMatrix[] {
+  let g = elements[0];
+  for (let k = 1; k < elements.length; k++) g = add(g, elements[k]);
+  const { values, vectors } = eigh(hermitianPart(g), { vectors: true });
+  const top = values[values.length - 1];
+  const inv = fromSpectrum(vectors!, Array.from(values, (v) => (v > 1e-14 * top ? 1 / Math.sqrt(v) : 0)));
+  return elements.map((m) => hermitianPart(mul(mul(inv, m), inv)));
+}
+
+export interface GuessingResult {
+  /** p_guess from the solver's primal objective. */
+  value: number;
+  /** The optimal POVM, renormalised so that Σ_x M_x = 1 up to rounding (one element per state). */
+  measurement: CMatrix[];
+  /** The dual operator Y (Y ⪰ p_x ρ_x up to `dualViolation`; Tr Y = the dual objective). */
+  dual: CMatrix;
+  certificate: SolverCertificate;
+  /** Checkable bracket: `lower` achieved by `measurement`, `upper` = Tr Y + d·dualViolation. */
+  bounds: { lower: number; upper: number };
+  diagnostics: {
+    /** ‖Σ_x M_x − 1‖_F of the solver's measurement before renormalisation. */
+    povmDefect: number;
+    /** max_x max(0, −λ_min(Y − p_x ρ_x)). */
+    dualViolation: number;
+  };
+  /** Present when the solver's status was not 'optimal' but close enough to report. */
+  warning?: string;
+}
+
+export interface GuessingOptions {
+  /** Tolerance for the probability vector (entries ≥ −tol, sum within tol of 1). Default 1e-9. */
+  tolerance?: number;
+  /** Passed to the SDP solver. */
+  sdp?: SdpOptions;
+}
+
+/** Checks an ensemble: probabilities a distribution, states square and of one size. Returns d. */
+export function checkEnsemble(probabilities: readonly number[], states: readonly CMatrix[], tol: number): number {
+  checkProbabilities(probabilities, 'probabilities', tol);
+  if (states.length !== probabilities.length) {
+    throw new RhoError(
+      'dimension-mismatch',
+      `There are ${probabilities.length} probabilities but ${states.length} states; give one probability per state.`,
+      'states',
+    );
+  }
+  const d = states[0].rows;
+  states.forEach((s, k) => {
+    if (s.rows !== s.cols) throw new RhoError('dimension-mismatch', `State ${k} is not square (${s.rows}×${s.cols}).`, `states[${k}]`);
+    if (s.rows !== d) {
+      throw new RhoError('dimension-mismatch', `State ${k} is ${s.rows}×${s.rows} but state 0 is ${d}×${d}; all states must act on one space.`, `states[${k}]`);
+    }
+  });
+  return d;
+}
+
+/**
+ * p_guess(X|B) of the ensemble {p_x, ρ_x} (ρ_x positive semidefinite, one size), with the optimal
+ * measurement, the dual operator and the certificate. Probabilities are checked (nonnegative, sum 1
+ * within `tolerance`); the states are taken as given.
+ */
+export function guessingProbability(
+  probabilities: readonly number[],
+  states: readonly CMatrix[],
+  options: GuessingOptions = {},
+): GuessingResult {
+  const tol = options.tolerance ?? 1e-9;
+  const d = checkEnsemble(probabilities, states, tol);
+  const n = states.length;
+  const weighted = states.map((s, x) => hermitianPart(scale(s, Math.max(probabilities[x], 0))));
+
+  const cones = weighted.map(() => ({ kind: 'hermitian' as const, size: d }));
+  const objective: BlockTerm[] = weighted.map((w, x) => ({ block: x, matrix: scale(w, -1) }));
+  const constraints: Constraint[] = [];
+  for (const c of matrixCoordinates(d, true)) {
+    const e = coordinateEntry(c.i, c.j, c.part);
+    constraints.push({
+      terms: weighted.map((_, x) => ({ block: x, entries: [e] })),
+      equals: c.i === c.j ? 1 : 0,
+      label: `Σ_x M_x = 1 (${c.i}, ${c.j}) ${c.part}`,
+    });
+  }
+  const answer = solveSdp({ cones, objective, constraints }, options.sdp);
+  const warning = acceptSdpAnswer(answer, 'the guessing probability');
+
+  const raw = answer.x.map((m) => hermitianPart(m as CMatrix));
+  let sum = raw[0];
+  for (let x = 1; x < n; x++) sum = add(sum, raw[x]);
+  const defect = sub(sum, identity(d));
+  let povmDefect = 0;
+  for (let k = 0; k < defect.re.length; k++) povmDefect += defect.re[k] ** 2 + defect.im[k] ** 2;
+  povmDefect = Math.sqrt(povmDefect);
+  const measurement = renormalisePovm(raw);
+
+  // The dual: S_x = −p_x ρ_x − Z with Z = Σ_i y_i A_i, so Y = −Z satisfies Y − p_x ρ_x = S_x ⪰ 0.
+  const dual = scale(coordinateCombination(d, answer.y), -1);
+  let dualViolation = 0;
+  for (const w of weighted) dualViolation = Math.max(dualViolation, -minEigenvalue(sub(dual, w)));
+  let lower = 0;
+  for (let x = 0; x < n; x++) lower += traceOfProductRe(measurement[x], weighted[x]);
+  const upper = trace(dual).re + d * dualViolation;
+
+  const result: GuessingResult = {
+    value: -answer.primalObjective,
+    measurement,
+    dual,
+    certificate: solverCertificate(answer, true),
+    bounds: { lower, upper },
+    diagnostics: { povmDefect, dualViolation },
+  };
+  if (warning) result.warning = warning;
+  return result;
+}
+
+/** Σ_x p_x ρ_x M_x, the operator that equals Y at the optimum (Holevo / Yuen–Kennedy–Lax). */
+export function holevoOperator(probabilities: readonly number[], states: readonly CMatrix[], measurement: readonly CMatrix[]): CMatrix {
+  let acc = zeros(states[0].rows, states[0].rows);
+  states.forEach((s, x) => {
+    acc = add(acc, scale(mul(s, measurement[x]), probabilities[x]));
+  });
+  return acc;
+}
