@@ -673,6 +673,40 @@ def gen_channels(g, C):
               jmat(out))
 
 
+def gen_extras(g, C):
+    """Orders next to 1 (where 1/(alpha-1) meets a vanishing logarithm), a large sandwiched order, the
+    Hartley entropy (alpha = 0: log rank, rank-deficient by construction) and a numeric log base.
+    Drawn after every other case so the earlier cases of a seed do not move."""
+    for d in ([2] if C.small else [2, 3, 5]):
+        for label, rho, sigma in pair_kinds(g, d)[:3]:
+            det = f'd={d}, {label}'
+            for a in [0.999, 1.001]:
+                C.add('divergence/petz', f'alpha={a}, {det}', div_request('petz', rho, sigma, alpha=a),
+                      jnum(petz(rho, sigma, a)))
+                C.add('divergence/sandwiched', f'alpha={a}, {det}', div_request('sandwiched', rho, sigma, alpha=a),
+                      jnum(sandwiched(rho, sigma, a)))
+                C.add('divergence/alpha-z', f'alpha={a}, z=0.8, {det}',
+                      div_request('alpha-z', rho, sigma, alpha=a, z=0.8), jnum(alpha_z(rho, sigma, a, 0.8)))
+                if supp_inside(rho, sigma):
+                    C.add('divergence/geometric', f'alpha={a}, {det}',
+                          div_request('geometric', rho, sigma, alpha=a), jnum(geometric(rho, sigma, a)))
+            C.add('divergence/sandwiched', f'alpha=10, {det}', div_request('sandwiched', rho, sigma, alpha=10),
+                  jnum(sandwiched(rho, sigma, 10)))
+    for d, r in ([(3, 2)] if C.small else [(3, 2), (6, 6), (8, 3)]):
+        rho = g.state(d, r)
+        assert rank(rho) == r
+        C.add('entropy', f'alpha=0 (log rank) d={d} rank {r}', {'op': 'entropy', 'rho': jstate(rho), 'alpha': 0},
+              jnum(np.log2(r)))
+        for a in [0.999, 1.001]:
+            C.add('entropy', f'alpha={a} d={d} rank {r}', {'op': 'entropy', 'rho': jstate(rho), 'alpha': a},
+                  jnum(entropy(rho, a)))
+    rho, sigma = g.state(4), g.state(4, 3)
+    C.add('divergence/umegaki', 'd=4, rho full rank, sigma rank 3, base 10',
+          div_request('umegaki', rho, sigma, base=10), 'Infinity')
+    C.add('divergence/petz', 'alpha=0.5, d=4, rho full rank, sigma rank 3, base 10',
+          div_request('petz', rho, sigma, alpha=0.5, base=10), jnum(petz(rho, sigma, 0.5) * LN2 / np.log(10)))
+
+
 def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.split('\n')[0])
     ap.add_argument('--seed', type=int, required=True)
@@ -688,6 +722,7 @@ def main(argv=None):
     gen_fidelity_td(g, C)
     gen_cmi(g, C)
     gen_channels(g, C)
+    gen_extras(g, C)
     doc = {
         'generator': f'numpy {np.__version__} / scipy {scipy.__version__}',
         'seed': args.seed,
