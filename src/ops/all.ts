@@ -6,3 +6,4 @@ import './matrix-ops.js';
 import './channel-ops.js';
 import './distance-ops.js';
 import './entropy-ops.js';
+import './guesswork-ops.js';
