@@ -1,0 +1,146 @@
+// Conditional min- and max-entropy (König, Renner & Schaffner, IEEE Trans. Inf. Theory 55, 4337 (2009))
+// as SDPs: against cvxopt, published closed forms and the min/max duality for pure states.
+import { describe, it } from 'node:test';
+import assert from 'node:assert/strict';
+import {
+  eigvalsh, kron, marginal, mul, adjoint, sub, trace, identity,
+} from '../../src/linalg/index.js';
+import { RhoError } from '../../src/errors.js';
+import { conditionalMinEntropy, conditionalMaxEntropy } from '../../src/oneshot/conditional-min-max.js';
+import { conditionalEntropy } from '../../src/quantities/conditional.js';
+import { maximallyEntangled } from '../../src/quantum/index.js';
+import { randomComplex, randomDensity, rng } from '../helpers/random.js';
+import { assertClose, committedCases, liveCases, matrixOf, origin, type OneShotReference } from './oneshot-reference.js';
+
+function checkMin(ref: OneShotReference, label: string): void {
+  for (const c of ref.cases) {
+    const where = origin(ref, c, label);
+    assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
+    const ans = conditionalMinEntropy(matrixOf(c.rho), c.dims!, [0], [1]);
+    assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assertClose(ans.value, c.value, 1e-6, where);
+    assertClose(trace(ans.sigma).re, c.optimum, 1e-6, `${where} (Tr σ_B)`);
+  }
+}
+
+function checkMax(ref: OneShotReference, label: string): void {
+  for (const c of ref.cases) {
+    const where = origin(ref, c, label);
+    assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
+    const ans = conditionalMaxEntropy(matrixOf(c.rho), c.dims!, [0], [1]);
+    assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assertClose(ans.value, c.value, 1e-6, where);
+    assertClose(ans.rootFidelity, c.optimum, 1e-6, `${where} (√F)`);
+  }
+}
+
+/** A random pure state on the given dims as a density matrix. */
+function randomPure(n: number, r: () => number) {
+  const v = randomComplex(n, 1, r);
+  const p = mul(v, adjoint(v));
+  const t = trace(p).re;
+  return { ...p, re: p.re.map((x) => x / t), im: p.im.map((x) => x / t) };
+}
+
+describe('conditional min-entropy', () => {
+  it('matches cvxopt.solvers.sdp (definition form min Tr σ_B, I_A⊗σ_B ⪰ ρ_AB) on the committed random instances (1e-6 relative)', () => {
+    checkMin(committedCases('conditional-min-entropy'), 'committed');
+  });
+
+  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 12)', (t) => {
+    const ref = liveCases('conditional-min-entropy', 12, 2, t);
+    if (ref) checkMin(ref, 'live');
+  });
+
+  it('is −log d for a maximally entangled state (König, Renner & Schaffner 2009)', () => {
+    for (const d of [2, 3]) {
+      const ans = conditionalMinEntropy(maximallyEntangled(d).matrix, [d, d], [0], [1]);
+      assertClose(ans.value, -Math.log2(d), 1e-7, `d=${d}`);
+    }
+  });
+
+  it('is −log λ_max(ρ_A) for a product state ρ_A ⊗ ρ_B, in either order of the subsystems (KRS 2009; Tomamichel 2016)', () => {
+    const r = rng(51);
+    for (const [dA, dB] of [[2, 2], [3, 2], [2, 3]]) {
+      const rhoA = randomDensity(dA, r);
+      const rhoB = randomDensity(dB, r);
+      const expected = -Math.log2(Math.max(...eigvalsh(rhoA)));
+      assertClose(conditionalMinEntropy(kron(rhoA, rhoB), [dA, dB], [0], [1]).value, expected, 1e-7, `${dA}x${dB}`);
+      assertClose(conditionalMinEntropy(kron(rhoB, rhoA), [dB, dA], [1], [0]).value, expected, 1e-7, `${dB}x${dA} swapped`);
+    }
+  });
+
+  it('returns a feasible σ_B with Tr σ_B = 2^{−H_min} and strong duality (SDP duality, common practice)', () => {
+    const r = rng(52);
+    for (const [dA, dB] of [[2, 2], [2, 3], [3, 2]]) {
+      const rho = randomDensity(dA * dB, r);
+      const ans = conditionalMinEntropy(rho, [dA, dB], [0], [1]);
+      const c = ans.certificate;
+      assert.ok(c.relativeGap <= 1e-7 && c.primalResidual <= 1e-7 && c.dualResidual <= 1e-7, JSON.stringify(c));
+      const slack = eigvalsh(sub(kron(identity(dA), ans.sigma), rho));
+      assert.ok(slack[0] >= -1e-7, `I⊗σ − ρ has eigenvalue ${slack[0]}`);
+      assertClose(trace(ans.sigma).re, 2 ** -ans.value, 1e-7, 'Tr σ_B');
+      assertClose(traceProduct(rho, ans.dualOperator), 2 ** -ans.value, 1e-7, 'Tr ρX');
+    }
+  });
+
+  it('refuses overlapping groups and an empty A', () => {
+    const rho = maximallyEntangled(2).matrix;
+    assert.throws(() => conditionalMinEntropy(rho, [2, 2], [0], [0]), (e: unknown) => e instanceof RhoError && e.code === 'invalid-argument');
+    assert.throws(() => conditionalMinEntropy(rho, [2, 2], [], [1]), (e: unknown) => e instanceof RhoError && e.code === 'invalid-argument');
+  });
+});
+
+function traceProduct(a: ReturnType<typeof identity>, b: ReturnType<typeof identity>): number {
+  return trace(mul(a, b)).re;
+}
+
+describe('conditional max-entropy', () => {
+  it('matches cvxopt.solvers.sdp (uncompressed fidelity SDP) on the committed random instances (1e-6 relative)', () => {
+    checkMax(committedCases('conditional-max-entropy'), 'committed');
+  });
+
+  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 13)', (t) => {
+    const ref = liveCases('conditional-max-entropy', 13, 2, t);
+    if (ref) checkMax(ref, 'live');
+  });
+
+  it('satisfies the duality H_max(A|B)_ρ = −H_min(A|C)_ρ for a random pure ρ_ABC (KRS 2009, Theorem 3)', () => {
+    const r = rng(53);
+    for (const dims of [[2, 2, 2], [2, 3, 2]]) {
+      const n = dims[0] * dims[1] * dims[2];
+      const psi = randomPure(n, r);
+      const hmax = conditionalMaxEntropy(psi, dims, [0], [1]).value;
+      const hmin = conditionalMinEntropy(psi, dims, [0], [2]).value;
+      assertClose(hmax, -hmin, 1e-6, `dims ${dims}`);
+    }
+  });
+
+  it('is −log d for a maximally entangled state (KRS 2009, via the duality with a trivial purifying system)', () => {
+    for (const d of [2, 3]) {
+      const ans = conditionalMaxEntropy(maximallyEntangled(d).matrix, [d, d], [0], [1]);
+      assertClose(ans.value, -Math.log2(d), 1e-7, `d=${d}`);
+    }
+  });
+
+  it('without side information is the Rényi-1/2 entropy 2 log Tr √ρ_A (KRS 2009)', () => {
+    const r = rng(54);
+    const rho = randomDensity(6, r);
+    const rhoA = marginal(rho, [3, 2], [0]);
+    const expected = 2 * Math.log2([...eigvalsh(rhoA)].reduce((s, x) => s + Math.sqrt(Math.max(0, x)), 0));
+    assertClose(conditionalMaxEntropy(rho, [3, 2], [0], []).value, expected, 1e-7, 'H_max(A)');
+  });
+
+  it('bounds the conditional von Neumann entropy: H_min(A|B) ≤ H(A|B) ≤ H_max(A|B) (Tomamichel 2016, ordering of entropies)', () => {
+    const r = rng(55);
+    for (const [dA, dB] of [[2, 2], [2, 3]]) {
+      const rho = randomDensity(dA * dB, r);
+      const h = conditionalEntropy(rho, [dA, dB], [0], [1]).value;
+      const hmin = conditionalMinEntropy(rho, [dA, dB], [0], [1]).value;
+      const hmax = conditionalMaxEntropy(rho, [dA, dB], [0], [1]);
+      assert.ok(hmin <= h + 1e-7 && h <= hmax.value + 1e-7, `${hmin} ≤ ${h} ≤ ${hmax.value}`);
+      assertClose(trace(hmax.sigma).re, 1, 1e-7, 'σ_B is a state');
+      assert.ok(eigvalsh(hmax.sigma)[0] >= -1e-7);
+    }
+  });
+});
