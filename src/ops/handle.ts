@@ -23,6 +23,16 @@ import { writeMatrix } from './codec.js';
 // ajv is CommonJS; under NodeNext its default export arrives as the module object.
 const Ajv2020 = ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
 
+/** Every error code an answer can carry (kept equal to ErrorCode in src/errors.ts by the type check below). */
+export const ERROR_CODES = [
+  'not-hermitian', 'not-positive', 'trace-not-one', 'dimension-mismatch', 'parse-error', 'unknown-op', 'unknown-family',
+  'invalid-argument', 'missing-argument', 'too-large', 'not-completely-positive', 'not-trace-preserving', 'solver-failed',
+  'internal-error',
+] as const satisfies readonly ErrorCode[];
+// Compile-time: fails if src/errors.ts gains a code that is not listed above.
+const _allCodesListed: Exclude<ErrorCode, (typeof ERROR_CODES)[number]> extends never ? true : never = true;
+void _allCodesListed;
+
 /** Default logarithm base (bits). */
 export const DEFAULT_BASE = 2;
 
