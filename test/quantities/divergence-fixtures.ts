@@ -23,7 +23,8 @@ export function randomProbabilities(n: number, r: () => number, zeroAt: number[]
  * K_i ← K_i S^{-1/2} with S = Σ K_i* K_i. Returns the action X ↦ Σ K_i X K_i*, built here from the Kraus operators.
  */
 export function randomChannel(dIn: number, dOut: number, k: number, r: () => number): (x: CMatrix) => CMatrix {
-  const raw = Array.from({ length: k }, () => randomComplex(dOut, dIn, r));
+  // At least ⌈dIn/dOut⌉ operators, so that Σ K*K is invertible.
+  const raw = Array.from({ length: Math.max(k, Math.ceil(dIn / dOut)) }, () => randomComplex(dOut, dIn, r));
   let S = zeros(dIn, dIn);
   for (const K of raw) S = add(S, mul(adjoint(K), K));
   const e = eigh(S);
