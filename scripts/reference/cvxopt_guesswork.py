@@ -1,0 +1,137 @@
+#!/usr/bin/python3
+"""Reference values of guesswork with quantum side information, computed by cvxopt (Debian's python3-cvxopt).
+
+For an ensemble {p_x, rho_x} and a moment k the guesswork is the SDP over POVMs indexed by guessing
+orders g (permutations of the alphabet):
+
+    primal  minimize  sum_g Tr M_g C_g   s.t.  M_g PSD, sum_g M_g = 1,   C_g = sum_x p_x pos_g(x)^k rho_x
+    dual    maximize  Tr Y               s.t.  C_g - Y PSD for every order g
+
+(Hanson, Katariya, Leditzky & Wilde, "Guesswork with quantum side information", 2022 -- recalled
+from memory). cvxopt.solvers.sdp solves the inequality form, which is the dual above in the variable
+x = real coordinates of Y (Re Y_ii; Re Y_ij and Im Y_ij for i < j); its own dual variables z_g are
+the POVM elements M_g (in the embedding, halved). Complex blocks go to cvxopt through the real
+embedding H -> [[Re H, -Im H], [Im H, Re H]], which is PSD exactly when H is (cvxopt has no complex
+cones). The guesswork is minus cvxopt's primal objective.
+
+Random ensembles: |X| = 3, d = 2 or 3, probabilities from a flat Dirichlet distribution, states
+Ginibre density matrices G G*/Tr of random rank (1..d), moments from {1, 2, 0.5, 1.5}.
+
+Usage: cvxopt_guesswork.py [--seed N] [--count N] [--out PATH|-]
+Writes JSON {generator, cvxopt, numpy, seed, cases: [{name, probabilities, states: [{re, im}], moment,
+value, dualValue, cvxoptStatus, cvxoptTolerance}]}.
+"""
+import argparse
+import itertools
+import json
+import sys
+
+import numpy as np
+import cvxopt
+from cvxopt import matrix, solvers
+
+
+def embed(h):
+    """The real embedding [[Re H, -Im H], [Im H, Re H]] of a complex matrix."""
+    return np.block([[h.real, -h.imag], [h.imag, h.real]])
+
+
+def coordinate_basis(d):
+    """Hermitian B_k with Y = sum_k x_k B_k for x the real coordinates of Y (rhosigma's matrixCoordinates order)."""
+    out = []
+    for i in range(d):
+        for j in range(i, d):
+            if i == j:
+                b = np.zeros((d, d), dtype=complex)
+                b[i, i] = 1
+                out.append(b)
+            else:
+                b = np.zeros((d, d), dtype=complex)
+                b[i, j] = b[j, i] = 1
+                out.append(b)
+                b = np.zeros((d, d), dtype=complex)
+                b[i, j] = 1j
+                b[j, i] = -1j
+                out.append(b)
+    return out
+
+
+def guesswork(p, rhos, k):
+    n = len(p)
+    d = rhos[0].shape[0]
+    basis = coordinate_basis(d)
+    c = matrix([-float(np.trace(b).real) for b in basis])
+    gs, hs = [], []
+    for order in itertools.permutations(range(n)):
+        cg = sum(p[x] * (pos + 1) ** k * rhos[x] for pos, x in enumerate(order))
+        # cvxopt reads the columns as column-major vectors of (2d)x(2d) matrices.
+        cols = [embed(b).flatten(order="F") for b in basis]
+        gs.append(matrix(np.array(cols).T))
+        hs.append(matrix(embed(cg)))
+    # Tightest tolerance first; cvxopt sometimes stops with status "unknown" at 1e-10 on rank-deficient
+    # ensembles, then the next looser tolerance is tried. The tolerance used is recorded.
+    for tol in (1e-10, 1e-9, 1e-8):
+        solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
+        sol = solvers.sdp(c, Gs=gs, hs=hs)
+        if sol["status"] == "optimal":
+            break
+    return -sol["primal objective"], -sol["dual objective"], sol["status"], tol
+
+
+def random_density(rng, d):
+    r = int(rng.integers(1, d + 1))
+    g = rng.standard_normal((d, r)) + 1j * rng.standard_normal((d, r))
+    m = g @ g.conj().T
+    return m / np.trace(m).real
+
+
+def rows(m):
+    return [[float(v) for v in r] for r in m]
+
+
+def make_cases(seed, count):
+    rng = np.random.default_rng(seed)
+    moments = [1, 2, 0.5, 1.5]
+    cases = []
+    for t in range(count):
+        d = 2 + (t % 2)
+        k = moments[t % len(moments)]
+        p = rng.dirichlet(np.ones(3))
+        rhos = [random_density(rng, d) for _ in range(3)]
+        value, dual, status, tol = guesswork(p, rhos, k)
+        cases.append({
+            "name": f"case {t}: |X| = 3, d = {d}, moment {k}",
+            "probabilities": [float(v) for v in p],
+            "states": [{"re": rows(r.real), "im": rows(r.imag)} for r in rhos],
+            "moment": k,
+            "value": float(value),
+            "dualValue": float(dual),
+            "cvxoptStatus": status,
+            "cvxoptTolerance": tol,
+        })
+    return cases
+
+
+def main():
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--seed", type=int, default=20240715)
+    ap.add_argument("--count", type=int, default=12)
+    ap.add_argument("--out", default="-")
+    a = ap.parse_args()
+    doc = {
+        "generator": "scripts/reference/cvxopt_guesswork.py",
+        "cvxopt": cvxopt.__version__,
+        "numpy": np.__version__,
+        "seed": a.seed,
+        "cases": make_cases(a.seed, a.count),
+    }
+    text = json.dumps(doc, indent=1)
+    if a.out == "-":
+        sys.stdout.write(text)
+    else:
+        with open(a.out, "w") as f:
+            f.write(text + "\n")
+
+
+if __name__ == "__main__":
+    main()
