@@ -134,10 +134,13 @@ function schemaError(errors: ErrorObject[], def: OpDefinition): RhoError {
   const where = at === '' ? 'The request' : `The field ${at}`;
   const p = best.params as Record<string, any>;
   // When no branch of an anyOf got deeper than the anyOf itself, its description says best what is wanted.
-  const alternatives = errors.find((e) => (e.keyword === 'anyOf' || e.keyword === 'oneOf') && e.instancePath === best.instancePath);
+  // (ajv reports an enclosing anyOf after the ones nested in it, so the last one is the outermost.)
+  const alternatives = [...errors].reverse().find((e) => (e.keyword === 'anyOf' || e.keyword === 'oneOf') && e.instancePath === best.instancePath);
   const wanted = (alternatives?.parentSchema as { description?: string } | undefined)?.description;
   if (alternatives && wanted && best.keyword !== 'required' && best.keyword !== 'additionalProperties' && best.keyword !== 'maxItems') {
-    return new RhoError('invalid-argument', `${where} is not valid. Expected: ${wanted}`, at);
+    const data = alternatives.data;
+    const got = data === null ? 'null' : Array.isArray(data) ? 'a list' : typeof data === 'object' ? 'an object' : `the ${typeof data} ${clip(JSON.stringify(data), 40)}`;
+    return new RhoError('invalid-argument', `${where} is not valid (it is ${got}). Expected: ${wanted}`, at);
   }
   switch (best.keyword) {
     case 'required': {
