@@ -5,3 +5,5 @@
 export * from './sdp-support.js';
 export * from './hypothesis-testing.js';
 export * from './conditional-min-max.js';
+export * from './smooth-max.js';
+export * from './max-information.js';

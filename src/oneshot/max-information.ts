@@ -1,0 +1,100 @@
+/**
+ * Max-information I_max(A:B)_ρ = min over states σ_B of D_max(ρ_AB ‖ ρ_A ⊗ σ_B) (M. Berta,
+ * M. Christandl & R. Renner, "The quantum reverse Shannon theorem based on one-shot information
+ * theory", Commun. Math. Phys. 306, 579 (2011)), as a semidefinite program with the optimal σ_B and
+ * the certificate.
+ *
+ * THE SDP. With σ' = λσ_B unnormalised, 2^{I_max} = min { Tr σ' : ρ_AB ⪯ ρ_A ⊗ σ' }. ρ_A may be
+ * rank-deficient: since supp ρ_AB ⊆ supp ρ_A ⊗ H_B for every state, the constraint lives on
+ * supp ρ_A ⊗ H_B (on its complement both sides vanish, and keeping it would leave the SDP without
+ * an interior). There, with ρ_A = V D V* (V: d_A×r isometry onto the support, decided with `tol`),
+ * the congruence by K = D^{−1/2}V* ⊗ I_B (invertible on that subspace, so it preserves the operator
+ * order) turns it into
+ *
+ *   τ_AB := K ρ_AB K* ⪯ I_r ⊗ σ',
+ *
+ * i.e. 2^{I_max} = min{Tr σ' : I ⊗ σ' ⪰ τ} = 2^{−H_min(A|B)} of the unnormalised operator τ. We solve
+ * that problem in its small dual form (max Tr τX s.t. tr_A X = I_B, X ⪰ 0; shared with
+ * conditional-min-max.ts), read σ' from the multipliers and return σ_B = σ'/Tr σ'.
+ *
+ * Diagnostics: `droppedWeight` = Tr ρ_A(I − Π_A), the weight of ρ outside the kept support (zero for
+ * an exact state; numerically at most about r·tol·λ_max), and `rankA`. Small eigenvalues of ρ_A kept
+ * in the support are inverted: a near-rank-deficient ρ_A makes τ large and the value sensitive to
+ * the support tolerance.
+ *
+ * Deliberately not here: the smooth max-information, other variants (e.g. σ_B fixed to ρ_B, or the
+ * order of the arguments swapped). Cost: an eigendecomposition of ρ_A and an SDP with one
+ * (r d_B)-sized block and d_B² constraints.
+ */
+import { CMatrix, kron, identity, mul, adjoint, scale, zeros, partialTrace, trace } from '../linalg/index.js';
+import { RhoError } from '../errors.js';
+import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
+import { bipartiteMarginal, solveMinEntropySdp } from './conditional-min-max.js';
+import { lnBase, symmetrize, type OneShotSdpOptions, type SdpCertificate } from './sdp-support.js';
+
+export interface MaxInformationResult {
+  /** I_max(A:B) in the chosen base. */
+  value: number;
+  base: number;
+  /** The optimal state σ_B: ρ_AB ⪯ 2^{I_max} ρ_A ⊗ σ_B. */
+  sigma: CMatrix;
+  /** Rank of ρ_A kept (support decided with the tolerance). */
+  rankA: number;
+  /** Tr ρ_A (I − Π_A): weight of ρ outside the kept support. */
+  droppedWeight: number;
+  dims: { a: number; b: number };
+  certificate: SdpCertificate;
+  note?: string;
+}
+
+/** I_max(A:B)_ρ (Berta, Christandl & Renner 2011). See the header. */
+export function maxInformation(
+  rho: CMatrix, dims: readonly number[], a: readonly number[], b: readonly number[], options: OneShotSdpOptions = {},
+): MaxInformationResult {
+  const lb = lnBase(options.base);
+  const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
+  if (b.length === 0) throw new RhoError('invalid-argument', 'System B must contain at least one subsystem.', 'b');
+  const { rhoAB, dA, dB } = bipartiteMarginal(rho, dims, a, b);
+  const rhoA = partialTrace(rhoAB, [dA, dB], [1]);
+  const S = spectral(rhoA, tol);
+  const r = S.support.length;
+  const V = columns(S.vectors, S.support);
+  let dropped = 0;
+  for (let k = 0; k < dA; k++) if (!S.support.includes(k)) dropped += Math.max(0, S.values[k]);
+  // (D^{-1/2} V*) ⊗ I_B
+  const left = zeros(r, dA);
+  const vAdj = adjoint(V);
+  S.support.forEach((idx, row) => {
+    const w = 1 / Math.sqrt(S.values[idx]);
+    for (let j = 0; j < dA; j++) {
+      left.re[row * dA + j] = w * vAdj.re[row * dA + j];
+      left.im[row * dA + j] = w * vAdj.im[row * dA + j];
+    }
+  });
+  const K = kron(left, identity(dB));
+  const tau = symmetrize(mul(mul(K, rhoAB), adjoint(K)));
+  const res = solveMinEntropySdp(tau, r, dB, 'the max-information', options);
+  const notes: string[] = [];
+  if (res.note) notes.push(res.note);
+  const smallest = Math.min(...S.support.map((k) => S.values[k]));
+  if (r > 0 && smallest < 1e-6 * S.max) {
+    notes.push(
+      `ρ_A has an eigenvalue ${smallest.toExponential(2)} (relative ${(smallest / S.max).toExponential(2)}) kept in its support and inverted; ` +
+        `the value is sensitive to the support tolerance ${tol}.`,
+    );
+  }
+  const certificate = {
+    ...res.certificate,
+    problem: `${res.certificate.problem}, with τ = (D^{−1/2}V* ⊗ I) ρ_AB (V D^{−1/2} ⊗ I), ρ_A = V D V* on its support; optimal value −2^{I_max}`,
+  };
+  return {
+    value: Math.log(res.optimum) / lb,
+    base: options.base ?? 2,
+    sigma: scale(res.sigma, 1 / trace(res.sigma).re),
+    rankA: r,
+    droppedWeight: dropped,
+    dims: { a: dA, b: dB },
+    certificate,
+    ...(notes.length ? { note: notes.join(' ') } : {}),
+  };
+}
