@@ -1,0 +1,87 @@
+/**
+ * Ops for Markov recoverability of tripartite states: `petz-recovery` and `fidelity-of-recovery`
+ * (names and fields fixed by PROTOCOL.md: `rho` with `dims`, and `a`, `b`, `c` arrays of subsystem
+ * indices or labels).
+ *
+ * The state is validated by the codec; subsystems in none of the groups are traced out. `recovered`
+ * is returned in the original relative order of the subsystems in a ∪ b ∪ c (its `dims` and
+ * `systems` say which), not in the A, B, C order. Support decisions (pseudo-inverses of ρ_B, ρ_BC)
+ * use `supportTolerance` (relative to the largest eigenvalue, default 1e-12), reported with the
+ * ranks they produced.
+ *
+ * Deliberately not here: numerics (src/recovery).
+ * Cost: that of src/recovery (Petz: O(d³) eigendecompositions; fidelity of recovery: an SDP).
+ */
+import { defineOp, type OpResult } from './registry.js';
+import { readNumber, readState, readSystems, schemas, writeState, writeChannel } from './codec.js';
+import { petzRecovery } from '../recovery/petz.js';
+import { toOriginalOrder, checkTripartiteGroups } from '../recovery/tripartite.js';
+import type { State } from '../quantum/types.js';
+
+const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
+
+const groupArgs = {
+  rho: { ...schemas.state, description: 'A density matrix on several subsystems ("dims").' },
+  a: { ...schemas.systems, description: 'Subsystems of A (indices from 0, or labels).' },
+  b: { ...schemas.systems, description: 'Subsystems of B, the conditioning system the map acts on.' },
+  c: { ...schemas.systems, description: 'Subsystems of C, the system to be recovered.' },
+  supportTolerance: {
+    type: 'number',
+    exclusiveMinimum: 0,
+    maximum: 0.1,
+    description: 'Relative tolerance below which an eigenvalue counts as zero (default 1e-12); separate from "tolerance", which validates inputs.',
+  },
+};
+
+export interface GroupedState {
+  state: State;
+  a: number[];
+  b: number[];
+  c: number[];
+  supportTolerance: number;
+}
+
+/** Reads rho, a, b, c (and supportTolerance) of a recovery request. */
+export function readGroupedState(req: Record<string, any>, tolerance: number): GroupedState {
+  const state = readState(req.rho, 'rho', tolerance);
+  const n = state.dims.length;
+  const opts = { labels: state.labels };
+  const a = readSystems(req.a, 'a', n, opts);
+  const b = readSystems(req.b, 'b', n, opts);
+  const c = readSystems(req.c, 'c', n, opts);
+  checkTripartiteGroups(n, a, b, c);
+  const supportTolerance = req.supportTolerance === undefined
+    ? DEFAULT_SUPPORT_TOLERANCE
+    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
+  return { state, a, b, c, supportTolerance };
+}
+
+defineOp({
+  name: 'petz-recovery',
+  summary:
+    'Fidelity F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (squared, with the root) of the state recovered by the Petz map R_{B→BC}(X) = ρ_BC^{1/2}(ρ_B^{−1/2} X ρ_B^{−1/2} ⊗ 1_C)ρ_BC^{1/2}, or by the rotated map R^t with "t"; plus the recovered state and the map.',
+  args: {
+    type: 'object',
+    properties: {
+      ...groupArgs,
+      t: { type: 'number', description: 'Rotation parameter of the rotated Petz map R^t (default 0: the Petz map itself).' },
+    },
+    required: ['rho', 'a', 'b', 'c'],
+  },
+  run(req, { tolerance }): OpResult {
+    const g = readGroupedState(req, tolerance);
+    const t = req.t === undefined ? 0 : readNumber(req.t, 't');
+    const r = petzRecovery(g.state.matrix, g.state.dims, g.a, g.b, g.c, { t, tol: g.supportTolerance });
+    const back = toOriginalOrder(r.recovered, r.parts);
+    const recovered: State = { matrix: back.matrix, dims: back.dims };
+    if (g.state.labels) recovered.labels = back.systems.map((s) => g.state.labels![s]);
+    return {
+      value: r.value,
+      root: r.root,
+      recovered: { ...writeState(recovered), systems: back.systems },
+      map: writeChannel(r.map.channel),
+      t,
+      diagnostics: r.diagnostics,
+    };
+  },
+});

@@ -1,0 +1,88 @@
+/** Tripartite test states: products, Markov chains built from the structure theorem, random states. */
+import {
+  CMatrix, adjoint, identity, kron, mul, zeros, marginal,
+} from '../../src/linalg/index.js';
+import { vonNeumannEntropy } from '../../src/quantities/entropy.js';
+import { randomComplex, randomDensity } from '../helpers/random.js';
+
+/** Columns of a random unitary (Gram–Schmidt on a complex Gaussian matrix). */
+export function randomUnitary(d: number, r: () => number): CMatrix {
+  const g = randomComplex(d, d, r);
+  const q = zeros(d, d);
+  for (let j = 0; j < d; j++) {
+    const vr = new Float64Array(d);
+    const vi = new Float64Array(d);
+    for (let i = 0; i < d; i++) {
+      vr[i] = g.re[i * d + j];
+      vi[i] = g.im[i * d + j];
+    }
+    for (let k = 0; k < j; k++) {
+      let pr = 0;
+      let pi = 0;
+      for (let i = 0; i < d; i++) {
+        pr += q.re[i * d + k] * vr[i] + q.im[i * d + k] * vi[i];
+        pi += q.re[i * d + k] * vi[i] - q.im[i * d + k] * vr[i];
+      }
+      for (let i = 0; i < d; i++) {
+        vr[i] -= pr * q.re[i * d + k] - pi * q.im[i * d + k];
+        vi[i] -= pr * q.im[i * d + k] + pi * q.re[i * d + k];
+      }
+    }
+    let n = 0;
+    for (let i = 0; i < d; i++) n += vr[i] ** 2 + vi[i] ** 2;
+    n = Math.sqrt(n);
+    for (let i = 0; i < d; i++) {
+      q.re[i * d + j] = vr[i] / n;
+      q.im[i * d + j] = vi[i] / n;
+    }
+  }
+  return q;
+}
+
+/** Columns from..from+count−1 of a matrix. */
+function columns(u: CMatrix, from: number, count: number): CMatrix {
+  const out = zeros(u.rows, count);
+  for (let i = 0; i < u.rows; i++) {
+    for (let j = 0; j < count; j++) {
+      out.re[i * count + j] = u.re[i * u.cols + from + j];
+      out.im[i * count + j] = u.im[i * u.cols + from + j];
+    }
+  }
+  return out;
+}
+
+/**
+ * A quantum Markov chain A − B − C in the form of the structure theorem (Hayden, Jozsa, Petz &
+ * Winter, Commun. Math. Phys. 246, 359 (2004), Thm 6): H_B = ⊕_j H_{b_j^L} ⊗ H_{b_j^R} (embedded by
+ * the columns of a random unitary on B) and ρ_ABC = ⊕_j q_j ρ_{A b_j^L} ⊗ ρ_{b_j^R C}.
+ * `blocks` lists [dim b_j^L, dim b_j^R]; d_B is the sum of their products. Order A ⊗ B ⊗ C.
+ */
+export function markovChain(dA: number, dC: number, blocks: readonly [number, number][], r: () => number): { rho: CMatrix; dB: number } {
+  const dB = blocks.reduce((s, [l, rr]) => s + l * rr, 0);
+  const u = randomUnitary(dB, r);
+  const n = dA * dB * dC;
+  let rho = zeros(n, n);
+  let offset = 0;
+  const q = blocks.map(() => 0.2 + r());
+  const total = q.reduce((s, x) => s + x, 0);
+  blocks.forEach(([dl, dr], j) => {
+    const left = randomDensity(dA * dl, r);
+    const right = randomDensity(dr * dC, r);
+    const v = columns(u, offset, dl * dr);
+    offset += dl * dr;
+    const emb = kron(identity(dA), kron(v, identity(dC)));
+    const block = mul(mul(emb, kron(left, right)), adjoint(emb));
+    for (let k = 0; k < n * n; k++) {
+      rho.re[k] += (q[j] / total) * block.re[k];
+      rho.im[k] += (q[j] / total) * block.im[k];
+    }
+  });
+  rho = { ...rho };
+  return { rho, dB };
+}
+
+/** I(A;C|B) = H(AB) + H(BC) − H(B) − H(ABC) in bits, from von Neumann entropies of the marginals. */
+export function cmi(rho: CMatrix, dims: number[], a: number[], b: number[], c: number[]): number {
+  const h = (keep: number[]) => (keep.length === 0 ? 0 : vonNeumannEntropy(marginal(rho, dims, keep)));
+  return h([...a, ...b]) + h([...b, ...c]) - h(b) - h([...a, ...b, ...c]);
+}
