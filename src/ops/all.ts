@@ -7,3 +7,5 @@ import './channel-ops.js';
 import './distance-ops.js';
 import './entropy-ops.js';
 import './guesswork-ops.js';
+import './guessing-ops.js';
+import './recovery-ops.js';
