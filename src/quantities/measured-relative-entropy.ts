@@ -15,7 +15,10 @@
  * Hermitian matrices onto them, so every critical point of f is a global maximum: an ascent that
  * drives the gradient to zero converges to D_M. When ρ is rank deficient the supremum is reached
  * only as some eigenvalues of ω go to 0 (H → −∞ there); the ascent then approaches it without
- * attaining it, and we stop on the change in the value.
+ * attaining it, and slowly: the gradient along those directions decays like the eigenvalues
+ * themselves (in a test with σ of size 16 and ρ of rank 5, 1000 steps left an error near 1e-4 and
+ * 3000 steps near 1e-7). `gradientNorm` and `finalChange` show how far the run got; a Newton
+ * method on H would do better there and is not implemented.
  *
  * The returned `value` is the classical relative entropy Σ p_k log(p_k/q_k) of the returned
  * measurement (the eigenbasis of the final ω, completed by a basis of ker σ): it is attained, hence a
@@ -297,10 +300,11 @@ export function measuredRelativeEntropy(rho: CMatrix, sigma: CMatrix, options: M
   }
   const sigmaS = zeros(m, m);
   for (let j = 0; j < m; j++) sigmaS.re[j * m + j] = p.s[j];
-  // Start at H0 = log(ρ_S + δ) − log σ_S (the optimum when ρ and σ commute and ρ is invertible).
+  // Start at H0 = log(ρ_S + δ) − log σ_S with δ = 1e-3 λ_max(ρ) (near the optimum when ρ and σ
+  // commute; the shift keeps H0 finite on ker ρ).
   const r = eigh(hermitianPart(rhoS), { vectors: true });
   const rmax = Math.max(...Array.from(r.values));
-  const delta = 1e-6 * rmax;
+  const delta = 1e-3 * rmax;
   const logRho = mul(mul(r.vectors!, diagonalOf(Array.from(r.values, (v) => Math.log(Math.max(v, 0) + delta)))), adjoint(r.vectors!));
   for (let j = 0; j < m; j++) logRho.re[j * m + j] -= Math.log(p.s[j]);
   const run = ascend(rhoS, sigmaS, toVector(hermitianPart(logRho)), maxIterations, gtol);
