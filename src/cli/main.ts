@@ -233,12 +233,17 @@ Example:
   return program;
 }
 
+let watchingStdout = false;
+
 /** Run the command with the arguments after the program name; resolves to the exit code. */
 export async function main(argv: string[], io: Io = { stdin: process.stdin, stdout: process.stdout, stderr: process.stderr }): Promise<number> {
   // A reader that closes the pipe early (`| head`) is not an error worth a stack trace.
-  if (io.stdout === process.stdout) process.stdout.on('error', (err: NodeJS.ErrnoException) => {
-    if (err.code !== 'EPIPE') io.stderr.write(`rhosigma: cannot write the output: ${err.code ?? err.message}\n`);
-  });
+  if (io.stdout === process.stdout && !watchingStdout) {
+    watchingStdout = true;
+    process.stdout.on('error', (err: NodeJS.ErrnoException) => {
+      if (err.code !== 'EPIPE') io.stderr.write(`rhosigma: cannot write the output: ${err.code ?? err.message}\n`);
+    });
+  }
   let code = 0;
   const program = buildProgram(io, (c) => {
     code = c;

@@ -33,6 +33,8 @@ export const MAX_ENTRIES = MAX_DIMENSION * MAX_DIMENSION;
 export const MAX_KRAUS = 1024;
 /** Largest total number of entries over all Kraus operators of one channel (64 MiB as complex doubles). */
 export const MAX_CHANNEL_ENTRIES = 4 * MAX_ENTRIES;
+/** Largest number of expression strings in one matrix or ket (each costs a parse; numbers are not counted). */
+export const MAX_EXPRESSION_ENTRIES = 65536;
 /** Largest number of subsystems in a `dims` list. */
 export const MAX_SUBSYSTEMS = 64;
 
@@ -183,7 +185,11 @@ export function readMatrix(value: unknown, path: string): CMatrix {
   }
   const { rows, cols } = rowsShape(value, path);
   const m = zeros(rows, cols);
+  let expressions = 0;
   fillRows(value, path, cols, (v, p, k) => {
+    if (typeof v === 'string' && ++expressions > MAX_EXPRESSION_ENTRIES) {
+      throw tooLarge(p, 'The number of expression entries', expressions, MAX_EXPRESSION_ENTRIES);
+    }
     const z = complexEntry(v, p);
     m.re[k] = z.re;
     m.im[k] = z.im;

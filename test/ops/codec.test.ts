@@ -9,7 +9,7 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
   readMatrix, readHermitian, readState, readOperatorState, readChannel, readSystems, readNumber, readDims, readKet,
-  writeMatrix, writeNumber, writeState, writeChannel, MAX_DIMENSION, MAX_KRAUS,
+  writeMatrix, writeNumber, writeState, writeChannel, MAX_DIMENSION, MAX_KRAUS, MAX_EXPRESSION_ENTRIES,
 } from '../../src/ops/codec.js';
 import { RhoError } from '../../src/errors.js';
 import { CMatrix, fromRows, mul, adjoint, add, zeros, frobeniusNorm, sub } from '../../src/linalg/index.js';
@@ -100,6 +100,13 @@ describe('codec: matrices', () => {
     fails(() => readMatrix([longRow], 'm'), 'too-large', 'm[0]');
     // Entries that would fail to parse are never reached: the size check comes first.
     fails(() => readMatrix(new Array(MAX_DIMENSION + 1).fill(['not read']), 'm'), 'too-large', 'm');
+  });
+
+  it(`refuses more than ${MAX_EXPRESSION_ENTRIES} expression strings in one matrix, naming the first one over`, () => {
+    const side = Math.ceil(Math.sqrt(MAX_EXPRESSION_ENTRIES + 1));
+    const rows = new Array(side).fill(new Array(side).fill('0'));
+    const over = MAX_EXPRESSION_ENTRIES; // zero-based index of the first string over the limit
+    fails(() => readMatrix(rows, 'm'), 'too-large', `m[${Math.floor(over / side)}][${over % side}]`);
   });
 
   it('reads a Hermitian matrix and refuses a non-Hermitian one at the entry at fault', () => {
