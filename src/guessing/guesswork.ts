@@ -52,7 +52,7 @@ import { RhoError } from '../errors.js';
 import { checkNumber, checkProbabilities } from '../quantum/arguments.js';
 import { checkDensityMatrix, DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import {
-  solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpAnswer, type SdpOptions,
+  solveSdp, DEFAULT_OPTIONS, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpAnswer, type SdpOptions,
 } from '../sdp/index.js';
 
 /** Largest support of X searched over all orders (6! = 720 orders). */
@@ -64,6 +64,8 @@ export const MAX_SIDE_DIMENSION = 32;
  * one core, e.g. 720 orders with d = 4; 6 orders with d = 32 take about 25 s).
  */
 export const MAX_SDP_SIZE = 720 * 16;
+/** Stopping tolerance (relative gap and residuals) tried first; the solver's defaults (1e-8) are the fallback. */
+export const TIGHT_TOLERANCE = 1e-10;
 /** Default weight Tr M_g / d below which an order is left out of the returned strategy. */
 export const DEFAULT_WEIGHT_TOLERANCE = 1e-7;
 
@@ -151,6 +153,9 @@ export interface GuessworkCertificate {
   lowerBound: number;
   /** Cost of the returned (renormalised) strategy: achieved by it. */
   upperBound: number;
+  /** The solver's stopping tolerances on the relative gap and the residuals used for this solve. */
+  gapTolerance: number;
+  feasibilityTolerance: number;
   message?: string;
 }
 
@@ -183,7 +188,7 @@ export interface QuantumGuessworkOptions {
   tolerance?: number;
   /** Orders with Tr M_g / d at or below this are left out of the strategy (default 1e-7). */
   weightTolerance?: number;
-  /** Passed to the SDP solver. */
+  /** Passed to the SDP solver (default: tolerances TIGHT_TOLERANCE, falling back to the solver's defaults). */
   sdp?: SdpOptions;
 }
 
@@ -297,14 +302,19 @@ export function guessworkWithSideInformation(
     const terms: BlockTerm[] = orders.map((_, g) => ({ block: g, entries: [e] }));
     return { terms, equals: c.i === c.j ? 1 : 0, label: `sum of POVM elements (${c.i}, ${c.j}) ${c.part}` };
   });
-  const answer = solveSdp(
-    {
-      cones: orders.map(() => ({ kind: 'hermitian' as const, size: d })),
-      objective: costs.map((c, g) => ({ block: g, matrix: c })),
-      constraints,
-    },
-    options.sdp,
-  );
+  const problem = {
+    cones: orders.map(() => ({ kind: 'hermitian' as const, size: d })),
+    objective: costs.map((c, g) => ({ block: g, matrix: c })),
+    constraints,
+  };
+  // Tight tolerances first (one or two extra iterations buy about two more digits); should the solver
+  // not reach them, the solve is repeated at the solver's defaults (1e-8). Caller options override both.
+  let solverOptions: SdpOptions = options.sdp ?? { gapTolerance: TIGHT_TOLERANCE, feasibilityTolerance: TIGHT_TOLERANCE };
+  let answer = solveSdp(problem, solverOptions);
+  if (answer.status !== 'optimal' && options.sdp === undefined) {
+    solverOptions = {};
+    answer = solveSdp(problem, solverOptions);
+  }
   const warning = acceptAnswer(answer);
 
   // Lower bound from the dual: Y − ε·1 is feasible.
@@ -347,6 +357,8 @@ export function guessworkWithSideInformation(
     iterations: answer.iterations,
     lowerBound,
     upperBound,
+    gapTolerance: solverOptions.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance,
+    feasibilityTolerance: solverOptions.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance,
   };
   if (answer.message) certificate.message = answer.message;
   const out: QuantumGuesswork = {

@@ -84,6 +84,8 @@ defineOp({
         primalResidual: writeNumber(c.primalResidual),
         dualResidual: writeNumber(c.dualResidual),
         iterations: c.iterations,
+        gapTolerance: c.gapTolerance,
+        feasibilityTolerance: c.feasibilityTolerance,
         ...(c.message ? { message: c.message } : {}),
       },
       bounds: { lower: writeNumber(c.lowerBound), upper: writeNumber(c.upperBound) },
