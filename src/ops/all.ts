@@ -9,3 +9,4 @@ import './entropy-ops.js';
 import './guesswork-ops.js';
 import './guessing-ops.js';
 import './recovery-ops.js';
+import './oneshot-ops.js';

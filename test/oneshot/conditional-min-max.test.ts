@@ -6,6 +6,8 @@ import {
   eigvalsh, kron, marginal, mul, adjoint, sub, trace, identity,
 } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
+import '../../src/ops/all.js';
+import { handle } from '../../src/ops/handle.js';
 import { conditionalMinEntropy, conditionalMaxEntropy } from '../../src/oneshot/conditional-min-max.js';
 import { conditionalEntropy } from '../../src/quantities/conditional.js';
 import { maximallyEntangled } from '../../src/quantum/index.js';
@@ -142,5 +144,29 @@ describe('conditional max-entropy', () => {
       assertClose(trace(hmax.sigma).re, 1, 1e-7, 'σ_B is a state');
       assert.ok(eigvalsh(hmax.sigma)[0] >= -1e-7);
     }
+  });
+});
+
+describe('conditional-min-entropy and conditional-max-entropy ops (through the protocol)', () => {
+  const bell = { ket: ['1/sqrt(2)', 0, 0, '1/sqrt(2)'], dims: [2, 2], labels: ['A', 'B'] };
+
+  it('give −1 bit for both entropies of a Bell state, with σ_B and the certificate (KRS 2009)', () => {
+    const mn = handle({ op: 'conditional-min-entropy', rho: bell, a: ['A'], b: ['B'] });
+    const mx = handle({ op: 'conditional-max-entropy', rho: bell, a: [0], b: [1] });
+    assert.ok(mn.ok && mx.ok, JSON.stringify([mn, mx]));
+    assert.ok(Math.abs((mn.value as number) + 1) <= 1e-7 && Math.abs((mx.value as number) + 1) <= 1e-7);
+    for (const a of [mn, mx]) {
+      const c = a.certificate as Record<string, unknown>;
+      assert.equal(c.status, 'optimal');
+      for (const k of ['primalObjective', 'dualObjective', 'gap', 'primalResidual', 'dualResidual', 'iterations']) assert.equal(typeof c[k], 'number', k);
+      assert.ok(Array.isArray(a.sigma) || typeof a.sigma === 'object');
+    }
+  });
+
+  it('refuse overlapping groups and an empty A', () => {
+    const overlap = handle({ op: 'conditional-min-entropy', rho: bell, a: [0], b: [0] });
+    assert.ok(!overlap.ok && overlap.error.code === 'invalid-argument');
+    const empty = handle({ op: 'conditional-max-entropy', rho: bell, a: [], b: [1] });
+    assert.ok(!empty.ok && empty.error.path === 'a', JSON.stringify(empty));
   });
 });

@@ -7,6 +7,8 @@ import {
   CMatrix, adjoint, diagonal, eigh, eigvalsh, mul, scale, traceOfProductRe,
 } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
+import '../../src/ops/all.js';
+import { handle } from '../../src/ops/handle.js';
 import { hypothesisTestingDivergence, neymanPearson } from '../../src/oneshot/hypothesis-testing.js';
 import { umegakiRelativeEntropy, minRelativeEntropy } from '../../src/quantities/index.js';
 import { applyKraus, depolarizing } from '../../src/quantum/index.js';
@@ -166,6 +168,57 @@ describe('hypothesis-testing relative entropy', () => {
     assert.throws(
       () => hypothesisTestingDivergence(rho, sigma, 0.1, { method: 'neyman-pearson' }),
       (e: unknown) => e instanceof RhoError && e.code === 'invalid-argument',
+    );
+  });
+});
+
+describe('hypothesis-testing family of the divergence op (through the protocol)', () => {
+  it('answers the Neyman–Pearson example −log 0.45 with the test, β, the method and a certificate (hand computation)', () => {
+    const a = handle({ op: 'divergence', family: 'hypothesis-testing', rho: [[0.5, 0, 0], [0, 0.3, 0], [0, 0, 0.2]], sigma: [[0.2, 0, 0], [0, 0.3, 0], [0, 0, 0.5]], epsilon: 0.25 });
+    assert.ok(a.ok, JSON.stringify(a));
+    assert.ok(Math.abs((a.value as number) + Math.log2(0.45)) <= 1e-12);
+    assert.equal(a.method, 'neyman-pearson');
+    assert.ok(Math.abs((a.beta as number) - 0.45) <= 1e-12);
+    const c = a.certificate as Record<string, unknown>;
+    for (const k of ['status', 'primalObjective', 'dualObjective', 'gap', 'primalResidual', 'dualResidual', 'iterations']) assert.ok(k in c, k);
+    assert.equal(c.status, 'optimal');
+    assert.ok(Array.isArray(a.test));
+  });
+
+  it('solves non-commuting inputs by the SDP and honours "base": "e" (nats = bits · ln 2)', () => {
+    const rho = { re: [[0.6, 0.1], [0.1, 0.4]], im: [[0, 0.2], [-0.2, 0]] };
+    const sigma = [[0.3, 0], [0, 0.7]];
+    const bits = handle({ op: 'divergence', family: 'hypothesis-testing', rho, sigma, epsilon: 0.1 });
+    const nats = handle({ op: 'divergence', family: 'hypothesis-testing', rho, sigma, epsilon: 0.1, base: 'e' });
+    assert.ok(bits.ok && nats.ok);
+    assert.equal(bits.method, 'sdp');
+    assert.ok(Math.abs((nats.value as number) - (bits.value as number) * Math.LN2) <= 1e-9);
+  });
+
+  it('answers "Infinity" with a reason when the kernel of σ carries 1 − ε of ρ', () => {
+    const a = handle({ op: 'divergence', family: 'hypothesis-testing', rho: [[0.5, 0], [0, 0.5]], sigma: [[1, 0], [0, 0]], epsilon: 0.6 });
+    assert.ok(a.ok);
+    assert.equal(a.value, 'Infinity');
+    assert.equal(typeof a.reason, 'string');
+  });
+
+  it('refuses a missing ε and ε at the ends of (0, 1), naming "epsilon"', () => {
+    const base = { op: 'divergence', family: 'hypothesis-testing', rho: [[1, 0], [0, 0]], sigma: [[0.5, 0], [0, 0.5]] };
+    const missing = handle(base);
+    assert.ok(!missing.ok && missing.error.code === 'missing-argument' && missing.error.path === 'epsilon');
+    for (const epsilon of [0, 1]) {
+      const a = handle({ ...base, epsilon });
+      assert.ok(!a.ok && a.error.path === 'epsilon', JSON.stringify(a));
+    }
+  });
+
+  it('turns a solve stopped before convergence into RhoError solver-failed carrying the status (engine rule, common practice)', () => {
+    const r = rng(48);
+    const rho = randomDensity(3, r);
+    const sigma = randomDensity(3, r);
+    assert.throws(
+      () => hypothesisTestingDivergence(rho, sigma, 0.1, { method: 'sdp', solver: { maxIterations: 2 } }),
+      (e: unknown) => e instanceof RhoError && e.code === 'solver-failed' && (e.detail as { status: string }).status === 'iteration-limit',
     );
   });
 });

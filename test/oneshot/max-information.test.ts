@@ -4,6 +4,8 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { eigvalsh, kron, partialTrace, scale, sub, trace, zeros } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
+import '../../src/ops/all.js';
+import { handle } from '../../src/ops/handle.js';
 import { maxInformation } from '../../src/oneshot/max-information.js';
 import { mutualInformation } from '../../src/quantities/conditional.js';
 import { maximallyEntangled } from '../../src/quantum/index.js';
@@ -79,5 +81,26 @@ describe('max-information', () => {
 
   it('refuses an empty B', () => {
     assert.throws(() => maxInformation(maximallyEntangled(2).matrix, [2, 2], [0], []), (e: unknown) => e instanceof RhoError && e.code === 'invalid-argument');
+  });
+});
+
+describe('max-information op (through the protocol)', () => {
+  it('gives 2 bits for a Bell state given by labels, with σ_B = I/2 and the certificate (BCR 2011)', () => {
+    const a = handle({ op: 'max-information', rho: { ket: ['1/sqrt(2)', 0, 0, '1/sqrt(2)'], dims: [2, 2], labels: ['A', 'B'] }, a: ['A'], b: ['B'] });
+    assert.ok(a.ok, JSON.stringify(a));
+    assert.ok(Math.abs((a.value as number) - 2) <= 1e-7);
+    const s = a.sigma as number[][];
+    assert.ok(Math.abs(s[0][0] - 0.5) <= 1e-6 && Math.abs(s[1][1] - 0.5) <= 1e-6);
+    assert.equal((a.certificate as Record<string, unknown>).status, 'optimal');
+  });
+
+  it('refuses an empty B and a system too large for the SDP', () => {
+    const bell = { ket: ['1/sqrt(2)', 0, 0, '1/sqrt(2)'], dims: [2, 2] };
+    const empty = handle({ op: 'max-information', rho: bell, a: [0], b: [] });
+    assert.ok(!empty.ok && empty.error.path === 'b', JSON.stringify(empty));
+    const n = 128;
+    const big = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 / n : 0)));
+    const large = handle({ op: 'max-information', rho: { matrix: big, dims: [2, 64] }, a: [0], b: [1] });
+    assert.ok(!large.ok && large.error.code === 'too-large', JSON.stringify(large));
   });
 });

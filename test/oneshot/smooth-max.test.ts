@@ -5,6 +5,8 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { diagonal, eigvalsh, scale, sub, trace } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
+import '../../src/ops/all.js';
+import { handle } from '../../src/ops/handle.js';
 import { smoothMaxRelativeEntropy } from '../../src/oneshot/smooth-max.js';
 import { maxRelativeEntropy, fidelity } from '../../src/quantities/index.js';
 import { randomDensity, rng } from '../helpers/random.js';
@@ -88,5 +90,24 @@ describe('smooth max-relative entropy', () => {
     for (const eps of [0, 1, 2]) {
       assert.throws(() => smoothMaxRelativeEntropy(rho, rho, eps), (e: unknown) => e instanceof RhoError && e.code === 'invalid-argument' && e.path === 'epsilon');
     }
+  });
+});
+
+describe('smooth-max-divergence op (through the protocol)', () => {
+  it('gives log(1 − ε²) for ρ = σ with the smoothed state and the certificate (derived above)', () => {
+    const rho = [[0.7, 0.2], [0.2, 0.3]];
+    const a = handle({ op: 'smooth-max-divergence', rho, sigma: rho, epsilon: 0.3 });
+    assert.ok(a.ok, JSON.stringify(a));
+    assert.ok(Math.abs((a.value as number) - Math.log2(1 - 0.09)) <= 1e-7);
+    assert.equal((a.certificate as Record<string, unknown>).status, 'optimal');
+    assert.ok(Array.isArray(a.smoothed));
+  });
+
+  it('answers "Infinity" with a reason when no state of the ball fits under σ, and refuses ε = 1', () => {
+    const inf = handle({ op: 'smooth-max-divergence', rho: [[0.5, 0], [0, 0.5]], sigma: [[1, 0], [0, 0]], epsilon: 0.5 });
+    assert.ok(inf.ok && inf.value === 'Infinity' && typeof inf.reason === 'string', JSON.stringify(inf));
+    assert.equal((inf.certificate as Record<string, unknown>).primalObjective, 'Infinity');
+    const bad = handle({ op: 'smooth-max-divergence', rho: [[1, 0], [0, 0]], sigma: [[1, 0], [0, 0]], epsilon: 1 });
+    assert.ok(!bad.ok && bad.error.path === 'epsilon', JSON.stringify(bad));
   });
 });
