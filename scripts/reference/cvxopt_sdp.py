@@ -16,7 +16,10 @@ sum_i y_i A_ik + S_k = C_k, S_k PSD. Hermitian blocks are handed to cvxopt throu
 embedding H -> [[Re H, -Im H], [Im H, Re H]] / 2 (cvxopt has no complex cones). Our optimal value is
 minus cvxopt's primal objective.
 
-Usage: cvxopt_sdp.py [--seed N] [--count N] [--out PATH|-]
+Usage: cvxopt_sdp.py [--seed N] [--count N] [--out PATH|-] [--time R [--timing-tolerance T]]
+       cvxopt_sdp.py --solve-stdin [--time R [--timing-tolerance T]]   (problems as {problems: [...]} on stdin)
+With --time, each solve is repeated R times and the median time spent inside solvers.sdp is
+recorded (building cvxopt's matrices is not timed).
 Writes JSON {generator, cvxopt, numpy, seed, cases: [{name, problem, optimal, cvxoptStatus, ...}]}.
 """
 import argparse
@@ -167,7 +170,8 @@ def embed(a):
     return np.block([[a.real, -a.imag], [a.imag, a.real]]) / 2
 
 
-def solve_with_cvxopt(problem, mats, cfull):
+def cvxopt_data(problem, mats, cfull):
+    """The arguments of cvxopt.solvers.sdp for a problem: c, Gs, hs and optional Gl, hl."""
     cones = problem["cones"]
     m = len(problem["constraints"])
     b = np.array([c["equals"] for c in problem["constraints"]], dtype=float)
@@ -195,20 +199,31 @@ def solve_with_cvxopt(problem, mats, cfull):
         h = embed(cfull[k]) if cx else np.real(cfull[k])
         gs.append(matrix(g))
         hs.append(matrix(h))
-    kwargs = {}
+    kwargs = {"Gs": gs, "hs": hs}
     if gl_rows:
         kwargs["Gl"] = matrix(np.vstack(gl_rows))
         kwargs["hl"] = matrix(np.concatenate(hl))
-    # Tight tolerances; cvxopt can divide by zero when asked for more than the iterates allow, so
-    # loosen step by step (the tolerance used is recorded with the case).
-    for tol in (1e-10, 1e-9, 1e-8):
+    return matrix(-b), kwargs
+
+
+def solve_with_cvxopt(problem, mats, cfull, tolerances=(1e-10, 1e-9, 1e-8), data=None, clock=None):
+    """cvxopt.solvers.sdp on the problem. Tight tolerances first; cvxopt can divide by zero when asked
+    for more than the iterates allow, so loosen step by step (the tolerance used is recorded). With
+    `clock` (a list), the seconds spent inside solvers.sdp for the accepted attempt are appended."""
+    import time
+    c, kwargs = data if data is not None else cvxopt_data(problem, mats, cfull)
+    for tol in tolerances:
         solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
+        t0 = time.perf_counter()
         try:
-            sol = solvers.sdp(matrix(-b), Gs=gs, hs=hs, **kwargs)
+            sol = solvers.sdp(c, **kwargs)
         except (ZeroDivisionError, ArithmeticError, ValueError):
             continue
+        t1 = time.perf_counter()
         if sol["status"] == "optimal":
             sol["tolerance"] = tol
+            if clock is not None:
+                clock.append(t1 - t0)
             return sol
     raise RuntimeError("cvxopt did not reach an optimal solution")
 
@@ -255,14 +270,15 @@ def parse_problem(problem):
     return mats, cfull
 
 
-def timed(problem, mats, cfull, repeats):
-    import time
+def timed(problem, mats, cfull, repeats, tolerances=(1e-10, 1e-9, 1e-8)):
+    """Median seconds of `repeats` calls of solvers.sdp alone (building cvxopt's matrices is not timed)."""
+    data = cvxopt_data(problem, mats, cfull)
     times = []
     sol = None
     for _ in range(max(1, repeats)):
-        t0 = time.perf_counter()
-        sol = solve_with_cvxopt(problem, mats, cfull)
-        times.append(time.perf_counter() - t0)
+        clock = []
+        sol = solve_with_cvxopt(problem, mats, cfull, tolerances, data, clock)
+        times.append(clock[0])
     times.sort()
     return sol, times[len(times) // 2]
 
@@ -284,13 +300,16 @@ def main():
     ap.add_argument("--out", default="-")
     ap.add_argument("--time", type=int, default=0, help="also time cvxopt: median of this many solves per case")
     ap.add_argument("--solve-stdin", action="store_true", help="solve the problems in {problems: [...]} read from stdin")
+    ap.add_argument("--timing-tolerance", type=float, default=None,
+                    help="time cvxopt at this abstol = reltol = feastol only (default: the 1e-10, 1e-9, 1e-8 ladder)")
     args = ap.parse_args()
+    ttol = (args.timing_tolerance,) if args.timing_tolerance else (1e-10, 1e-9, 1e-8)
     if args.solve_stdin:
         data = json.load(sys.stdin)
         results = []
         for problem in data["problems"]:
             mats, cfull = parse_problem(problem)
-            sol, sec = timed(problem, mats, cfull, args.time)
+            sol, sec = timed(problem, mats, cfull, args.time, ttol)
             results.append({"optimal": -sol["primal objective"], "seconds": sec, "iterations": sol["iterations"]})
         sys.stdout.write(json.dumps({"cvxopt": cvxopt.__version__, "results": results}))
         return
@@ -309,7 +328,7 @@ def main():
                 continue
         else:
             raise RuntimeError(f"no instance of shape {shape['name']} solved by cvxopt")
-        seconds = timed(problem, mats, cfull, args.time)[1] if args.time > 0 else None
+        seconds = timed(problem, mats, cfull, args.time, ttol)[1] if args.time > 0 else None
         cases.append({
             "shape": shape["name"],
             "cvxoptSeconds": seconds,

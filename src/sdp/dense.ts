@@ -1,6 +1,7 @@
 /**
  * Small real dense kernels for the SDP solver's per-block work: products, Cholesky with a
- * dependent-row guard, a cyclic Jacobi symmetric eigensolver and a one-sided Jacobi SVD.
+ * dependent-row guard, the smallest eigenvalue (Householder tridiagonalization and bisection, for
+ * step lengths), a cyclic Jacobi symmetric eigensolver and a one-sided Jacobi SVD.
  *
  * Why hand-written instead of ml-matrix: the interior-point method does this work on every cone
  * block at every iteration, and the problems of this field have thousands of 2×2 or 4×4 blocks.
@@ -144,11 +145,37 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
       dependent++;
     } else ljj = Math.sqrt(d);
     a[jo + j] = ljj;
-    for (let i = j + 1; i < n; i++) {
+    const inv = 1 / ljj;
+    // Column j below the pivot: four rows at a time share the loads of row j (the Schur
+    // complement's factorization is the largest dense kernel of an iteration; this about halves
+    // its time against one row at a time in V8).
+    let i = j + 1;
+    for (; i + 3 < n; i += 4) {
+      const i0 = i * n;
+      const i1 = i0 + n;
+      const i2 = i1 + n;
+      const i3 = i2 + n;
+      let s0 = a[i0 + j];
+      let s1 = a[i1 + j];
+      let s2 = a[i2 + j];
+      let s3 = a[i3 + j];
+      for (let k = 0; k < j; k++) {
+        const ljk = a[jo + k];
+        s0 -= a[i0 + k] * ljk;
+        s1 -= a[i1 + k] * ljk;
+        s2 -= a[i2 + k] * ljk;
+        s3 -= a[i3 + k] * ljk;
+      }
+      a[i0 + j] = ljj === HUGE_PIVOT ? s0 / ljj : s0 * inv;
+      a[i1 + j] = ljj === HUGE_PIVOT ? s1 / ljj : s1 * inv;
+      a[i2 + j] = ljj === HUGE_PIVOT ? s2 / ljj : s2 * inv;
+      a[i3 + j] = ljj === HUGE_PIVOT ? s3 / ljj : s3 * inv;
+    }
+    for (; i < n; i++) {
       const io = i * n;
       let s = a[io + j];
       for (let k = 0; k < j; k++) s -= a[io + k] * a[jo + k];
-      a[io + j] = s / ljj;
+      a[io + j] = ljj === HUGE_PIVOT ? s / ljj : s * inv;
     }
     for (let k = j + 1; k < n; k++) a[jo + k] = 0;
   }
@@ -238,7 +265,13 @@ export function symEig(a: Float64Array, n: number, wantVectors = false, work?: F
   return { values, vectors: v };
 }
 
-/** Smallest eigenvalue of a symmetric matrix. */
+/**
+ * Smallest eigenvalue of a symmetric matrix: Householder reduction to tridiagonal form (about
+ * 4n³/3 flops, eigenvalues only) and bisection on Sturm counts. Accurate to a few ulps of ‖A‖
+ * (absolute, not relative): what a step length to the cone boundary needs. About ten times faster
+ * than cyclic Jacobi (symEig) at n = 16–32, measured in bench/sdp.ts's shapes; symEig stays for
+ * the cases that need relative accuracy or vectors.
+ */
 export function minEig(a: Float64Array, n: number, work?: Float64Array): number {
   if (n === 1) return a[0];
   if (n === 2) {
@@ -246,10 +279,95 @@ export function minEig(a: Float64Array, n: number, work?: Float64Array): number 
     const d = 0.5 * (a[0] - a[3]);
     return m - Math.hypot(d, a[1]);
   }
-  const { values } = symEig(a, n, false, work);
-  let mn = Infinity;
-  for (const x of values) if (x < mn) mn = x;
-  return mn;
+  const m = work && work.length >= n * n + 3 * n ? work : new Float64Array(n * n + 3 * n);
+  m.set(a.subarray(0, n * n));
+  const diag = m.subarray(n * n, n * n + n);
+  const off = m.subarray(n * n + n, n * n + 2 * n); // off[i] couples i and i+1
+  const v = m.subarray(n * n + 2 * n, n * n + 3 * n);
+  tridiagonalize(m, n, diag, off, v);
+  return smallestTridiagonal(diag, off, n);
+}
+
+/**
+ * Householder reduction of the symmetric matrix in `m` (destroyed; lower triangle used) to a
+ * tridiagonal matrix with diagonal `diag` and off-diagonal `off` (off[i] between i and i+1).
+ * Eigenvalues only (the reflectors are not kept). `v` is scratch of length n.
+ */
+export function tridiagonalize(m: Float64Array, n: number, diag: Float64Array, off: Float64Array, v: Float64Array): void {
+  for (let k = 0; k < n - 2; k++) {
+    // Reflector H = 1 − β u uᵀ on rows/cols k+1..n−1 annihilating m[k+2.., k].
+    let alpha2 = 0;
+    for (let i = k + 1; i < n; i++) alpha2 += m[i * n + k] * m[i * n + k];
+    const x0 = m[(k + 1) * n + k];
+    if (alpha2 === 0 || alpha2 === x0 * x0) {
+      off[k] = x0;
+      continue;
+    }
+    const alpha = x0 >= 0 ? -Math.sqrt(alpha2) : Math.sqrt(alpha2);
+    // u = x − α e1 stored in column k (rows k+1..)
+    m[(k + 1) * n + k] = x0 - alpha;
+    const unorm2 = alpha2 - x0 * x0 + (x0 - alpha) * (x0 - alpha);
+    const beta = 2 / unorm2;
+    off[k] = alpha;
+    // p = β A u (A the trailing block, symmetric; use the lower triangle)
+    for (let i = k + 1; i < n; i++) {
+      let s = 0;
+      const io = i * n;
+      for (let j = k + 1; j <= i; j++) s += m[io + j] * m[j * n + k];
+      for (let j = i + 1; j < n; j++) s += m[j * n + i] * m[j * n + k];
+      v[i] = beta * s;
+    }
+    // w = p − (β/2)(pᵀu) u
+    let pu = 0;
+    for (let i = k + 1; i < n; i++) pu += v[i] * m[i * n + k];
+    const c = 0.5 * beta * pu;
+    for (let i = k + 1; i < n; i++) v[i] -= c * m[i * n + k];
+    // A ← A − u wᵀ − w uᵀ (lower triangle)
+    for (let i = k + 1; i < n; i++) {
+      const ui = m[i * n + k];
+      const wi = v[i];
+      const io = i * n;
+      for (let j = k + 1; j <= i; j++) m[io + j] -= ui * v[j] + wi * m[j * n + k];
+    }
+  }
+  for (let i = 0; i < n; i++) diag[i] = m[i * n + i];
+  if (n >= 2) off[n - 2] = m[(n - 1) * n + n - 2];
+}
+
+/** Number of eigenvalues of the symmetric tridiagonal (diag, off) below x (Sturm count of the LDLᵀ pivots). */
+function sturmCount(diag: Float64Array, off: Float64Array, n: number, x: number, tiny: number): number {
+  let count = 0;
+  let q = diag[0] - x;
+  if (q < 0) count++;
+  for (let i = 1; i < n; i++) {
+    if (q === 0) q = tiny;
+    q = diag[i] - x - (off[i - 1] * off[i - 1]) / q;
+    if (q < 0) count++;
+  }
+  return count;
+}
+
+/** Smallest eigenvalue of a symmetric tridiagonal matrix by bisection inside the Gershgorin interval. */
+export function smallestTridiagonal(diag: Float64Array, off: Float64Array, n: number): number {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const r = (i > 0 ? Math.abs(off[i - 1]) : 0) + (i < n - 1 ? Math.abs(off[i]) : 0);
+    lo = Math.min(lo, diag[i] - r);
+    hi = Math.max(hi, diag[i] + r);
+  }
+  const scale = Math.max(Math.abs(lo), Math.abs(hi), Number.MIN_VALUE);
+  const tiny = Number.EPSILON * scale * 1e-3 + Number.MIN_VALUE;
+  // Invariant: count(lo) = 0, count(hi) ≥ 1.
+  hi = hi + Number.EPSILON * scale;
+  lo = lo - Number.EPSILON * scale;
+  for (let it = 0; it < 200; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (mid <= lo || mid >= hi || hi - lo <= 2 * Number.EPSILON * scale) break;
+    if (sturmCount(diag, off, n, mid, tiny) >= 1) hi = mid;
+    else lo = mid;
+  }
+  return 0.5 * (lo + hi);
 }
 
 /**
