@@ -225,9 +225,10 @@ Example:
 
   program
     .command('demo')
-    .description('Print a short worked report computed by the engine.')
-    .action(async () => {
-      setCode(await runDemo((s) => io.stdout.write(s)));
+    .description('Print a short worked report computed by the engine on built-in data.')
+    .option('--json', 'print the requests and their answers as JSON instead of the report')
+    .action(async (opts: { json?: boolean }) => {
+      setCode(await runDemo((s) => io.stdout.write(s), { json: opts.json === true }));
     });
 
   return program;
