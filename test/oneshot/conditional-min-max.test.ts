@@ -20,6 +20,7 @@ function checkMin(ref: OneShotReference, label: string): void {
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const ans = conditionalMinEntropy(matrixOf(c.rho), c.dims!, [0], [1]);
     assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assert.ok(ans.certificate.relativeGap <= 1e-7, `${where}: duality gap ${ans.certificate.relativeGap}`);
     assertClose(ans.value, c.value, 1e-6, where);
     assertClose(trace(ans.sigma).re, c.optimum, 1e-6, `${where} (Tr σ_B)`);
   }
@@ -31,6 +32,7 @@ function checkMax(ref: OneShotReference, label: string): void {
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const ans = conditionalMaxEntropy(matrixOf(c.rho), c.dims!, [0], [1]);
     assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assert.ok(ans.certificate.relativeGap <= 1e-7, `${where}: duality gap ${ans.certificate.relativeGap}`);
     assertClose(ans.value, c.value, 1e-6, where);
     assertClose(ans.rootFidelity, c.optimum, 1e-6, `${where} (√F)`);
   }

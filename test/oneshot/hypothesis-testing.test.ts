@@ -40,6 +40,7 @@ function checkAgainst(ref: OneShotReference, label: string): void {
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const ans = hypothesisTestingDivergence(matrixOf(c.rho), matrixOf(c.sigma!), c.epsilon!, { method: 'sdp' });
     assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assert.ok(ans.certificate.relativeGap <= 1e-7, `${where}: duality gap ${ans.certificate.relativeGap}`);
     assertClose(ans.value, c.value, 1e-6, where);
     assertClose(ans.beta, c.optimum, 1e-6, `${where} (β)`);
   }

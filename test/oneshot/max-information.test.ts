@@ -18,6 +18,7 @@ function check(ref: OneShotReference, label: string): void {
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const ans = maxInformation(matrixOf(c.rho), c.dims!, [0], [1]);
     assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
+    assert.ok(ans.certificate.relativeGap <= 1e-7, `${where}: duality gap ${ans.certificate.relativeGap}`);
     assertClose(ans.value, c.value, 1e-6, where);
   }
 }
