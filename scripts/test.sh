@@ -11,3 +11,5 @@ bash scripts/setup.sh
 }
 npm run --silent typecheck
 node scripts/run-tests.mjs "$@"
+# The Python kernel bridge against the built command (setup.sh built dist/).
+(cd kernel-bridge && /usr/bin/python3 -m pytest -q -p no:cacheprovider tests)
