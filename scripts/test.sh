@@ -10,6 +10,7 @@ bash scripts/setup.sh
   exit 1
 }
 npm run --silent typecheck
-node scripts/run-tests.mjs "$@"
 # The Python kernel bridge against the built command (setup.sh built dist/).
 (cd kernel-bridge && /usr/bin/python3 -m pytest -q -p no:cacheprovider tests)
+# Every TypeScript suite (Node's test runner; its summary closes the output).
+node scripts/run-tests.mjs "$@"
