@@ -31,7 +31,7 @@
  * complement, O(m² n²) to form and O(m³) to factor.
  */
 import {
-  CMatrix, marginal, partialTrace, product, scale, trace, identity, kron, zeros, mul, adjoint,
+  CMatrix, marginal, partialTrace, product, scale, trace, identity, zeros, mul, adjoint,
 } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import {
@@ -212,9 +212,4 @@ export function conditionalMaxEntropy(
     certificate: certificateOf(ans, MAX_PROBLEM),
     ...(note ? { note } : {}),
   };
-}
-
-/** I_A ⊗ σ_B (helper for callers and tests). */
-export function identityTensor(dA: number, sigmaB: CMatrix): CMatrix {
-  return dA === 1 ? sigmaB : kron(identity(dA), sigmaB);
 }
