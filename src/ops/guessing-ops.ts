@@ -13,8 +13,10 @@
 import type { CMatrix } from '../linalg/cmatrix.js';
 import { RhoError } from '../errors.js';
 import { guessingProbability, type SolverCertificate } from '../oneshot/guessing.js';
+import { diamondDistance } from '../oneshot/diamond.js';
+import { fidelitySdp } from '../oneshot/fidelity-sdp.js';
 import { defineOp } from './registry.js';
-import { readState, schemas, writeMatrix } from './codec.js';
+import { readChannel, readNumber, readState, schemas, writeMatrix } from './codec.js';
 
 const MAX_STATES = 256;
 
@@ -68,6 +70,76 @@ defineOp({
       diagnostics: g.diagnostics,
     };
     if (g.warning) out.warning = g.warning;
+    return out as { value: number } & Record<string, unknown>;
+  },
+});
+
+defineOp({
+  name: 'diamond-distance',
+  summary:
+    "Diamond-norm distance ½‖N − M‖_⋄ of two channels with the same input and output spaces, by Watrous's SDP; with an optimal input (its reduced state and a purification), checkable bounds and the certificate.",
+  args: {
+    type: 'object',
+    properties: {
+      a: { ...schemas.channel, description: 'The first channel (trace preserving within "tolerance").' },
+      b: { ...schemas.channel, description: 'The second channel, same input and output dimensions.' },
+    },
+    required: ['a', 'b'],
+  },
+  run(req, { tolerance }) {
+    const a = readChannel(req.a, 'a', tolerance);
+    const b = readChannel(req.b, 'b', tolerance);
+    // Trace preservation is checked at 1e-9 or the request's tolerance, whichever is looser, since Kraus
+    // operators typed with a dozen digits rarely sum to the identity better than that.
+    const d = diamondDistance(a, b, { tolerance: Math.max(tolerance, 1e-9) });
+    const out: Record<string, unknown> = {
+      value: d.value,
+      input: writeMatrix(d.input),
+      // |ψ⟩ = Σ_i |i⟩ ⊗ √σ|i⟩ on (channel input) ⊗ (reference), as a column.
+      purification: writeMatrix(d.purification),
+      bounds: d.bounds,
+      certificate: writeCertificate(d.certificate),
+      diagnostics: d.diagnostics,
+    };
+    if (d.warning) out.warning = d.warning;
+    return out as { value: number } & Record<string, unknown>;
+  },
+});
+
+defineOp({
+  name: 'fidelity-sdp',
+  summary:
+    "Fidelity F(ρ,σ) (squared, with the root) computed by Watrous's SDP √F = max Re Tr X s.t. [[ρ, X], [X*, σ]] ⪰ 0, with the optimal X and the certificate; the op `fidelity` gives the closed form.",
+  args: {
+    type: 'object',
+    properties: {
+      rho: { ...schemas.state, description: 'A density matrix.' },
+      sigma: { ...schemas.state, description: 'A density matrix of the same size.' },
+      supportTolerance: {
+        type: 'number', exclusiveMinimum: 0, maximum: 0.1,
+        description: 'Relative tolerance below which an eigenvalue counts as zero when the SDP is restricted to the supports (default 1e-12).',
+      },
+    },
+    required: ['rho', 'sigma'],
+  },
+  run(req, { tolerance }) {
+    const rho = readState(req.rho, 'rho', tolerance).matrix;
+    const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
+    if (rho.rows !== sigma.rows) {
+      throw new RhoError('dimension-mismatch', `The two states have different sizes (${rho.rows} and ${sigma.rows}).`, 'sigma');
+    }
+    const tol = req.supportTolerance === undefined ? 1e-12 : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
+    const f = fidelitySdp(rho, sigma, { tol });
+    const out: Record<string, unknown> = {
+      value: f.value,
+      root: f.root,
+      offDiagonal: writeMatrix(f.offDiagonal),
+      // Objectives of the certificate are those of the root fidelity √F.
+      certificate: writeCertificate(f.certificate),
+      rankRho: f.rankRho,
+      rankSigma: f.rankSigma,
+    };
+    if (f.warning) out.warning = f.warning;
     return out as { value: number } & Record<string, unknown>;
   },
 });
