@@ -7,3 +7,6 @@ export * from './hypothesis-testing.js';
 export * from './conditional-min-max.js';
 export * from './smooth-max.js';
 export * from './max-information.js';
+export * from './guessing.js';
+export * from './diamond.js';
+export * from './fidelity-sdp.js';
