@@ -1,0 +1,363 @@
+// AssemblyScript source of the WebAssembly SIMD (f64x2) kernels of the Hermitian eigensolver
+// (src/linalg/eigh.ts). Compiled by src/linalg/wasm/build.mjs (`npm run build:wasm`, part of
+// `npm run build`) into src/linalg/wasm/eigh-kernels.wasm.ts, which is committed so that tests and
+// browser bundles need no compiler; a test checks that the committed module equals a fresh compile.
+//
+// What it is for: the three loops that hold nearly all of eigh's O(n³) work, written with 128-bit
+// vectors of two doubles. The file has the extension .as (not .ts) so that the project's TypeScript
+// compiler does not try to type-check AssemblyScript's types (f64, usize, v128).
+// What it deliberately does not do: allocate, throw, or call out; every argument is a byte address
+// into the memory that the host (src/linalg/eigh-wasm.ts) imports, or an index. No bounds checks
+// beyond WebAssembly's own: the host sizes the memory before each call.
+// Cost: the same flop counts as the scalar TypeScript loops they replace (see eigh.ts); each loop
+// runs over two consecutive indices per vector instruction, with a scalar tail for an odd count.
+//
+// Hand-written because no library offers SIMD kernels for split (real/imaginary) complex storage in
+// a form that runs in both Node and browsers without a native build. AssemblyScript rather than
+// hand-written WebAssembly text: both compile on Node 20 from npm packages with no binary download,
+// and AssemblyScript's loops are far easier to read and check than stack code.
+// Measured against the scalar TypeScript loops (whole eigh, values and vectors, CPU-time medians of
+// interleaved runs in one process, shared 2-core machine): 1.8×, 2.2×, 2.9× faster at n = 64, 128,
+// 256 (0.99 vs 1.83 ms, 5.4 vs 11.6 ms, 35 vs 100 ms).
+
+// ---------------------------------------------------------------------------------------------
+// Householder reduction: the fused pass over pairs of rows of the trailing lower triangle.
+// ---------------------------------------------------------------------------------------------
+
+/**
+ * For i = iStart, iStart + 2, ... while i + 1 < n: rows i and i+1 of the fused pass (columns
+ * j0..i+1 of the lower triangle): apply A -= v w* + w v* (v at v/vI, w at w/wI, indexed by the
+ * global row) and accumulate p += A u (u at u/uI), using Hermitian symmetry for the upper part.
+ * Returns the first row not processed.
+ */
+export function reduceRowPairs(
+  are: usize, aim: usize, n: i32, iStart: i32, j0: i32,
+  v: usize, vI: usize, w: usize, wI: usize, u: usize, uI: usize, p: usize, pI: usize,
+): i32 {
+  let i = iStart;
+  for (; i + 1 < n; i += 2) rowPair(are, aim, n, i, j0, v, vI, w, wI, u, uI, p, pI);
+  return i;
+}
+
+function rowPair(
+  are: usize, aim: usize, n: i32, i: i32, j0: i32,
+  v: usize, vI: usize, w: usize, wI: usize, u: usize, uI: usize, p: usize, pI: usize,
+): void {
+  const i1 = i + 1;
+  const oi = (<usize>i) << 3;
+  const oi1 = (<usize>i1) << 3;
+  const row0 = (<usize>(i * n)) << 3;
+  const row1 = row0 + ((<usize>n) << 3);
+  const a0R = are + row0, a0I = aim + row0, a1R = are + row1, a1I = aim + row1;
+  const v0r = load<f64>(v + oi), v0i = load<f64>(vI + oi), w0r = load<f64>(w + oi), w0i = load<f64>(wI + oi);
+  const v1r = load<f64>(v + oi1), v1i = load<f64>(vI + oi1), w1r = load<f64>(w + oi1), w1i = load<f64>(wI + oi1);
+  const u0r = load<f64>(u + oi), u0i = load<f64>(uI + oi);
+  const u1r = load<f64>(u + oi1), u1i = load<f64>(uI + oi1);
+  const V0r = f64x2.splat(v0r), V0i = f64x2.splat(v0i), W0r = f64x2.splat(w0r), W0i = f64x2.splat(w0i);
+  const V1r = f64x2.splat(v1r), V1i = f64x2.splat(v1i), W1r = f64x2.splat(w1r), W1i = f64x2.splat(w1i);
+  const U0r = f64x2.splat(u0r), U0i = f64x2.splat(u0i), U1r = f64x2.splat(u1r), U1i = f64x2.splat(u1i);
+  let S0r = f64x2.splat(0), S0i = f64x2.splat(0), S1r = f64x2.splat(0), S1i = f64x2.splat(0);
+  let j = j0;
+  for (; j + 1 < i; j += 2) {
+    const o = (<usize>j) << 3;
+    const vjr = v128.load(v + o), vji = v128.load(vI + o);
+    const wjr = v128.load(w + o), wji = v128.load(wI + o);
+    const ujr = v128.load(u + o), uji = v128.load(uI + o);
+    const a0r = f64x2.sub(v128.load(a0R + o), f64x2.add(
+      f64x2.add(f64x2.mul(V0r, wjr), f64x2.mul(V0i, wji)), f64x2.add(f64x2.mul(W0r, vjr), f64x2.mul(W0i, vji))));
+    const a0i = f64x2.sub(v128.load(a0I + o), f64x2.add(
+      f64x2.sub(f64x2.mul(V0i, wjr), f64x2.mul(V0r, wji)), f64x2.sub(f64x2.mul(W0i, vjr), f64x2.mul(W0r, vji))));
+    const a1r = f64x2.sub(v128.load(a1R + o), f64x2.add(
+      f64x2.add(f64x2.mul(V1r, wjr), f64x2.mul(V1i, wji)), f64x2.add(f64x2.mul(W1r, vjr), f64x2.mul(W1i, vji))));
+    const a1i = f64x2.sub(v128.load(a1I + o), f64x2.add(
+      f64x2.sub(f64x2.mul(V1i, wjr), f64x2.mul(V1r, wji)), f64x2.sub(f64x2.mul(W1i, vjr), f64x2.mul(W1r, vji))));
+    v128.store(a0R + o, a0r);
+    v128.store(a0I + o, a0i);
+    v128.store(a1R + o, a1r);
+    v128.store(a1I + o, a1i);
+    S0r = f64x2.add(S0r, f64x2.sub(f64x2.mul(a0r, ujr), f64x2.mul(a0i, uji)));
+    S0i = f64x2.add(S0i, f64x2.add(f64x2.mul(a0r, uji), f64x2.mul(a0i, ujr)));
+    S1r = f64x2.add(S1r, f64x2.sub(f64x2.mul(a1r, ujr), f64x2.mul(a1i, uji)));
+    S1i = f64x2.add(S1i, f64x2.add(f64x2.mul(a1r, uji), f64x2.mul(a1i, ujr)));
+    v128.store(p + o, f64x2.add(v128.load(p + o), f64x2.add(
+      f64x2.add(f64x2.mul(a0r, U0r), f64x2.mul(a0i, U0i)), f64x2.add(f64x2.mul(a1r, U1r), f64x2.mul(a1i, U1i)))));
+    v128.store(pI + o, f64x2.add(v128.load(pI + o), f64x2.add(
+      f64x2.sub(f64x2.mul(a0r, U0i), f64x2.mul(a0i, U0r)), f64x2.sub(f64x2.mul(a1r, U1i), f64x2.mul(a1i, U1r)))));
+  }
+  let s0r = f64x2.extract_lane(S0r, 0) + f64x2.extract_lane(S0r, 1);
+  let s0i = f64x2.extract_lane(S0i, 0) + f64x2.extract_lane(S0i, 1);
+  let s1r = f64x2.extract_lane(S1r, 0) + f64x2.extract_lane(S1r, 1);
+  let s1i = f64x2.extract_lane(S1i, 0) + f64x2.extract_lane(S1i, 1);
+  if (j < i) {
+    const o = (<usize>j) << 3;
+    const vjr = load<f64>(v + o), vji = load<f64>(vI + o);
+    const wjr = load<f64>(w + o), wji = load<f64>(wI + o);
+    const ujr = load<f64>(u + o), uji = load<f64>(uI + o);
+    const a0r = load<f64>(a0R + o) - (v0r * wjr + v0i * wji + (w0r * vjr + w0i * vji));
+    const a0i = load<f64>(a0I + o) - (v0i * wjr - v0r * wji + (w0i * vjr - w0r * vji));
+    const a1r = load<f64>(a1R + o) - (v1r * wjr + v1i * wji + (w1r * vjr + w1i * vji));
+    const a1i = load<f64>(a1I + o) - (v1i * wjr - v1r * wji + (w1i * vjr - w1r * vji));
+    store<f64>(a0R + o, a0r);
+    store<f64>(a0I + o, a0i);
+    store<f64>(a1R + o, a1r);
+    store<f64>(a1I + o, a1i);
+    s0r += a0r * ujr - a0i * uji;
+    s0i += a0r * uji + a0i * ujr;
+    s1r += a1r * ujr - a1i * uji;
+    s1i += a1r * uji + a1i * ujr;
+    store<f64>(p + o, load<f64>(p + o) + (a0r * u0r + a0i * u0i + (a1r * u1r + a1i * u1i)));
+    store<f64>(pI + o, load<f64>(pI + o) + (a0r * u0i - a0i * u0r + (a1r * u1i - a1i * u1r)));
+  }
+  // Element (i+1, i) and the two diagonal entries.
+  const ar = load<f64>(a1R + oi) - (v1r * w0r + v1i * w0i + w1r * v0r + w1i * v0i);
+  const ai = load<f64>(a1I + oi) - (v1i * w0r - v1r * w0i + w1i * v0r - w1r * v0i);
+  store<f64>(a1R + oi, ar);
+  store<f64>(a1I + oi, ai);
+  const d0 = load<f64>(a0R + oi) - 2 * (v0r * w0r + v0i * w0i);
+  const d1 = load<f64>(a1R + oi1) - 2 * (v1r * w1r + v1i * w1i);
+  store<f64>(a0R + oi, d0);
+  store<f64>(a1R + oi1, d1);
+  s1r += ar * u0r - ai * u0i;
+  s1i += ar * u0i + ai * u0r;
+  store<f64>(p + oi, load<f64>(p + oi) + (s0r + d0 * u0r + ar * u1r + ai * u1i));
+  store<f64>(pI + oi, load<f64>(pI + oi) + (s0i + d0 * u0i + ar * u1i - ai * u1r));
+  store<f64>(p + oi1, load<f64>(p + oi1) + (s1r + d1 * u1r));
+  store<f64>(pI + oi1, load<f64>(pI + oi1) + (s1i + d1 * u1i));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Back-transformation: reflector pairs applied to two vectors at a time.
+// ---------------------------------------------------------------------------------------------
+
+// Dot products x = v* m of the reflector pair (A, B) with the vectors at m0 and m1, over [lo, hi).
+// Held in globals between the calls of one pass (returning eight numbers otherwise needs memory).
+let xa0r: f64 = 0, xa0i: f64 = 0, xb0r: f64 = 0, xb0i: f64 = 0;
+let xa1r: f64 = 0, xa1i: f64 = 0, xb1r: f64 = 0, xb1i: f64 = 0;
+
+function hsum(x: v128): f64 {
+  return f64x2.extract_lane(x, 0) + f64x2.extract_lane(x, 1);
+}
+
+function dots(
+  aR: usize, aI: usize, bR: usize, bI: usize, m0R: usize, m0I: usize, m1R: usize, m1I: usize, lo: i32, hi: i32,
+): void {
+  let XA0r = f64x2.splat(0), XA0i = f64x2.splat(0), XB0r = f64x2.splat(0), XB0i = f64x2.splat(0);
+  let XA1r = f64x2.splat(0), XA1i = f64x2.splat(0), XB1r = f64x2.splat(0), XB1i = f64x2.splat(0);
+  let i = lo;
+  for (; i + 1 < hi; i += 2) {
+    const o = (<usize>i) << 3;
+    const ar = v128.load(aR + o), ai = v128.load(aI + o), br = v128.load(bR + o), bi = v128.load(bI + o);
+    const m0r = v128.load(m0R + o), m0i = v128.load(m0I + o), m1r = v128.load(m1R + o), m1i = v128.load(m1I + o);
+    XA0r = f64x2.add(XA0r, f64x2.add(f64x2.mul(ar, m0r), f64x2.mul(ai, m0i)));
+    XA0i = f64x2.add(XA0i, f64x2.sub(f64x2.mul(ar, m0i), f64x2.mul(ai, m0r)));
+    XB0r = f64x2.add(XB0r, f64x2.add(f64x2.mul(br, m0r), f64x2.mul(bi, m0i)));
+    XB0i = f64x2.add(XB0i, f64x2.sub(f64x2.mul(br, m0i), f64x2.mul(bi, m0r)));
+    XA1r = f64x2.add(XA1r, f64x2.add(f64x2.mul(ar, m1r), f64x2.mul(ai, m1i)));
+    XA1i = f64x2.add(XA1i, f64x2.sub(f64x2.mul(ar, m1i), f64x2.mul(ai, m1r)));
+    XB1r = f64x2.add(XB1r, f64x2.add(f64x2.mul(br, m1r), f64x2.mul(bi, m1i)));
+    XB1i = f64x2.add(XB1i, f64x2.sub(f64x2.mul(br, m1i), f64x2.mul(bi, m1r)));
+  }
+  let sa0r = hsum(XA0r), sa0i = hsum(XA0i), sb0r = hsum(XB0r), sb0i = hsum(XB0i);
+  let sa1r = hsum(XA1r), sa1i = hsum(XA1i), sb1r = hsum(XB1r), sb1i = hsum(XB1i);
+  if (i < hi) {
+    const o = (<usize>i) << 3;
+    const ar = load<f64>(aR + o), ai = load<f64>(aI + o), br = load<f64>(bR + o), bi = load<f64>(bI + o);
+    const m0r = load<f64>(m0R + o), m0i = load<f64>(m0I + o), m1r = load<f64>(m1R + o), m1i = load<f64>(m1I + o);
+    sa0r += ar * m0r + ai * m0i; sa0i += ar * m0i - ai * m0r;
+    sb0r += br * m0r + bi * m0i; sb0i += br * m0i - bi * m0r;
+    sa1r += ar * m1r + ai * m1i; sa1i += ar * m1i - ai * m1r;
+    sb1r += br * m1r + bi * m1i; sb1i += br * m1i - bi * m1r;
+  }
+  xa0r = sa0r; xa0i = sa0i; xb0r = sb0r; xb0i = sb0i;
+  xa1r = sa1r; xa1i = sa1i; xb1r = sb1r; xb1i = sb1i;
+}
+
+/**
+ * Q applied to the rows of (mRe, mIm) (n x n, each row one vector): the loop of applyReflectors in
+ * eigh.ts. Pair q applies reflector pa[q] then pbk[q] (i32 arrays), with coefficients betas[pa[q]],
+ * bb[q] and c = (cRe[q], cIm[q]) = v_b* v_a; reflector k is row k of (vRe, vIm).
+ */
+export function applyReflectorPairs(
+  mRe: usize, mIm: usize, n: i32, vRe: usize, vIm: usize, betas: usize,
+  pa: usize, pbk: usize, bb: usize, cRe: usize, cIm: usize, np: i32,
+): void {
+  const rowBytes = (<usize>n) << 3;
+  for (let c = 0; c < n; c += 2) {
+    const two = c + 1 < n;
+    const r0 = (<usize>c) * rowBytes;
+    const r1 = two ? r0 + rowBytes : r0;
+    const m0R = mRe + r0, m0I = mIm + r0, m1R = mRe + r1, m1I = mIm + r1;
+    let a = load<i32>(pa);
+    let b = load<i32>(pbk);
+    let aR = vRe + (<usize>a) * rowBytes, aI = vIm + (<usize>a) * rowBytes;
+    let bR = vRe + (<usize>b) * rowBytes, bI = vIm + (<usize>b) * rowBytes;
+    dots(aR, aI, bR, bI, m0R, m0I, m1R, m1I, b + 1, n);
+    for (let q = 0; q < np; q++) {
+      const ba = load<f64>(betas + ((<usize>a) << 3));
+      const bq = load<f64>(bb + ((<usize>q) << 3));
+      const cr = load<f64>(cRe + ((<usize>q) << 3)), ci = load<f64>(cIm + ((<usize>q) << 3));
+      const sa0r = ba * xa0r, sa0i = ba * xa0i, sa1r = ba * xa1r, sa1i = ba * xa1i;
+      const sb0r = bq * (xb0r - (cr * sa0r - ci * sa0i));
+      const sb0i = bq * (xb0i - (cr * sa0i + ci * sa0r));
+      const sb1r = bq * (xb1r - (cr * sa1r - ci * sa1i));
+      const sb1i = bq * (xb1i - (cr * sa1i + ci * sa1r));
+      const SA0r = f64x2.splat(sa0r), SA0i = f64x2.splat(sa0i), SA1r = f64x2.splat(sa1r), SA1i = f64x2.splat(sa1i);
+      const SB0r = f64x2.splat(sb0r), SB0i = f64x2.splat(sb0i), SB1r = f64x2.splat(sb1r), SB1i = f64x2.splat(sb1i);
+      if (q + 1 == np) {
+        let i = b + 1;
+        for (; i + 1 < n; i += 2) {
+          const o = (<usize>i) << 3;
+          const ar = v128.load(aR + o), ai = v128.load(aI + o), br = v128.load(bR + o), bi = v128.load(bI + o);
+          v128.store(m0R + o, f64x2.sub(v128.load(m0R + o), f64x2.add(
+            f64x2.sub(f64x2.mul(ar, SA0r), f64x2.mul(ai, SA0i)), f64x2.sub(f64x2.mul(br, SB0r), f64x2.mul(bi, SB0i)))));
+          v128.store(m0I + o, f64x2.sub(v128.load(m0I + o), f64x2.add(
+            f64x2.add(f64x2.mul(ar, SA0i), f64x2.mul(ai, SA0r)), f64x2.add(f64x2.mul(br, SB0i), f64x2.mul(bi, SB0r)))));
+          if (two) {
+            v128.store(m1R + o, f64x2.sub(v128.load(m1R + o), f64x2.add(
+              f64x2.sub(f64x2.mul(ar, SA1r), f64x2.mul(ai, SA1i)), f64x2.sub(f64x2.mul(br, SB1r), f64x2.mul(bi, SB1i)))));
+            v128.store(m1I + o, f64x2.sub(v128.load(m1I + o), f64x2.add(
+              f64x2.add(f64x2.mul(ar, SA1i), f64x2.mul(ai, SA1r)), f64x2.add(f64x2.mul(br, SB1i), f64x2.mul(bi, SB1r)))));
+          }
+        }
+        if (i < n) {
+          const o = (<usize>i) << 3;
+          const ar = load<f64>(aR + o), ai = load<f64>(aI + o), br = load<f64>(bR + o), bi = load<f64>(bI + o);
+          store<f64>(m0R + o, load<f64>(m0R + o) - (ar * sa0r - ai * sa0i + (br * sb0r - bi * sb0i)));
+          store<f64>(m0I + o, load<f64>(m0I + o) - (ar * sa0i + ai * sa0r + (br * sb0i + bi * sb0r)));
+          if (two) {
+            store<f64>(m1R + o, load<f64>(m1R + o) - (ar * sa1r - ai * sa1i + (br * sb1r - bi * sb1i)));
+            store<f64>(m1I + o, load<f64>(m1I + o) - (ar * sa1i + ai * sa1r + (br * sb1i + bi * sb1r)));
+          }
+        }
+        break;
+      }
+      const a2 = load<i32>(pa + ((<usize>(q + 1)) << 2));
+      const b2 = load<i32>(pbk + ((<usize>(q + 1)) << 2));
+      const a2R = vRe + (<usize>a2) * rowBytes, a2I = vIm + (<usize>a2) * rowBytes;
+      const b2R = vRe + (<usize>b2) * rowBytes, b2I = vIm + (<usize>b2) * rowBytes;
+      // Indices b2+1..b are untouched by pair q.
+      dots(a2R, a2I, b2R, b2I, m0R, m0I, m1R, m1I, b2 + 1, b + 1);
+      let XA0r = f64x2.splat(0), XA0i = f64x2.splat(0), XB0r = f64x2.splat(0), XB0i = f64x2.splat(0);
+      let XA1r = f64x2.splat(0), XA1i = f64x2.splat(0), XB1r = f64x2.splat(0), XB1i = f64x2.splat(0);
+      let i = b + 1;
+      for (; i + 1 < n; i += 2) {
+        const o = (<usize>i) << 3;
+        let ar = v128.load(aR + o), ai = v128.load(aI + o), br = v128.load(bR + o), bi = v128.load(bI + o);
+        const m0r = f64x2.sub(v128.load(m0R + o), f64x2.add(
+          f64x2.sub(f64x2.mul(ar, SA0r), f64x2.mul(ai, SA0i)), f64x2.sub(f64x2.mul(br, SB0r), f64x2.mul(bi, SB0i))));
+        const m0i = f64x2.sub(v128.load(m0I + o), f64x2.add(
+          f64x2.add(f64x2.mul(ar, SA0i), f64x2.mul(ai, SA0r)), f64x2.add(f64x2.mul(br, SB0i), f64x2.mul(bi, SB0r))));
+        const m1r = f64x2.sub(v128.load(m1R + o), f64x2.add(
+          f64x2.sub(f64x2.mul(ar, SA1r), f64x2.mul(ai, SA1i)), f64x2.sub(f64x2.mul(br, SB1r), f64x2.mul(bi, SB1i))));
+        const m1i = f64x2.sub(v128.load(m1I + o), f64x2.add(
+          f64x2.add(f64x2.mul(ar, SA1i), f64x2.mul(ai, SA1r)), f64x2.add(f64x2.mul(br, SB1i), f64x2.mul(bi, SB1r))));
+        v128.store(m0R + o, m0r);
+        v128.store(m0I + o, m0i);
+        v128.store(m1R + o, m1r);
+        v128.store(m1I + o, m1i);
+        ar = v128.load(a2R + o); ai = v128.load(a2I + o); br = v128.load(b2R + o); bi = v128.load(b2I + o);
+        XA0r = f64x2.add(XA0r, f64x2.add(f64x2.mul(ar, m0r), f64x2.mul(ai, m0i)));
+        XA0i = f64x2.add(XA0i, f64x2.sub(f64x2.mul(ar, m0i), f64x2.mul(ai, m0r)));
+        XB0r = f64x2.add(XB0r, f64x2.add(f64x2.mul(br, m0r), f64x2.mul(bi, m0i)));
+        XB0i = f64x2.add(XB0i, f64x2.sub(f64x2.mul(br, m0i), f64x2.mul(bi, m0r)));
+        XA1r = f64x2.add(XA1r, f64x2.add(f64x2.mul(ar, m1r), f64x2.mul(ai, m1i)));
+        XA1i = f64x2.add(XA1i, f64x2.sub(f64x2.mul(ar, m1i), f64x2.mul(ai, m1r)));
+        XB1r = f64x2.add(XB1r, f64x2.add(f64x2.mul(br, m1r), f64x2.mul(bi, m1i)));
+        XB1i = f64x2.add(XB1i, f64x2.sub(f64x2.mul(br, m1i), f64x2.mul(bi, m1r)));
+      }
+      let ya0r = xa0r + hsum(XA0r), ya0i = xa0i + hsum(XA0i), yb0r = xb0r + hsum(XB0r), yb0i = xb0i + hsum(XB0i);
+      let ya1r = xa1r + hsum(XA1r), ya1i = xa1i + hsum(XA1i), yb1r = xb1r + hsum(XB1r), yb1i = xb1i + hsum(XB1i);
+      if (i < n) {
+        const o = (<usize>i) << 3;
+        let ar = load<f64>(aR + o), ai = load<f64>(aI + o), br = load<f64>(bR + o), bi = load<f64>(bI + o);
+        const m0r = load<f64>(m0R + o) - (ar * sa0r - ai * sa0i + (br * sb0r - bi * sb0i));
+        const m0i = load<f64>(m0I + o) - (ar * sa0i + ai * sa0r + (br * sb0i + bi * sb0r));
+        const m1r = load<f64>(m1R + o) - (ar * sa1r - ai * sa1i + (br * sb1r - bi * sb1i));
+        const m1i = load<f64>(m1I + o) - (ar * sa1i + ai * sa1r + (br * sb1i + bi * sb1r));
+        store<f64>(m0R + o, m0r);
+        store<f64>(m0I + o, m0i);
+        store<f64>(m1R + o, m1r);
+        store<f64>(m1I + o, m1i);
+        ar = load<f64>(a2R + o); ai = load<f64>(a2I + o); br = load<f64>(b2R + o); bi = load<f64>(b2I + o);
+        ya0r += ar * m0r + ai * m0i; ya0i += ar * m0i - ai * m0r;
+        yb0r += br * m0r + bi * m0i; yb0i += br * m0i - bi * m0r;
+        ya1r += ar * m1r + ai * m1i; ya1i += ar * m1i - ai * m1r;
+        yb1r += br * m1r + bi * m1i; yb1i += br * m1i - bi * m1r;
+      }
+      xa0r = ya0r; xa0i = ya0i; xb0r = yb0r; xb0i = yb0i;
+      xa1r = ya1r; xa1i = ya1i; xb1r = yb1r; xb1i = yb1i;
+      a = a2; b = b2; aR = a2R; aI = a2I; bR = b2R; bI = b2I;
+    }
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Divide and conquer: the matrix products of the merge step.
+// ---------------------------------------------------------------------------------------------
+
+/**
+ * out[i*m + r] = sum_{q in [q0, q1)} u[i*ku + q] * qt[r*ku + q] for all i < rows, r in [r0, r1):
+ * 2 x 2 blocks of dot products, each over q two at a time.
+ */
+export function gemmNT(
+  u: usize, qt: usize, out: usize, rows: i32, ku: i32, m: i32, r0: i32, r1: i32, q0: i32, q1: i32,
+): void {
+  const kb = (<usize>ku) << 3;
+  const mb = (<usize>m) << 3;
+  let i = 0;
+  for (; i + 1 < rows; i += 2) {
+    const ua = u + (<usize>i) * kb;
+    const ub = ua + kb;
+    const oa = out + (<usize>i) * mb;
+    const ob = oa + mb;
+    let r = r0;
+    for (; r + 1 < r1; r += 2) {
+      const qa = qt + (<usize>r) * kb;
+      const qb = qa + kb;
+      let S00 = f64x2.splat(0), S01 = f64x2.splat(0), S10 = f64x2.splat(0), S11 = f64x2.splat(0);
+      let q = q0;
+      for (; q + 1 < q1; q += 2) {
+        const o = (<usize>q) << 3;
+        const x0 = v128.load(ua + o), x1 = v128.load(ub + o);
+        const y0 = v128.load(qa + o), y1 = v128.load(qb + o);
+        S00 = f64x2.add(S00, f64x2.mul(x0, y0));
+        S01 = f64x2.add(S01, f64x2.mul(x0, y1));
+        S10 = f64x2.add(S10, f64x2.mul(x1, y0));
+        S11 = f64x2.add(S11, f64x2.mul(x1, y1));
+      }
+      let s00 = hsum(S00), s01 = hsum(S01), s10 = hsum(S10), s11 = hsum(S11);
+      if (q < q1) {
+        const o = (<usize>q) << 3;
+        const x0 = load<f64>(ua + o), x1 = load<f64>(ub + o), y0 = load<f64>(qa + o), y1 = load<f64>(qb + o);
+        s00 += x0 * y0; s01 += x0 * y1; s10 += x1 * y0; s11 += x1 * y1;
+      }
+      const ro = (<usize>r) << 3;
+      store<f64>(oa + ro, s00);
+      store<f64>(oa + ro + 8, s01);
+      store<f64>(ob + ro, s10);
+      store<f64>(ob + ro + 8, s11);
+    }
+    if (r < r1) {
+      const qa = qt + (<usize>r) * kb;
+      store<f64>(oa + ((<usize>r) << 3), dot(ua, qa, q0, q1));
+      store<f64>(ob + ((<usize>r) << 3), dot(ub, qa, q0, q1));
+    }
+  }
+  if (i < rows) {
+    const ua = u + (<usize>i) * kb;
+    const oa = out + (<usize>i) * mb;
+    for (let r = r0; r < r1; r++) store<f64>(oa + ((<usize>r) << 3), dot(ua, qt + (<usize>r) * kb, q0, q1));
+  }
+}
+
+function dot(x: usize, y: usize, q0: i32, q1: i32): f64 {
+  let S = f64x2.splat(0);
+  let q = q0;
+  for (; q + 1 < q1; q += 2) {
+    const o = (<usize>q) << 3;
+    S = f64x2.add(S, f64x2.mul(v128.load(x + o), v128.load(y + o)));
+  }
+  let s = hsum(S);
+  if (q < q1) s += load<f64>(x + ((<usize>q) << 3)) * load<f64>(y + ((<usize>q) << 3));
+  return s;
+}
