@@ -206,25 +206,45 @@ function cvxoptSolve(problems: SdpProblem[], repeats: number, tolerance?: number
 /**
  * The shapes of the one-shot quantities (quantityShapes), ours against cvxopt at the same tolerance
  * (abstol = reltol = feastol = 1e-8, our gap and feasibility tolerances 1e-8). Per instance the
- * ratio of medians is taken in this run; the per-shape ratio is the median of those ratios.
+ * ratio of medians is taken in this run; the per-shape ratio is the median of those ratios. The
+ * per-shape ms columns are medians over the shape's instances.
  */
 function compareQuantityShapes(repeats: number): void {
   const cases = quantityShapes();
-  const theirs = cvxoptSolve(cases.map((c) => c.problem), repeats, 1e-8);
-  if (!theirs) return;
-  console.log('  one-shot quantity shapes, cvxopt at 1e-8 (time inside solvers.sdp only)');
+  const problems = cases.map((c) => c.problem);
+  // Interleaved rounds (cvxopt on every case, then ours on every case) so that a change of machine
+  // load between the two phases does not bias the ratio.
+  const ours: number[][] = cases.map(() => []);
+  const theirs: number[][] = cases.map(() => []);
+  const last = cases.map((c) => {
+    for (let w = 0; w < 3; w++) solveSdp(c.problem); // let the JIT settle
+    return solveSdp(c.problem);
+  });
+  let ref: { cvxopt: string; results: { optimal: number; seconds: number; iterations: number }[] } | null = null;
+  for (let r = 0; r < repeats; r++) {
+    ref = cvxoptSolve(problems, 1, 1e-8);
+    if (!ref) return;
+    ref.results.forEach((t, i) => theirs[i].push(t.seconds * 1000));
+    cases.forEach((c, i) => {
+      const t0 = performance.now();
+      last[i] = solveSdp(c.problem);
+      ours[i].push(performance.now() - t0);
+    });
+  }
+  console.log(`  one-shot quantity shapes, cvxopt ${ref!.cvxopt} at abstol = reltol = feastol = 1e-8 (time inside solvers.sdp only), ${repeats} interleaved rounds`);
   console.log('  shape'.padEnd(40) + 'ours ms'.padStart(10) + 'cvxopt ms'.padStart(11) + 'ratio'.padStart(8) + '  max rel diff' + '  iterations ours/cvxopt');
   const byShape = new Map<string, { ours: number[]; theirs: number[]; ratios: number[]; it: string[]; maxDiff: number }>();
   cases.forEach((c, i) => {
-    const o = timeOurs(c.problem, repeats);
-    const t = theirs.results[i];
+    const t = ref!.results[i];
+    const o = last[i];
     const e = byShape.get(c.shape) ?? { ours: [], theirs: [], ratios: [], it: [], maxDiff: 0 };
-    e.ours.push(o.ms);
-    e.theirs.push(t.seconds * 1000);
-    e.ratios.push(o.ms / (t.seconds * 1000));
-    e.it.push(`${o.iterations}/${t.iterations}`);
-    e.maxDiff = Math.max(e.maxDiff, Math.abs(o.value - t.optimal) / Math.max(1, Math.abs(t.optimal)));
-    if (o.status !== 'optimal') e.it.push(o.status);
+    const a = median(ours[i]);
+    const b = median(theirs[i]);
+    e.ours.push(a);
+    e.theirs.push(b);
+    e.ratios.push(a / b);
+    e.it.push(`${o.iterations}/${t.iterations}` + (o.status === 'optimal' ? '' : ` (${o.status})`));
+    e.maxDiff = Math.max(e.maxDiff, Math.abs(o.primalObjective - t.optimal) / Math.max(1, Math.abs(t.optimal)));
     byShape.set(c.shape, e);
   });
   for (const [shape, e] of byShape) {

@@ -5,7 +5,9 @@
  *   2n×2n blocks through the embedding H ↦ [[Re H, −Im H], [Im H, Re H]], with every coefficient
  *   halved so that ⟨emb(A)/2, emb(X)⟩ = Re tr(A X). (Why the embedding and not native complex
  *   arithmetic: one set of real kernels, tested once; the price is about 2× the flops on complex
- *   blocks, which is small next to the Schur complement for the block sizes of this field. The
+ *   blocks. The Schur assembly, the largest per-block cost, does not pay it: Hermitian blocks
+ *   also keep their complex entries (PsdBlock.complex) and schur.ts pairs them in complex
+ *   arithmetic at half the dimension. The
  *   central path of a problem with embedded data keeps the embedded structure, so X and S read
  *   back as Hermitian matrices.)
  * - Matrix coefficients are stored as merged upper-triangle triplets (p ≤ q, value v standing for
@@ -43,6 +45,44 @@ export interface PsdBlock {
   tv: Float64Array[];
   /** Dense symmetric objective block. */
   c: Float64Array;
+  /**
+   * Hermitian blocks only: the same coefficients in the user's complex form, per touching
+   * constraint: entries (p ≤ q, A_pq = re + i·im, standing also for A_qp = conj) of the size/2
+   * complex matrix A with ⟨A, X⟩ = Re tr(A X). Used by the Schur assembly, which works in complex
+   * arithmetic on Hermitian blocks (half the dimension of the embedding).
+   */
+  complex?: { p: Int32Array[]; q: Int32Array[]; re: Float64Array[]; im: Float64Array[] };
+}
+
+/** The complex entries of a Hermitian coefficient from its internal triplets (emb(A)/2, upper triangle). */
+function complexEntries(p: Int32Array, q: Int32Array, v: Float64Array, n: number): { p: Int32Array; q: Int32Array; re: Float64Array; im: Float64Array } {
+  const s = n / 2;
+  const map = new Map<number, [number, number]>();
+  for (let t = 0; t < v.length; t++) {
+    const a = p[t];
+    const b = q[t];
+    if (b < s) {
+      // top-left block: Re A_ab = 2v
+      const e = map.get(a * s + b) ?? [0, 0];
+      e[0] += 2 * v[t];
+      map.set(a * s + b, e);
+    } else if (a < s && a < b - s) {
+      // top-right block above its diagonal: emb[a][j+s] = −Im A_aj / 2
+      const j = b - s;
+      const e = map.get(a * s + j) ?? [0, 0];
+      e[1] += -2 * v[t];
+      map.set(a * s + j, e);
+    }
+  }
+  const keys = [...map.keys()].sort((x, y) => x - y);
+  const out = { p: new Int32Array(keys.length), q: new Int32Array(keys.length), re: new Float64Array(keys.length), im: new Float64Array(keys.length) };
+  keys.forEach((key, e) => {
+    out.p[e] = Math.floor(key / s);
+    out.q[e] = key % s;
+    out.re[e] = map.get(key)![0];
+    out.im[e] = map.get(key)![1];
+  });
+  return out;
 }
 
 export interface Compiled {
@@ -294,7 +334,19 @@ export function compile(problem: SdpProblem): Compiled {
         c[q * n + p] = v;
       }
     }
-    return { n, cone: psdCone[k], hermitian: cones[psdCone[k]].kind === 'hermitian', cons: Int32Array.from(blockCons[k]), tp, tq, tv, c };
+    const hermitian = cones[psdCone[k]].kind === 'hermitian';
+    let complex: PsdBlock['complex'];
+    if (hermitian) {
+      complex = { p: [], q: [], re: [], im: [] };
+      for (let a = 0; a < tp.length; a++) {
+        const e = complexEntries(tp[a], tq[a], tv[a], n);
+        complex.p.push(e.p);
+        complex.q.push(e.q);
+        complex.re.push(e.re);
+        complex.im.push(e.im);
+      }
+    }
+    return { n, cone: psdCone[k], hermitian, cons: Int32Array.from(blockCons[k]), tp, tq, tv, c, complex };
   });
 
   // Orthant CSR and CSC.
