@@ -123,11 +123,14 @@ def lmi(const, coeffs, nvars):
     return matrix(g), matrix(embed(const))
 
 
+TOLERANCES = (1e-10, 1e-9, 1e-8)
+
+
 def solve(c, gs, hs, a=None, b=None):
     # Tight tolerances; cvxopt may stop with an arithmetic error when asked for more than the
     # iterates allow, so loosen step by step (the tolerance used is recorded with the case).
     last = None
-    for tol in (1e-10, 1e-9, 1e-8):
+    for tol in TOLERANCES:
         solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
         try:
             kw = {}
@@ -294,18 +297,23 @@ def main():
     ap.add_argument("--out", default="-")
     ap.add_argument("--solve-stdin", action="store_true")
     ap.add_argument("--time", type=int, default=1)
+    ap.add_argument("--tolerance", type=float, default=None,
+                    help="with --solve-stdin: use only this abstol/reltol/feastol (no loosening retries), e.g. 1e-8 to match rhosigma's defaults")
     args = ap.parse_args()
+    if args.tolerance is not None:
+        global TOLERANCES
+        TOLERANCES = (args.tolerance,)
     if args.solve_stdin:
         data = json.load(sys.stdin)
         out = {"cvxopt": cvxopt.__version__, "guessing": [], "diamond": []}
         for g in data.get("guessing", []):
             fn = guessing_problem(g["probabilities"], [read_cplx(s) for s in g["states"]])
             sol, sec = timed(fn, args.time)
-            out["guessing"].append({"value": float(sol["primal objective"]), "seconds": sec, "iterations": sol["iterations"]})
+            out["guessing"].append({"value": float(sol["primal objective"]), "seconds": sec, "iterations": sol["iterations"], "tolerance": sol["tolerance"]})
         for dd in data.get("diamond", []):
             fn = diamond_problem([read_cplx(k) for k in dd["a"]["kraus"]], [read_cplx(k) for k in dd["b"]["kraus"]])
             sol, sec = timed(fn, args.time)
-            out["diamond"].append({"value": float(sol["primal objective"]), "seconds": sec, "iterations": sol["iterations"]})
+            out["diamond"].append({"value": float(sol["primal objective"]), "seconds": sec, "iterations": sol["iterations"], "tolerance": sol["tolerance"]})
         sys.stdout.write(json.dumps(out))
         return
     rng = np.random.default_rng(args.seed)
