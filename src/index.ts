@@ -9,3 +9,5 @@ export * as sdp from './sdp/index.js';
 export * as oneshot from './oneshot/index.js';
 export * as ops from './ops/index.js';
 export { RhoError, type ErrorCode } from './errors.js';
+export * as recovery from './recovery/index.js';
+export * as guessing from './guessing/guesswork.js';
