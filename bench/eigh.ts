@@ -24,6 +24,22 @@
  * n = 256: ~1/3 Householder reduction (5.3 n³ flops), ~1/3 back-transformation (8 n³ flops), the
  * rest divide and conquer (mostly its matrix products); all scalar JavaScript at 2.5–4 GFlop/s,
  * against OpenBLAS's AVX-512 BLAS-3 kernels running the same flop count.
+ *
+ * With the WebAssembly SIMD kernels (src/linalg/wasm/): the module also times rhosigma's two paths,
+ * SIMD on and off, with calls interleaved, in wall clock and in CPU time of the process (numpy's
+ * CPU time likewise), because on the shared machine the wall-clock ratio to numpy, measured
+ * minutes apart, swings by 2–3× with the load. Two runs of `npm run bench -- eigh`, load 6–9,
+ * values and vectors, CPU-time medians in ms:
+ *     n   SIMD        TypeScript   numpy        TS/SIMD      SIMD/numpy   TS/numpy
+ *    64   1.34 | 1.12  2.30 | 2.01  0.46 | 0.65  1.71 | 1.80  2.93 | 1.71  5.03 | 3.07
+ *   128   4.64 | 5.09  10.9 | 12.1  2.39 | 3.24  2.34 | 2.38  1.94 | 1.57  4.55 | 3.74
+ *   256   42.7 | 36.4   113 | 75.0  17.3 | 22.1  2.64 | 2.06  2.48 | 1.64  6.53 | 3.39
+ * Eigenvalues only, SIMD/numpy: 1.87 | 1.43, 1.91 | 1.14, 1.73 | 1.32. The SIMD path is a steady
+ * 1.7–2.6× faster than the TypeScript one; against numpy it is at 1.6–1.9× in the quieter run and
+ * 1.9–2.9× in the other, so the 2× goal is met only some of the time. What remains at n = 64 is
+ * mostly the O(n²) TypeScript around the kernels (divide and conquer's secular equation and data
+ * movement, the small QL blocks); at n = 256 the kernels themselves, which run near the peak of
+ * 128-bit SIMD without fused multiply-add (WebAssembly has none outside relaxed SIMD).
  */
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -31,6 +47,7 @@ import { dirname, join } from 'node:path';
 import { create, all } from 'mathjs';
 import { Matrix, EigenvalueDecomposition } from 'ml-matrix';
 import { eigh } from '../src/linalg/eigh.js';
+import { setEighWasmEnabled, eighWasmStatus } from '../src/linalg/eigh-wasm.js';
 import type { CMatrix } from '../src/linalg/cmatrix.js';
 import { randomHermitian, rng } from '../test/helpers/random.js';
 
@@ -41,6 +58,40 @@ function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/** CPU time of this process in milliseconds (user + system). */
+function cpuNow(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
+}
+
+/**
+ * Median wall and CPU times in milliseconds of the two eigh paths (SIMD kernels on, off), calls
+ * interleaved so that both see the same background load.
+ */
+function timePaths(fn: () => unknown, reps: number, warmup: number): Record<'simd' | 'ts', { wall: number; cpu: number }> {
+  const t = { simd: { wall: [] as number[], cpu: [] as number[] }, ts: { wall: [] as number[], cpu: [] as number[] } };
+  for (let i = 0; i < warmup + reps; i++) {
+    for (const on of [true, false]) {
+      setEighWasmEnabled(on);
+      const w0 = performance.now();
+      const c0 = cpuNow();
+      fn();
+      const c1 = cpuNow();
+      const w1 = performance.now();
+      if (i >= warmup) {
+        const s = on ? t.simd : t.ts;
+        s.wall.push(w1 - w0);
+        s.cpu.push(c1 - c0);
+      }
+    }
+  }
+  setEighWasmEnabled(true);
+  return {
+    simd: { wall: median(t.simd.wall), cpu: median(t.simd.cpu) },
+    ts: { wall: median(t.ts.wall), cpu: median(t.ts.cpu) },
+  };
 }
 
 /** Median wall time in milliseconds of fn over reps calls, after warmup calls. */
@@ -74,7 +125,7 @@ function embedding(h: CMatrix): number[][] {
 interface NumpyTimes {
   numpy: string;
   openblas: { threadpoolctl: unknown; corename: string | null; config: string | null };
-  sizes: Record<string, { eigh: number; eigvalsh: number }>;
+  sizes: Record<string, { eigh: number; eigvalsh: number; eigh_cpu?: number; eigvalsh_cpu?: number }>;
 }
 
 function runNumpy(sizes: number[]): NumpyTimes | string {
@@ -102,12 +153,14 @@ export default async function benchEigh(flags: string[] = []): Promise<void> {
   for (let i = 0; i < 20; i++) eigh(randomHermitian(24, rng(i)));
 
   const ours = new Map<number, { eigh: number; eigvalsh: number }>();
+  const paths = new Map<number, { eigh: ReturnType<typeof timePaths>; eigvalsh: ReturnType<typeof timePaths> }>();
   for (const n of sizes) {
     const h = mats.get(n)!;
-    ours.set(n, {
-      eigh: time(() => eigh(h), reps[n], 3),
-      eigvalsh: time(() => eigh(h, { vectors: false }), reps[n], 3),
-    });
+    const p = { eigh: timePaths(() => eigh(h), reps[n], 3), eigvalsh: timePaths(() => eigh(h, { vectors: false }), reps[n], 3) };
+    paths.set(n, p);
+    // The default path (SIMD kernels where available) for the comparison with the JS libraries.
+    const def = eighWasmStatus().active ? 'simd' : 'ts';
+    ours.set(n, { eigh: p.eigh[def].wall, eigvalsh: p.eigvalsh[def].wall });
   }
 
   const np = runNumpy(sizes);
@@ -153,5 +206,23 @@ export default async function benchEigh(flags: string[] = []): Promise<void> {
     const o = ours.get(n)!.eigvalsh;
     const npT = typeof np === 'string' ? NaN : np.sizes[String(n)].eigvalsh * 1000;
     console.log(`${String(n).padStart(4)} ${fmt(o).padStart(9)} ${fmt(npT).padStart(9)} ${ratio(o, npT).padStart(11)}`);
+  }
+  const st = eighWasmStatus();
+  console.log(`\nrhosigma's two paths, calls interleaved: WebAssembly SIMD kernels (${st.active ? 'available' : `unavailable: ${st.reason}`}) and pure TypeScript;`);
+  console.log('median ms, wall clock and CPU time of the process (CPU time is less disturbed by other load on a shared machine)');
+  for (const kind of ['eigh', 'eigvalsh'] as const) {
+    console.log(kind === 'eigh' ? 'values and vectors:' : 'eigenvalues only:');
+    console.log('   n   simd wall    ts wall  numpy wall   simd cpu     ts cpu  numpy cpu  ts/simd(cpu)  simd/numpy(cpu)  ts/numpy(cpu)');
+    for (const n of sizes) {
+      const p = paths.get(n)![kind];
+      const ref = typeof np === 'string' ? undefined : np.sizes[String(n)];
+      const npWall = ref ? ref[kind] * 1000 : NaN;
+      const npCpu = ref?.[`${kind}_cpu`] !== undefined ? ref[`${kind}_cpu`]! * 1000 : NaN;
+      console.log(
+        `${String(n).padStart(4)} ${fmt(p.simd.wall).padStart(11)} ${fmt(p.ts.wall).padStart(10)} ${fmt(npWall).padStart(11)} ` +
+          `${fmt(p.simd.cpu).padStart(10)} ${fmt(p.ts.cpu).padStart(10)} ${fmt(npCpu).padStart(10)} ` +
+          `${ratio(p.ts.cpu, p.simd.cpu).padStart(13)} ${ratio(p.simd.cpu, npCpu).padStart(16)} ${ratio(p.ts.cpu, npCpu).padStart(14)}`,
+      );
+    }
   }
 }
