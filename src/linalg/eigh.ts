@@ -32,8 +32,9 @@
  * whole solver where the kernels are unavailable or switched off (RHOSIGMA_EIGH_WASM=0 or
  * setEighWasmEnabled(false)), is the scalar TypeScript below. The kernels sum in a different
  * order, so the two paths agree to rounding, not bit for bit. Measured (CPU time, medians,
- * interleaved runs in one process on the shared 2-core development machine): the SIMD path is
- * 1.8×, 2.2× and 2.9× faster than the scalar one at n = 64, 128, 256.
+ * interleaved runs in one process on the shared 2-core development machine, bench/eigh.ts): the
+ * SIMD path is 1.7–1.8×, 2.2–2.4× and 2.1–2.9× faster than the scalar one at n = 64, 128, 256,
+ * and 1.6–2.9× slower than numpy.linalg.eigh on one OpenBLAS thread (the scalar path: 3–6.5×).
  *
  * Hand-written because no JavaScript library offers a fast complex Hermitian eigensolver: mathjs's
  * `eigs` and ml-matrix's real symmetric solver on the 2n embedding are one to three orders of
