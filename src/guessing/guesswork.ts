@@ -44,16 +44,17 @@
  * constraints; each interior-point iteration costs about O(N d⁶) for the Schur complement plus O(d⁶)
  * to factor it, typically 10–30 iterations; plus N eigendecompositions of d×d matrices.
  */
-import {
-  CMatrix, add, combine, eigh, hermitianPart, mul, trace, traceOfProductRe, zeros,
-} from '../linalg/index.js';
-import { fromSpectrum } from '../linalg/functions.js';
+import { CMatrix, combine, hermitianPart, trace, traceOfProductRe } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import { checkNumber, checkProbabilities } from '../quantum/arguments.js';
 import { checkDensityMatrix, DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import {
-  solveSdp, DEFAULT_OPTIONS, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpAnswer, type SdpOptions,
+  solveSdp, DEFAULT_OPTIONS, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions,
 } from '../sdp/index.js';
+import {
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
+  type SolverCertificate,
+} from '../oneshot/sdp-support.js';
 
 /** Largest support of X searched over all orders (6! = 720 orders). */
 export const MAX_SUPPORT = 6;
@@ -139,16 +140,11 @@ export interface GuessingOrder {
   element: CMatrix;
 }
 
-export interface GuessworkCertificate {
-  status: SdpAnswer['status'];
-  primalObjective: number;
-  dualObjective: number;
-  /** |primal − dual| and |gap| / (1 + |primal| + |dual|). */
-  gap: number;
-  relativeGap: number;
-  primalResidual: number;
-  dualResidual: number;
-  iterations: number;
+/**
+ * The solver's certificate (objectives as the minimisation they are, |gap|; sdp-support.ts) with the
+ * two checkable bounds and the stopping tolerances of this solve.
+ */
+export interface GuessworkCertificate extends SolverCertificate {
   /** Tr Y − d·ε for the dual point Y shifted into feasibility (weak duality). */
   lowerBound: number;
   /** Cost of the returned (renormalised) strategy: achieved by it. */
@@ -156,7 +152,6 @@ export interface GuessworkCertificate {
   /** The solver's stopping tolerances on the relative gap and the residuals used for this solve. */
   gapTolerance: number;
   feasibilityTolerance: number;
-  message?: string;
 }
 
 export interface QuantumGuesswork {
@@ -190,41 +185,6 @@ export interface QuantumGuessworkOptions {
   weightTolerance?: number;
   /** Passed to the SDP solver (default: tolerances TIGHT_TOLERANCE, falling back to the solver's defaults). */
   sdp?: SdpOptions;
-}
-
-/** Y = Σ_i y_i A_i for the coordinate rows of Σ_g M_g = 1 (matrixCoordinates order, coordinateEntry convention). */
-function coordinateOperator(d: number, y: readonly number[]): CMatrix {
-  const z = zeros(d, d);
-  matrixCoordinates(d, true).forEach((c, k) => {
-    const v = y[k];
-    if (c.i === c.j) z.re[c.i * d + c.i] += v;
-    else if (c.part === 're') {
-      // entry [i, j, 1/2] mirrored: A_ij = A_ji = 1/2
-      z.re[c.i * d + c.j] += v / 2;
-      z.re[c.j * d + c.i] += v / 2;
-    } else {
-      // entry [i, j, 0, 1/2] mirrored: A_ij = i/2, A_ji = −i/2
-      z.im[c.i * d + c.j] += v / 2;
-      z.im[c.j * d + c.i] -= v / 2;
-    }
-  });
-  return z;
-}
-
-function minEigenvalue(h: CMatrix): number {
-  return eigh(hermitianPart(h), { vectors: false }).values[0];
-}
-
-/** G^{−1/2} M G^{−1/2} for each M, G = Σ M (pseudo-inverse root on G's support). */
-function renormalise(elements: readonly CMatrix[]): CMatrix[] {
-  if (elements.length === 0) return [];
-  const d = elements[0].rows;
-  let g = zeros(d, d);
-  for (const m of elements) g = add(g, m);
-  const e = eigh(hermitianPart(g));
-  const top = Math.max(...e.values, 0);
-  const root = fromSpectrum(e.vectors!, Array.from(e.values, (v) => (v > 1e-14 * top ? 1 / Math.sqrt(v) : 0)));
-  return elements.map((m) => hermitianPart(mul(mul(root, m), root)));
 }
 
 function readStates(states: readonly CMatrix[], count: number, tol: number): CMatrix[] {
@@ -315,10 +275,10 @@ export function guessworkWithSideInformation(
     solverOptions = {};
     answer = solveSdp(problem, solverOptions);
   }
-  const warning = acceptAnswer(answer);
+  const warning = acceptAnswer(answer, 'the guesswork', ACCEPT_INACCURATE_LOOSE);
 
   // Lower bound from the dual: Y − ε·1 is feasible.
-  const y = coordinateOperator(d, answer.y);
+  const y = multiplierMatrix(answer.y, 0, d);
   let eps = 0;
   for (const c of costs) eps = Math.max(eps, -minEigenvalue(combine([1, -1], [c, y])));
   const lowerBound = trace(y).re - d * eps;
@@ -332,7 +292,7 @@ export function guessworkWithSideInformation(
     if (w > weightTolerance) kept.push(g);
     else dropped += Math.max(0, w);
   });
-  const povm = renormalise(kept.map((g) => elements[g]));
+  const povm = renormalisePovm(kept.map((g) => elements[g]));
   const average = combine(p, rho);
   let upperBound = 0;
   const strategy: GuessingOrder[] = kept.map((g, k) => {
@@ -346,21 +306,15 @@ export function guessworkWithSideInformation(
   });
   strategy.sort((a, b) => b.probability - a.probability);
 
+  const { message, ...numbers } = solverCertificate(answer, false);
   const certificate: GuessworkCertificate = {
-    status: answer.status,
-    primalObjective: answer.primalObjective,
-    dualObjective: answer.dualObjective,
-    gap: Math.abs(answer.gap),
-    relativeGap: answer.relativeGap,
-    primalResidual: answer.primalResidual,
-    dualResidual: answer.dualResidual,
-    iterations: answer.iterations,
+    ...numbers,
     lowerBound,
     upperBound,
     gapTolerance: solverOptions.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance,
     feasibilityTolerance: solverOptions.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance,
+    ...(message ? { message } : {}),
   };
-  if (answer.message) certificate.message = answer.message;
   const out: QuantumGuesswork = {
     value: answer.primalObjective,
     moment,
@@ -375,19 +329,4 @@ export function guessworkWithSideInformation(
   };
   if (warning) out.warning = warning;
   return out;
-}
-
-/** 'optimal' passes; 'inaccurate'/'iteration-limit' within 1e-5 pass with a warning; anything else throws. */
-function acceptAnswer(answer: SdpAnswer): string | undefined {
-  if (answer.status === 'optimal') return undefined;
-  const loose = Math.max(answer.relativeGap, answer.primalResidual, answer.dualResidual);
-  if ((answer.status === 'inaccurate' || answer.status === 'iteration-limit') && loose <= 1e-5) {
-    return `The SDP solver stopped with status "${answer.status}" (relative gap ${answer.relativeGap.toExponential(2)}, residuals ${answer.primalResidual.toExponential(2)} / ${answer.dualResidual.toExponential(2)}); the value is accurate to about that much.`;
-  }
-  throw new RhoError(
-    'solver-failed',
-    `The guesswork SDP did not solve: status "${answer.status}"${answer.message ? ` (${answer.message})` : ''}.`,
-    undefined,
-    { status: answer.status, relativeGap: answer.relativeGap, primalResidual: answer.primalResidual, dualResidual: answer.dualResidual },
-  );
 }

@@ -38,7 +38,9 @@ import { RhoError } from '../errors.js';
 import type { Channel } from '../quantum/types.js';
 import { applyKraus, krausSum, krausToChoi } from '../quantum/channels.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions } from '../sdp/index.js';
-import { acceptSdpAnswer, coordinateCombination, minEigenvalue, solverCertificate, type SolverCertificate } from './guessing.js';
+import {
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, solverCertificate, type SolverCertificate,
+} from './sdp-support.js';
 
 export interface DiamondResult {
   /** ½‖N − M‖_⋄ from the solver's primal objective. */
@@ -122,7 +124,7 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
     },
     options.sdp,
   );
-  const warning = acceptSdpAnswer(answer, 'the diamond distance');
+  const warning = acceptAnswer(answer, 'the diamond distance', ACCEPT_INACCURATE_LOOSE);
 
   // The optimal input: σ normalised to unit trace (it has unit trace up to the residual).
   let sigma = hermitianPart(answer.x[1] as CMatrix);
@@ -141,7 +143,7 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
   const lower = 0.5 * traceNorm(sub(applyOnFirst(a, psiOp, din, din), applyOnFirst(b, psiOp, din, din)));
 
   // The dual point: S_T = −Zc, S_W = −J − Zc with Zc = Σ_c y_c A_c; Z = −Zc.
-  const Z = scale(coordinateCombination(n, answer.y), -1);
+  const Z = scale(multiplierMatrix(answer.y, 0, n), -1);
   const dualViolation = Math.max(0, -minEigenvalue(Z), -minEigenvalue(sub(Z, J)));
   const zr = add(Z, scale(identity(n), dualViolation));
   const reduced = eigh(hermitianPart(partialTrace(zr, [din, dout], [1])), { vectors: false }).values;

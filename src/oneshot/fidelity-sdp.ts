@@ -24,7 +24,9 @@ import { CMatrix, adjoint, eigh, hermitianPart, mul, zeros } from '../linalg/ind
 import { zeroThreshold, DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
 import { solveSdp, coordinateEntry, matrixCoordinates, type BlockTerm, type Constraint, type SdpOptions } from '../sdp/index.js';
-import { acceptSdpAnswer, realPartEntries, solverCertificate, type SolverCertificate } from './guessing.js';
+import {
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, realPartEntries, solverCertificate, type SolverCertificate,
+} from './sdp-support.js';
 
 /** Support of a PSD matrix: V (n × r, orthonormal columns) and the kept eigenvalues. */
 export function supportOf(m: CMatrix, tol: number): { basis: CMatrix; values: number[] } {
@@ -108,7 +110,7 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
     ...diagonalBlockConstraints(0, r, b.values, 'σ block'),
   ];
   const answer = solveSdp({ cones: [{ kind: 'hermitian', size: r + s }], objective, constraints }, options.sdp);
-  const warning = acceptSdpAnswer(answer, 'the fidelity');
+  const warning = acceptAnswer(answer, 'the fidelity', ACCEPT_INACCURATE_LOOSE);
   const Z = answer.x[0] as CMatrix;
   const Xp = zeros(r, s);
   for (let i = 0; i < r; i++) {

@@ -19,8 +19,8 @@
  *          p_guess ≤ Tr Y + d·ε (weak duality).
  * Both are floating-point evidence, not proofs (eigenvalues carry rounding of order 1e-15·‖Y‖).
  *
- * Also here (shared by the other SDP-based quantities of src/oneshot and src/recovery): the
- * certificate every SDP answer carries, and a helper that writes Re Σ c_kl X_kl as solver entries.
+ * The certificate, the acceptance rule and the dual/POVM repairs are shared with the other SDP-based
+ * quantities (sdp-support.ts).
  *
  * Deliberately not here: the closed form for two states (Helstrom) — the tests compare against it —,
  * guesswork, and input validation beyond shapes and probabilities (the ops layer validates states).
@@ -29,122 +29,15 @@
  * O(n d⁶ + d⁶) for the Schur complement, typically 10–30 iterations. Plus n eigendecompositions.
  */
 import {
-  CMatrix, add, eigh, identity, mul, scale, sub, trace, traceOfProductRe, zeros, hermitianPart,
+  CMatrix, add, identity, mul, scale, sub, trace, traceOfProductRe, zeros, hermitianPart,
 } from '../linalg/index.js';
-import { fromSpectrum } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
 import { checkProbabilities } from '../quantum/arguments.js';
+import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions } from '../sdp/index.js';
 import {
-  solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type Entry, type SdpAnswer,
-  type SdpOptions,
-} from '../sdp/index.js';
-
-/** What every SDP-based answer carries about the solve (DESIGN.md: "Every SDP-based answer carries its certificate"). */
-export interface SolverCertificate {
-  status: SdpAnswer['status'];
-  /** Objectives in the sign of the quantity (maximisations are reported as maximisations). */
-  primalObjective: number;
-  dualObjective: number;
-  /** |primal − dual| and |gap| / (1 + |primal| + |dual|). */
-  gap: number;
-  relativeGap: number;
-  /** Relative residuals of the primal and dual equality constraints, as the solver reports them. */
-  primalResidual: number;
-  dualResidual: number;
-  iterations: number;
-  message?: string;
-}
-
-/** The certificate of a solver answer; `negate` for maximisations written as minimisations. */
-export function solverCertificate(answer: SdpAnswer, negate: boolean): SolverCertificate {
-  const sign = negate ? -1 : 1;
-  const c: SolverCertificate = {
-    status: answer.status,
-    primalObjective: sign * answer.primalObjective,
-    dualObjective: sign * answer.dualObjective,
-    gap: Math.abs(answer.gap),
-    relativeGap: answer.relativeGap,
-    primalResidual: answer.primalResidual,
-    dualResidual: answer.dualResidual,
-    iterations: answer.iterations,
-  };
-  if (answer.message) c.message = answer.message;
-  return c;
-}
-
-/**
- * Throws 'solver-failed' unless the answer is usable: status 'optimal', or 'inaccurate' /
- * 'iteration-limit' with relative gap and residuals below 1e-5 (then the caller reports a warning).
- * Returns the warning text, or undefined when the status is 'optimal'.
- */
-export function acceptSdpAnswer(answer: SdpAnswer, what: string): string | undefined {
-  if (answer.status === 'optimal') return undefined;
-  const loose = Math.max(answer.relativeGap, answer.primalResidual, answer.dualResidual);
-  if ((answer.status === 'inaccurate' || answer.status === 'iteration-limit') && loose <= 1e-5) {
-    return `The SDP solver stopped with status "${answer.status}" (relative gap ${answer.relativeGap.toExponential(2)}, residuals ${answer.primalResidual.toExponential(2)} / ${answer.dualResidual.toExponential(2)}); the value is accurate to about that much.`;
-  }
-  throw new RhoError(
-    'solver-failed',
-    `The SDP for ${what} did not solve: status "${answer.status}"${answer.message ? ` (${answer.message})` : ''}.`,
-    undefined,
-    { status: answer.status, relativeGap: answer.relativeGap, primalResidual: answer.primalResidual, dualResidual: answer.dualResidual },
-  );
-}
-
-/**
- * Solver entries E (on one block) with ⟨E, X⟩ = Re Σ c·X_kl over the given terms [k, l, c_re, c_im].
- * Uses the entry convention of src/sdp/types.ts: an off-diagonal entry [r, s, v] stands for A_rs = v
- * and A_sr = conj v, so ⟨A, X⟩ = 2 Re(conj(v) X_rs); hence v = conj(c)/2 at (k, l) when k < l, and
- * v = c/2 at (l, k) when k > l (X_kl = conj X_lk); on the diagonal v = Re c.
- */
-export function realPartEntries(terms: readonly (readonly [number, number, number, number])[]): Entry[] {
-  const out: Entry[] = [];
-  for (const [k, l, cr, ci] of terms) {
-    if (cr === 0 && ci === 0) continue;
-    if (k === l) {
-      if (cr !== 0) out.push([k, k, cr]);
-    } else if (k < l) {
-      out.push([k, l, cr / 2, -ci / 2]);
-    } else {
-      out.push([l, k, cr / 2, ci / 2]);
-    }
-  }
-  return out;
-}
-
-/** Σ_i y_i A_i for constraints that are the real coordinates of a d×d matrix (matrixCoordinates order). */
-export function coordinateCombination(d: number, y: readonly number[], offset = 0): CMatrix {
-  const z = zeros(d, d);
-  let k = offset;
-  for (const c of matrixCoordinates(d, true)) {
-    const v = y[k++];
-    if (c.i === c.j) {
-      z.re[c.i * d + c.i] += v;
-    } else if (c.part === 're') {
-      z.re[c.i * d + c.j] += v / 2;
-      z.re[c.j * d + c.i] += v / 2;
-    } else {
-      z.im[c.i * d + c.j] += v / 2;
-      z.im[c.j * d + c.i] -= v / 2;
-    }
-  }
-  return z;
-}
-
-/** Smallest eigenvalue of a Hermitian matrix (its Hermitian part, to absorb rounding). */
-export function minEigenvalue(h: CMatrix): number {
-  return eigh(hermitianPart(h), { vectors: false }).values[0];
-}
-
-/** G^{−1/2} M G^{−1/2} for every M, with G = Σ M (on G's support; G is close to 1 in practice). */
-export function renormalisePovm(elements: readonly CMatrix[]): CMatrix[] {
-  let g = elements[0];
-  for (let k = 1; k < elements.length; k++) g = add(g, elements[k]);
-  const { values, vectors } = eigh(hermitianPart(g), { vectors: true });
-  const top = values[values.length - 1];
-  const inv = fromSpectrum(vectors!, Array.from(values, (v) => (v > 1e-14 * top ? 1 / Math.sqrt(v) : 0)));
-  return elements.map((m) => hermitianPart(mul(mul(inv, m), inv)));
-}
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
+  type SolverCertificate,
+} from './sdp-support.js';
 
 export interface GuessingResult {
   /** p_guess from the solver's primal objective. */
@@ -220,7 +113,7 @@ export function guessingProbability(
     });
   }
   const answer = solveSdp({ cones, objective, constraints }, options.sdp);
-  const warning = acceptSdpAnswer(answer, 'the guessing probability');
+  const warning = acceptAnswer(answer, 'the guessing probability', ACCEPT_INACCURATE_LOOSE);
 
   const raw = answer.x.map((m) => hermitianPart(m as CMatrix));
   let sum = raw[0];
@@ -232,7 +125,7 @@ export function guessingProbability(
   const measurement = renormalisePovm(raw);
 
   // The dual: S_x = −p_x ρ_x − Z with Z = Σ_i y_i A_i, so Y = −Z satisfies Y − p_x ρ_x = S_x ⪰ 0.
-  const dual = scale(coordinateCombination(d, answer.y), -1);
+  const dual = scale(multiplierMatrix(answer.y, 0, d), -1);
   let dualViolation = 0;
   for (const w of weighted) dualViolation = Math.max(dualViolation, -minEigenvalue(sub(dual, w)));
   let lower = 0;

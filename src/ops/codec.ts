@@ -562,6 +562,16 @@ export function writeNumber(x: number): number | 'Infinity' | '-Infinity' {
   return cleanZero(x);
 }
 
+/**
+ * An SDP certificate (src/oneshot/sdp-support.ts) as plain data: numbers through writeNumber (an
+ * infinite objective becomes "Infinity"), strings copied, key order kept.
+ */
+export function writeCertificate(c: object): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(c)) out[k] = typeof v === 'number' ? writeNumber(v) : v;
+  return out;
+}
+
 export function writeState(s: State): { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } {
   const out: { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } = {
     matrix: writeMatrix(s.matrix),

@@ -12,18 +12,13 @@
  */
 import type { CMatrix } from '../linalg/cmatrix.js';
 import { RhoError } from '../errors.js';
-import { guessingProbability, type SolverCertificate } from '../oneshot/guessing.js';
+import { guessingProbability } from '../oneshot/guessing.js';
 import { diamondDistance } from '../oneshot/diamond.js';
 import { fidelitySdp } from '../oneshot/fidelity-sdp.js';
 import { defineOp } from './registry.js';
-import { readChannel, readNumber, readState, schemas, writeMatrix } from './codec.js';
+import { readChannel, readNumber, readState, schemas, writeCertificate, writeMatrix } from './codec.js';
 
 const MAX_STATES = 256;
-
-/** The certificate as plain data (numbers only, the status a string). */
-export function writeCertificate(c: SolverCertificate): Record<string, unknown> {
-  return { ...c };
-}
 
 defineOp({
   name: 'guessing-probability',

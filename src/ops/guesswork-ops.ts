@@ -14,7 +14,7 @@ import {
   DEFAULT_WEIGHT_TOLERANCE, guessworkClassical, guessworkWithSideInformation,
 } from '../guessing/guesswork.js';
 import { defineOp } from './registry.js';
-import { readNumber, readState, schemas, writeComplexMatrix, writeNumber } from './codec.js';
+import { readNumber, readState, schemas, writeCertificate, writeComplexMatrix, writeNumber } from './codec.js';
 
 /** Largest alphabet accepted in the request (the closed form is cheap; the SDP checks its own limit). */
 const MAX_ALPHABET = 1 << 16;
@@ -69,26 +69,14 @@ defineOp({
     const weightTolerance =
       req.weightTolerance === undefined ? DEFAULT_WEIGHT_TOLERANCE : readNumber(req.weightTolerance, 'weightTolerance', { min: 0, max: 1 });
     const g = guessworkWithSideInformation(p, states, { moment, tolerance, weightTolerance });
-    const c = g.certificate;
+    const { lowerBound, upperBound, ...certificate } = g.certificate;
     const out: Record<string, unknown> & { value: unknown } = {
       value: writeNumber(g.value),
       method: 'sdp',
       moment,
       strategy: g.strategy.map((s) => ({ order: s.order, probability: s.probability, weight: s.weight, element: writeComplexMatrix(s.element) })),
-      certificate: {
-        status: c.status,
-        primalObjective: writeNumber(c.primalObjective),
-        dualObjective: writeNumber(c.dualObjective),
-        gap: writeNumber(c.gap),
-        relativeGap: writeNumber(c.relativeGap),
-        primalResidual: writeNumber(c.primalResidual),
-        dualResidual: writeNumber(c.dualResidual),
-        iterations: c.iterations,
-        gapTolerance: c.gapTolerance,
-        feasibilityTolerance: c.feasibilityTolerance,
-        ...(c.message ? { message: c.message } : {}),
-      },
-      bounds: { lower: writeNumber(c.lowerBound), upper: writeNumber(c.upperBound) },
+      certificate: writeCertificate(certificate),
+      bounds: { lower: writeNumber(lowerBound), upper: writeNumber(upperBound) },
       droppedWeight: g.droppedWeight,
       weightTolerance: g.weightTolerance,
       ordersSearched: g.ordersSearched,

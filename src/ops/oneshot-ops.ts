@@ -26,7 +26,7 @@ import { conditionalMinEntropy, conditionalMaxEntropy } from '../oneshot/conditi
 import { maxInformation } from '../oneshot/max-information.js';
 import type { SdpCertificate } from '../oneshot/sdp-support.js';
 import { defineOp, type OpResult } from './registry.js';
-import { readNumber, readOperatorState, readState, readSystems, schemas, writeMatrix, writeNumber } from './codec.js';
+import { readNumber, readOperatorState, readState, readSystems, schemas, writeCertificate, writeMatrix, writeNumber } from './codec.js';
 import { extraDivergenceFamilies } from './entropy-ops.js';
 
 /** Largest matrix side for D_H (d² + 1 constraints). */
@@ -69,21 +69,6 @@ function tooLarge(path: string, what: string, size: number, limit: number): RhoE
   return new RhoError('too-large', `${what} is ${size}, above this op's limit of ${limit} (the SDP grows as its square).`, path, { size, limit });
 }
 
-/** The certificate as plain data (an infinite objective becomes "Infinity"). */
-export function writeSdpCertificate(c: SdpCertificate): Record<string, unknown> {
-  return {
-    status: c.status,
-    primalObjective: writeNumber(c.primalObjective),
-    dualObjective: writeNumber(c.dualObjective),
-    gap: writeNumber(c.gap),
-    relativeGap: writeNumber(c.relativeGap),
-    primalResidual: writeNumber(c.primalResidual),
-    dualResidual: writeNumber(c.dualResidual),
-    iterations: c.iterations,
-    problem: c.problem,
-  };
-}
-
 function withNote(out: OpResult, note: string | undefined): OpResult {
   if (note) out.note = note;
   return out;
@@ -106,7 +91,7 @@ extraDivergenceFamilies.set('hypothesis-testing', ({ rho, sigma, request, contex
     method: r.method,
     commutator: r.commutator,
     convention: r.convention,
-    certificate: writeSdpCertificate(r.certificate),
+    certificate: writeCertificate(r.certificate),
     supportTolerance,
   };
   if (r.reason) out.reason = r.reason;
@@ -145,7 +130,7 @@ defineOp({
       smoothed: writeMatrix(r.smoothed),
       rootFidelity: r.rootFidelity,
       insideSupport: r.insideSupport,
-      certificate: writeSdpCertificate(r.certificate),
+      certificate: writeCertificate(r.certificate),
       supportTolerance: tol,
     };
     if (r.reason) out.reason = r.reason;
@@ -176,7 +161,7 @@ const bipartiteArgs = (bWhat: string) => ({
 });
 
 function sigmaAnswer(value: number, sigma: CMatrix, certificate: SdpCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
-  return withNote({ value: writeNumber(value), sigma: writeMatrix(sigma), ...extra, certificate: writeSdpCertificate(certificate), supportTolerance: tol }, note);
+  return withNote({ value: writeNumber(value), sigma: writeMatrix(sigma), ...extra, certificate: writeCertificate(certificate), supportTolerance: tol }, note);
 }
 
 defineOp({

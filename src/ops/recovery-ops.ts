@@ -13,7 +13,7 @@
  * Cost: that of src/recovery (Petz: O(d³) eigendecompositions; fidelity of recovery: an SDP).
  */
 import { defineOp, type OpResult } from './registry.js';
-import { readNumber, readState, readSystems, schemas, writeMatrix, writeState, writeChannel } from './codec.js';
+import { readNumber, readState, readSystems, schemas, writeCertificate, writeMatrix, writeState, writeChannel } from './codec.js';
 import { petzRecovery } from '../recovery/petz.js';
 import { fidelityOfRecovery } from '../recovery/fidelity-of-recovery.js';
 import { toOriginalOrder, checkTripartiteGroups } from '../recovery/tripartite.js';
@@ -102,7 +102,7 @@ defineOp({
       // F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) for the returned channel, by the closed form: a checkable lower bound.
       achieved: f.achieved,
       // Objectives of the certificate are those of the root fidelity √F.
-      certificate: { ...f.certificate },
+      certificate: writeCertificate(f.certificate),
       diagnostics: f.diagnostics,
     };
     if (f.warning) out.warning = f.warning;

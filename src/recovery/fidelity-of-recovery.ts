@@ -31,14 +31,16 @@
 import {
   CMatrix, eigh, hermitianPart, identity, mul,
 } from '../linalg/index.js';
-import { DEFAULT_SUPPORT_TOLERANCE, fromSpectrum } from '../linalg/functions.js';
+import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import type { Channel, State } from '../quantum/types.js';
 import { applyChannel, choiToKraus, krausSum, krausToChoi } from '../quantum/channels.js';
 import { fidelity } from '../quantities/fidelity.js';
 import {
   solveSdp, partialTraceConstraints, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions,
 } from '../sdp/index.js';
-import { acceptSdpAnswer, realPartEntries, solverCertificate, type SolverCertificate } from '../oneshot/guessing.js';
+import {
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, inverseRootOnSupport, realPartEntries, solverCertificate, type SolverCertificate,
+} from '../oneshot/sdp-support.js';
 import { supportOf, diagonalBlockConstraints } from '../oneshot/fidelity-sdp.js';
 import { tripartite, type Tripartite } from './tripartite.js';
 import { reduceLast } from './petz.js';
@@ -137,7 +139,7 @@ export function fidelityOfRecovery(
     { cones: [{ kind: 'hermitian', size }, { kind: 'hermitian', size: dJ }], objective, constraints },
     options.sdp,
   );
-  const warning = acceptSdpAnswer(answer, 'the fidelity of recovery');
+  const warning = acceptAnswer(answer, 'the fidelity of recovery', ACCEPT_INACCURATE_LOOSE);
 
   // The optimal channel, made trace preserving.
   const bDims = b.map((s) => dims[s]);
@@ -147,13 +149,11 @@ export function fidelityOfRecovery(
   const J = hermitianPart(answer.x[1] as CMatrix);
   const raw = choiToKraus(J, [dB], [dO], tol);
   const G = hermitianPart(krausSum(raw, 'KstarK'));
-  const eg = eigh(G, { vectors: true });
   let traceDefect = 0;
-  eg.values.forEach((v) => {
+  eigh(G, { vectors: false }).values.forEach((v) => {
     traceDefect = Math.max(traceDefect, Math.abs(v - 1));
   });
-  const top = eg.values[eg.values.length - 1];
-  const invRoot = fromSpectrum(eg.vectors!, Array.from(eg.values, (v) => (v > 1e-14 * top ? 1 / Math.sqrt(v) : 0)));
+  const invRoot = inverseRootOnSupport(G);
   const channel: Channel = { kraus: raw.kraus.map((K) => mul(K, invRoot)), inputDims, outputDims };
   const flat: Channel = { kraus: channel.kraus, inputDims: [dB], outputDims: [dO] };
   const state: State = { matrix: rhoAB, dims: [dA, dB] };
