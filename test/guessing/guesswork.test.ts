@@ -6,7 +6,6 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import {
   CMatrix, add, combine, eigh, fromRows, hermitianPart, identity, maxAbs, sub, traceOfProductRe, zeros,
@@ -18,6 +17,7 @@ import { RhoError } from '../../src/errors.js';
 import { handle } from '../../src/ops/handle.js';
 import '../../src/ops/guesswork-ops.js';
 import { rng, randomDensity } from '../helpers/random.js';
+import { liveReference } from '../helpers/python.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guesswork.py`;
@@ -233,18 +233,8 @@ describe('guesswork with quantum side information against cvxopt.solvers.sdp', (
   });
 
   it('matches a fresh batch of random ensembles solved by cvxopt in this run (seed 11) to 1e-6 relative', (t) => {
-    const r = spawnSync('/usr/bin/python3', [script, '--seed', '11', '--count', '4', '--out', '-'], {
-      encoding: 'utf8',
-      env: { ...process.env, OPENBLAS_NUM_THREADS: '1' },
-      timeout: 60_000,
-    });
-    if (r.error || r.status !== 0) {
-      const why = `/usr/bin/python3 with cvxopt could not run ${script}: ${r.error?.message ?? r.stderr}`;
-      if (process.env.CI === 'true') assert.fail(`${why} (CI=true: a missing reference is a failure)`);
-      t.skip(`${why} — skipped outside CI; install python3-cvxopt to run this check`);
-      return;
-    }
-    compareWithCvxopt(JSON.parse(r.stdout) as ReferenceFile, 'live');
+    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '11', '--count', '4', '--out', '-'], 'python3-cvxopt');
+    if (ref) compareWithCvxopt(ref, 'live');
   });
 });
 

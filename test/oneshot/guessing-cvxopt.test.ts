@@ -6,12 +6,12 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { fromRows, type CMatrix } from '../../src/linalg/index.js';
 import { guessingProbability } from '../../src/oneshot/guessing.js';
 import { diamondDistance } from '../../src/oneshot/diamond.js';
 import type { Channel } from '../../src/quantum/types.js';
+import { liveReference } from '../helpers/python.js';
 
 type Plain = { re: number[][]; im: number[][] };
 interface ReferenceFile {
@@ -29,19 +29,8 @@ const ch = (c: { kraus: Plain[]; inputDims: number[]; outputDims: number[] }): C
   kraus: c.kraus.map(m), inputDims: c.inputDims, outputDims: c.outputDims,
 });
 
-function live(t: { skip: (msg: string) => void }): ReferenceFile | null {
-  const r = spawnSync('/usr/bin/python3', [script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], {
-    encoding: 'utf8',
-    env: { ...process.env, OPENBLAS_NUM_THREADS: '1' },
-    timeout: 60_000,
-  });
-  if (r.error || r.status !== 0) {
-    const why = `/usr/bin/python3 with cvxopt could not run ${script}: ${r.error?.message ?? r.stderr}`;
-    if (process.env.CI === 'true') assert.fail(`${why} (CI=true: a missing reference is a failure)`);
-    t.skip(`${why} — skipped outside CI; install python3-cvxopt to run this check`);
-    return null;
-  }
-  return JSON.parse(r.stdout) as ReferenceFile;
+function live(t: { skip: (msg: string) => void }): ReferenceFile | undefined {
+  return liveReference<ReferenceFile>(t, [script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], 'python3-cvxopt');
 }
 
 function relErr(a: number, b: number): number {

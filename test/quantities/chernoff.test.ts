@@ -1,12 +1,12 @@
 // Facts about the quantum Chernoff exponent ξ = −log min_s Tr ρ^s σ^{1−s}. Sources in each it(...).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import { diagonal, kron, outer, columnVector, scale, fromRows, toRows } from '../../src/linalg/index.js';
 import { chernoffExponent, chernoffTrace } from '../../src/quantities/chernoff.js';
 import { fidelity } from '../../src/quantities/fidelity.js';
 import { traceDistance } from '../../src/quantities/distances.js';
 import { rng, randomDensity } from '../helpers/random.js';
+import { runPythonCode } from '../helpers/python.js';
 
 function randomDistribution(n: number, r: () => number, zeros = 0): number[] {
   const p = Array.from({ length: n }, (_, i) => (i < zeros ? 0 : r() + 0.05));
@@ -32,9 +32,7 @@ describe('quantum Chernoff exponent', () => {
       '    out.append([-best[0] / np.log(2), best[1]])',
       'print(json.dumps(out))',
     ].join('\n');
-    const res = spawnSync('/usr/bin/python3', ['-c', script], { input: JSON.stringify(cases), encoding: 'utf8' });
-    assert.equal(res.status, 0, res.stderr);
-    const expected: [number, number][] = JSON.parse(res.stdout);
+    const expected: [number, number][] = runPythonCode(script, cases);
     cases.forEach(([p, q], k) => {
       const c = chernoffExponent(diagonal(p), diagonal(q));
       assert.ok(Math.abs(c.value - expected[k][0]) < 1e-10, `case ${k}: ${c.value} vs ${expected[k][0]}`);
@@ -61,9 +59,7 @@ describe('quantum Chernoff exponent', () => {
       'print(json.dumps(out))',
     ].join('\n');
     const payload = JSON.stringify(pairs.map(([a, b]) => [toRows(a), toRows(b)]));
-    const res = spawnSync('/usr/bin/python3', ['-c', script], { input: payload, encoding: 'utf8' });
-    assert.equal(res.status, 0, res.stderr);
-    const expected: [number, number][] = JSON.parse(res.stdout);
+    const expected: [number, number][] = runPythonCode(script, payload);
     pairs.forEach(([a, b], k) => {
       const c = chernoffExponent(a, b);
       assert.ok(Math.abs(c.value - expected[k][0]) < 1e-10, `pair ${k}: ${c.value} vs ${expected[k][0]}`);

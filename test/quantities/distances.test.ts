@@ -1,13 +1,13 @@
 // Facts about trace distance, Bures distance and purified distance. Sources named in each it(...).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import { CMatrix, toRows, scale, zeros, fromRows } from '../../src/linalg/index.js';
 import { fidelity } from '../../src/quantities/fidelity.js';
 import {
   traceDistance, buresDistance, buresAngle, purifiedDistance, generalizedTraceDistance,
 } from '../../src/quantities/distances.js';
 import { rng, randomDensity } from '../helpers/random.js';
+import { runPythonCode } from '../helpers/python.js';
 
 /** Qubit state (I + r·σ)/2 from a Bloch vector. */
 function bloch(x: number, y: number, z: number): CMatrix {
@@ -70,12 +70,7 @@ describe('distances between states', () => {
       '    out.append(0.5 * float(np.linalg.norm(d, "nuc")))',
       'print(json.dumps(out))',
     ].join('\n');
-    const res = spawnSync('/usr/bin/python3', ['-c', script], {
-      input: JSON.stringify(pairs.map(([a, b]) => [toRows(a), toRows(b)])),
-      encoding: 'utf8',
-    });
-    assert.equal(res.status, 0, res.stderr);
-    const expected: number[] = JSON.parse(res.stdout);
+    const expected: number[] = runPythonCode(script, pairs.map(([a, b]) => [toRows(a), toRows(b)]));
     pairs.forEach(([a, b], k) => assert.ok(Math.abs(traceDistance(a, b) - expected[k]) < 1e-13));
   });
 

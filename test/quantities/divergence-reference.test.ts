@@ -5,11 +5,11 @@
 // (ours does not: see divergence-properties.test.ts for continuity there).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { toRows } from '../../src/linalg/index.js';
 import { divergence } from '../../src/quantities/divergences.js';
 import { randomDensity, rng } from '../helpers/random.js';
+import { runPython } from '../helpers/python.js';
 
 const script = fileURLToPath(new URL('../../scripts/reference/divergences.py', import.meta.url));
 
@@ -33,9 +33,7 @@ describe('divergences against numpy/scipy', () => {
         ours.push(divergence(fam, rho, sigma, { alpha: a, z, base: Math.E }).value);
       }
     }
-    const run = spawnSync('/usr/bin/python3', [script], { input: JSON.stringify({ cases }), encoding: 'utf8' });
-    assert.equal(run.status, 0, `reference script failed: ${run.stderr}`);
-    const ref = JSON.parse(run.stdout) as { numpy: string; scipy: string; values: number[] };
+    const ref = runPython<{ numpy: string; scipy: string; values: number[] }>([script], { input: { cases } });
     ref.values.forEach((v, i) => {
       const c = cases[i];
       const rel = Math.abs(ours[i] - v) / Math.max(Math.abs(v), 1e-300);

@@ -1,19 +1,13 @@
 // Facts about D(ρ‖E(ρ)), the relative entropy to a conditional expectation. Sources in each it(...).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import { CMatrix, diagonal, toRows, fromRows, frobeniusNorm, sub, eigh, mul, adjoint } from '../../src/linalg/index.js';
 import {
   divergenceToExpectation, divergenceToChannelExpectation, divergenceToBlockExpectation, blockConditionalExpectation,
 } from '../../src/quantities/expectation.js';
 import { conditionalExpectation, pinchingInBasis, depolarizing } from '../../src/quantum/presets.js';
 import { rng, randomDensity, randomHermitian } from '../helpers/random.js';
-
-function python(script: string, input: unknown): any {
-  const res = spawnSync('/usr/bin/python3', ['-c', script], { input: JSON.stringify(input), encoding: 'utf8' });
-  if (res.status !== 0) throw new Error(`python failed: ${res.stderr}`);
-  return JSON.parse(res.stdout);
-}
+import { runPythonCode as python } from '../helpers/python.js';
 
 const READ = [
   'import json, sys, numpy as np, scipy.linalg as sl',

@@ -3,12 +3,12 @@
 // with scipy 1.10.1 / numpy 1.24.2 (Debian packages, run through /usr/bin/python3).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import {
   CMatrix, columnVector, outer, mul, trace, toRows, scale, zeros, innerProduct, adjoint, eigh,
 } from '../../src/linalg/index.js';
 import { fidelity, generalizedFidelity } from '../../src/quantities/fidelity.js';
 import { rng, randomDensity, randomComplex } from '../helpers/random.js';
+import { runPythonCode } from '../helpers/python.js';
 
 function det2(m: CMatrix): number {
   // Determinant of a 2x2 Hermitian matrix: a d − |b|².
@@ -51,9 +51,7 @@ function scipyFidelities(pairs: [CMatrix, CMatrix][]): number[] {
     '    out.append(float(np.real(np.trace(np.asarray(sl.sqrtm(m), dtype=complex)))) ** 2)',
     'print(json.dumps(out))',
   ].join('\n');
-  const res = spawnSync('/usr/bin/python3', ['-c', script], { input: payload, encoding: 'utf8' });
-  if (res.status !== 0) throw new Error(`python failed: ${res.stderr}`);
-  return JSON.parse(res.stdout);
+  return runPythonCode(script, payload);
 }
 
 describe('fidelity', () => {
@@ -136,9 +134,7 @@ describe('fidelity', () => {
       '    out.append(float(np.linalg.norm(A.conj().T @ B, "nuc")) ** 2)',
       'print(json.dumps(out))',
     ].join('\n');
-    const res = spawnSync('/usr/bin/python3', ['-c', script], { input: payload, encoding: 'utf8' });
-    assert.equal(res.status, 0, res.stderr);
-    const expected: number[] = JSON.parse(res.stdout);
+    const expected: number[] = runPythonCode(script, payload);
     factors.forEach(([a, b], k) => {
       const f = fidelity(mul(a, adjoint(a)), mul(b, adjoint(b)));
       assert.ok(Math.abs(f.value - expected[k]) < 1e-12, `pair ${k}: ${f.value} vs numpy ${expected[k]}`);

@@ -2,7 +2,6 @@
 // Sources in each it(...). External references: numpy 1.24.2 / scipy 1.10.1 (Debian packages).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { spawnSync } from 'node:child_process';
 import {
   CMatrix, add, sub, mul, scale, adjoint, diagonal, eigh, frobeniusNorm, toRows, trace, sqrtm,
   hermitianFunction, fromRows,
@@ -12,14 +11,9 @@ import {
   SLD_METRIC, KUBO_MORI_METRIC, WIGNER_YANASE_METRIC, HARMONIC_METRIC,
 } from '../../src/quantities/metrics.js';
 import { rng, randomDensity, randomHermitian } from '../helpers/random.js';
+import { runPythonCode as python } from '../helpers/python.js';
 
 const PRESETS = [SLD_METRIC, KUBO_MORI_METRIC, WIGNER_YANASE_METRIC, HARMONIC_METRIC];
-
-function python(script: string, input: unknown): any {
-  const res = spawnSync('/usr/bin/python3', ['-c', script], { input: JSON.stringify(input), encoding: 'utf8' });
-  if (res.status !== 0) throw new Error(`python failed: ${res.stderr}`);
-  return JSON.parse(res.stdout);
-}
 
 const READ = [
   'import json, sys, numpy as np, scipy.linalg as sl',

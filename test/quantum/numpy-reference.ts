@@ -3,8 +3,8 @@
  * Matrices cross as {re, im} arrays of rows. The script reads `data` (parsed JSON input) and assigns
  * `result`; helpers `M(x)` (to a complex ndarray) and `W(a)` (back to {re, im}) are predefined.
  */
-import { spawnSync } from 'node:child_process';
 import { CMatrix, fromRows, toRows } from '../../src/linalg/index.js';
+import { runPythonCode } from '../helpers/python.js';
 
 const PRELUDE = `
 import json, sys
@@ -20,9 +20,7 @@ data = json.loads(sys.stdin.read())
 
 export function python(script: string, data: unknown): any {
   const code = `${PRELUDE}\n${script}\nprint(json.dumps(result))\n`;
-  const r = spawnSync('/usr/bin/python3', ['-c', code], { input: JSON.stringify(data), encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`python failed: ${r.stderr}`);
-  return JSON.parse(r.stdout);
+  return runPythonCode(code, data);
 }
 
 /** numpy's and scipy's version strings, read from the modules themselves. */

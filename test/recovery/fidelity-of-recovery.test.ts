@@ -5,7 +5,6 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { CMatrix, fromRows, identity, sub, eigvalsh, toRows } from '../../src/linalg/index.js';
 import { fidelityOfRecovery } from '../../src/recovery/fidelity-of-recovery.js';
@@ -15,6 +14,7 @@ import '../../src/ops/recovery-ops.js';
 import { handle } from '../../src/ops/handle.js';
 import { randomDensity, rng } from '../helpers/random.js';
 import { cmi, markovChain } from './fixtures.js';
+import { liveReference } from '../helpers/python.js';
 
 type Plain = { re: number[][]; im: number[][] };
 interface RecoveryCase { rho: { matrix: Plain; dims: number[] }; a: number[]; b: number[]; c: number[]; value: number; cvxoptStatus: string }
@@ -48,18 +48,8 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
   });
 
   it('matches cvxopt.solvers.sdp on a random three-qubit state generated in this run (seed 41) to 1e-6 relative', (t) => {
-    const r = spawnSync('/usr/bin/python3', [script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], {
-      encoding: 'utf8',
-      env: { ...process.env, OPENBLAS_NUM_THREADS: '1' },
-      timeout: 60_000,
-    });
-    if (r.error || r.status !== 0) {
-      const why = `/usr/bin/python3 with cvxopt could not run ${script}: ${r.error?.message ?? r.stderr}`;
-      if (process.env.CI === 'true') assert.fail(`${why} (CI=true: a missing reference is a failure)`);
-      t.skip(`${why} — skipped outside CI; install python3-cvxopt to run this check`);
-      return;
-    }
-    check(JSON.parse(r.stdout) as ReferenceFile, 'live');
+    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'python3-cvxopt');
+    if (ref) check(ref, 'live');
   });
 
   it('obeys I(A;C|B) ≥ −log₂ F(A;C|B) on random states, full rank and rank-deficient (Fawzi & Renner, Commun. Math. Phys. 340, 575 (2015), in the form of Seshadreesan & Wilde 2015)', () => {

@@ -10,15 +10,14 @@
 // not registered yet is a todo outside CI and a failure under CI=true, so the final CI run proves every op.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { readFileSync, existsSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';
 import { getOp } from '../../src/ops/registry.js';
+import { missingPython, runPython } from '../helpers/python.js';
 
 const CI = process.env.CI === 'true';
-const PYTHON = '/usr/bin/python3';
 const SCRIPT = fileURLToPath(new URL('../../scripts/reference/numpy_reference.py', import.meta.url));
 const DATA = fileURLToPath(new URL('./data/numpy-cases.json', import.meta.url));
 const LIVE_SEED = 20250;
@@ -192,28 +191,19 @@ describe('protocol answers against numpy/scipy (committed reference file)', () =
 });
 
 describe('protocol answers against numpy/scipy (small batch generated live)', () => {
-  const haveNumpy = existsSync(PYTHON)
-    ? spawnSync(PYTHON, ['-c', 'import numpy, scipy, scipy.linalg, scipy.optimize'], { encoding: 'utf8' })
-    : undefined;
-  const unavailable = !haveNumpy
-    ? `${PYTHON} not found`
-    : haveNumpy.status !== 0
-      ? `numpy/scipy not importable by ${PYTHON}: ${haveNumpy.stderr.trim().split('\n').pop()}`
-      : undefined;
+  const unavailable = missingPython(['numpy', 'scipy', 'scipy.linalg', 'scipy.optimize']);
   if (unavailable) {
     const msg = `${unavailable} (install Debian's python3-numpy and python3-scipy) — the live numpy/scipy reference cannot run`;
     if (CI) it('the live numpy/scipy reference runs', () => assert.fail(msg));
     else it('the live numpy/scipy reference runs', { skip: msg }, () => {});
     return;
   }
-  const run = spawnSync(PYTHON, [SCRIPT, '--seed', String(LIVE_SEED), '--small'], {
-    encoding: 'utf8', timeout: 120_000, maxBuffer: 64 * 1024 * 1024,
-  });
-  if (run.status !== 0) {
-    it('the live numpy/scipy reference runs', () =>
-      assert.fail(`${SCRIPT} --seed ${LIVE_SEED} --small failed (status ${run.status}): ${(run.stderr ?? String(run.error)).slice(-2000)}`));
+  let batch: Batch;
+  try {
+    batch = runPython<Batch>([SCRIPT, '--seed', String(LIVE_SEED), '--small'], { timeout: 120_000 });
+  } catch (e) {
+    it('the live numpy/scipy reference runs', () => assert.fail((e as Error).message));
     return;
   }
-  const batch = JSON.parse(run.stdout) as Batch;
   registerGroups(batch, `scripts/reference/numpy_reference.py --seed ${LIVE_SEED} --small, run live`);
 });
