@@ -142,17 +142,15 @@ export class SchurSystem {
   private assembleHermitianBlock(k: number, w: Float64Array): void {
     const blk = this.cp.psd[k];
     const ents = this.hx[k]!;
-    const n2 = blk.n;
-    const n = n2 / 2;
+    const n = blk.n / 2;
     const mk = blk.cons.length;
     if (mk === 0) return;
     const wr = this.cWr;
     const wi = this.cWi;
-    for (let i = 0; i < n; i++) {
-      for (let j = 0; j < n; j++) {
-        wr[i * n + j] = 0.5 * (w[i * n2 + j] + w[(i + n) * n2 + j + n]);
-        wi[i * n + j] = 0.5 * (w[(i + n) * n2 + j] - w[i * n2 + j + n]);
-      }
+    // W arrives as the complex n×n scaling (complexdense.ts layout: real parts, then imaginary parts).
+    for (let e = 0; e < n * n; e++) {
+      wr[e] = w[e];
+      wi[e] = w[n * n + e];
     }
     const suffix = this.sSuffix;
     suffix[mk] = 0;
@@ -270,7 +268,8 @@ export class SchurSystem {
   }
 
   /**
-   * Assemble and factor for scalings W (per PSD block, dense n×n) and orthant weights d.
+   * Assemble and factor for scalings W (per PSD block: dense n×n real for symmetric blocks, the
+   * complex n/2×n/2 scaling in complexdense.ts's layout for Hermitian blocks) and orthant weights d.
    */
   assembleAndFactor(W: Float64Array[], d: Float64Array): void {
     const cp = this.cp;

@@ -38,6 +38,18 @@ import { zeros, type CMatrix } from '../linalg/index.js';
 import { compile, type Compiled } from './compile.js';
 import { cholesky, congruence, congruenceT, matMul, matTMul, minEig, svdJacobi } from './dense.js';
 import { SchurSystem } from './schur.js';
+import {
+  cCholesky,
+  cCongruence,
+  cCongruenceH,
+  cGram,
+  cHMul,
+  cMinEigInPlace,
+  cMul,
+  cSvdJacobi,
+  embedComplex,
+  extractHermitian,
+} from './complexdense.js';
 import type { BlockValue, Certificate, IterationInfo, SdpAnswer, SdpOptions, SdpProblem, SdpStatus } from './types.js';
 
 export const DEFAULT_OPTIONS = {
@@ -140,6 +152,21 @@ function maxStepPsd(lambda: Float64Array, D: Float64Array, n: number, t: Float64
   return mn < 0 ? -1 / mn : Infinity;
 }
 
+/** Largest α with diag(λ) + α·D ⪰ 0 for a complex Hermitian h×h D (complexdense.ts layout). */
+function maxStepHermitian(lambda: Float64Array, D: Float64Array, h: number, t: Float64Array, work: Float64Array): number {
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    const si = 1 / Math.sqrt(lambda[i]);
+    for (let j = 0; j <= i; j++) {
+      const f = si / Math.sqrt(lambda[j]);
+      t[i * h + j] = D[i * h + j] * f;
+      t[hh + i * h + j] = D[hh + i * h + j] * f;
+    }
+  }
+  const mn = cMinEigInPlace(t, h, work.subarray(0, h), work.subarray(h, 2 * h), work.subarray(2 * h, 4 * h));
+  return mn < 0 ? -1 / mn : Infinity;
+}
+
 /** Read an internal PSD block back as the user's matrix (Hermitian blocks from their embedding). */
 function readBlock(M: Float64Array, n: number, hermitian: boolean, scale: number): CMatrix {
   if (!hermitian) {
@@ -187,6 +214,17 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   const sq = sizes.map((n) => n * n);
   const nmax = Math.max(1, ...sizes);
   const mat = () => new Blocks(sq);
+  // Hermitian blocks: every O(n³) step is done on the complex h×h matrix (complexdense.ts layout,
+  // stored in the first 2h² numbers of the block's n×n slot); X, S, their steps, T and Dc stay in
+  // the real embedding, which is what A(·) and Aᵀ(·) read.
+  const herm = cp.psd.map((blk) => blk.hermitian);
+  const hs = sizes.map((n) => n / 2);
+  const cC = cp.psd.map((blk, k) => {
+    if (!blk.hermitian) return new Float64Array(0);
+    const out = new Float64Array(sq[k] / 2);
+    extractHermitian(blk.c, hs[k], out);
+    return out;
+  });
 
   // Data norms.
   const b = cp.b;
@@ -229,6 +267,8 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   const corr = mat();
   const tmp1 = new Float64Array(nmax * nmax);
   const tmp2 = new Float64Array(nmax * nmax);
+  const tmp3 = new Float64Array(nmax * nmax);
+  const tmp4 = new Float64Array(nmax * nmax);
   const atyL = new Float64Array(nL);
   const atyF = new Float64Array(nF);
   const rp = new Float64Array(m);
@@ -359,6 +399,26 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
    */
   const direction = (eta: number, sigmaMu: number, useCorr: boolean, corrTK: number): { dtau: number; dkappa: number } => {
     for (let k = 0; k < nb; k++) {
+      if (herm[k]) {
+        const h = hs[k];
+        const hh = h * h;
+        const l = lam.v[k];
+        const z = Z.v[k];
+        const cr = corr.v[k];
+        for (let i = 0; i < h; i++) {
+          for (let j = 0; j < h; j++) {
+            const f = 2 / (l[i] + l[j]);
+            const rr = (i === j ? sigmaMu - l[i] * l[i] : 0) - (useCorr ? cr[i * h + j] : 0);
+            z[i * h + j] = rr * f;
+            z[hh + i * h + j] = useCorr ? -cr[hh + i * h + j] * f : 0;
+          }
+        }
+        cCongruence(G.v[k], z, h, tmp3, tmp1);
+        const wr = WrdW.v[k];
+        for (let e = 0; e < 2 * hh; e++) tmp3[e] -= eta * wr[e];
+        embedComplex(tmp3, h, T.v[k]);
+        continue;
+      }
       const n = sizes[k];
       const l = lam.v[k];
       const z = Z.v[k];
@@ -405,6 +465,18 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       const am = atyM.v[k];
       const rd = rdK.v[k];
       for (let e = 0; e < ds.length; e++) ds[e] = -am[e] + c[e] * dtau + eta * rd[e];
+      if (herm[k]) {
+        const h = hs[k];
+        extractHermitian(ds, h, tmp3);
+        const dss = dSs.v[k];
+        cCongruenceH(G.v[k], tmp3, h, dss, tmp1);
+        const dxs = dXs.v[k];
+        const z = Z.v[k];
+        for (let e = 0; e < 2 * h * h; e++) dxs[e] = z[e] - dss[e];
+        cCongruence(G.v[k], dxs, h, tmp3, tmp1);
+        embedComplex(tmp3, h, dX.v[k]);
+        continue;
+      }
       const dss = dSs.v[k];
       congruenceT(G.v[k], ds, n, dss, tmp1);
       const dxs = dXs.v[k];
@@ -426,6 +498,11 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     let a = Infinity;
     for (let k = 0; k < nb; k++) {
       const n = sizes[k];
+      if (herm[k]) {
+        const h = hs[k];
+        a = Math.min(a, maxStepHermitian(lam.v[k], dXs.v[k], h, tmp1, tmp2), maxStepHermitian(lam.v[k], dSs.v[k], h, tmp1, tmp2));
+        continue;
+      }
       a = Math.min(a, maxStepPsd(lam.v[k], dXs.v[k], n, tmp1, tmp2), maxStepPsd(lam.v[k], dSs.v[k], n, tmp1, tmp2));
     }
     for (let p = 0; p < nL; p++) {
@@ -466,6 +543,33 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     let scalingFailed = false;
     for (let k = 0; k < nb; k++) {
       const n = sizes[k];
+      if (herm[k]) {
+        const h = hs[k];
+        const hh = h * h;
+        extractHermitian(X.v[k], h, tmp3);
+        extractHermitian(S.v[k], h, tmp4);
+        const lx = Lx.v[k];
+        const ls = Ls.v[k];
+        if (!cCholesky(tmp3, h, lx) || !cCholesky(tmp4, h, ls)) {
+          scalingFailed = true;
+          break;
+        }
+        cHMul(ls, lx, h, Bm.v[k]);
+        const sigma = lam.v[k];
+        cSvdJacobi(Bm.v[k], h, V.v[k], sigma, tmp1);
+        for (let j = h; j < n; j++) sigma[j] = sigma[j - h]; // the embedding's doubled spectrum
+        const g = G.v[k];
+        cMul(lx, V.v[k], h, g);
+        for (let j = 0; j < h; j++) {
+          const f = 1 / Math.sqrt(sigma[j]);
+          for (let i = 0; i < h; i++) {
+            g[i * h + j] *= f;
+            g[hh + i * h + j] *= f;
+          }
+        }
+        cGram(g, h, W.v[k]);
+        continue;
+      }
       const lx = cholesky(X.v[k], n, Lx.v[k]);
       const ls = cholesky(S.v[k], n, Ls.v[k]);
       if (!lx || !ls) {
@@ -507,7 +611,12 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     schur.assembleAndFactor(W.v, dL);
 
     // D c = W C W (orthant: d∘c), A(Dc), ⟨c, Dc⟩, and p = K⁻¹ [A D c + b; c_f].
-    for (let k = 0; k < nb; k++) congruence(W.v[k], cp.psd[k].c, sizes[k], Dc.v[k], tmp1);
+    for (let k = 0; k < nb; k++) {
+      if (herm[k]) {
+        cCongruence(W.v[k], cC[k], hs[k], tmp3, tmp1);
+        embedComplex(tmp3, hs[k], Dc.v[k]);
+      } else congruence(W.v[k], cp.psd[k].c, sizes[k], Dc.v[k], tmp1);
+    }
     for (let p = 0; p < nL; p++) DcL[p] = dL[p] * cp.cL[p];
     applyA(cp, Dc.v, DcL, null, adc);
     let cDc = dotv(cp.cL, DcL);
@@ -525,7 +634,12 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     let cfpf = 0;
     for (let f = 0; f < nF; f++) cfpf += cp.cF[f] * pv[m + f];
     denomBase = bp - (adcp - cDc) - cfpf + kappa / tau;
-    for (let k = 0; k < nb; k++) congruence(W.v[k], rdK.v[k], sizes[k], WrdW.v[k], tmp1);
+    for (let k = 0; k < nb; k++) {
+      if (herm[k]) {
+        extractHermitian(rdK.v[k], hs[k], tmp3);
+        cCongruence(W.v[k], tmp3, hs[k], WrdW.v[k], tmp1);
+      } else congruence(W.v[k], rdK.v[k], sizes[k], WrdW.v[k], tmp1);
+    }
 
     // Predictor (affine scaling direction).
     const aff = direction(1, 0, false, 0);
@@ -535,6 +649,19 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     // Mehrotra corrector: the second-order term ΔX_a ∘ ΔS_a in λ-space.
     for (let k = 0; k < nb; k++) {
       const n = sizes[k];
+      if (herm[k]) {
+        const h = hs[k];
+        const hh = h * h;
+        cMul(dXs.v[k], dSs.v[k], h, tmp2);
+        const out = corr.v[k];
+        for (let i = 0; i < h; i++) {
+          for (let j = 0; j < h; j++) {
+            out[i * h + j] = 0.5 * (tmp2[i * h + j] + tmp2[j * h + i]);
+            out[hh + i * h + j] = 0.5 * (tmp2[hh + i * h + j] - tmp2[hh + j * h + i]);
+          }
+        }
+        continue;
+      }
       matMul(dXs.v[k], dSs.v[k], n, tmp2);
       const out = corr.v[k];
       for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) out[i * n + j] = 0.5 * (tmp2[i * n + j] + tmp2[j * n + i]);

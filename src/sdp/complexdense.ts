@@ -1,0 +1,418 @@
+/**
+ * Small dense complex kernels for the Hermitian blocks of the SDP solver.
+ *
+ * The solver stores a Hermitian h×h block through its real embedding [[Re, −Im], [Im, Re]]
+ * (2h×2h, compile.ts) for the linear maps A(·) and Aᵀ(·), but every O(n³) per-block operation of
+ * an iteration (NT scaling, congruences, step lengths, corrector) is done here on the complex h×h
+ * matrix instead: the embedding is an algebra homomorphism (emb(AB) = emb(A)emb(B),
+ * emb(A^H) = emb(A)ᵀ), so the iteration is the same, at about half the real flops of the embedded
+ * kernels (4 real multiply-adds per complex one, on an eighth of the entries).
+ *
+ * Layout: a complex h×h matrix is one Float64Array of at least 2h² numbers, real parts row-major in
+ * [0, h²), imaginary parts in [h², 2h²). Outputs must not alias inputs unless a kernel says so.
+ * Hand-written (no complex dense library for Node fits these tiny sizes without per-call overhead).
+ *
+ * Does not: pivot, block for cache, or handle sizes beyond what the solver's blocks need (h ≲ 64).
+ * Cost: h³-type loops, stated per function.
+ */
+
+/** Complex Hermitian h×h from its real embedding (2h×2h), averaging the two copies. */
+export function extractHermitian(emb: Float64Array, h: number, out: Float64Array): void {
+  const n2 = 2 * h;
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    const top = i * n2;
+    const bot = (i + h) * n2;
+    for (let j = 0; j < h; j++) {
+      out[i * h + j] = 0.5 * (emb[top + j] + emb[bot + j + h]);
+      out[hh + i * h + j] = 0.5 * (emb[bot + j] - emb[top + j + h]);
+    }
+  }
+}
+
+/** The real embedding [[Re, −Im], [Im, Re]] (2h×2h) of a complex h×h matrix. */
+export function embedComplex(c: Float64Array, h: number, out: Float64Array): void {
+  const n2 = 2 * h;
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    const top = i * n2;
+    const bot = (i + h) * n2;
+    for (let j = 0; j < h; j++) {
+      const re = c[i * h + j];
+      const im = c[hh + i * h + j];
+      out[top + j] = re;
+      out[top + j + h] = -im;
+      out[bot + j] = im;
+      out[bot + j + h] = re;
+    }
+  }
+}
+
+/** Make a complex matrix exactly Hermitian: (A + A^H)/2, in place. */
+export function hermitize(a: Float64Array, h: number): void {
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    a[hh + i * h + i] = 0;
+    for (let j = i + 1; j < h; j++) {
+      const re = 0.5 * (a[i * h + j] + a[j * h + i]);
+      const im = 0.5 * (a[hh + i * h + j] - a[hh + j * h + i]);
+      a[i * h + j] = re;
+      a[j * h + i] = re;
+      a[hh + i * h + j] = im;
+      a[hh + j * h + i] = -im;
+    }
+  }
+}
+
+/**
+ * Lower Cholesky factor L of a Hermitian positive definite matrix (A = L L^H), reading the lower
+ * triangle; false when a pivot is not positive. h³/3 complex multiply-adds.
+ */
+export function cCholesky(a: Float64Array, h: number, l: Float64Array): boolean {
+  const hh = h * h;
+  l.fill(0, 0, 2 * hh);
+  for (let j = 0; j < h; j++) {
+    const jo = j * h;
+    let d = a[jo + j];
+    for (let k = 0; k < j; k++) {
+      const r = l[jo + k];
+      const i = l[hh + jo + k];
+      d -= r * r + i * i;
+    }
+    if (!(d > 0)) return false;
+    const ljj = Math.sqrt(d);
+    const inv = 1 / ljj;
+    l[jo + j] = ljj;
+    for (let i = j + 1; i < h; i++) {
+      const io = i * h;
+      let sr = a[io + j];
+      let si = a[hh + io + j];
+      // s −= L_ik conj(L_jk)
+      for (let k = 0; k < j; k++) {
+        const ar = l[io + k];
+        const ai = l[hh + io + k];
+        const br = l[jo + k];
+        const bi = l[hh + jo + k];
+        sr -= ar * br + ai * bi;
+        si -= ai * br - ar * bi;
+      }
+      l[io + j] = sr * inv;
+      l[hh + io + j] = si * inv;
+    }
+  }
+  return true;
+}
+
+/** out = A·B. h³ complex multiply-adds. */
+export function cMul(a: Float64Array, b: Float64Array, h: number, out: Float64Array): void {
+  const hh = h * h;
+  out.fill(0, 0, 2 * hh);
+  for (let i = 0; i < h; i++) {
+    const io = i * h;
+    for (let k = 0; k < h; k++) {
+      const xr = a[io + k];
+      const xi = a[hh + io + k];
+      if (xr === 0 && xi === 0) continue;
+      const ko = k * h;
+      for (let j = 0; j < h; j++) {
+        const yr = b[ko + j];
+        const yi = b[hh + ko + j];
+        out[io + j] += xr * yr - xi * yi;
+        out[hh + io + j] += xr * yi + xi * yr;
+      }
+    }
+  }
+}
+
+/** out = A^H·B. h³ complex multiply-adds. */
+export function cHMul(a: Float64Array, b: Float64Array, h: number, out: Float64Array): void {
+  const hh = h * h;
+  out.fill(0, 0, 2 * hh);
+  for (let k = 0; k < h; k++) {
+    const ko = k * h;
+    for (let i = 0; i < h; i++) {
+      const xr = a[ko + i];
+      const xi = -a[hh + ko + i];
+      if (xr === 0 && xi === 0) continue;
+      const io = i * h;
+      for (let j = 0; j < h; j++) {
+        const yr = b[ko + j];
+        const yi = b[hh + ko + j];
+        out[io + j] += xr * yr - xi * yi;
+        out[hh + io + j] += xr * yi + xi * yr;
+      }
+    }
+  }
+}
+
+/** out = A·B^H. h³ complex multiply-adds. */
+export function cMulH(a: Float64Array, b: Float64Array, h: number, out: Float64Array): void {
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    const io = i * h;
+    for (let j = 0; j < h; j++) {
+      const jo = j * h;
+      let sr = 0;
+      let si = 0;
+      for (let k = 0; k < h; k++) {
+        const xr = a[io + k];
+        const xi = a[hh + io + k];
+        const yr = b[jo + k];
+        const yi = -b[hh + jo + k];
+        sr += xr * yr - xi * yi;
+        si += xr * yi + xi * yr;
+      }
+      out[io + j] = sr;
+      out[hh + io + j] = si;
+    }
+  }
+}
+
+/** out = G·M·G^H for Hermitian M; result made exactly Hermitian. 2h³ complex multiply-adds. */
+export function cCongruence(g: Float64Array, m: Float64Array, h: number, out: Float64Array, tmp: Float64Array): void {
+  cMulH(m, g, h, tmp); // M G^H
+  cMul(g, tmp, h, out);
+  hermitize(out, h);
+}
+
+/** out = G^H·M·G for Hermitian M; result made exactly Hermitian. 2h³ complex multiply-adds. */
+export function cCongruenceH(g: Float64Array, m: Float64Array, h: number, out: Float64Array, tmp: Float64Array): void {
+  cMul(m, g, h, tmp); // M G
+  cHMul(g, tmp, h, out);
+  hermitize(out, h);
+}
+
+/** out = G·G^H (Hermitian; upper half computed, mirrored). h³/2 complex multiply-adds. */
+export function cGram(g: Float64Array, h: number, out: Float64Array): void {
+  const hh = h * h;
+  for (let i = 0; i < h; i++) {
+    const io = i * h;
+    for (let j = i; j < h; j++) {
+      const jo = j * h;
+      let sr = 0;
+      let si = 0;
+      for (let k = 0; k < h; k++) {
+        const xr = g[io + k];
+        const xi = g[hh + io + k];
+        const yr = g[jo + k];
+        const yi = g[hh + jo + k];
+        sr += xr * yr + xi * yi;
+        si += xi * yr - xr * yi;
+      }
+      out[io + j] = sr;
+      out[jo + i] = sr;
+      out[hh + io + j] = i === j ? 0 : si;
+      out[hh + jo + i] = i === j ? 0 : -si;
+    }
+  }
+}
+
+/**
+ * Singular values and right singular vectors of a complex h×h matrix B by one-sided Jacobi
+ * (Hestenes): each pair of columns of U = B·V is made orthogonal by a phase on column q (so that
+ * u_p^H u_q is real) followed by the real Jacobi rotation. Returns σ (not sorted) and V (unitary);
+ * the columns of B·V are σ_i u_i. Kept from the real solver for its high relative accuracy on
+ * small singular values, which forming B^H B would square away. `work`: at least 2h² numbers.
+ * About 2h³ complex multiply-adds per sweep, typically 4–8 sweeps.
+ */
+export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: Float64Array, work: Float64Array): void {
+  const hh = h * h;
+  const u = work;
+  for (let e = 0; e < 2 * hh; e++) u[e] = b[e];
+  v.fill(0, 0, 2 * hh);
+  for (let i = 0; i < h; i++) v[i * h + i] = 1;
+  const tol = 4 * h * Number.EPSILON;
+  for (let sweep = 0; sweep < 60; sweep++) {
+    let rotated = false;
+    for (let p = 0; p < h; p++) {
+      for (let q = p + 1; q < h; q++) {
+        let alpha = 0;
+        let beta = 0;
+        let gr = 0;
+        let gi = 0;
+        for (let k = 0; k < h; k++) {
+          const pr = u[k * h + p];
+          const pi = u[hh + k * h + p];
+          const qr = u[k * h + q];
+          const qi = u[hh + k * h + q];
+          alpha += pr * pr + pi * pi;
+          beta += qr * qr + qi * qi;
+          // conj(u_p) u_q
+          gr += pr * qr + pi * qi;
+          gi += pr * qi - pi * qr;
+        }
+        const g = Math.hypot(gr, gi);
+        if (g === 0 || g <= tol * Math.sqrt(alpha * beta)) continue;
+        rotated = true;
+        // phase e = conj(γ)/|γ|: column q ← e·u_q makes u_p^H u_q = |γ|
+        const er = gr / g;
+        const ei = -gi / g;
+        const zeta = (beta - alpha) / (2 * g);
+        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
+        const c = 1 / Math.sqrt(1 + t * t);
+        const s = c * t;
+        for (let k = 0; k < h; k++) {
+          const ip = k * h + p;
+          const iq = k * h + q;
+          const pr = u[ip];
+          const pi = u[hh + ip];
+          const q0r = u[iq];
+          const q0i = u[hh + iq];
+          const qr = er * q0r - ei * q0i;
+          const qi = er * q0i + ei * q0r;
+          u[ip] = c * pr - s * qr;
+          u[hh + ip] = c * pi - s * qi;
+          u[iq] = s * pr + c * qr;
+          u[hh + iq] = s * pi + c * qi;
+          const vpr = v[ip];
+          const vpi = v[hh + ip];
+          const v0r = v[iq];
+          const v0i = v[hh + iq];
+          const vqr = er * v0r - ei * v0i;
+          const vqi = er * v0i + ei * v0r;
+          v[ip] = c * vpr - s * vqr;
+          v[hh + ip] = c * vpi - s * vqi;
+          v[iq] = s * vpr + c * vqr;
+          v[hh + iq] = s * vpi + c * vqi;
+        }
+      }
+    }
+    if (!rotated) break;
+  }
+  for (let j = 0; j < h; j++) {
+    let s = 0;
+    for (let k = 0; k < h; k++) {
+      const r = u[k * h + j];
+      const i = u[hh + k * h + j];
+      s += r * r + i * i;
+    }
+    sigma[j] = Math.sqrt(s);
+  }
+}
+
+/**
+ * Smallest eigenvalue of a Hermitian h×h matrix (lower triangle read; `a` is destroyed): complex
+ * Householder reduction to a Hermitian tridiagonal matrix, whose eigenvalues depend only on the
+ * moduli of its off-diagonal, then bisection on Sturm counts. Absolute accuracy a few ulps of ‖A‖,
+ * which is what a step length to the cone boundary needs. `diag`, `off2`, `w`: scratch of h, h and
+ * 2h numbers. About 4h³/3 complex multiply-adds.
+ */
+export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, off2: Float64Array, w: Float64Array): number {
+  const hh = h * h;
+  if (h === 1) return a[0];
+  for (let k = 0; k < h - 2; k++) {
+    // x = A[k+1.., k]
+    let alpha2 = 0;
+    for (let i = k + 1; i < h; i++) {
+      const r = a[i * h + k];
+      const im = a[hh + i * h + k];
+      alpha2 += r * r + im * im;
+    }
+    const x0r = a[(k + 1) * h + k];
+    const x0i = a[hh + (k + 1) * h + k];
+    const x0abs = Math.hypot(x0r, x0i);
+    if (alpha2 === 0 || alpha2 <= x0abs * x0abs) {
+      off2[k] = x0abs * x0abs;
+      continue;
+    }
+    const nrm = Math.sqrt(alpha2);
+    // α = −e^{iθ}‖x‖ with x0 = |x0| e^{iθ}; u = x − α e1 stored in column k
+    const phr = x0abs === 0 ? 1 : x0r / x0abs;
+    const phi = x0abs === 0 ? 0 : x0i / x0abs;
+    const ur0 = x0r + phr * nrm;
+    const ui0 = x0i + phi * nrm;
+    a[(k + 1) * h + k] = ur0;
+    a[hh + (k + 1) * h + k] = ui0;
+    const unorm2 = alpha2 - x0abs * x0abs + ur0 * ur0 + ui0 * ui0;
+    const beta = 2 / unorm2;
+    off2[k] = alpha2;
+    // p = β A u over the trailing block (Hermitian, lower triangle stored)
+    for (let i = k + 1; i < h; i++) {
+      let sr = 0;
+      let si = 0;
+      const io = i * h;
+      for (let j = k + 1; j <= i; j++) {
+        const ar = a[io + j];
+        const ai = a[hh + io + j];
+        const br = a[j * h + k];
+        const bi = a[hh + j * h + k];
+        sr += ar * br - ai * bi;
+        si += ar * bi + ai * br;
+      }
+      for (let j = i + 1; j < h; j++) {
+        // conj(A_ji) u_j
+        const ar = a[j * h + i];
+        const ai = -a[hh + j * h + i];
+        const br = a[j * h + k];
+        const bi = a[hh + j * h + k];
+        sr += ar * br - ai * bi;
+        si += ar * bi + ai * br;
+      }
+      w[i] = beta * sr;
+      w[h + i] = beta * si;
+    }
+    // K = (β/2) u^H p (real for Hermitian A); w = p − K u
+    let kr = 0;
+    for (let i = k + 1; i < h; i++) kr += a[i * h + k] * w[i] + a[hh + i * h + k] * w[h + i];
+    const K = 0.5 * beta * kr;
+    for (let i = k + 1; i < h; i++) {
+      w[i] -= K * a[i * h + k];
+      w[h + i] -= K * a[hh + i * h + k];
+    }
+    // A ← A − u w^H − w u^H (lower triangle)
+    for (let i = k + 1; i < h; i++) {
+      const uir = a[i * h + k];
+      const uii = a[hh + i * h + k];
+      const wir = w[i];
+      const wii = w[h + i];
+      const io = i * h;
+      for (let j = k + 1; j <= i; j++) {
+        const ujr = a[j * h + k];
+        const uji = a[hh + j * h + k];
+        const wjr = w[j];
+        const wji = w[h + j];
+        // u_i conj(w_j) + w_i conj(u_j)
+        a[io + j] -= uir * wjr + uii * wji + wir * ujr + wii * uji;
+        a[hh + io + j] -= uii * wjr - uir * wji + wii * ujr - wir * uji;
+      }
+    }
+  }
+  for (let i = 0; i < h; i++) diag[i] = a[i * h + i];
+  {
+    const r = a[(h - 1) * h + h - 2];
+    const im = a[hh + (h - 1) * h + h - 2];
+    off2[h - 2] = r * r + im * im;
+  }
+  return smallestTridiagonal2(diag, off2, h);
+}
+
+/** Smallest eigenvalue of the symmetric tridiagonal with diagonal `diag` and squared off-diagonal `off2`, by bisection. */
+export function smallestTridiagonal2(diag: Float64Array, off2: Float64Array, n: number): number {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const r = (i > 0 ? Math.sqrt(off2[i - 1]) : 0) + (i < n - 1 ? Math.sqrt(off2[i]) : 0);
+    lo = Math.min(lo, diag[i] - r);
+    hi = Math.max(hi, diag[i] + r);
+  }
+  const scale = Math.max(Math.abs(lo), Math.abs(hi), Number.MIN_VALUE);
+  const tiny = Number.EPSILON * scale * 1e-3 + Number.MIN_VALUE;
+  hi = hi + Number.EPSILON * scale;
+  lo = lo - Number.EPSILON * scale;
+  for (let it = 0; it < 200; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (mid <= lo || mid >= hi || hi - lo <= 2 * Number.EPSILON * scale) break;
+    // Sturm count: number of eigenvalues below mid
+    let count = 0;
+    let q = diag[0] - mid;
+    if (q < 0) count++;
+    for (let i = 1; i < n; i++) {
+      if (q === 0) q = tiny;
+      q = diag[i] - mid - off2[i - 1] / q;
+      if (q < 0) count++;
+    }
+    if (count >= 1) hi = mid;
+    else lo = mid;
+  }
+  return 0.5 * (lo + hi);
+}
