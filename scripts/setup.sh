@@ -1,11 +1,12 @@
 #!/usr/bin/env bash
 # Installs everything a new machine needs to run and test rhosigma:
-# the Debian packages behind the reference checks (numpy, scipy, cvxopt) and the npm packages,
-# then builds the TypeScript. Safe to run again; it installs only what is missing.
+# the Debian packages behind the reference checks (numpy, scipy, cvxopt), Debian's Chromium for the
+# real-browser test (test/browser; playwright-core drives it and never downloads a browser of its own)
+# and the npm packages, then builds the TypeScript. Safe to run again; it installs only what is missing.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-debs=(python3-numpy python3-scipy python3-cvxopt python3-pytest libopenblas0-pthread)
+debs=(python3-numpy python3-scipy python3-cvxopt python3-pytest libopenblas0-pthread chromium)
 missing=()
 for p in "${debs[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q 'install ok installed' || missing+=("$p")
