@@ -122,10 +122,10 @@ export class Workspace {
 
   /**
    * A workspace for at most `doubles` Float64 and `ints` Int32 entries in total (each array rounded
-   * up to 16 bytes), in the kernels' memory when the SIMD path is active.
+   * up to 16 bytes), in the kernels' memory when the SIMD path is active and useKernels is set.
    */
-  static create(doubles: number, ints: number, arrays: number): Workspace {
-    if (!eighWasmStatus().active) return new Workspace(null, null);
+  static create(doubles: number, ints: number, arrays: number, useKernels = true): Workspace {
+    if (!useKernels || !eighWasmStatus().active) return new Workspace(null, null);
     const l = loaded!;
     const bytes = 8 * doubles + 4 * ints + 16 * arrays;
     const have = l.memory.buffer.byteLength;

@@ -26,7 +26,7 @@
  * the back-transformation and the rest in divide and conquer (mostly its matrix products).
  *
  * Two paths compute the same thing. Where WebAssembly with 128-bit SIMD is available (Node 20,
- * current browsers and web workers) the three hot loops (the fused reduction pass, the reflector
+ * current browsers and web workers), from order 16 up, the three hot loops (the fused reduction pass, the reflector
  * pairs of the back-transformation, the merge products of divide and conquer) run as f64x2
  * kernels (src/linalg/wasm/eigh-kernels.as, loaded by eigh-wasm.ts); everything else, and the
  * whole solver where the kernels are unavailable or switched off (RHOSIGMA_EIGH_WASM=0 or
@@ -59,6 +59,13 @@ export interface EighResult {
 export class EigenSolverError extends Error {}
 
 const EPS = 2 ** -52;
+/**
+ * Below this order the scalar path runs even where the SIMD kernels are on: they gain only 10–20%
+ * of a few microseconds there (measured at n = 4–16), and small problems, the common case for
+ * qubits and qutrits, then give bit-for-bit the same results as the scalar solver. (Callers that
+ * feed eigh's noise-level eigenvalues into ill-conditioned formulas otherwise see different noise.)
+ */
+const SIMD_MIN_N = 16;
 /** Squared norm below which a column of the (unit-scaled) matrix counts as already reduced. */
 const TINY2 = 1e-290;
 
@@ -84,7 +91,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
   const inv = 1 / scaleBy;
   // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 12 * n + 8, n + 8, 24);
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 12 * n + 8, n + 8, 24, n >= SIMD_MIN_N);
   // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
   const are = ws.f64(n * n);
   const aim = ws.f64(n * n);

@@ -82,6 +82,21 @@ describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', ()
     assert.deepEqual(eighWasmStatus(), { active: true, reason: '' });
   });
 
+  it('below order 16 both settings run the scalar path and agree bit for bit (a design choice of eigh.ts, no published source)', () => {
+    const r = rng(22);
+    for (const n of [2, 4, 9, 15]) {
+      const h = randomHermitian(n, r);
+      setEighWasmEnabled(true);
+      const a = eigh(h);
+      setEighWasmEnabled(false);
+      const b = eigh(h);
+      assert.deepEqual(Array.from(a.values), Array.from(b.values));
+      assert.deepEqual(Array.from(a.vectors!.re), Array.from(b.vectors!.re));
+      assert.deepEqual(Array.from(a.vectors!.im), Array.from(b.vectors!.im));
+    }
+  });
+
+  // Sizes below 16 run the scalar path under both settings; the rest exercise the kernels.
   for (const [path, on] of [['WebAssembly SIMD', true], ['pure TypeScript', false]] as const) {
     it(`${path}: residual and orthogonality within 1e-12·n·‖H‖ on random, degenerate, clustered, low-rank, scaled and Wilkinson matrices`, () => {
       setEighWasmEnabled(on);
