@@ -3,7 +3,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  eigvalsh, kron, marginal, mul, adjoint, sub, trace, identity,
+  eigvalsh, kron, marginal, mul, sub, trace, identity,
 } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
 import '../../src/ops/all.js';
@@ -11,7 +11,7 @@ import { handle } from '../../src/ops/handle.js';
 import { conditionalMinEntropy, conditionalMaxEntropy } from '../../src/oneshot/conditional-min-max.js';
 import { conditionalEntropy } from '../../src/quantities/conditional.js';
 import { maximallyEntangled } from '../../src/quantum/index.js';
-import { randomComplex, randomDensity, rng } from '../helpers/random.js';
+import { randomDensity, rng } from '../helpers/random.js';
 import { assertClose, committedCases, liveCases, matrixOf, origin, type OneShotReference } from './oneshot-reference.js';
 
 function checkMin(ref: OneShotReference, label: string): void {
@@ -36,14 +36,6 @@ function checkMax(ref: OneShotReference, label: string): void {
     assertClose(ans.value, c.value, 1e-6, where);
     assertClose(ans.rootFidelity, c.optimum, 1e-6, `${where} (√F)`);
   }
-}
-
-/** A random pure state on the given dims as a density matrix. */
-function randomPure(n: number, r: () => number) {
-  const v = randomComplex(n, 1, r);
-  const p = mul(v, adjoint(v));
-  const t = trace(p).re;
-  return { ...p, re: p.re.map((x) => x / t), im: p.im.map((x) => x / t) };
 }
 
 describe('conditional min-entropy', () => {
@@ -113,7 +105,7 @@ describe('conditional max-entropy', () => {
     const r = rng(53);
     for (const dims of [[2, 2, 2], [2, 3, 2]]) {
       const n = dims[0] * dims[1] * dims[2];
-      const psi = randomPure(n, r);
+      const psi = randomDensity(n, r, 1); // a random pure state
       const hmax = conditionalMaxEntropy(psi, dims, [0], [1]).value;
       const hmin = conditionalMinEntropy(psi, dims, [0], [2]).value;
       assertClose(hmax, -hmin, 1e-6, `dims ${dims}`);

@@ -12,8 +12,7 @@ import type { Channel } from '../../src/quantum/types.js';
 import { diamondDistance } from '../../src/oneshot/diamond.js';
 import '../../src/ops/guessing-ops.js';
 import { handle } from '../../src/ops/handle.js';
-import { randomDensity, rng } from '../helpers/random.js';
-import { randomUnitary } from '../recovery/fixtures.js';
+import { randomDensity, randomUnitary, rng } from '../helpers/random.js';
 
 /** Q diag(e^{iθ}) Q*. */
 function unitaryWithPhases(q: CMatrix, theta: readonly number[]): CMatrix {

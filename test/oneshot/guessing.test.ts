@@ -9,46 +9,12 @@ import {
 import { guessingProbability, holevoOperator } from '../../src/oneshot/guessing.js';
 import '../../src/ops/guessing-ops.js';
 import { handle } from '../../src/ops/handle.js';
-import { randomComplex, randomDensity, rng } from '../helpers/random.js';
+import { randomDensity, randomUnitary, rng } from '../helpers/random.js';
 
 function maxAbs(m: CMatrix): number {
   let s = 0;
   for (let k = 0; k < m.re.length; k++) s = Math.max(s, Math.hypot(m.re[k], m.im[k]));
   return s;
-}
-
-/** An orthonormal basis (columns of a unitary) from a Gram–Schmidt pass over a random matrix. */
-function randomUnitary(d: number, r: () => number): CMatrix {
-  const g = randomComplex(d, d, r);
-  const q = zeros(d, d);
-  for (let j = 0; j < d; j++) {
-    const vr = new Float64Array(d);
-    const vi = new Float64Array(d);
-    for (let i = 0; i < d; i++) {
-      vr[i] = g.re[i * d + j];
-      vi[i] = g.im[i * d + j];
-    }
-    for (let k = 0; k < j; k++) {
-      let pr = 0;
-      let pi = 0;
-      for (let i = 0; i < d; i++) {
-        pr += q.re[i * d + k] * vr[i] + q.im[i * d + k] * vi[i];
-        pi += q.re[i * d + k] * vi[i] - q.im[i * d + k] * vr[i];
-      }
-      for (let i = 0; i < d; i++) {
-        vr[i] -= pr * q.re[i * d + k] - pi * q.im[i * d + k];
-        vi[i] -= pr * q.im[i * d + k] + pi * q.re[i * d + k];
-      }
-    }
-    let n = 0;
-    for (let i = 0; i < d; i++) n += vr[i] ** 2 + vi[i] ** 2;
-    n = Math.sqrt(n);
-    for (let i = 0; i < d; i++) {
-      q.re[i * d + j] = vr[i] / n;
-      q.im[i * d + j] = vi[i] / n;
-    }
-  }
-  return q;
 }
 
 describe('guessing probability p_guess(X|B) = max over POVMs of Σ_x p_x Tr M_x ρ_x', () => {

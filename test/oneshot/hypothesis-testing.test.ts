@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  CMatrix, adjoint, diagonal, eigh, eigvalsh, mul, scale, traceOfProductRe,
+  diagonal, eigvalsh, scale, traceOfProductRe,
 } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
 import '../../src/ops/all.js';
@@ -12,26 +12,11 @@ import { handle } from '../../src/ops/handle.js';
 import { hypothesisTestingDivergence, neymanPearson } from '../../src/oneshot/hypothesis-testing.js';
 import { umegakiRelativeEntropy, minRelativeEntropy } from '../../src/quantities/index.js';
 import { applyKraus, depolarizing } from '../../src/quantum/index.js';
-import { randomDensity, randomHermitian, rng } from '../helpers/random.js';
+import { eigenbasisUnitary, inBasis, randomDensity, randomProbabilities, rng } from '../helpers/random.js';
 import { assertClose, committedCases, liveCases, matrixOf, origin, type OneShotReference } from './oneshot-reference.js';
 
 function binaryEntropy(e: number): number {
   return -e * Math.log2(e) - (1 - e) * Math.log2(1 - e);
-}
-
-function randomUnitary(n: number, r: () => number): CMatrix {
-  return eigh(randomHermitian(n, r), { vectors: true }).vectors!;
-}
-
-/** U diag(p) U*. */
-function inBasis(u: CMatrix, p: number[]): CMatrix {
-  return mul(mul(u, diagonal(p)), adjoint(u));
-}
-
-function randomProbabilities(n: number, r: () => number): number[] {
-  const w = Array.from({ length: n }, () => r() + 0.05);
-  const s = w.reduce((a, b) => a + b, 0);
-  return w.map((x) => x / s);
 }
 
 function checkAgainst(ref: OneShotReference, label: string): void {
@@ -60,7 +45,7 @@ describe('hypothesis-testing relative entropy', () => {
     const r = rng(41);
     for (let d = 2; d <= 4; d++) {
       for (const eps of [0.05, 0.3, 0.7]) {
-        const u = randomUnitary(d, r);
+        const u = eigenbasisUnitary(d, r);
         const p = randomProbabilities(d, r);
         const q = randomProbabilities(d, r);
         const rho = inBasis(u, p);

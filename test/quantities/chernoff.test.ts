@@ -5,21 +5,15 @@ import { diagonal, kron, outer, columnVector, scale, fromRows, toRows } from '..
 import { chernoffExponent, chernoffTrace } from '../../src/quantities/chernoff.js';
 import { fidelity } from '../../src/quantities/fidelity.js';
 import { traceDistance } from '../../src/quantities/distances.js';
-import { rng, randomDensity } from '../helpers/random.js';
+import { rng, randomDensity, randomProbabilities } from '../helpers/random.js';
 import { runPythonCode } from '../helpers/python.js';
-
-function randomDistribution(n: number, r: () => number, zeros = 0): number[] {
-  const p = Array.from({ length: n }, (_, i) => (i < zeros ? 0 : r() + 0.05));
-  const s = p.reduce((a, b) => a + b, 0);
-  return p.map((x) => x / s);
-}
 
 describe('quantum Chernoff exponent', () => {
   it('equals the classical Chernoff information −log min_λ Σ p^λ q^{1−λ} for commuting states (Cover & Thomas, Elements of Information Theory, 2nd ed., Thm 11.9.1), reference minimised by scipy 1.10.1 minimize_scalar', () => {
     const r = rng(31);
     const cases: [number[], number[]][] = [];
-    for (const n of [2, 3, 5, 8]) cases.push([randomDistribution(n, r), randomDistribution(n, r)]);
-    cases.push([randomDistribution(4, r, 1), randomDistribution(4, r)]); // p has a zero: support end point matters
+    for (const n of [2, 3, 5, 8]) cases.push([randomProbabilities(n, r), randomProbabilities(n, r)]);
+    cases.push([randomProbabilities(4, r, [0]), randomProbabilities(4, r)]); // p has a zero: support end point matters
     const script = [
       'import json, sys, numpy as np',
       'from scipy.optimize import minimize_scalar',

@@ -7,19 +7,13 @@
 // H̃↑_α(A|B) = −H̃↑_β(A|C) with 1/α + 1/β = 2 for pure ρ_ABC); Arimoto (1977) for the classical case.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { CMatrix, mul, adjoint, scale, trace, zeros, kron, diagonal } from '../../src/linalg/index.js';
+import { CMatrix, zeros, kron, diagonal } from '../../src/linalg/index.js';
 import {
   conditionalEntropy, mutualInformation, conditionalMutualInformation, conditionalRenyiEntropy,
 } from '../../src/quantities/conditional.js';
 import { RhoError } from '../../src/errors.js';
-import { randomComplex, randomDensity, rng } from '../helpers/random.js';
+import { randomDensity, rng } from '../helpers/random.js';
 import { close } from './divergence-fixtures.js';
-
-function pure(n: number, r: () => number): CMatrix {
-  const v = randomComplex(n, 1, r);
-  const p = mul(v, adjoint(v));
-  return scale(p, 1 / trace(p).re);
-}
 
 function maximallyEntangled(d: number): CMatrix {
   const m = zeros(d * d, d * d);
@@ -125,7 +119,7 @@ describe('conditional Rényi entropies', () => {
 
   it('duality for pure ρ_ABC: H̄↑_α(A|B) = −H̃↓_{1/α}(A|C) (TBH 2014, Prop. 8)', () => {
     const r = rng(68);
-    const rho = pure(12, r);
+    const rho = randomDensity(12, r, 1);
     const dims = [2, 2, 3];
     for (const a of [0.7, 1.3, 1.8]) {
       const up = conditionalRenyiEntropy(rho, dims, [0], [1], { family: 'petz', alpha: a, optimized: true }).value;
@@ -136,7 +130,7 @@ describe('conditional Rényi entropies', () => {
 
   it('duality for pure ρ_ABC: H̃↑_α(A|B) = −H̃↑_β(A|C) with 1/α + 1/β = 2, which checks the sandwiched optimisation (Müller-Lennert et al. 2013 Thm 9; Beigi 2013)', () => {
     const r = rng(69);
-    const rho = pure(12, r);
+    const rho = randomDensity(12, r, 1);
     const dims = [2, 2, 3];
     for (const a of [0.6, 0.8, 1.5, 2, 3]) {
       const b = 1 / (2 - 1 / a);

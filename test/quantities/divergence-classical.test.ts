@@ -7,8 +7,8 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { divergence } from '../../src/quantities/divergences.js';
-import { rng } from '../helpers/random.js';
-import { close, inBasis, randomProbabilities, unitary } from './divergence-fixtures.js';
+import { rng, eigenbasisUnitary, inBasis, randomProbabilities } from '../helpers/random.js';
+import { close } from './divergence-fixtures.js';
 
 const kl = (p: number[], q: number[]) => p.reduce((s, x, i) => (x > 0 ? s + x * Math.log2(x / q[i]) : s), 0);
 const renyi = (p: number[], q: number[], a: number) =>
@@ -18,7 +18,7 @@ describe('divergences of commuting states reduce to classical ones', () => {
   const r = rng(21);
   const pairs = Array.from({ length: 4 }, (_, k) => {
     const n = 3 + k;
-    const U = unitary(n, r);
+    const U = eigenbasisUnitary(n, r);
     const p = randomProbabilities(n, r, k === 3 ? [0] : []); // the last pair has a rank-deficient ρ
     const q = randomProbabilities(n, r).map((x) => x * (k === 2 ? 2.5 : 1)); // one unnormalised σ
     return { p, q, rho: inBasis(U, p), sigma: inBasis(U, q) };

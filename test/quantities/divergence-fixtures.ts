@@ -1,22 +1,6 @@
-/** Small helpers shared by the entropy/divergence tests: unitaries, states with a given spectrum, channels from Kraus operators. */
+/** Small helpers shared by the entropy/divergence tests: channels from Kraus operators, closeness (random states: test/helpers/random.ts). */
 import { CMatrix, diagonal, mul, adjoint, eigh, zeros, add, trace, scale, identity, sub, frobeniusNorm } from '../../src/linalg/index.js';
-import { randomComplex, randomHermitian } from '../helpers/random.js';
-
-export function unitary(n: number, r: () => number): CMatrix {
-  return eigh(randomHermitian(n, r)).vectors!;
-}
-
-/** U diag(p) U* for a given unitary. */
-export function inBasis(U: CMatrix, p: number[]): CMatrix {
-  return mul(mul(U, diagonal(p)), adjoint(U));
-}
-
-/** Random probability vector (some entries may be forced to zero by `zeros`). */
-export function randomProbabilities(n: number, r: () => number, zeroAt: number[] = []): number[] {
-  const p = Array.from({ length: n }, (_, i) => (zeroAt.includes(i) ? 0 : 0.05 + r()));
-  const s = p.reduce((a, b) => a + b, 0);
-  return p.map((x) => x / s);
-}
+import { randomComplex } from '../helpers/random.js';
 
 /**
  * A random channel from `k` Kraus operators (d_out × d_in), made trace preserving by

@@ -8,8 +8,8 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import { add, identity, scale, sqrtm, logm, mul, matrixPower, traceOfProductRe } from '../../src/linalg/index.js';
 import { divergence } from '../../src/quantities/divergences.js';
-import { randomDensity, rng } from '../helpers/random.js';
-import { close, inBasis, unitary } from './divergence-fixtures.js';
+import { randomDensity, rng, eigenbasisUnitary, inBasis } from '../helpers/random.js';
+import { close } from './divergence-fixtures.js';
 
 describe('geometric Rényi and Belavkin–Staszewski divergences', () => {
   it('D̂_α ≥ D̃_α for α ∈ [1/2, 2] and D_BS ≥ D (Matsumoto 2018; Hiai & Petz 1991)', () => {
@@ -53,7 +53,7 @@ describe('geometric Rényi and Belavkin–Staszewski divergences', () => {
     // check is twofold: successive differences shrink by 100^{1−α} per factor 100 in ε, and Richardson
     // extrapolation with that exponent lands on our value.
     const r = rng(84);
-    const U = unitary(4, r);
+    const U = eigenbasisUnitary(4, r);
     const rho = randomDensity(4, r, 2);
     const sigma = inBasis(U, [0.5, 0.3, 0.2, 0]); // rank 3: misses part of ρ
     for (const a of [0.3, 0.6, 0.8]) {

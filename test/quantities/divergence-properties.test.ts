@@ -9,8 +9,8 @@ import assert from 'node:assert/strict';
 import { mul, sqrtm, traceNorm, scale, identity, diagonal, fromRows, CMatrix } from '../../src/linalg/index.js';
 import { divergence, alphaZDataProcessing, DivergenceResult } from '../../src/quantities/divergences.js';
 import { RhoError } from '../../src/errors.js';
-import { randomDensity, rng } from '../helpers/random.js';
-import { close, inBasis, unitary } from './divergence-fixtures.js';
+import { randomDensity, rng, eigenbasisUnitary, inBasis } from '../helpers/random.js';
+import { close } from './divergence-fixtures.js';
 
 function pairs(seed: number, count: number, rankRho?: number) {
   const r = rng(seed);
@@ -117,7 +117,7 @@ describe('properties of quantum divergences', () => {
 
   it('support conditions: +∞ with a reason for order ≥ 1 when supp ρ ⊄ supp σ, finite below 1, +∞ for orthogonal supports; never NaN (MDSFT 2013 Def. 3; Datta 2009)', () => {
     const r = rng(42);
-    const U = unitary(3, r);
+    const U = eigenbasisUnitary(3, r);
     const rho = inBasis(U, [0.6, 0.4, 0]);
     const sigmaPartial = inBasis(U, [0.5, 0, 0.5]); // overlaps ρ but misses part of it
     const sigmaOrth = inBasis(U, [0, 0, 1]);

@@ -7,18 +7,12 @@ import {
   CMatrix, columnVector, outer, mul, trace, toRows, scale, zeros, innerProduct, adjoint, eigh,
 } from '../../src/linalg/index.js';
 import { fidelity, generalizedFidelity } from '../../src/quantities/fidelity.js';
-import { rng, randomDensity, randomComplex } from '../helpers/random.js';
+import { rng, randomDensity, randomComplex, randomKet } from '../helpers/random.js';
 import { runPythonCode } from '../helpers/python.js';
 
 function det2(m: CMatrix): number {
   // Determinant of a 2x2 Hermitian matrix: a d − |b|².
   return m.re[0] * m.re[3] - (m.re[1] * m.re[1] + m.im[1] * m.im[1]);
-}
-
-function randomKet(n: number, r: () => number): CMatrix {
-  const g = randomComplex(n, 1, r);
-  const nrm = Math.sqrt(innerProduct(g, g).re);
-  return scale(g, 1 / nrm);
 }
 
 /** Direct sum m ⊕ [c] (one extra row and column). */

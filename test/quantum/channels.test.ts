@@ -13,8 +13,8 @@ import {
 } from '../../src/quantum/index.js';
 import type { Channel } from '../../src/quantum/index.js';
 import { RhoError } from '../../src/errors.js';
-import { rng, randomDensity, randomComplex, randomHermitian } from '../helpers/random.js';
-import { close, randomChannel, randomKet } from './fixtures.js';
+import { rng, randomDensity, randomComplex, randomHermitian, randomKet } from '../helpers/random.js';
+import { close, randomChannel } from './fixtures.js';
 import { fromData, numpyVersions, python, toData } from './numpy-reference.js';
 
 const versions = numpyVersions();

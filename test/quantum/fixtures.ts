@@ -1,13 +1,9 @@
-/** Seeded random unitaries, channels and finite groups for the quantum-layer tests. */
+/** Seeded random channels and finite groups for the quantum-layer tests (states and unitaries: test/helpers/random.ts). */
 import {
-  CMatrix, adjoint, mul, eigh, matrixPower, zeros, fromRows, maxAbs, sub, scale,
+  CMatrix, adjoint, mul, matrixPower, zeros, fromRows, maxAbs, sub, 
 } from '../../src/linalg/index.js';
 import type { Channel } from '../../src/quantum/types.js';
-import { randomComplex, randomHermitian } from '../helpers/random.js';
-
-export function randomUnitary(n: number, r: () => number): CMatrix {
-  return eigh(randomHermitian(n, r)).vectors!;
-}
+import { randomComplex } from '../helpers/random.js';
 
 /** A random trace-preserving channel with `count` Kraus operators: V = G (G*G)^{-1/2} cut into blocks. */
 export function randomChannel(dIn: number, dOut: number, count: number, r: () => number): Channel {
@@ -25,14 +21,6 @@ export function randomChannel(dIn: number, dOut: number, count: number, r: () =>
     kraus.push(K);
   }
   return { kraus, inputDims: [dIn], outputDims: [dOut] };
-}
-
-/** A unit vector as an n×1 matrix. */
-export function randomKet(n: number, r: () => number): CMatrix {
-  const v = randomComplex(n, 1, r);
-  let s = 0;
-  for (let i = 0; i < n; i++) s += v.re[i] ** 2 + v.im[i] ** 2;
-  return scale(v, 1 / Math.sqrt(s));
 }
 
 function canonicalKey(U: CMatrix): string {

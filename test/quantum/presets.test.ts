@@ -13,8 +13,8 @@ import {
 } from '../../src/quantum/index.js';
 import type { Channel } from '../../src/quantum/index.js';
 import { RhoError } from '../../src/errors.js';
-import { rng, randomDensity, randomComplex, randomHermitian } from '../helpers/random.js';
-import { close, randomUnitary, qubitClifford, hadamard } from './fixtures.js';
+import { rng, randomDensity, randomComplex, randomHermitian, eigenbasisUnitary } from '../helpers/random.js';
+import { close, qubitClifford, hadamard } from './fixtures.js';
 import { fromData, numpyVersions, python, toData } from './numpy-reference.js';
 
 const versions = numpyVersions();
@@ -117,7 +117,7 @@ describe('amplitude damping and erasure', () => {
 
 describe('unitary, partial trace, measure-and-prepare', () => {
   it('a unitary channel is trace preserving and unital; a non-unitary matrix is refused', () => {
-    assert.deepEqual(tpAndUnital(unitaryChannel(randomUnitary(3, rng(7)))), { tp: true, unital: true });
+    assert.deepEqual(tpAndUnital(unitaryChannel(eigenbasisUnitary(3, rng(7)))), { tp: true, unital: true });
     throwsParam(() => unitaryChannel(fromRows([[1, 1], [0, 1]])), 'unitary');
   });
 
@@ -133,7 +133,7 @@ describe('unitary, partial trace, measure-and-prepare', () => {
   it('measure-and-prepare outputs Σ_x Tr(M_x ρ) σ_x (Horodecki, Shor & Ruskai, Rev. Math. Phys. 15, 629 (2003))', () => {
     const r = rng(9);
     // A three-outcome POVM on a qubit: trine-like elements from a random unitary split.
-    const U = randomUnitary(2, r);
+    const U = eigenbasisUnitary(2, r);
     const P0 = mul(mul(U, diagonal([1, 0])), adjoint(U));
     const P1 = mul(mul(U, diagonal([0, 1])), adjoint(U));
     const povm = [scale(P0, 0.5), scale(P1, 0.5), scale(identity(2), 0.5)];
@@ -150,7 +150,7 @@ describe('unitary, partial trace, measure-and-prepare', () => {
 describe('pinching, conditional expectation and twirl', () => {
   it('pinching in a basis keeps only the diagonal in that basis and is idempotent (Bhatia, Matrix Analysis, pinching; recalled from memory)', () => {
     const r = rng(10);
-    const U = randomUnitary(3, r);
+    const U = eigenbasisUnitary(3, r);
     const ch = pinchingInBasis(U);
     const rho = randomDensity(3, r);
     const out = applyKraus(ch, rho);
@@ -193,7 +193,7 @@ describe('pinching, conditional expectation and twirl', () => {
 
   it('the conditional expectation is a trace-preserving, unital, self-adjoint idempotent that fixes the algebra (defining properties; Umegaki 1954, Tomiyama 1957)', () => {
     const r = rng(13);
-    const U = randomUnitary(5, r);
+    const U = eigenbasisUnitary(5, r);
     const E = conditionalExpectation([1, 1], [2, 3], U);
     assert.deepEqual(tpAndUnital(E), { tp: true, unital: true });
     const X = randomComplex(5, 5, r);
@@ -233,7 +233,7 @@ describe('pinching, conditional expectation and twirl', () => {
 
   it('every preset is trace preserving; the unital ones are exactly the depolarizing, dephasing, unitary, pinching, conditional-expectation and twirl channels (textbook facts)', () => {
     const r = rng(17);
-    const unital = [depolarizing(3, 0.4), dephasing(2, 0.5), unitaryChannel(randomUnitary(2, r)), pinchingInBasis(3),
+    const unital = [depolarizing(3, 0.4), dephasing(2, 0.5), unitaryChannel(eigenbasisUnitary(2, r)), pinchingInBasis(3),
       conditionalExpectation([2], [2]), groupTwirl(qubitClifford())];
     const notUnital = [amplitudeDamping(0.3), generalizedAmplitudeDamping(0.3, 0.2), erasure(2, 0.1), partialTraceChannel([2, 2], [0]),
       measurePrepare([diagonal([1, 0]), diagonal([0, 1])], [diagonal([1, 0]), diagonal([1, 0])])];

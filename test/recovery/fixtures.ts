@@ -3,41 +3,7 @@ import {
   CMatrix, adjoint, identity, kron, mul, zeros, marginal,
 } from '../../src/linalg/index.js';
 import { vonNeumannEntropy } from '../../src/quantities/entropy.js';
-import { randomComplex, randomDensity } from '../helpers/random.js';
-
-/** Columns of a random unitary (Gram–Schmidt on a complex Gaussian matrix). */
-export function randomUnitary(d: number, r: () => number): CMatrix {
-  const g = randomComplex(d, d, r);
-  const q = zeros(d, d);
-  for (let j = 0; j < d; j++) {
-    const vr = new Float64Array(d);
-    const vi = new Float64Array(d);
-    for (let i = 0; i < d; i++) {
-      vr[i] = g.re[i * d + j];
-      vi[i] = g.im[i * d + j];
-    }
-    for (let k = 0; k < j; k++) {
-      let pr = 0;
-      let pi = 0;
-      for (let i = 0; i < d; i++) {
-        pr += q.re[i * d + k] * vr[i] + q.im[i * d + k] * vi[i];
-        pi += q.re[i * d + k] * vi[i] - q.im[i * d + k] * vr[i];
-      }
-      for (let i = 0; i < d; i++) {
-        vr[i] -= pr * q.re[i * d + k] - pi * q.im[i * d + k];
-        vi[i] -= pr * q.im[i * d + k] + pi * q.re[i * d + k];
-      }
-    }
-    let n = 0;
-    for (let i = 0; i < d; i++) n += vr[i] ** 2 + vi[i] ** 2;
-    n = Math.sqrt(n);
-    for (let i = 0; i < d; i++) {
-      q.re[i * d + j] = vr[i] / n;
-      q.im[i * d + j] = vi[i] / n;
-    }
-  }
-  return q;
-}
+import { randomDensity, randomUnitary } from '../helpers/random.js';
 
 /** Columns from..from+count−1 of a matrix. */
 function columns(u: CMatrix, from: number, count: number): CMatrix {
