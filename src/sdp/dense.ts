@@ -134,50 +134,112 @@ export const HUGE_PIVOT = 1e64;
  */
 export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-13): number {
   let dependent = 0;
-  for (let j = 0; j < n; j++) {
-    const jo = j * n;
-    const orig = a[jo + j];
-    let d = orig;
-    for (let k = 0; k < j; k++) d -= a[jo + k] * a[jo + k];
-    let ljj: number;
+  const pivot = (d: number, orig: number): number => {
     if (!(d > relTol * Math.abs(orig)) || !(d > 0)) {
-      ljj = HUGE_PIVOT;
       dependent++;
-    } else ljj = Math.sqrt(d);
-    a[jo + j] = ljj;
-    const inv = 1 / ljj;
-    // Column j below the pivot: four rows at a time share the loads of row j (the Schur
-    // complement's factorization is the largest dense kernel of an iteration; this about halves
-    // its time against one row at a time in V8).
-    let i = j + 1;
+      return HUGE_PIVOT;
+    }
+    return Math.sqrt(d);
+  };
+  // Two columns at a time, four rows at a time: each pass over k loads four entries of the rows
+  // below and two of the pivot rows for eight multiply-adds (the Schur complement's factorization
+  // is the largest dense kernel of an iteration at a few hundred constraints; this register
+  // blocking is about 1.5–2× faster in V8 than one column and four rows per pass).
+  let j = 0;
+  for (; j + 1 < n; j += 2) {
+    const jo = j * n;
+    const j1o = jo + n;
+    // The 2×2 diagonal block.
+    let d0 = a[jo + j];
+    let s10 = a[j1o + j];
+    let d1 = a[j1o + j + 1];
+    for (let k = 0; k < j; k++) {
+      const x = a[jo + k];
+      const y = a[j1o + k];
+      d0 -= x * x;
+      s10 -= y * x;
+      d1 -= y * y;
+    }
+    const l00 = pivot(d0, a[jo + j]);
+    const l10 = s10 / l00;
+    const l11 = pivot(d1 - l10 * l10, a[j1o + j + 1]);
+    a[jo + j] = l00;
+    a[j1o + j] = l10;
+    a[j1o + j + 1] = l11;
+    const inv0 = 1 / l00;
+    const inv1 = 1 / l11;
+    const huge0 = l00 === HUGE_PIVOT;
+    const huge1 = l11 === HUGE_PIVOT;
+    let i = j + 2;
     for (; i + 3 < n; i += 4) {
       const i0 = i * n;
       const i1 = i0 + n;
       const i2 = i1 + n;
       const i3 = i2 + n;
-      let s0 = a[i0 + j];
-      let s1 = a[i1 + j];
-      let s2 = a[i2 + j];
-      let s3 = a[i3 + j];
+      let s00 = a[i0 + j];
+      let s01 = a[i0 + j + 1];
+      let s10_ = a[i1 + j];
+      let s11 = a[i1 + j + 1];
+      let s20 = a[i2 + j];
+      let s21 = a[i2 + j + 1];
+      let s30 = a[i3 + j];
+      let s31 = a[i3 + j + 1];
       for (let k = 0; k < j; k++) {
-        const ljk = a[jo + k];
-        s0 -= a[i0 + k] * ljk;
-        s1 -= a[i1 + k] * ljk;
-        s2 -= a[i2 + k] * ljk;
-        s3 -= a[i3 + k] * ljk;
+        const p = a[jo + k];
+        const q = a[j1o + k];
+        const x0 = a[i0 + k];
+        const x1 = a[i1 + k];
+        const x2 = a[i2 + k];
+        const x3 = a[i3 + k];
+        s00 -= x0 * p;
+        s01 -= x0 * q;
+        s10_ -= x1 * p;
+        s11 -= x1 * q;
+        s20 -= x2 * p;
+        s21 -= x2 * q;
+        s30 -= x3 * p;
+        s31 -= x3 * q;
       }
-      a[i0 + j] = ljj === HUGE_PIVOT ? s0 / ljj : s0 * inv;
-      a[i1 + j] = ljj === HUGE_PIVOT ? s1 / ljj : s1 * inv;
-      a[i2 + j] = ljj === HUGE_PIVOT ? s2 / ljj : s2 * inv;
-      a[i3 + j] = ljj === HUGE_PIVOT ? s3 / ljj : s3 * inv;
+      const c0 = huge0 ? s00 / l00 : s00 * inv0;
+      const c1 = huge0 ? s10_ / l00 : s10_ * inv0;
+      const c2 = huge0 ? s20 / l00 : s20 * inv0;
+      const c3 = huge0 ? s30 / l00 : s30 * inv0;
+      a[i0 + j] = c0;
+      a[i1 + j] = c1;
+      a[i2 + j] = c2;
+      a[i3 + j] = c3;
+      s01 -= c0 * l10;
+      s11 -= c1 * l10;
+      s21 -= c2 * l10;
+      s31 -= c3 * l10;
+      a[i0 + j + 1] = huge1 ? s01 / l11 : s01 * inv1;
+      a[i1 + j + 1] = huge1 ? s11 / l11 : s11 * inv1;
+      a[i2 + j + 1] = huge1 ? s21 / l11 : s21 * inv1;
+      a[i3 + j + 1] = huge1 ? s31 / l11 : s31 * inv1;
     }
     for (; i < n; i++) {
       const io = i * n;
-      let s = a[io + j];
-      for (let k = 0; k < j; k++) s -= a[io + k] * a[jo + k];
-      a[io + j] = ljj === HUGE_PIVOT ? s / ljj : s * inv;
+      let s0 = a[io + j];
+      let s1 = a[io + j + 1];
+      for (let k = 0; k < j; k++) {
+        const x = a[io + k];
+        s0 -= x * a[jo + k];
+        s1 -= x * a[j1o + k];
+      }
+      const c0 = huge0 ? s0 / l00 : s0 * inv0;
+      a[io + j] = c0;
+      s1 -= c0 * l10;
+      a[io + j + 1] = huge1 ? s1 / l11 : s1 * inv1;
     }
     for (let k = j + 1; k < n; k++) a[jo + k] = 0;
+    for (let k = j + 2; k < n; k++) a[j1o + k] = 0;
+  }
+  if (j < n) {
+    // last column (odd n): only its diagonal
+    const jo = j * n;
+    let d = a[jo + j];
+    for (let k = 0; k < j; k++) d -= a[jo + k] * a[jo + k];
+    a[jo + j] = pivot(d, a[jo + j]);
   }
   return dependent;
 }
@@ -191,6 +253,26 @@ export function forwardSolve(l: Float64Array, n: number, b: Float64Array, cols =
       for (let k = 0; k < i; k++) s -= l[io + k] * b[k * cols + c];
       b[i * cols + c] = s / l[io + i];
     }
+  }
+}
+
+/** Solve L·x = b in place for one right-hand side (row-oriented dot products, contiguous). */
+export function forwardSolve1(l: Float64Array, n: number, b: Float64Array): void {
+  for (let i = 0; i < n; i++) {
+    const io = i * n;
+    let s = b[i];
+    for (let k = 0; k < i; k++) s -= l[io + k] * b[k];
+    b[i] = s / l[io + i];
+  }
+}
+
+/** Solve Lᵀ·x = b in place for one right-hand side (row i of L subtracted once x_i is known: contiguous). */
+export function backSolveT1(l: Float64Array, n: number, b: Float64Array): void {
+  for (let i = n - 1; i >= 0; i--) {
+    const io = i * n;
+    const xi = b[i] / l[io + i];
+    b[i] = xi;
+    if (xi !== 0) for (let k = 0; k < i; k++) b[k] -= l[io + k] * xi;
   }
 }
 

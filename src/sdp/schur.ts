@@ -23,7 +23,7 @@
  * it is a plain dense Cholesky of M, still correct).
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
-import { backSolveT, choleskyInPlaceGuarded, forwardSolve } from './dense.js';
+import { backSolveT1, choleskyInPlaceGuarded, forwardSolve, forwardSolve1 } from './dense.js';
 import type { Compiled } from './compile.js';
 
 /** (Ur + i Ui) = (Ar + i Ai)(Br + i Bi), n×n row-major; outputs must not alias inputs. */
@@ -47,6 +47,22 @@ function complexMul(ar: Float64Array, ai: Float64Array, br: Float64Array, bi: Fl
   }
 }
 
+/**
+ * A Hermitian block's constraint coefficients, flat: constraint a's entries are ptr[a]..ptr[a+1]−1,
+ * each (p, q, re + i·im) with its conjugate mirror listed separately, idx = q·n + p (n the complex
+ * size); group/local: the constraint's Schur group (−1 for global rows) and index inside it.
+ */
+interface HermitianEntries {
+  ptr: Int32Array;
+  p: Int32Array;
+  q: Int32Array;
+  re: Float64Array;
+  im: Float64Array;
+  idx: Int32Array;
+  group: Int32Array;
+  local: Int32Array;
+}
+
 export class SchurSystem {
   private readonly cp: Compiled;
   private readonly nG: number;
@@ -66,7 +82,8 @@ export class SchurSystem {
   private readonly sSuffix: Float64Array;
   // Hermitian blocks: coefficient entries expanded with their mirrors (p, q, re, im), per
   // constraint, and complex scratch for W and W A W (size of the largest Hermitian block).
-  private readonly hx: ({ p: Int32Array; q: Int32Array; re: Float64Array; im: Float64Array }[] | null)[];
+  private readonly hx: (HermitianEntries | null)[];
+  private readonly sRow: Float64Array;
   private readonly cWr: Float64Array;
   private readonly cWi: Float64Array;
   private readonly cTr: Float64Array;
@@ -93,33 +110,51 @@ export class SchurSystem {
     this.sTmp = new Float64Array(nmax * nmax);
     this.sA = new Float64Array(nmax * nmax);
     this.sSuffix = new Float64Array(mmax + 1);
+    this.sRow = new Float64Array(mmax);
     this.hx = cp.psd.map((blk) => {
       if (!blk.complex) return null;
       const cx = blk.complex;
-      return cx.p.map((p, a) => {
+      const h = blk.n / 2;
+      const mk = cx.p.length;
+      const ptr = new Int32Array(mk + 1);
+      for (let a = 0; a < mk; a++) {
+        let len = 0;
+        for (let t = 0; t < cx.p[a].length; t++) len += cx.p[a][t] === cx.q[a][t] ? 1 : 2;
+        ptr[a + 1] = ptr[a] + len;
+      }
+      const tot = ptr[mk];
+      const out: HermitianEntries = {
+        ptr,
+        p: new Int32Array(tot),
+        q: new Int32Array(tot),
+        re: new Float64Array(tot),
+        im: new Float64Array(tot),
+        idx: new Int32Array(tot),
+        group: new Int32Array(mk),
+        local: new Int32Array(mk),
+      };
+      for (let a = 0; a < mk; a++) {
+        const p = cx.p[a];
         const q = cx.q[a];
         const re = cx.re[a];
         const im = cx.im[a];
-        let len = 0;
-        for (let t = 0; t < p.length; t++) len += p[t] === q[t] ? 1 : 2;
-        const out = { p: new Int32Array(len), q: new Int32Array(len), re: new Float64Array(len), im: new Float64Array(len) };
-        let e = 0;
-        for (let t = 0; t < p.length; t++) {
-          out.p[e] = p[t];
-          out.q[e] = q[t];
-          out.re[e] = re[t];
-          out.im[e] = p[t] === q[t] ? 0 : im[t];
+        let e = ptr[a];
+        const put = (pp: number, qq: number, vr: number, vi: number) => {
+          out.p[e] = pp;
+          out.q[e] = qq;
+          out.re[e] = vr;
+          out.im[e] = vi;
+          out.idx[e] = qq * h + pp;
           e++;
-          if (p[t] !== q[t]) {
-            out.p[e] = q[t];
-            out.q[e] = p[t];
-            out.re[e] = re[t];
-            out.im[e] = -im[t];
-            e++;
-          }
+        };
+        for (let t = 0; t < p.length; t++) {
+          put(p[t], q[t], re[t], p[t] === q[t] ? 0 : im[t]);
+          if (p[t] !== q[t]) put(q[t], p[t], re[t], -im[t]);
         }
-        return out;
-      });
+        out.group[a] = cp.groupOf[blk.cons[a]];
+        out.local[a] = cp.localIndex[blk.cons[a]];
+      }
+      return out;
     });
     const hmax = Math.max(1, ...cp.psd.filter((b) => b.complex).map((b) => b.n / 2));
     const hh = hmax * hmax;
@@ -138,42 +173,56 @@ export class SchurSystem {
    * embedding emb(·) = [[Re, −Im], [Im, Re]] with coefficients emb(A)/2, and W is the embedding of
    * the complex NT scaling W_c, so ⟨emb(A_a)/2, W emb(A_b)/2 W⟩ = ½ Re tr(A_a W_c A_b W_c): the
    * same number from matrices of half the size (about a quarter of the real flops).
+   *
+   * The coefficients are flat arrays (HermitianEntries), and a pair of constraints in the same
+   * group adds straight into the group's upper triangle (mirrored once after assembly), so the
+   * O(m_k²) pair loop of coordinate-type constraints (one or two entries each, the bulk of the
+   * one-shot quantities' rows) runs without per-pair dispatch.
    */
   private assembleHermitianBlock(k: number, w: Float64Array): void {
     const blk = this.cp.psd[k];
-    const ents = this.hx[k]!;
+    const E = this.hx[k]!;
     const n = blk.n / 2;
+    const nn = n * n;
     const mk = blk.cons.length;
     if (mk === 0) return;
+    const ptr = E.ptr;
+    const P = E.p;
+    const Q = E.q;
+    const RE = E.re;
+    const IM = E.im;
+    const IDX = E.idx;
+    const grp = E.group;
+    const loc = E.local;
     const wr = this.cWr;
     const wi = this.cWi;
     // W arrives as the complex n×n scaling (complexdense.ts layout: real parts, then imaginary parts).
-    for (let e = 0; e < n * n; e++) {
+    for (let e = 0; e < nn; e++) {
       wr[e] = w[e];
-      wi[e] = w[n * n + e];
+      wi[e] = w[nn + e];
     }
     const suffix = this.sSuffix;
     suffix[mk] = 0;
-    for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + ents[a].p.length;
+    for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + ptr[a + 1] - ptr[a];
     const Tr = this.cTr;
     const Ti = this.cTi;
+    const row = this.sRow;
     for (let a = 0; a < mk; a++) {
-      const ea = ents[a];
-      const na = ea.p.length;
-      const i = blk.cons[a];
-      const formCost = Math.min(na * n * n, 2 * n * n * n) + suffix[a];
+      const a0 = ptr[a];
+      const a1 = ptr[a + 1];
+      const na = a1 - a0;
+      const formCost = Math.min(na * nn, 2 * nn * n) + suffix[a];
       const pairCost = 2 * na * suffix[a];
       if (formCost < pairCost) {
         // T = W A_a W (complex n×n)
-        if (na * n < 2 * n * n) {
-          Tr.fill(0, 0, n * n);
-          Ti.fill(0, 0, n * n);
-          for (let t = 0; t < na; t++) {
-            const p = ea.p[t];
-            const q = ea.q[t];
-            const ar = ea.re[t];
-            const ai = ea.im[t];
-            const qo = q * n;
+        if (na * n < 2 * nn) {
+          Tr.fill(0, 0, nn);
+          Ti.fill(0, 0, nn);
+          for (let t = a0; t < a1; t++) {
+            const p = P[t];
+            const qo = Q[t] * n;
+            const ar = RE[t];
+            const ai = IM[t];
             for (let x = 0; x < n; x++) {
               // c = α W_xp
               const xr = wr[x * n + p];
@@ -192,55 +241,67 @@ export class SchurSystem {
         } else {
           const Ar = this.cAr;
           const Ai = this.cAi;
-          const Ur = this.cUr;
-          const Ui = this.cUi;
-          Ar.fill(0, 0, n * n);
-          Ai.fill(0, 0, n * n);
-          for (let t = 0; t < na; t++) {
-            Ar[ea.p[t] * n + ea.q[t]] += ea.re[t];
-            Ai[ea.p[t] * n + ea.q[t]] += ea.im[t];
+          Ar.fill(0, 0, nn);
+          Ai.fill(0, 0, nn);
+          for (let t = a0; t < a1; t++) {
+            Ar[P[t] * n + Q[t]] += RE[t];
+            Ai[P[t] * n + Q[t]] += IM[t];
           }
-          complexMul(wr, wi, Ar, Ai, n, Ur, Ui);
-          complexMul(Ur, Ui, wr, wi, n, Tr, Ti);
+          complexMul(wr, wi, Ar, Ai, n, this.cUr, this.cUi);
+          complexMul(this.cUr, this.cUi, wr, wi, n, Tr, Ti);
         }
+        // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r.
         for (let b = a; b < mk; b++) {
-          const eb = ents[b];
           let sum = 0;
-          for (let t = 0; t < eb.p.length; t++) {
-            // Re(β T_sr) for the expanded entry (r, s, β)
-            const idx = eb.q[t] * n + eb.p[t];
-            sum += eb.re[t] * Tr[idx] - eb.im[t] * Ti[idx];
+          for (let u = ptr[b]; u < ptr[b + 1]; u++) {
+            const idx = IDX[u];
+            sum += RE[u] * Tr[idx] - IM[u] * Ti[idx];
           }
-          this.addPair(i, blk.cons[b], 0.5 * sum);
+          row[b] = sum;
         }
       } else {
         for (let b = a; b < mk; b++) {
-          const eb = ents[b];
           let sum = 0;
-          for (let t = 0; t < na; t++) {
-            const p = ea.p[t];
-            const q = ea.q[t];
-            const ar = ea.re[t];
-            const ai = ea.im[t];
-            for (let u = 0; u < eb.p.length; u++) {
-              const r = eb.p[u];
-              const sIdx = eb.q[u];
+          for (let t = a0; t < a1; t++) {
+            const po = P[t];
+            const qo = Q[t] * n;
+            const ar = RE[t];
+            const ai = IM[t];
+            for (let u = ptr[b]; u < ptr[b + 1]; u++) {
               // Re(α β W_qr W_sp)
-              const br = eb.re[u];
-              const bi = eb.im[u];
+              const br = RE[u];
+              const bi = IM[u];
               const abr = ar * br - ai * bi;
               const abi = ar * bi + ai * br;
-              const w1r = wr[q * n + r];
-              const w1i = wi[q * n + r];
-              const w2r = wr[sIdx * n + p];
-              const w2i = wi[sIdx * n + p];
-              const pr = w1r * w2r - w1i * w2i;
-              const pi = w1r * w2i + w1i * w2r;
-              sum += abr * pr - abi * pi;
+              const i1 = qo + P[u];
+              const i2 = Q[u] * n + po;
+              const w1r = wr[i1];
+              const w1i = wi[i1];
+              const w2r = wr[i2];
+              const w2i = wi[i2];
+              sum += abr * (w1r * w2r - w1i * w2i) - abi * (w1r * w2i + w1i * w2r);
             }
           }
-          this.addPair(i, blk.cons[b], 0.5 * sum);
+          row[b] = sum;
         }
+      }
+      // Scatter ½·row into the Schur complement.
+      const ga = grp[a];
+      const i = blk.cons[a];
+      if (ga >= 0) {
+        const d = this.D[ga];
+        const ng = this.cp.groups[ga].length;
+        const la = loc[a];
+        for (let b = a; b < mk; b++) {
+          const v = 0.5 * row[b];
+          if (grp[b] === ga) {
+            const lb = loc[b];
+            if (la <= lb) d[la * ng + lb] += v;
+            else d[lb * ng + la] += v;
+          } else this.addPair(i, blk.cons[b], v);
+        }
+      } else {
+        for (let b = a; b < mk; b++) this.addPair(i, blk.cons[b], 0.5 * row[b]);
       }
     }
   }
@@ -253,10 +314,11 @@ export class SchurSystem {
     const lj = cp.localIndex[j];
     if (gi >= 0 && gj >= 0) {
       // same group necessarily
+      // upper triangle only; assembleAndFactor mirrors it
       const n = cp.groups[gi].length;
       const d = this.D[gi];
-      d[li * n + lj] += v;
-      if (i !== j) d[lj * n + li] += v;
+      if (li <= lj) d[li * n + lj] += v;
+      else d[lj * n + li] += v;
     } else if (gi >= 0) {
       this.B[gi][li * this.r + lj] += v;
     } else if (gj >= 0) {
@@ -301,7 +363,12 @@ export class SchurSystem {
         }
       }
     }
-    this.D.forEach((a, g) => this.D0[g].set(a));
+    // Group blocks were accumulated in their upper triangle: mirror.
+    this.D.forEach((a, g) => {
+      const n = cp.groups[g].length;
+      for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) a[j * n + i] = a[i * n + j];
+      this.D0[g].set(a);
+    });
     this.B.forEach((a, g) => this.B0[g].set(a));
     this.R0.set(this.R);
     this.factor();
@@ -453,7 +520,7 @@ export class SchurSystem {
       const n = g.length;
       const z = this.zScratch(n);
       for (let a = 0; a < n; a++) z[a] = rhs[g[a]];
-      forwardSolve(this.D[gi], n, z);
+      forwardSolve1(this.D[gi], n, z);
       for (let a = 0; a < n; a++) out[g[a]] = z[a];
       if (r > 0) {
         const F = this.B[gi];
@@ -470,8 +537,8 @@ export class SchurSystem {
         const sol = this.lu.solve(Matrix.columnVector(Array.from(rr)));
         u = Float64Array.from(sol.getColumn(0));
       } else {
-        forwardSolve(this.R, r, u);
-        backSolveT(this.R, r, u);
+        forwardSolve1(this.R, r, u);
+        backSolveT1(this.R, r, u);
       }
     }
     for (let gi = 0; gi < groups.length; gi++) {
@@ -487,7 +554,7 @@ export class SchurSystem {
           z[k] -= s;
         }
       }
-      backSolveT(this.D[gi], n, z);
+      backSolveT1(this.D[gi], n, z);
       for (let a = 0; a < n; a++) out[g[a]] = z[a];
     }
     for (let a = 0; a < this.nG; a++) out[cp.globals[a]] = u[a];
