@@ -294,12 +294,13 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
  * Smallest eigenvalue of a Hermitian h×h matrix (lower triangle read; `a` is destroyed): complex
  * Householder reduction to a Hermitian tridiagonal matrix, whose eigenvalues depend only on the
  * moduli of its off-diagonal, then bisection on Sturm counts. Absolute accuracy a few ulps of ‖A‖,
- * which is what a step length to the cone boundary needs. `diag`, `off2`, `w`: scratch of h, h and
- * 2h numbers. About 4h³/3 complex multiply-adds.
+ * which is what a step length to the cone boundary needs. When every eigenvalue is ≥ `floor`, returns
+ * `floor` without bisecting (callers that only need eigenvalues below a threshold). `diag`,
+ * `off2`, `w`: scratch of h, h and 2h numbers. About 4h³/3 complex multiply-adds.
  */
-export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, off2: Float64Array, w: Float64Array): number {
+export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, off2: Float64Array, w: Float64Array, floor = -Infinity): number {
   const hh = h * h;
-  if (h === 1) return a[0];
+  if (h === 1) return Math.max(a[0], floor);
   for (let k = 0; k < h - 2; k++) {
     // x = A[k+1.., k]
     let alpha2 = 0;
@@ -383,11 +384,27 @@ export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, o
     const im = a[hh + (h - 1) * h + h - 2];
     off2[h - 2] = r * r + im * im;
   }
-  return smallestTridiagonal2(diag, off2, h);
+  return smallestTridiagonal2(diag, off2, h, floor);
 }
 
-/** Smallest eigenvalue of the symmetric tridiagonal with diagonal `diag` and squared off-diagonal `off2`, by bisection. */
-export function smallestTridiagonal2(diag: Float64Array, off2: Float64Array, n: number): number {
+/** Number of eigenvalues below x of the symmetric tridiagonal (diag, squared off-diagonal off2): Sturm count. */
+function sturm2(diag: Float64Array, off2: Float64Array, n: number, x: number, tiny: number): number {
+  let count = 0;
+  let q = diag[0] - x;
+  if (q < 0) count++;
+  for (let i = 1; i < n; i++) {
+    if (q === 0) q = tiny;
+    q = diag[i] - x - off2[i - 1] / q;
+    if (q < 0) count++;
+  }
+  return count;
+}
+
+/**
+ * Smallest eigenvalue of the symmetric tridiagonal with diagonal `diag` and squared off-diagonal
+ * `off2`, by bisection; `floor` (when every eigenvalue is at least floor) otherwise.
+ */
+export function smallestTridiagonal2(diag: Float64Array, off2: Float64Array, n: number, floor = -Infinity): number {
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = 0; i < n; i++) {
@@ -399,19 +416,15 @@ export function smallestTridiagonal2(diag: Float64Array, off2: Float64Array, n: 
   const tiny = Number.EPSILON * scale * 1e-3 + Number.MIN_VALUE;
   hi = hi + Number.EPSILON * scale;
   lo = lo - Number.EPSILON * scale;
+  if (floor > -Infinity) {
+    if (lo >= floor) return floor;
+    if (hi > floor && sturm2(diag, off2, n, floor, tiny) === 0) return floor;
+    hi = Math.min(hi, floor);
+  }
   for (let it = 0; it < 200; it++) {
     const mid = 0.5 * (lo + hi);
     if (mid <= lo || mid >= hi || hi - lo <= 2 * Number.EPSILON * scale) break;
-    // Sturm count: number of eigenvalues below mid
-    let count = 0;
-    let q = diag[0] - mid;
-    if (q < 0) count++;
-    for (let i = 1; i < n; i++) {
-      if (q === 0) q = tiny;
-      q = diag[i] - mid - off2[i - 1] / q;
-      if (q < 0) count++;
-    }
-    if (count >= 1) hi = mid;
+    if (sturm2(diag, off2, n, mid, tiny) >= 1) hi = mid;
     else lo = mid;
   }
   return 0.5 * (lo + hi);

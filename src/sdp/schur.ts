@@ -505,11 +505,10 @@ export class SchurSystem {
   }
 
   /** Solve once with the factored system (no refinement). */
-  private solveOnce(rhs: Float64Array): Float64Array {
+  private solveOnce(rhs: Float64Array, out: Float64Array): Float64Array {
     const cp = this.cp;
     const r = this.r;
-    const out = new Float64Array(cp.m + cp.nF);
-    const rr = new Float64Array(r);
+    const rr = this.bufR1;
     for (let a = 0; a < this.nG; a++) rr[a] = rhs[cp.globals[a]];
     for (let f = 0; f < cp.nF; f++) rr[this.nG + f] = rhs[cp.m + f];
     // Local parts are solved in `out` in place (group g's entries at its constraints' positions),
@@ -562,54 +561,79 @@ export class SchurSystem {
     return out;
   }
 
+  // Work vectors of solve(), allocated once (no garbage per iteration).
   private zBuf = new Float64Array(16);
+  private bufR1 = new Float64Array(0);
+  private bufR2 = new Float64Array(0);
+  private bufR3 = new Float64Array(0);
+  private bufAx = new Float64Array(0);
+  private bufRes = new Float64Array(0);
+  private bufDx = new Float64Array(0);
+  /** Scratch for a group of n constraints (only its first n entries are used). */
   private zScratch(n: number): Float64Array {
     if (this.zBuf.length < n) this.zBuf = new Float64Array(n);
-    return this.zBuf.subarray(0, n);
+    return this.zBuf;
   }
 
   /** Multiply by the unfactored system. */
-  private multiply(v: Float64Array): Float64Array {
+  private multiply(v: Float64Array, out: Float64Array): Float64Array {
     const cp = this.cp;
     const r = this.r;
-    const out = new Float64Array(v.length);
-    const u = new Float64Array(r);
+    const u = this.bufR2;
     for (let a = 0; a < this.nG; a++) u[a] = v[cp.globals[a]];
     for (let f = 0; f < cp.nF; f++) u[this.nG + f] = v[cp.m + f];
-    const ru = new Float64Array(r);
+    const ru = this.bufR3;
     for (let a = 0; a < r; a++) {
       let s = 0;
       for (let b = 0; b < r; b++) s += this.R0[a * r + b] * u[b];
       ru[a] = s;
     }
-    cp.groups.forEach((g, gi) => {
+    const groups = cp.groups;
+    for (let gi = 0; gi < groups.length; gi++) {
+      const g = groups[gi];
       const n = g.length;
       const D = this.D0[gi];
       const B = this.B0[gi];
+      const z = this.zScratch(n);
+      for (let b = 0; b < n; b++) z[b] = v[g[b]];
       for (let a = 0; a < n; a++) {
         let s = 0;
-        for (let b = 0; b < n; b++) s += D[a * n + b] * v[g[b]];
+        const ao = a * n;
+        for (let b = 0; b < n; b++) s += D[ao + b] * z[b];
         for (let c = 0; c < r; c++) s += B[a * r + c] * u[c];
         out[g[a]] = s;
-        const va = v[g[a]];
+        const va = z[a];
         if (va !== 0) for (let c = 0; c < r; c++) ru[c] += B[a * r + c] * va;
       }
-    });
+    }
     for (let a = 0; a < this.nG; a++) out[cp.globals[a]] = ru[a];
     for (let f = 0; f < cp.nF; f++) out[cp.m + f] = ru[this.nG + f];
     return out;
   }
 
   /** Solve with `refinements` steps of iterative refinement against the unfactored system. */
-  solve(rhs: Float64Array, refinements = 1): Float64Array {
-    let x = this.solveOnce(rhs);
+  /**
+   * Solve with `refinements` steps of iterative refinement against the unfactored system, into
+   * `out` (length m + free variables; a new array when omitted).
+   */
+  solve(rhs: Float64Array, refinements = 1, out?: Float64Array): Float64Array {
+    const len = this.cp.m + this.cp.nF;
+    if (this.bufRes.length !== len) {
+      this.bufAx = new Float64Array(len);
+      this.bufRes = new Float64Array(len);
+      this.bufDx = new Float64Array(len);
+      this.bufR1 = new Float64Array(this.r);
+      this.bufR2 = new Float64Array(this.r);
+      this.bufR3 = new Float64Array(this.r);
+    }
+    const x = this.solveOnce(rhs, out ?? new Float64Array(len));
     if (this.dependent > 0) return x; // refinement would fight the dropped rows
     for (let k = 0; k < refinements; k++) {
-      const ax = this.multiply(x);
-      const res = new Float64Array(rhs.length);
-      for (let a = 0; a < rhs.length; a++) res[a] = rhs[a] - ax[a];
-      const dx = this.solveOnce(res);
-      for (let a = 0; a < x.length; a++) x[a] += dx[a];
+      const ax = this.multiply(x, this.bufAx);
+      const res = this.bufRes;
+      for (let a = 0; a < len; a++) res[a] = rhs[a] - ax[a];
+      const dx = this.solveOnce(res, this.bufDx);
+      for (let a = 0; a < len; a++) x[a] += dx[a];
     }
     return x;
   }

@@ -152,8 +152,19 @@ function maxStepPsd(lambda: Float64Array, D: Float64Array, n: number, t: Float64
   return mn < 0 ? -1 / mn : Infinity;
 }
 
+interface HermitianStepWork {
+  diag: Float64Array;
+  off2: Float64Array;
+  v: Float64Array;
+}
+
 /** Largest α with diag(λ) + α·D ⪰ 0 for a complex Hermitian h×h D (complexdense.ts layout). */
-function maxStepHermitian(lambda: Float64Array, D: Float64Array, h: number, t: Float64Array, work: Float64Array): number {
+/**
+ * Step lengths are only ever used as min(1, f·α_max) with f = stepFraction (≤ 1) or 1 for the
+ * predictor, so an eigenvalue above floor = −½·min(1, f) (α_max ≥ 2/min(1, f)) needs no bisection:
+ * it is reported as `floor` itself, and the step is capped at 1 either way.
+ */
+function maxStepHermitian(lambda: Float64Array, D: Float64Array, h: number, t: Float64Array, w: HermitianStepWork, floor: number): number {
   const hh = h * h;
   for (let i = 0; i < h; i++) {
     const si = 1 / Math.sqrt(lambda[i]);
@@ -163,7 +174,7 @@ function maxStepHermitian(lambda: Float64Array, D: Float64Array, h: number, t: F
       t[hh + i * h + j] = D[hh + i * h + j] * f;
     }
   }
-  const mn = cMinEigInPlace(t, h, work.subarray(0, h), work.subarray(h, 2 * h), work.subarray(2 * h, 4 * h));
+  const mn = cMinEigInPlace(t, h, w.diag, w.off2, w.v, floor);
   return mn < 0 ? -1 / mn : Infinity;
 }
 
@@ -205,6 +216,11 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   const feasTol = options.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance;
   const maxIter = options.maxIterations ?? DEFAULT_OPTIONS.maxIterations;
   const stepFraction = options.stepFraction ?? DEFAULT_OPTIONS.stepFraction;
+  // No early exit in the step-length eigenvalue (floor −∞): stopping the bisection once the
+  // eigenvalue is known to be above −½·stepFraction was tried, and the last-bit differences it
+  // makes tipped a degenerate one-shot instance (smooth max-divergence at an infinite value) into
+  // losing positive definiteness.
+  const stepFloor = -Infinity;
   const nb = cp.psd.length;
   const nu = cp.degree;
   const m = cp.m;
@@ -269,6 +285,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   const tmp2 = new Float64Array(nmax * nmax);
   const tmp3 = new Float64Array(nmax * nmax);
   const tmp4 = new Float64Array(nmax * nmax);
+  const stepWork: HermitianStepWork = { diag: new Float64Array(nmax), off2: new Float64Array(nmax), v: new Float64Array(2 * nmax) };
   const atyL = new Float64Array(nL);
   const atyF = new Float64Array(nF);
   const rp = new Float64Array(m);
@@ -392,6 +409,8 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
   // Scalars fixed within one iteration, used by direction().
   let denomBase = 0;
   let pvCached: Float64Array = new Float64Array(0);
+  const pvBuf = new Float64Array(m + nF);
+  const qvBuf = new Float64Array(m + nF);
 
   /**
    * One Newton direction: residual weight eta, centring target sigmaMu, corrector terms (in corr /
@@ -442,7 +461,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     applyA(cp, T.v, TL, null, AT);
     for (let i = 0; i < m; i++) h1[i] = -eta * rp[i] - AT[i];
     for (let f = 0; f < nF; f++) h1[m + f] = eta * rdF[f];
-    const qv = schur.solve(h1);
+    const qv = schur.solve(h1, 1, qvBuf);
     let bq = 0;
     let adcq = 0;
     for (let i = 0; i < m; i++) {
@@ -500,7 +519,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       const n = sizes[k];
       if (herm[k]) {
         const h = hs[k];
-        a = Math.min(a, maxStepHermitian(lam.v[k], dXs.v[k], h, tmp1, tmp2), maxStepHermitian(lam.v[k], dSs.v[k], h, tmp1, tmp2));
+        a = Math.min(a, maxStepHermitian(lam.v[k], dXs.v[k], h, tmp1, stepWork, stepFloor), maxStepHermitian(lam.v[k], dSs.v[k], h, tmp1, stepWork, stepFloor));
         continue;
       }
       a = Math.min(a, maxStepPsd(lam.v[k], dXs.v[k], n, tmp1, tmp2), maxStepPsd(lam.v[k], dSs.v[k], n, tmp1, tmp2));
@@ -623,7 +642,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     for (let k = 0; k < nb; k++) cDc += dotv(cp.psd[k].c, Dc.v[k]);
     for (let i = 0; i < m; i++) h2[i] = adc[i] + b[i];
     for (let f = 0; f < nF; f++) h2[m + f] = cp.cF[f];
-    pvCached = schur.solve(h2);
+    pvCached = schur.solve(h2, 1, pvBuf);
     const pv = pvCached;
     let bp = 0;
     let adcp = 0;
