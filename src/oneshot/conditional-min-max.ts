@@ -31,7 +31,7 @@
  * complement, O(m² n²) to form and O(m³) to factor.
  */
 import {
-  CMatrix, marginal, partialTrace, product, scale, trace, identity, zeros, mul, adjoint,
+  CMatrix, marginal, partialTrace, product, scale, trace, identity, mul, adjoint,
 } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import {
@@ -41,7 +41,7 @@ import {
 import { checkGroups } from '../quantities/conditional.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import {
-  acceptAnswer, certificateOf, lnBase, matrixBlock, multiplierMatrix, symmetrize,
+  acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, multiplierMatrix, symmetrize,
   type OneShotSdpOptions, type SdpCertificate,
 } from './sdp-support.js';
 
@@ -165,16 +165,7 @@ export function maxEntropyProblem(rhoAB: CMatrix, dA: number, dB: number, tol = 
   }
   for (const c of matrixCoordinates(r, true)) {
     // V E_c V* for the Hermitian coefficient E_c of coordinate c (see sdp/build.ts, coordinateEntry).
-    const e = zeros(r, r);
-    if (c.i === c.j) e.re[c.i * r + c.i] = 1;
-    else if (c.part === 're') {
-      e.re[c.i * r + c.j] = 0.5;
-      e.re[c.j * r + c.i] = 0.5;
-    } else {
-      e.im[c.i * r + c.j] = 0.5;
-      e.im[c.j * r + c.i] = -0.5;
-    }
-    const m = partialTrace(mul(mul(V, e), adjoint(V)), [dA, dB], [0]);
+    const m = partialTrace(mul(mul(V, coordinateMatrix(r, c)), adjoint(V)), [dA, dB], [0]);
     constraints.push({
       terms: [
         { block: 0, entries: [coordinateEntry(r + c.i, r + c.j, c.part)] },

@@ -153,6 +153,24 @@ export function multiplierMatrix(y: readonly number[], offset: number, d: number
   return m;
 }
 
+/**
+ * The Hermitian coefficient E_c of one real coordinate c of a d×d matrix, dense: ⟨E_c, X⟩ = that
+ * coordinate (1 at (i,i); ½ at (i,j) and (j,i) for Re X_ij; ½i at (i,j) and −½i at (j,i) for Im X_ij),
+ * the dense form of sdp's coordinateEntry.
+ */
+export function coordinateMatrix(d: number, c: { i: number; j: number; part: 're' | 'im' }): CMatrix {
+  const e = zeros(d, d);
+  if (c.i === c.j) e.re[c.i * d + c.i] = 1;
+  else if (c.part === 're') {
+    e.re[c.i * d + c.j] = 0.5;
+    e.re[c.j * d + c.i] = 0.5;
+  } else {
+    e.im[c.i * d + c.j] = 0.5;
+    e.im[c.j * d + c.i] = -0.5;
+  }
+  return e;
+}
+
 /** Natural log of the base, validated (default 2). */
 export function lnBase(base: number | undefined): number {
   const b = base ?? 2;

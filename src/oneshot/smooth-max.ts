@@ -42,7 +42,7 @@ import {
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import { fidelity } from '../quantities/fidelity.js';
 import {
-  acceptAnswer, certificateOf, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type SdpCertificate,
+  acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type SdpCertificate,
 } from './sdp-support.js';
 
 export interface SmoothMaxResult {
@@ -65,20 +65,6 @@ function checkEpsilon(epsilon: number): void {
   if (typeof epsilon !== 'number' || !(epsilon > 0 && epsilon < 1)) {
     throw new RhoError('invalid-argument', `ε must lie strictly between 0 and 1 (got ${epsilon}).`, 'epsilon');
   }
-}
-
-/** The Hermitian coefficient E_c of one real coordinate (⟨E_c, X⟩ = that coordinate), dense. */
-function coordinateMatrix(d: number, c: { i: number; j: number; part: 're' | 'im' }): CMatrix {
-  const e = zeros(d, d);
-  if (c.i === c.j) e.re[c.i * d + c.i] = 1;
-  else if (c.part === 're') {
-    e.re[c.i * d + c.j] = 0.5;
-    e.re[c.j * d + c.i] = 0.5;
-  } else {
-    e.im[c.i * d + c.j] = 0.5;
-    e.im[c.j * d + c.i] = -0.5;
-  }
-  return e;
 }
 
 const PROBLEM =

@@ -562,6 +562,26 @@ export function writeNumber(x: number): number | 'Infinity' | '-Infinity' {
   return cleanZero(x);
 }
 
+/** Default of every op's "supportTolerance" (relative eigenvalue threshold for support decisions). */
+export const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
+
+/**
+ * The JSON Schema of an op's "supportTolerance": a number in (0, 0.1]. `description` says what the
+ * op decides with it (default: the plain eigenvalue threshold).
+ */
+export function supportToleranceProperty(
+  description = 'Relative tolerance below which an eigenvalue counts as zero (default 1e-12); separate from "tolerance", which validates inputs.',
+): { type: 'number'; exclusiveMinimum: number; maximum: number; description: string } {
+  return { type: 'number', exclusiveMinimum: 0, maximum: 0.1, description };
+}
+
+/** The request's "supportTolerance", checked against supportToleranceProperty's range, or the default. */
+export function readSupportTolerance(req: Record<string, any>): number {
+  return req.supportTolerance === undefined
+    ? DEFAULT_SUPPORT_TOLERANCE
+    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
+}
+
 /**
  * An SDP certificate (src/oneshot/sdp-support.ts) as plain data: numbers through writeNumber (an
  * infinite objective becomes "Infinity"), strings copied, key order kept.

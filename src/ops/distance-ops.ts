@@ -25,24 +25,12 @@ import {
 } from '../quantities/expectation.js';
 import { defineOp } from './registry.js';
 import {
-  readChannel, readHermitian, readNumber, readOperatorState, readState, schemas, writeMatrix, writeNumber,
+  readChannel, readHermitian, readOperatorState, readState, readSupportTolerance, schemas, supportToleranceProperty,
+  writeMatrix, writeNumber,
 } from './codec.js';
 import { compileRealFunction } from './expressions.js';
 
-const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
-
-const supportToleranceSchema = {
-  type: 'number',
-  exclusiveMinimum: 0,
-  maximum: 0.1,
-  description: 'Relative tolerance below which an eigenvalue counts as zero (default 1e-12); separate from "tolerance", which validates inputs.',
-};
-
-function readSupportTolerance(req: Record<string, any>): number {
-  return req.supportTolerance === undefined
-    ? DEFAULT_SUPPORT_TOLERANCE
-    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
-}
+const supportToleranceSchema = supportToleranceProperty();
 
 function sameSize(a: { rows: number }, b: { rows: number }, pathB: string): void {
   if (a.rows !== b.rows) {

@@ -24,27 +24,18 @@ import {
   conditionalEntropy, mutualInformation, conditionalMutualInformation, conditionalRenyiEntropy,
 } from '../quantities/conditional.js';
 import { defineOp, OpContext, OpResult } from './registry.js';
-import { readNumber, readOperatorState, readState, readSystems, schemas, writeMatrix } from './codec.js';
+import {
+  readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeMatrix,
+} from './codec.js';
 
-const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
-
-const supportToleranceSchema = {
-  type: 'number',
-  exclusiveMinimum: 0,
-  maximum: 0.1,
-  description: 'Relative tolerance below which an eigenvalue counts as zero, and the largest weight of ρ outside supp σ still taken as zero (default 1e-12); separate from "tolerance", which validates inputs.',
-};
+const supportToleranceSchema = supportToleranceProperty(
+  'Relative tolerance below which an eigenvalue counts as zero, and the largest weight of ρ outside supp σ still taken as zero (default 1e-12); separate from "tolerance", which validates inputs.',
+);
 
 const orderSchema = (description: string) => ({
   description,
   anyOf: [{ type: 'number', minimum: 0 }, { const: 'Infinity' }],
 });
-
-function readSupportTolerance(req: Record<string, any>): number {
-  return req.supportTolerance === undefined
-    ? DEFAULT_SUPPORT_TOLERANCE
-    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
-}
 
 function readOrder(value: unknown, path: string): number {
   if (value === 'Infinity') return Infinity;

@@ -16,7 +16,7 @@ import { guessingProbability } from '../oneshot/guessing.js';
 import { diamondDistance } from '../oneshot/diamond.js';
 import { fidelitySdp } from '../oneshot/fidelity-sdp.js';
 import { defineOp } from './registry.js';
-import { readChannel, readNumber, readState, schemas, writeCertificate, writeMatrix } from './codec.js';
+import { readChannel, readState, readSupportTolerance, schemas, supportToleranceProperty, writeCertificate, writeMatrix } from './codec.js';
 
 const MAX_STATES = 256;
 
@@ -110,10 +110,9 @@ defineOp({
     properties: {
       rho: { ...schemas.state, description: 'A density matrix.' },
       sigma: { ...schemas.state, description: 'A density matrix of the same size.' },
-      supportTolerance: {
-        type: 'number', exclusiveMinimum: 0, maximum: 0.1,
-        description: 'Relative tolerance below which an eigenvalue counts as zero when the SDP is restricted to the supports (default 1e-12).',
-      },
+      supportTolerance: supportToleranceProperty(
+        'Relative tolerance below which an eigenvalue counts as zero when the SDP is restricted to the supports (default 1e-12).',
+      ),
     },
     required: ['rho', 'sigma'],
   },
@@ -123,7 +122,7 @@ defineOp({
     if (rho.rows !== sigma.rows) {
       throw new RhoError('dimension-mismatch', `The two states have different sizes (${rho.rows} and ${sigma.rows}).`, 'sigma');
     }
-    const tol = req.supportTolerance === undefined ? 1e-12 : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
+    const tol = readSupportTolerance(req);
     const f = fidelitySdp(rho, sigma, { tol });
     const out: Record<string, unknown> = {
       value: f.value,

@@ -26,7 +26,10 @@ import { conditionalMinEntropy, conditionalMaxEntropy } from '../oneshot/conditi
 import { maxInformation } from '../oneshot/max-information.js';
 import type { SdpCertificate } from '../oneshot/sdp-support.js';
 import { defineOp, type OpResult } from './registry.js';
-import { readNumber, readOperatorState, readState, readSystems, schemas, writeCertificate, writeMatrix, writeNumber } from './codec.js';
+import {
+  readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate,
+  writeMatrix, writeNumber,
+} from './codec.js';
 import { extraDivergenceFamilies } from './entropy-ops.js';
 
 /** Largest matrix side for D_H (d² + 1 constraints). */
@@ -36,14 +39,9 @@ export const MAX_FIDELITY_SDP_DIMENSION = 16;
 /** Largest d_A d_B for the conditional min-entropy and the max-information (d_B² constraints, one d_A d_B block). */
 export const MAX_MIN_ENTROPY_DIMENSION = 64;
 
-const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
-
-const supportToleranceSchema = {
-  type: 'number',
-  exclusiveMinimum: 0,
-  maximum: 0.1,
-  description: 'Relative tolerance below which an eigenvalue counts as zero in the support decisions made before the solve (default 1e-12); separate from "tolerance", which validates inputs.',
-};
+const supportToleranceSchema = supportToleranceProperty(
+  'Relative tolerance below which an eigenvalue counts as zero in the support decisions made before the solve (default 1e-12); separate from "tolerance", which validates inputs.',
+);
 
 const epsilonSchema = {
   type: 'number',
@@ -51,12 +49,6 @@ const epsilonSchema = {
   exclusiveMaximum: 1,
   description: 'The smoothing or error parameter ε, strictly between 0 and 1.',
 };
-
-function readSupportTolerance(req: Record<string, any>): number {
-  return req.supportTolerance === undefined
-    ? DEFAULT_SUPPORT_TOLERANCE
-    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
-}
 
 function readEpsilon(req: Record<string, any>, family?: string): number {
   if (req.epsilon === undefined) {

@@ -13,25 +13,21 @@
  * Cost: that of src/recovery (Petz: O(d³) eigendecompositions; fidelity of recovery: an SDP).
  */
 import { defineOp, type OpResult } from './registry.js';
-import { readNumber, readState, readSystems, schemas, writeCertificate, writeMatrix, writeState, writeChannel } from './codec.js';
+import {
+  readNumber, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate, writeMatrix, writeState,
+  writeChannel,
+} from './codec.js';
 import { petzRecovery } from '../recovery/petz.js';
 import { fidelityOfRecovery } from '../recovery/fidelity-of-recovery.js';
 import { toOriginalOrder, checkTripartiteGroups } from '../recovery/tripartite.js';
 import type { State } from '../quantum/types.js';
-
-const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
 
 const groupArgs = {
   rho: { ...schemas.state, description: 'A density matrix on several subsystems ("dims").' },
   a: { ...schemas.systems, description: 'Subsystems of A (indices from 0, or labels).' },
   b: { ...schemas.systems, description: 'Subsystems of B, the conditioning system the map acts on.' },
   c: { ...schemas.systems, description: 'Subsystems of C, the system to be recovered.' },
-  supportTolerance: {
-    type: 'number',
-    exclusiveMinimum: 0,
-    maximum: 0.1,
-    description: 'Relative tolerance below which an eigenvalue counts as zero (default 1e-12); separate from "tolerance", which validates inputs.',
-  },
+  supportTolerance: supportToleranceProperty(),
 };
 
 export interface GroupedState {
@@ -51,10 +47,7 @@ export function readGroupedState(req: Record<string, any>, tolerance: number): G
   const b = readSystems(req.b, 'b', n, opts);
   const c = readSystems(req.c, 'c', n, opts);
   checkTripartiteGroups(n, a, b, c);
-  const supportTolerance = req.supportTolerance === undefined
-    ? DEFAULT_SUPPORT_TOLERANCE
-    : readNumber(req.supportTolerance, 'supportTolerance', { min: 0, minExclusive: true, max: 0.1 });
-  return { state, a, b, c, supportTolerance };
+  return { state, a, b, c, supportTolerance: readSupportTolerance(req) };
 }
 
 defineOp({
