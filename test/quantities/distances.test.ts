@@ -1,30 +1,18 @@
 // Facts about trace distance, Bures distance and purified distance. Sources named in each it(...).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
-import { CMatrix, toRows, scale, zeros, fromRows } from '../../src/linalg/index.js';
+import { CMatrix, toRows, scale, fromRows } from '../../src/linalg/index.js';
 import { fidelity } from '../../src/quantities/fidelity.js';
 import {
   traceDistance, buresDistance, buresAngle, purifiedDistance, generalizedTraceDistance,
 } from '../../src/quantities/distances.js';
 import { rng, randomDensity } from '../helpers/random.js';
 import { runPythonCode } from '../helpers/python.js';
+import { extend } from './divergence-fixtures.js';
 
 /** Qubit state (I + r·σ)/2 from a Bloch vector. */
 function bloch(x: number, y: number, z: number): CMatrix {
   return fromRows([[(1 + z) / 2, x / 2], [x / 2, (1 - z) / 2]], [[0, -y / 2], [y / 2, 0]]);
-}
-
-function extend(m: CMatrix, c: number): CMatrix {
-  const n = m.rows;
-  const out = zeros(n + 1, n + 1);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      out.re[i * (n + 1) + j] = m.re[i * n + j];
-      out.im[i * (n + 1) + j] = m.im[i * n + j];
-    }
-  }
-  out.re[(n + 1) * (n + 1) - 1] = c;
-  return out;
 }
 
 describe('distances between states', () => {

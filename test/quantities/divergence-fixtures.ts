@@ -1,4 +1,4 @@
-/** Small helpers shared by the entropy/divergence tests: channels from Kraus operators, closeness (random states: test/helpers/random.ts). */
+/** Small helpers shared by the quantities tests: channels from Kraus operators, direct sums, closeness (random states: test/helpers/random.ts). */
 import { CMatrix, diagonal, mul, adjoint, eigh, zeros, add, trace, scale, identity, sub, frobeniusNorm } from '../../src/linalg/index.js';
 import { randomComplex } from '../helpers/random.js';
 
@@ -32,3 +32,17 @@ export function normalise(m: CMatrix): CMatrix {
 export const close = (a: number, b: number, tol: number, what: string): void => {
   if (!(Math.abs(a - b) <= tol * Math.max(1, Math.abs(b)))) throw new Error(`${what}: ${a} vs ${b} (tolerance ${tol})`);
 };
+
+/** Direct sum m ⊕ [c] (one extra row and column): a subnormalised state completed to a normalised one. */
+export function extend(m: CMatrix, c: number): CMatrix {
+  const n = m.rows;
+  const out = zeros(n + 1, n + 1);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) {
+      out.re[i * (n + 1) + j] = m.re[i * n + j];
+      out.im[i * (n + 1) + j] = m.im[i * n + j];
+    }
+  }
+  out.re[(n + 1) * (n + 1) - 1] = c;
+  return out;
+}

@@ -4,29 +4,16 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  CMatrix, columnVector, outer, mul, trace, toRows, scale, zeros, innerProduct, adjoint, eigh,
+  CMatrix, columnVector, outer, mul, trace, toRows, scale, innerProduct, adjoint, eigh,
 } from '../../src/linalg/index.js';
 import { fidelity, generalizedFidelity } from '../../src/quantities/fidelity.js';
 import { rng, randomDensity, randomComplex, randomKet } from '../helpers/random.js';
 import { runPythonCode } from '../helpers/python.js';
+import { extend } from './divergence-fixtures.js';
 
 function det2(m: CMatrix): number {
   // Determinant of a 2x2 Hermitian matrix: a d − |b|².
   return m.re[0] * m.re[3] - (m.re[1] * m.re[1] + m.im[1] * m.im[1]);
-}
-
-/** Direct sum m ⊕ [c] (one extra row and column). */
-function extend(m: CMatrix, c: number): CMatrix {
-  const n = m.rows;
-  const out = zeros(n + 1, n + 1);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      out.re[i * (n + 1) + j] = m.re[i * n + j];
-      out.im[i * (n + 1) + j] = m.im[i * n + j];
-    }
-  }
-  out.re[(n + 1) * (n + 1) - 1] = c;
-  return out;
 }
 
 function scipyFidelities(pairs: [CMatrix, CMatrix][]): number[] {
