@@ -5,9 +5,9 @@
  *   2n×2n blocks through the embedding H ↦ [[Re H, −Im H], [Im H, Re H]], with every coefficient
  *   halved so that ⟨emb(A)/2, emb(X)⟩ = Re tr(A X). (Why the embedding and not native complex
  *   arithmetic: one set of real kernels, tested once; the price is about 2× the flops on complex
- *   blocks. The Schur assembly, the largest per-block cost, does not pay it: Hermitian blocks
- *   also keep their complex entries (PsdBlock.complex) and schur.ts pairs them in complex
- *   arithmetic at half the dimension. The
+ *   blocks. The solver does not pay it where it matters: Hermitian blocks also keep their complex
+ *   entries (PsdBlock.complex), schur.ts pairs them in complex arithmetic at half the dimension,
+ *   and the solver's O(n³) per-block steps run on the complex matrix (complexdense.ts). The
  *   central path of a problem with embedded data keeps the embedded structure, so X and S read
  *   back as Hermitian matrices.)
  * - Matrix coefficients are stored as merged upper-triangle triplets (p ≤ q, value v standing for

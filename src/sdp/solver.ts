@@ -30,9 +30,15 @@
  * `relativeGap` on the answer when a decision hangs on a small number.
  *
  * Cost per iteration: Schur assembly (schur.ts, complex arithmetic on Hermitian blocks), its
- * factorization, and O(n³) per PSD block for the scaling (one-sided Jacobi SVD, now the largest
- * per-block cost on small blocks), the directions and the step lengths (tridiagonalization and
- * bisection, dense.ts minEig). Typically 8–40 iterations. Measured against cvxopt in bench/sdp.ts.
+ * factorization, and O(n³) per PSD block for the scaling (Cholesky factors and a one-sided Jacobi
+ * SVD), the directions and the step lengths (tridiagonalization and bisection). Hermitian blocks do
+ * all of these per-block steps on the complex h×h matrix (complexdense.ts), not on the 2h×2h real
+ * embedding, about half the flops; only X, S, their steps and the matrices handed to A(·) are kept
+ * embedded. Typically 8–40 iterations. Where the time went in this round's profiles (bench/sdp.ts
+ * shapes): hypothesis testing at d = 16 (257 constraints), Schur assembly ≈ 25% and its 257×257
+ * Cholesky ≈ 25%, triangular solves with refinement ≈ 10%, per-block work ≈ 15%; at d = 8 and for
+ * the guessing shape (small blocks), assembly ≈ 10–18%, the rest spread over per-block kernels and
+ * loop overhead, GC ≈ 5–10%. Measured against cvxopt in bench/sdp.ts.
  */
 import { zeros, type CMatrix } from '../linalg/index.js';
 import { compile, type Compiled } from './compile.js';
