@@ -37,7 +37,7 @@ import { product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel } from '../quantum/types.js';
 import { applyKraus, krausSum, krausToChoi } from '../quantum/channels.js';
-import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions } from '../sdp/index.js';
+import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, solverCertificate, type SolverCertificate,
 } from './sdp-support.js';
@@ -73,6 +73,38 @@ function traceDefect(c: Channel): number {
   return Math.max(Math.abs(e[0]), Math.abs(e[e.length - 1]));
 }
 
+/**
+ * Watrous's primal (see the header) as handed to the solver, for the Hermitian Choi difference J
+ * (n×n, n = d_in·d_out, input factor first): minimize −⟨J, W⟩ over blocks 0 W (n), 1 σ (d_in),
+ * 2 T = σ ⊗ 1 − W (n), with the rows W + T − σ ⊗ 1 = 0 (one per real coordinate, in
+ * matrixCoordinates order; the dual point Z is read back from their multipliers) and Tr σ = 1.
+ * Exported for the benchmark, which times the solve of exactly this problem.
+ */
+export function diamondProblem(J: CMatrix, din: number, dout: number): SdpProblem {
+  const n = din * dout;
+  const constraints: Constraint[] = [];
+  for (const c of matrixCoordinates(n, true)) {
+    const e = coordinateEntry(c.i, c.j, c.part);
+    const terms: Constraint['terms'][number][] = [{ block: 0, entries: [e] }, { block: 2, entries: [e] }];
+    const oi = c.i % dout;
+    const oj = c.j % dout;
+    if (oi === oj) {
+      const s = coordinateEntry(Math.floor(c.i / dout), Math.floor(c.j / dout), c.part);
+      const neg: Entry = s.length === 3 ? [s[0], s[1], -s[2]] : [s[0], s[1], -(s[2] as number), -(s[3] as number)];
+      terms.push({ block: 1, entries: [neg] });
+    }
+    constraints.push({ terms, equals: 0 });
+  }
+  const traceEntries: Entry[] = [];
+  for (let i = 0; i < din; i++) traceEntries.push([i, i, 1]);
+  constraints.push({ terms: [{ block: 1, entries: traceEntries }], equals: 1, label: 'Tr σ = 1' });
+  return {
+    cones: [{ kind: 'hermitian', size: n }, { kind: 'hermitian', size: din }, { kind: 'hermitian', size: n }],
+    objective: [{ block: 0, matrix: scale(J, -1) }],
+    constraints,
+  };
+}
+
 /** ½‖N − M‖_⋄ with the optimal input and the certificate (see the header for the SDP). */
 export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions = {}): DiamondResult {
   const tol = options.tolerance ?? 1e-9;
@@ -99,31 +131,7 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
   const n = din * dout;
   const J = hermitianPart(sub(krausToChoi(a), krausToChoi(b)));
 
-  // Blocks: 0 W (n), 1 σ (d_in), 2 T = σ ⊗ 1 − W (n). Rows: W + T − σ ⊗ 1 = 0 per coordinate, Tr σ = 1.
-  const constraints: Constraint[] = [];
-  for (const c of matrixCoordinates(n, true)) {
-    const e = coordinateEntry(c.i, c.j, c.part);
-    const terms: Constraint['terms'][number][] = [{ block: 0, entries: [e] }, { block: 2, entries: [e] }];
-    const oi = c.i % dout;
-    const oj = c.j % dout;
-    if (oi === oj) {
-      const s = coordinateEntry(Math.floor(c.i / dout), Math.floor(c.j / dout), c.part);
-      const neg: Entry = s.length === 3 ? [s[0], s[1], -s[2]] : [s[0], s[1], -(s[2] as number), -(s[3] as number)];
-      terms.push({ block: 1, entries: [neg] });
-    }
-    constraints.push({ terms, equals: 0 });
-  }
-  const traceEntries: Entry[] = [];
-  for (let i = 0; i < din; i++) traceEntries.push([i, i, 1]);
-  constraints.push({ terms: [{ block: 1, entries: traceEntries }], equals: 1, label: 'Tr σ = 1' });
-  const answer = solveSdp(
-    {
-      cones: [{ kind: 'hermitian', size: n }, { kind: 'hermitian', size: din }, { kind: 'hermitian', size: n }],
-      objective: [{ block: 0, matrix: scale(J, -1) }],
-      constraints,
-    },
-    options.sdp,
-  );
+  const answer = solveSdp(diamondProblem(J, din, dout), options.sdp);
   const warning = acceptAnswer(answer, 'the diamond distance', ACCEPT_INACCURATE_LOOSE);
 
   // The optimal input: σ normalised to unit trace (it has unit trace up to the residual).

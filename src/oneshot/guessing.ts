@@ -33,7 +33,7 @@ import {
 } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import { checkProbabilities } from '../quantum/arguments.js';
-import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions } from '../sdp/index.js';
+import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
   type SolverCertificate,
@@ -87,6 +87,28 @@ export function checkEnsemble(probabilities: readonly number[], states: readonly
 }
 
 /**
+ * The primal SDP handed to the solver for the weighted states w_x = p_x ρ_x (Hermitian, one size d):
+ * minimize −Σ_x ⟨w_x, M_x⟩ over one Hermitian d×d block per M_x, subject to Σ_x M_x = 1 written as d²
+ * real rows (one per coordinate, in matrixCoordinates order; the dual operator is read back from
+ * their multipliers). Exported for the benchmark, which times the solve of exactly this problem.
+ */
+export function guessingProblem(weighted: readonly CMatrix[]): SdpProblem {
+  const d = weighted[0].rows;
+  const cones = weighted.map(() => ({ kind: 'hermitian' as const, size: d }));
+  const objective: BlockTerm[] = weighted.map((w, x) => ({ block: x, matrix: scale(w, -1) }));
+  const constraints: Constraint[] = [];
+  for (const c of matrixCoordinates(d, true)) {
+    const e = coordinateEntry(c.i, c.j, c.part);
+    constraints.push({
+      terms: weighted.map((_, x) => ({ block: x, entries: [e] })),
+      equals: c.i === c.j ? 1 : 0,
+      label: `Σ_x M_x = 1 (${c.i}, ${c.j}) ${c.part}`,
+    });
+  }
+  return { cones, objective, constraints };
+}
+
+/**
  * p_guess(X|B) of the ensemble {p_x, ρ_x} (ρ_x positive semidefinite, one size), with the optimal
  * measurement, the dual operator and the certificate. Probabilities are checked (nonnegative, sum 1
  * within `tolerance`); the states are taken as given.
@@ -100,19 +122,7 @@ export function guessingProbability(
   const d = checkEnsemble(probabilities, states, tol);
   const n = states.length;
   const weighted = states.map((s, x) => hermitianPart(scale(s, Math.max(probabilities[x], 0))));
-
-  const cones = weighted.map(() => ({ kind: 'hermitian' as const, size: d }));
-  const objective: BlockTerm[] = weighted.map((w, x) => ({ block: x, matrix: scale(w, -1) }));
-  const constraints: Constraint[] = [];
-  for (const c of matrixCoordinates(d, true)) {
-    const e = coordinateEntry(c.i, c.j, c.part);
-    constraints.push({
-      terms: weighted.map((_, x) => ({ block: x, entries: [e] })),
-      equals: c.i === c.j ? 1 : 0,
-      label: `Σ_x M_x = 1 (${c.i}, ${c.j}) ${c.part}`,
-    });
-  }
-  const answer = solveSdp({ cones, objective, constraints }, options.sdp);
+  const answer = solveSdp(guessingProblem(weighted), options.sdp);
   const warning = acceptAnswer(answer, 'the guessing probability', ACCEPT_INACCURATE_LOOSE);
 
   const raw = answer.x.map((m) => hermitianPart(m as CMatrix));
