@@ -870,6 +870,9 @@ function gemmNT(
  * matching f and f' at the current point (the "middle way"), falling back to bisection of the
  * bracket whenever the model's root leaves it.
  */
+/** Relative size of a model step below which the secular iteration stops after taking it. */
+const STEP_STOP = 1e-9;
+
 function solveSecular(k: number, d: Float64Array, z: Float64Array, rho: number, w: MergeWork): void {
   const zz = w.zhat; // scratch: z_j^2 (zhat is recomputed afterwards)
   const del = w.delta;
@@ -882,34 +885,74 @@ function solveSecular(k: number, d: Float64Array, z: Float64Array, rho: number, 
     let o: number;
     let lo: number;
     let hi: number;
+    let tau: number;
     const last = i === k - 1;
     if (!last) {
+      // At the midpoint of (d_i, d_{i+1}): c = 1/rho + the sum without the two nearest poles; the
+      // sign of f there decides which pole is nearer the root, and the root of the model
+      // c + z_i²/(d_i - λ) + z_{i+1}²/(d_{i+1} - λ) is the first guess (LAPACK dlaed4's start).
       const gap = d[i + 1] - d[i];
       const mid = 0.5 * gap;
-      // f at the midpoint decides which pole is nearer to the root.
-      let f = 0;
-      for (let j = 0; j < k; j++) f += zz[j] / (d[j] - d[i] - mid);
-      f = 1 + rho * f;
-      if (f >= 0) {
+      const dm = d[i] + mid;
+      let c = 0;
+      for (let j = 0; j < i; j++) c += zz[j] / (d[j] - dm);
+      for (let j = i + 2; j < k; j++) c += zz[j] / (d[j] - dm);
+      c += 1 / rho;
+      const a0 = zz[i];
+      const a1 = zz[i + 1];
+      const w = c - a0 / mid + a1 / (gap - mid);
+      if (w >= 0) {
         o = i;
         lo = 0;
         hi = mid;
+        const A = c * gap + a0 + a1;
+        const B = a0 * gap;
+        const r = Math.sqrt(Math.abs(A * A - 4 * B * c));
+        tau = A > 0 ? (2 * B) / (A + r) : (A - r) / (2 * c);
       } else {
         o = i + 1;
         lo = -mid;
         hi = 0;
+        const A = c * gap - a0 - a1;
+        const B = a1 * gap;
+        const r = Math.sqrt(Math.abs(A * A + 4 * B * c));
+        tau = A < 0 ? (2 * B) / (A - r) : -(A + r) / (2 * c);
       }
     } else {
       o = i;
       lo = 0;
       hi = rho * zsum;
+      tau = 0.5 * hi;
+      if (k > 1) {
+        // Same start for the last root (dlaed4's case i = n), origin d_{k-1}, bracket (0, rho|z|²).
+        const mid = 0.5 * hi;
+        const dm = d[i] + mid;
+        let c = 1 / rho;
+        for (let j = 0; j < i - 1; j++) c += zz[j] / (d[j] - dm);
+        const gap = d[i] - d[i - 1];
+        const a0 = zz[i - 1];
+        const a1 = zz[i];
+        const w = c - a0 / (gap + mid) - a1 / mid;
+        const A = -c * gap + a0 + a1;
+        const B = a1 * gap;
+        const r = Math.sqrt(A * A + 4 * B * c);
+        const model = A < 0 ? (2 * B) / (r - A) : (A + r) / (2 * c);
+        if (w <= 0) {
+          lo = mid;
+          tau = c <= a0 / (gap + hi) + a1 / hi ? hi : model;
+        } else {
+          hi = mid;
+          tau = model;
+        }
+      }
     }
+    // The poles bounding an interior root's interval are excluded; the last root's hi is no pole.
+    if (!(tau > lo && tau < hi) && !(last && tau === hi)) tau = 0.5 * (lo + hi);
     const dO = d[o];
     for (let j = 0; j < k; j++) del[j] = d[j] - dO;
     // Poles bounding the interval, relative to the origin.
     const pl = del[i];
     const pr = last ? Infinity : del[i + 1];
-    let tau = 0.5 * (lo + hi);
     for (let iter = 0; iter < 200; iter++) {
       let psi = 0;
       let dpsi = 0;
@@ -952,7 +995,14 @@ function solveSecular(k: number, d: Float64Array, z: Float64Array, rho: number, 
         eta = den !== 0 ? (2 * C) / den : NaN;
       }
       let next = tau + eta;
+      // A rational-model step this small relative to tau is taken without checking f again: the
+      // model converges quadratically, so the step after it would be below rounding of tau.
+      const tiny = Math.abs(eta) <= STEP_STOP * Math.abs(tau);
       if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+      else if (tiny) {
+        tau = next;
+        break;
+      }
       if (next === tau || hi - lo <= 2 * EPS * Math.max(Math.abs(lo), Math.abs(hi))) {
         tau = next;
         break;
