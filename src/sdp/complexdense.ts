@@ -300,7 +300,11 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
  */
 export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, off2: Float64Array, w: Float64Array, floor = -Infinity): number {
   const hh = h * h;
-  if (h === 1) return Math.max(a[0], floor);
+  // 1×1: the eigenvalue itself, or `floor` when it is at least floor. (This line once read
+  // max(a₀, floor), which reports floor for an eigenvalue far BELOW it: a step length twice too
+  // long on every 1×1 Hermitian block, the cause of a lost-positive-definiteness failure that was
+  // blamed on last-bit differences.)
+  if (h === 1) return floor > -Infinity && a[0] >= floor ? floor : a[0];
   for (let k = 0; k < h - 2; k++) {
     // x = A[k+1.., k]
     let alpha2 = 0;

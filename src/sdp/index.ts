@@ -45,7 +45,9 @@
  * vector blocks), y, both objectives, gap and relativeGap, primalResidual and dualResidual
  * (relative), iterations, dependentConstraints, and for the infeasible statuses a checkable
  * certificate (a dual ray y with −Σ y_i A_i ⪰ 0 and b·y = 1, or a primal ray X ⪰ 0 with A(X) = 0
- * and ⟨C, X⟩ = −1). Read the residuals before trusting a near-zero.
+ * and ⟨C, X⟩ = −1). Read the residuals before trusting a near-zero. Numerical trouble never throws:
+ * 'inaccurate' and 'iteration-limit' return the best iterate seen with its residuals and gap, and
+ * `message` says what went wrong.
  *
  * THE METHOD (solver.ts): primal–dual interior point on the homogeneous self-dual embedding,
  * Nesterov–Todd scaling, Mehrotra predictor–corrector; Hermitian blocks through the real

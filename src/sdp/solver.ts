@@ -24,6 +24,20 @@
  * Free variables are handled natively through a bordered Schur system (no splitting into two
  * nonnegative parts, which would make the iterates unbounded).
  *
+ * Safeguards for degenerate problems (no interior, dependent constraints, rank-deficient optima),
+ * none of which costs anything measurable on a well-posed solve:
+ *  - every step is accepted only when the new iterate is numerically interior (Cholesky factors of
+ *    X and S on every block, positive finite λ, τ, κ and orthant coordinates); otherwise it is
+ *    retried shorter from the saved iterate. The step to the boundary comes from an eigenvalue
+ *    computed in floating point and is not trusted on its own.
+ *  - when the Mehrotra-corrected direction allows no step, an uncorrected, at least half-centred
+ *    direction is tried before giving up.
+ *  - the iterate with the best merit max(residuals/feasTol, relative gap/gapTol) is kept; a solve
+ *    that ends as 'inaccurate' or 'iteration-limit' returns it (and says so in `message`), with its
+ *    residuals and gap, instead of whatever the last iterate was.
+ *  - numerically dependent constraints are dropped by the Schur factorization (dense.ts,
+ *    choleskyInPlaceGuarded) and counted in `dependentConstraints`.
+ *
  * Does not: presolve, scale the data, exploit low rank of constraint matrices, or warm start.
  * Numerical answers are evidence: a status 'optimal' means the residuals and the relative gap
  * met the tolerances for this floating-point iterate; check `primalResidual`, `dualResidual` and
@@ -64,6 +78,15 @@ export const DEFAULT_OPTIONS = {
   maxIterations: 100,
   stepFraction: 0.98,
 } as const;
+
+/**
+ * Whether Hermitian blocks' step-length eigenvalues stop bisecting once they are known to lie above
+ * −½·min(1, stepFraction) (such an eigenvalue allows a step ≥ 2/min(1, f), and steps are capped at 1).
+ * An earlier attempt at this made a degenerate smooth-max instance lose positive definiteness; the
+ * cause was not rounding but a wrong 1×1 case in cMinEigInPlace (it returned the floor for an
+ * eigenvalue below it), fixed in complexdense.ts; the step is now also safeguarded (see solveSdpWith).
+ */
+export const EARLY_STEP_EXIT = false;
 
 /** Per-PSD-block storage in one buffer, allocated once per solve (small blocks: no GC churn). */
 class Blocks {
@@ -217,16 +240,37 @@ function userBlocks(cp: Compiled, X: Float64Array[], xL: Float64Array, xF: Float
  * malformed problem.
  */
 export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnswer {
+  return solveSdpWith(problem, options, {});
+}
+
+/**
+ * Test-only knobs (not exported from index.ts): perturbations of the method that a robust solver must
+ * survive, so that tests can make them permanent instead of relying on last-bit luck.
+ */
+export interface SolverInternals {
+  /**
+   * Multiplies every computed largest step to the cone boundary (default 1). A value > 1 emulates a
+   * step-length computation that overshoots the boundary (a wrong eigenvalue, rounding in the last
+   * bits); the safeguarded step must then back off instead of failing.
+   */
+  stepScale?: number;
+  /**
+   * Stop the step-length eigenvalue bisection of Hermitian blocks as soon as the eigenvalue is known
+   * to be above −½·min(1, stepFraction) (the step is capped at 1 anyway). Default: see EARLY_STEP_EXIT.
+   */
+  earlyStepExit?: boolean;
+}
+
+/** solveSdp with test-only knobs (see SolverInternals). */
+export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals: SolverInternals): SdpAnswer {
   const cp = compile(problem);
   const gapTol = options.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance;
   const feasTol = options.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance;
   const maxIter = options.maxIterations ?? DEFAULT_OPTIONS.maxIterations;
   const stepFraction = options.stepFraction ?? DEFAULT_OPTIONS.stepFraction;
-  // No early exit in the step-length eigenvalue (floor −∞): stopping the bisection once the
-  // eigenvalue is known to be above −½·stepFraction was tried, and the last-bit differences it
-  // makes tipped a degenerate one-shot instance (smooth max-divergence at an infinite value) into
-  // losing positive definiteness.
-  const stepFloor = -Infinity;
+  // Early exit in the step-length eigenvalue (floor −½·min(1, f)): see EARLY_STEP_EXIT.
+  const stepFloor = internals.earlyStepExit ?? EARLY_STEP_EXIT ? -0.5 * Math.min(1, stepFraction) : -Infinity;
+  const stepScale = internals.stepScale ?? 1;
   const nb = cp.psd.length;
   const nu = cp.degree;
   const m = cp.m;
@@ -539,33 +583,15 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
     return a;
   };
 
-  residuals();
-  for (;;) {
-    const info = metrics();
-    if (iter > 0) options.onIteration?.(info);
-    if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(mu)) {
-      status = 'inaccurate';
-      message = 'the iteration produced non-finite numbers';
-      break;
-    }
-    if (info.primalResidual <= feasTol && info.dualResidual <= feasTol && info.relativeGap <= gapTol) {
-      status = 'optimal';
-      break;
-    }
-    if (checkInfeasible()) break;
-    if (iter >= maxIter) {
-      status = 'iteration-limit';
-      message = `stopped after ${maxIter} iterations`;
-      break;
-    }
-    if (options.shouldStop?.() || options.signal?.aborted) {
-      status = 'cancelled';
-      message = `cancelled after ${iter} iterations`;
-      break;
-    }
-
-    // --- NT scaling: X = L Lᵀ, S = R Rᵀ, Rᵀ L = U Σ Vᵀ, G = L V Σ^(−1/2), W = G Gᵀ ---
-    let scalingFailed = false;
+  /**
+   * NT scaling of the current iterate (X = L Lᵀ, S = R Rᵀ, Rᵀ L = U Σ Vᵀ, G = L V Σ^(−1/2), W = G Gᵀ;
+   * orthant: g = √(x/s), λ = √(x s)). False when the iterate is not numerically interior: a
+   * Cholesky factor fails, a scaled eigenvalue λ is not positive and finite, or τ, κ or an orthant
+   * coordinate is not positive. The safeguarded step below uses it as its acceptance test.
+   */
+  const computeScaling = (): boolean => {
+    if (!(tau > 0 && tau < Infinity) || !(kappa > 0 && kappa < Infinity)) return false;
+    for (let p = 0; p < nL; p++) if (!(xL[p] > 0 && xL[p] < Infinity) || !(sL[p] > 0 && sL[p] < Infinity)) return false;
     for (let k = 0; k < nb; k++) {
       const n = sizes[k];
       if (herm[k]) {
@@ -575,10 +601,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
         extractHermitian(S.v[k], h, tmp4);
         const lx = Lx.v[k];
         const ls = Ls.v[k];
-        if (!cCholesky(tmp3, h, lx) || !cCholesky(tmp4, h, ls)) {
-          scalingFailed = true;
-          break;
-        }
+        if (!cCholesky(tmp3, h, lx) || !cCholesky(tmp4, h, ls)) return false;
         cHMul(ls, lx, h, Bm.v[k]);
         const sigma = lam.v[k];
         cSvdJacobi(Bm.v[k], h, V.v[k], sigma, tmp1);
@@ -597,10 +620,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       }
       const lx = cholesky(X.v[k], n, Lx.v[k]);
       const ls = cholesky(S.v[k], n, Ls.v[k]);
-      if (!lx || !ls) {
-        scalingFailed = true;
-        break;
-      }
+      if (!lx || !ls) return false;
       matTMul(ls, lx, n, Bm.v[k]);
       const sigma = lam.v[k];
       svdJacobi(Bm.v[k], n, V.v[k], sigma, tmp1);
@@ -620,19 +640,93 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
         }
       }
     }
-    let bad = scalingFailed;
-    for (let k = 0; k < nb && !bad; k++) for (const l of lam.v[k]) if (!(l > 0)) bad = true;
-    if (bad) {
-      status = 'inaccurate';
-      message = 'an iterate lost positive definiteness in floating point';
-      break;
-    }
+    for (let k = 0; k < nb; k++) for (const l of lam.v[k]) if (!(l > 0 && l < Infinity)) return false;
     for (let p = 0; p < nL; p++) {
       gL[p] = Math.sqrt(xL[p] / sL[p]);
       lamL[p] = Math.sqrt(xL[p] * sL[p]);
       dL[p] = xL[p] / sL[p];
     }
 
+    return true;
+  };
+
+  // Safeguards. `prev`: the last accepted iterate, from which a step that leaves the cone in floating
+  // point is retried shorter. `best`: the iterate with the smallest merit max(residuals/feasTol,
+  // relative gap/gapTol), returned when the solve ends as 'inaccurate' or 'iteration-limit'.
+  // Copying them costs O(stored entries) per iteration, next to O(n³) per block for the scaling.
+  interface Snapshot { X: Float64Array; S: Float64Array; xL: Float64Array; sL: Float64Array; xF: Float64Array; y: Float64Array; tau: number; kappa: number; iter: number }
+  const snapshot = (): Snapshot => ({
+    X: new Float64Array(X.data.length), S: new Float64Array(S.data.length), xL: new Float64Array(nL), sL: new Float64Array(nL),
+    xF: new Float64Array(nF), y: new Float64Array(m), tau: 0, kappa: 0, iter: 0,
+  });
+  const saveTo = (t: Snapshot): void => {
+    t.X.set(X.data);
+    t.S.set(S.data);
+    t.xL.set(xL);
+    t.sL.set(sL);
+    t.xF.set(xF);
+    t.y.set(y);
+    t.tau = tau;
+    t.kappa = kappa;
+    t.iter = iter;
+  };
+  const loadFrom = (t: Snapshot): void => {
+    X.data.set(t.X);
+    S.data.set(t.S);
+    xL.set(t.xL);
+    sL.set(t.sL);
+    xF.set(t.xF);
+    y.set(t.y);
+    tau = t.tau;
+    kappa = t.kappa;
+  };
+  const prev = snapshot();
+  const best = snapshot();
+  let bestMerit = Infinity;
+  let useBest = false;
+  let backtracks = 0;
+  const merit = (info: IterationInfo): number => {
+    const v = Math.max(info.primalResidual / feasTol, info.dualResidual / feasTol, info.relativeGap / gapTol);
+    return v === v ? v : Infinity;
+  };
+
+  residuals();
+  if (!computeScaling()) {
+    // Only non-finite data can make the start point (identity blocks, ones) fail.
+    status = 'inaccurate';
+    message = 'the starting point could not be scaled (non-finite data?)';
+  } else for (;;) {
+    const info = metrics();
+    if (iter > 0) options.onIteration?.(info);
+    if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(mu)) {
+      status = 'inaccurate';
+      message = 'the iteration produced non-finite numbers';
+      useBest = true;
+      break;
+    }
+    const meritNow = merit(info);
+    if (meritNow < bestMerit) {
+      bestMerit = meritNow;
+      saveTo(best);
+    }
+    if (info.primalResidual <= feasTol && info.dualResidual <= feasTol && info.relativeGap <= gapTol) {
+      status = 'optimal';
+      break;
+    }
+    if (checkInfeasible()) break;
+    if (iter >= maxIter) {
+      status = 'iteration-limit';
+      message = `stopped after ${maxIter} iterations`;
+      useBest = true;
+      break;
+    }
+    if (options.shouldStop?.() || options.signal?.aborted) {
+      status = 'cancelled';
+      message = `cancelled after ${iter} iterations`;
+      break;
+    }
+
+    // The NT scaling of this iterate was computed when it was accepted (computeScaling).
     schur.assembleAndFactor(W.v, dL);
 
     // D c = W C W (orthant: d∘c), A(Dc), ⟨c, Dc⟩, and p = K⁻¹ [A D c + b; c_f].
@@ -668,7 +762,7 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
 
     // Predictor (affine scaling direction).
     const aff = direction(1, 0, false, 0);
-    const alphaAff = Math.min(1, maxStep(aff));
+    const alphaAff = Math.min(1, stepScale * maxStep(aff));
     let sigma = Math.max(0, Math.min(1, 1 - alphaAff));
     sigma = sigma * sigma * sigma;
     // Mehrotra corrector: the second-order term ΔX_a ∘ ΔS_a in λ-space.
@@ -692,32 +786,82 @@ export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnsw
       for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) out[i * n + j] = 0.5 * (tmp2[i * n + j] + tmp2[j * n + i]);
     }
     for (let p = 0; p < nL; p++) corrL[p] = dxLs[p] * dsLs[p];
-    const dir = direction(1 - sigma, sigma * mu, true, aff.dtau * aff.dkappa);
-    const alpha = Math.min(1, stepFraction * maxStep(dir));
+    let dir = direction(1 - sigma, sigma * mu, true, aff.dtau * aff.dkappa);
+    let alpha = Math.min(1, stepFraction * stepScale * maxStep(dir));
+    if (!(alpha > 1e-10)) {
+      // The corrected direction makes no progress (or is not finite): retry without the
+      // second-order term and with at least half centring, which keeps the iterate away from the
+      // boundary. Only reached on trouble; a well-posed solve never gets here.
+      sigma = Math.max(sigma, 0.5);
+      dir = direction(1 - sigma, sigma * mu, false, 0);
+      alpha = Math.min(1, stepFraction * stepScale * maxStep(dir));
+    }
     if (!(alpha > 1e-10)) {
       status = 'inaccurate';
       message = 'the step length collapsed; the problem may be badly scaled or nearly infeasible';
+      useBest = true;
       break;
     }
 
-    for (let e = 0; e < X.data.length; e++) {
-      X.data[e] += alpha * dX.data[e];
-      S.data[e] += alpha * dS.data[e];
+    // Safeguarded step: the new iterate must be numerically interior (Cholesky factors of every
+    // block, positive λ, τ, κ and orthant coordinates). The step length is computed to stay inside
+    // by the margin 1 − stepFraction, but it comes from an eigenvalue computed in floating point;
+    // when the iterate is not accepted, the step is shortened (×0.9 on the first retry, then halved)
+    // and retried from the saved iterate.
+    saveTo(prev);
+    let accepted = false;
+    for (let tries = 0; tries < 40; tries++) {
+      const Xd = X.data;
+      const Sd = S.data;
+      const pX = prev.X;
+      const pS = prev.S;
+      const dXd = dX.data;
+      const dSd = dS.data;
+      for (let e = 0; e < Xd.length; e++) {
+        Xd[e] = pX[e] + alpha * dXd[e];
+        Sd[e] = pS[e] + alpha * dSd[e];
+      }
+      for (let p = 0; p < nL; p++) {
+        xL[p] = prev.xL[p] + alpha * dxL[p];
+        sL[p] = prev.sL[p] + alpha * dsL[p];
+      }
+      for (let f = 0; f < nF; f++) xF[f] = prev.xF[f] + alpha * dxF[f];
+      for (let i = 0; i < m; i++) y[i] = prev.y[i] + alpha * dy[i];
+      tau = prev.tau + alpha * dir.dtau;
+      kappa = prev.kappa + alpha * dir.dkappa;
+      if (computeScaling()) {
+        accepted = true;
+        break;
+      }
+      alpha *= tries === 0 ? 0.9 : 0.5; // a few-ulp overshoot needs little; anything worse, halving
+      backtracks++;
+      if (!(alpha > 1e-10)) break;
     }
-    for (let p = 0; p < nL; p++) {
-      xL[p] += alpha * dxL[p];
-      sL[p] += alpha * dsL[p];
+    if (!accepted) {
+      loadFrom(prev);
+      residuals();
+      status = 'inaccurate';
+      message = 'no step along the Newton direction kept the iterate positive definite in floating point';
+      useBest = true;
+      break;
     }
-    for (let f = 0; f < nF; f++) xF[f] += alpha * dxF[f];
-    for (let i = 0; i < m; i++) y[i] += alpha * dy[i];
-    tau += alpha * dir.dtau;
-    kappa += alpha * dir.dkappa;
     lastStep = alpha;
     lastSigma = sigma;
     iter++;
     residuals();
   }
 
+  if (useBest && bestMerit < Infinity) {
+    const last = metrics();
+    if (!(merit(last) <= bestMerit)) {
+      loadFrom(best);
+      residuals();
+      message = `${message ?? ''}; returned the best iterate seen (iteration ${best.iter}), not the last`;
+    }
+  }
+  if (backtracks > 0 && status !== 'optimal') {
+    message = `${message ?? ''} (${backtracks} step${backtracks === 1 ? ' was' : 's were'} shortened to stay inside the cone)`;
+  }
   const info = metrics();
   const inv = 1 / tau;
   return {

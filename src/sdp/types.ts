@@ -115,7 +115,10 @@ export type Certificate =
 
 export interface SdpAnswer {
   status: SdpStatus;
-  /** Primal variable per block (last iterate, divided by τ). */
+  /**
+   * Primal variable per block (the final iterate divided by τ; for 'inaccurate' and 'iteration-limit'
+   * the iterate with the smallest residuals and gap relative to the tolerances seen during the solve).
+   */
   x: BlockValue[];
   /** Dual multipliers, one per constraint. */
   y: number[];

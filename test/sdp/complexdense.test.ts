@@ -51,6 +51,30 @@ describe('SDP complex kernels (Hermitian blocks)', () => {
     }
   });
 
+  it('with a floor, the smallest eigenvalue is returned exactly when it lies below the floor, and the floor otherwise (without one, always), for every size including 1×1 (the contract a step length min(1, f·α_max) relies on; definition)', () => {
+    const r = rng(7);
+    for (const h of [1, 2, 3, 5]) {
+      const t = new Float64Array(2 * h * h);
+      for (let i = 0; i < h; i++) {
+        t[i * h + i] = 2;
+        if (i + 1 < h) t[i * h + i + 1] = t[(i + 1) * h + i] = -1;
+      }
+      // tridiag(−1, 2, −1) has smallest eigenvalue 2 − 2cos(π/(h+1)) (as in the test above); shift it to −1.1 and to −0.2.
+      const base = 2 - 2 * Math.cos(Math.PI / (h + 1));
+      for (const target of [-1.1, -0.2]) {
+        const a = conjugate(reflection(h, r), t, h);
+        for (let i = 0; i < h; i++) a[i * h + i] += target - base;
+        const got = cMinEigInPlace(a, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h), -0.49);
+        const want = target < -0.49 ? target : -0.49;
+        assert.ok(Math.abs(got - want) < 1e-12, `h = ${h}, smallest eigenvalue ${target}: got ${got}, want ${want}`);
+        const b = conjugate(reflection(h, r), t, h);
+        for (let i = 0; i < h; i++) b[i * h + i] += target - base;
+        const plain = cMinEigInPlace(b, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
+        assert.ok(Math.abs(plain - target) < 1e-12, `h = ${h}, no floor: got ${plain}, want ${target}`);
+      }
+    }
+  });
+
   it('one-sided Jacobi returns the singular values of U diag(s) V^H and a unitary V with B V having orthogonal columns (definition of the SVD)', () => {
     const r = rng(11);
     for (const h of [1, 3, 5, 8]) {
