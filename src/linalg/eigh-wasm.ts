@@ -32,6 +32,15 @@ export interface EighKernels {
     u: number, qt: number, out: number, rows: number, ku: number, m: number,
     r0: number, r1: number, q0: number, q1: number,
   ): void;
+  secularRoots(d: number, z: number, k: number, rho: number, zz: number, del: number, org: number, tau: number): void;
+  secularVectors(
+    d: number, z: number, k: number, rho: number, org: number, tau: number, cols: number, u: number,
+    zhat: number, dq: number, zq: number,
+  ): void;
+  gemmRows(
+    u: number, ku: number, rows: number, ptrs: number, q0: number, q1: number, out: number, m: number,
+    r0: number, r1: number,
+  ): void;
 }
 
 /** The parts of the WebAssembly API used here (the project's TypeScript lib has no DOM types). */

@@ -91,7 +91,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
   const inv = 1 / scaleBy;
   // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 12 * n + 8, n + 8, 24, n >= SIMD_MIN_N);
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8, 10 * n + 8, 48, n >= SIMD_MIN_N);
   // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
   const are = ws.f64(n * n);
   const aim = ws.f64(n * n);
@@ -139,7 +139,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
 
   // zt: row j holds tridiagonal eigenvector j (ascending eigenvalues after divide and conquer).
-  const zt = new Float64Array(n * n);
+  const zt = ws.f64(n * n);
   divideAndConquer(d, e, zt, n, ws);
   const values = new Float64Array(n);
   for (let i = 0; i < n; i++) values[i] = d[i] * scaleBy;
@@ -561,33 +561,54 @@ class MergeWork {
   readonly tau: Float64Array;
   readonly delta: Float64Array;
   readonly zhat: Float64Array;
+  readonly dq: Float64Array;
+  readonly zq: Float64Array;
   readonly u: Float64Array;
   readonly qt: Float64Array;
   readonly out: Float64Array;
   readonly vals: Float64Array;
   readonly order: Int32Array;
   readonly colOrder: Int32Array;
+  readonly ptrs: Int32Array;
   readonly perm: Int32Array;
   readonly kernels: EighKernels | null;
   constructor(n: number, ws: Workspace) {
+    // Arrays the kernels read or write come from the workspace (the kernels' memory when on).
     this.kernels = ws.kernels;
     this.z = new Float64Array(n);
-    this.dk = new Float64Array(n);
-    this.zk = new Float64Array(n);
+    this.dk = ws.f64(n);
+    this.zk = ws.f64(n);
     this.kept = new Int32Array(n);
     this.deflated = new Int32Array(n);
     this.kind = new Int8Array(n);
-    this.org = new Int32Array(n);
-    this.tau = new Float64Array(n);
-    this.delta = new Float64Array(n);
-    this.zhat = new Float64Array(n);
+    this.org = ws.i32(n);
+    this.tau = ws.f64(n);
+    this.delta = ws.f64(n);
+    this.zhat = ws.f64(n);
+    this.dq = ws.f64(n);
+    this.zq = ws.f64(n);
     this.u = ws.f64(n * n);
-    this.qt = ws.f64(n * n);
+    this.qt = ws.kernels ? new Float64Array(0) : ws.f64(n * n);
     this.out = ws.f64(n * n);
     this.vals = new Float64Array(n);
     this.order = new Int32Array(n);
-    this.colOrder = new Int32Array(n);
+    this.colOrder = ws.i32(n);
+    this.ptrs = ws.i32(n);
     this.perm = new Int32Array(n);
+  }
+}
+
+/** perm[0..m) = the indices 0..m-1 ordered by ascending key (insertion sort: the keys come in
+ *  ascending runs, so this is close to linear). */
+function sortIndices(key: Float64Array, perm: Int32Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    const v = key[i];
+    let j = i - 1;
+    while (j >= 0 && key[perm[j]] > v) {
+      perm[j + 1] = perm[j];
+      j--;
+    }
+    perm[j + 1] = i;
   }
 }
 
@@ -601,7 +622,8 @@ function solveBlock(
     const lz = new Float64Array(m * m);
     for (let i = 0; i < m; i++) lz[i * m + i] = 1;
     tridiagonalQL(ld, le, lz, m);
-    const idx = Array.from({ length: m }, (_, i) => i).sort((a, b) => ld[a] - ld[b]);
+    const idx = w.perm;
+    sortIndices(ld, idx, m);
     for (let j = 0; j < m; j++) {
       d[s + j] = ld[idx[j]];
       const src = idx[j] * m;
@@ -720,40 +742,6 @@ function merge(
       dk[i] = d[s + kept[i]];
       zk[i] = z[kept[i]];
     }
-    solveSecular(nk, dk, zk, rho, w);
-    const tauA = w.tau;
-    const org = w.org;
-    const u = w.u; // u[i*nk + j] = (d_j - lambda_i), later the eigenvector entries
-    for (let i = 0; i < nk; i++) {
-      const o = dk[org[i]];
-      const t = tauA[i];
-      const row = i * nk;
-      for (let j = 0; j < nk; j++) u[row + j] = dk[j] - o - t;
-      vals[i] = o + t;
-    }
-    // Gu–Eisenstat: zhat_j^2 = prod_i (lambda_i - d_j) / (rho prod_{i != j} (d_i - d_j)).
-    const zhat = w.zhat;
-    for (let j = 0; j < nk; j++) {
-      let p = -u[j * nk + j] / rho;
-      const dj = dk[j];
-      for (let i = 0; i < nk; i++) {
-        if (i === j) continue;
-        p *= -u[i * nk + j] / (dk[i] - dj);
-      }
-      const a = Math.sqrt(Math.max(p, 0));
-      zhat[j] = zk[j] >= 0 ? a : -a;
-    }
-    for (let i = 0; i < nk; i++) {
-      const row = i * nk;
-      let ss = 0;
-      for (let j = 0; j < nk; j++) {
-        const x = zhat[j] / u[row + j];
-        u[row + j] = x;
-        ss += x * x;
-      }
-      const sc = 1 / Math.sqrt(ss);
-      for (let j = 0; j < nk; j++) u[row + j] *= sc;
-    }
     // New vectors: out_i = sum_j u_ij old_{kept j}. Columns grouped by kind so the top half
     // uses kinds 1, 2 and the bottom half kinds 2, 3 (the zero blocks are skipped).
     const colOrder = w.colOrder;
@@ -763,24 +751,71 @@ function merge(
     for (let j = 0; j < nk; j++) if (kind[kept[j]] === 2) colOrder[c2++] = j;
     let c3 = c2;
     for (let j = 0; j < nk; j++) if (kind[kept[j]] === 3) colOrder[c3++] = j;
-    // qt[r * nk + q] = component r of old vector kept[colOrder[q]]; u permuted likewise.
-    const qt = w.qt;
-    for (let q = 0; q < nk; q++) {
-      const src = (s + kept[colOrder[q]]) * n + s;
-      for (let r = 0; r < m; r++) qt[r * nk + q] = zt[src + r];
-    }
-    const uq = w.delta.length >= nk ? w.delta : new Float64Array(nk);
-    for (let i = 0; i < nk; i++) {
-      const row = i * nk;
-      for (let q = 0; q < nk; q++) uq[q] = u[row + colOrder[q]];
-      for (let q = 0; q < nk; q++) u[row + q] = uq[q];
-    }
-    // out[i*m + r] = sum_q u[i, q] qt[r, q], q over [0, c2) for r < n1 and [c1, nk) for r >= n1.
     const K = w.kernels;
     if (K) {
-      K.gemmNT(u.byteOffset, qt.byteOffset, out.byteOffset, nk, nk, m, 0, n1, 0, c2);
-      K.gemmNT(u.byteOffset, qt.byteOffset, out.byteOffset, nk, nk, m, n1, m, c1, nk);
+      // The same steps in the kernels: roots, ẑ and u (columns already in colOrder), and the
+      // product read straight from the rows of zt through a list of their addresses.
+      const org = w.org;
+      const tauA = w.tau;
+      K.secularRoots(dk.byteOffset, zk.byteOffset, nk, rho, w.zhat.byteOffset, w.delta.byteOffset, org.byteOffset, tauA.byteOffset);
+      K.secularVectors(
+        dk.byteOffset, zk.byteOffset, nk, rho, org.byteOffset, tauA.byteOffset, colOrder.byteOffset, w.u.byteOffset,
+        w.zhat.byteOffset, w.dq.byteOffset, w.zq.byteOffset,
+      );
+      for (let i = 0; i < nk; i++) vals[i] = dk[org[i]] + tauA[i];
+      const ptrs = w.ptrs;
+      const zo = zt.byteOffset + 8 * s;
+      for (let q = 0; q < nk; q++) ptrs[q] = zo + 8 * (s + kept[colOrder[q]]) * n;
+      K.gemmRows(w.u.byteOffset, nk, nk, ptrs.byteOffset, 0, c2, out.byteOffset, m, 0, n1);
+      K.gemmRows(w.u.byteOffset, nk, nk, ptrs.byteOffset, c1, nk, out.byteOffset, m, n1, m);
     } else {
+      solveSecular(nk, dk, zk, rho, w);
+      const tauA = w.tau;
+      const org = w.org;
+      const u = w.u; // u[i*nk + j] = (d_j - lambda_i), later the eigenvector entries
+      for (let i = 0; i < nk; i++) {
+        const o = dk[org[i]];
+        const t = tauA[i];
+        const row = i * nk;
+        for (let j = 0; j < nk; j++) u[row + j] = dk[j] - o - t;
+        vals[i] = o + t;
+      }
+      // Gu–Eisenstat: zhat_j^2 = prod_i (lambda_i - d_j) / (rho prod_{i != j} (d_i - d_j)).
+      const zhat = w.zhat;
+      for (let j = 0; j < nk; j++) {
+        let p = -u[j * nk + j] / rho;
+        const dj = dk[j];
+        for (let i = 0; i < nk; i++) {
+          if (i === j) continue;
+          p *= -u[i * nk + j] / (dk[i] - dj);
+        }
+        const a = Math.sqrt(Math.max(p, 0));
+        zhat[j] = zk[j] >= 0 ? a : -a;
+      }
+      for (let i = 0; i < nk; i++) {
+        const row = i * nk;
+        let ss = 0;
+        for (let j = 0; j < nk; j++) {
+          const x = zhat[j] / u[row + j];
+          u[row + j] = x;
+          ss += x * x;
+        }
+        const sc = 1 / Math.sqrt(ss);
+        for (let j = 0; j < nk; j++) u[row + j] *= sc;
+      }
+      // qt[r * nk + q] = component r of old vector kept[colOrder[q]]; u permuted likewise.
+      const qt = w.qt;
+      for (let q = 0; q < nk; q++) {
+        const src = (s + kept[colOrder[q]]) * n + s;
+        for (let r = 0; r < m; r++) qt[r * nk + q] = zt[src + r];
+      }
+      const uq = w.delta.length >= nk ? w.delta : new Float64Array(nk);
+      for (let i = 0; i < nk; i++) {
+        const row = i * nk;
+        for (let q = 0; q < nk; q++) uq[q] = u[row + colOrder[q]];
+        for (let q = 0; q < nk; q++) u[row + q] = uq[q];
+      }
+      // out[i*m + r] = sum_q u[i, q] qt[r, q], q over [0, c2) for r < n1 and [c1, nk) for r >= n1.
       gemmNT(u, qt, out, nk, nk, m, 0, n1, 0, c2);
       gemmNT(u, qt, out, nk, nk, m, n1, m, c1, nk);
     }
@@ -794,8 +829,7 @@ function merge(
   }
   // Sort all m eigenpairs ascending and write back.
   const perm = w.perm;
-  const idx = Array.from({ length: m }, (_, i) => i).sort((a, b) => vals[a] - vals[b]);
-  for (let i = 0; i < m; i++) perm[i] = idx[i];
+  sortIndices(vals, perm, m);
   for (let i = 0; i < m; i++) {
     const src = perm[i] * m;
     d[s + i] = vals[perm[i]];

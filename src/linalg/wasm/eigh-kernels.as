@@ -361,3 +361,319 @@ function dot(x: usize, y: usize, q0: i32, q1: i32): f64 {
   if (q < q1) s += load<f64>(x + ((<usize>q) << 3)) * load<f64>(y + ((<usize>q) << 3));
   return s;
 }
+
+// ---------------------------------------------------------------------------------------------
+// Divide and conquer: the secular equation and the vectors of the rank-one update.
+// ---------------------------------------------------------------------------------------------
+
+// Sums of z_j²/(p_j - x) and z_j²/(p_j - x)² over [j0, j1), returned in globals.
+let sumS: f64 = 0, sumD: f64 = 0;
+
+function poleSums(p: usize, zz: usize, j0: i32, j1: i32, x: f64): void {
+  const X = f64x2.splat(x);
+  const ONE = f64x2.splat(1);
+  let S = f64x2.splat(0), D = f64x2.splat(0);
+  let j = j0;
+  for (; j + 1 < j1; j += 2) {
+    const o = (<usize>j) << 3;
+    const t = f64x2.div(ONE, f64x2.sub(v128.load(p + o), X));
+    const a = f64x2.mul(v128.load(zz + o), t);
+    S = f64x2.add(S, a);
+    D = f64x2.add(D, f64x2.mul(a, t));
+  }
+  let s = hsum(S), d = hsum(D);
+  if (j < j1) {
+    const o = (<usize>j) << 3;
+    const t = 1 / (load<f64>(p + o) - x);
+    const a = load<f64>(zz + o) * t;
+    s += a;
+    d += a * t;
+  }
+  sumS = s;
+  sumD = d;
+}
+
+const EPS: f64 = 2.220446049250313e-16;
+/** The same stopping rule as eigh.ts's STEP_STOP. */
+const STEP_STOP: f64 = 1e-9;
+
+/**
+ * Roots of 1 + rho Σ z_j²/(d_j - λ) = 0 (d ascending, k entries at d, z at z): root i as an offset
+ * tau[i] from the pole d[org[i]] (org an i32 array). zz and del are scratch of k doubles. The
+ * algorithm and its constants are those of solveSecular in eigh.ts (dlaed4's start, the two-pole
+ * "middle way" model, bisection safeguard), with the pole sums two at a time.
+ */
+export function secularRoots(d: usize, z: usize, k: i32, rho: f64, zz: usize, del: usize, org: usize, tauOut: usize): void {
+  let zsum: f64 = 0;
+  for (let j = 0; j < k; j++) {
+    const o = (<usize>j) << 3;
+    const x = load<f64>(z + o);
+    store<f64>(zz + o, x * x);
+    zsum += x * x;
+  }
+  for (let i = 0; i < k; i++) {
+    const last = i == k - 1;
+    const di = load<f64>(d + ((<usize>i) << 3));
+    let o: i32 = i;
+    let lo: f64 = 0, hi: f64 = 0, tau: f64 = 0;
+    if (!last) {
+      const gap = load<f64>(d + ((<usize>(i + 1)) << 3)) - di;
+      const mid = 0.5 * gap;
+      const dm = di + mid;
+      poleSums(d, zz, 0, i, dm);
+      let c = sumS;
+      poleSums(d, zz, i + 2, k, dm);
+      c += sumS;
+      c += 1 / rho;
+      const a0 = load<f64>(zz + ((<usize>i) << 3));
+      const a1 = load<f64>(zz + ((<usize>(i + 1)) << 3));
+      const w = c - a0 / mid + a1 / (gap - mid);
+      if (w >= 0) {
+        lo = 0;
+        hi = mid;
+        const A = c * gap + a0 + a1;
+        const B = a0 * gap;
+        const r = Math.sqrt(Math.abs(A * A - 4 * B * c));
+        tau = A > 0 ? (2 * B) / (A + r) : (A - r) / (2 * c);
+      } else {
+        o = i + 1;
+        lo = -mid;
+        hi = 0;
+        const A = c * gap - a0 - a1;
+        const B = a1 * gap;
+        const r = Math.sqrt(Math.abs(A * A + 4 * B * c));
+        tau = A < 0 ? (2 * B) / (A - r) : -(A + r) / (2 * c);
+      }
+    } else {
+      hi = rho * zsum;
+      tau = 0.5 * hi;
+      if (k > 1) {
+        const mid = 0.5 * hi;
+        const dm = di + mid;
+        poleSums(d, zz, 0, i - 1, dm);
+        const c = 1 / rho + sumS;
+        const gap = di - load<f64>(d + ((<usize>(i - 1)) << 3));
+        const a0 = load<f64>(zz + ((<usize>(i - 1)) << 3));
+        const a1 = load<f64>(zz + ((<usize>i) << 3));
+        const w = c - a0 / (gap + mid) - a1 / mid;
+        const A = -c * gap + a0 + a1;
+        const B = a1 * gap;
+        const r = Math.sqrt(A * A + 4 * B * c);
+        const model = A < 0 ? (2 * B) / (r - A) : (A + r) / (2 * c);
+        if (w <= 0) {
+          lo = mid;
+          tau = c <= a0 / (gap + hi) + a1 / hi ? hi : model;
+        } else {
+          hi = mid;
+          tau = model;
+        }
+      }
+    }
+    if (!(tau > lo && tau < hi) && !(last && tau == hi)) tau = 0.5 * (lo + hi);
+    const dO = load<f64>(d + ((<usize>o) << 3));
+    {
+      const DO = f64x2.splat(dO);
+      let j = 0;
+      for (; j + 1 < k; j += 2) {
+        const oo = (<usize>j) << 3;
+        v128.store(del + oo, f64x2.sub(v128.load(d + oo), DO));
+      }
+      if (j < k) store<f64>(del + ((<usize>j) << 3), load<f64>(d + ((<usize>j) << 3)) - dO);
+    }
+    const pl = load<f64>(del + ((<usize>i) << 3));
+    const pr = last ? Infinity : load<f64>(del + ((<usize>(i + 1)) << 3));
+    for (let iter = 0; iter < 200; iter++) {
+      poleSums(del, zz, 0, i + 1, tau);
+      const psi = sumS, dpsi = sumD;
+      poleSums(del, zz, i + 1, k, tau);
+      const phi = sumS, dphi = sumD;
+      const f = 1 + rho * (psi + phi);
+      if (f == 0) break;
+      if (f < 0) lo = tau;
+      else hi = tau;
+      const err = EPS * (8 + 8 * rho * (phi - psi) + 3 * Math.abs(tau) * rho * (dpsi + dphi));
+      if (Math.abs(f) <= err) break;
+      const d1 = pl - tau;
+      const s1 = rho * d1 * d1 * dpsi;
+      let eta: f64;
+      if (last) {
+        const c = f - s1 / d1;
+        eta = c > 0 ? d1 + s1 / c : NaN;
+      } else {
+        const d2 = pr - tau;
+        const s2 = rho * d2 * d2 * dphi;
+        const c = f - s1 / d1 - s2 / d2;
+        const B = c * (d1 + d2) + s1 + s2;
+        const C = f * d1 * d2;
+        const disc = Math.max(B * B - 4 * c * C, 0);
+        const den = B >= 0 ? B + Math.sqrt(disc) : B - Math.sqrt(disc);
+        eta = den != 0 ? (2 * C) / den : NaN;
+      }
+      let next = tau + eta;
+      const tiny = Math.abs(eta) <= STEP_STOP * Math.abs(tau);
+      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+      else if (tiny) {
+        tau = next;
+        break;
+      }
+      if (next == tau || hi - lo <= 2 * EPS * Math.max(Math.abs(lo), Math.abs(hi))) {
+        tau = next;
+        break;
+      }
+      tau = next;
+    }
+    store<i32>(org + ((<usize>i) << 2), o);
+    store<f64>(tauOut + ((<usize>i) << 3), tau);
+  }
+}
+
+/**
+ * The eigenvectors of D + rho z z^T from the roots of secularRoots: ẑ of Gu & Eisenstat,
+ * ẑ_j² = Π_i (λ_i - d_j) / (rho Π_{i≠j} (d_i - d_j)) with the sign of z_j, then row i of u
+ * (k x k) = ẑ_c/(d_c - λ_i) normalised, columns in the order c = cols[q] (i32). zhat, dq, zq:
+ * scratch of k doubles.
+ */
+export function secularVectors(
+  d: usize, z: usize, k: i32, rho: f64, org: usize, tau: usize, cols: usize, u: usize,
+  zhat: usize, dq: usize, zq: usize,
+): void {
+  for (let j = 0; j < k; j++) store<f64>(zhat + ((<usize>j) << 3), 1);
+  for (let i = 0; i < k; i++) {
+    const oi = (<usize>i) << 3;
+    const o = load<f64>(d + ((<usize>load<i32>(org + ((<usize>i) << 2))) << 3));
+    const t = load<f64>(tau + oi);
+    const di = load<f64>(d + oi);
+    const O = f64x2.splat(o), T = f64x2.splat(t), DI = f64x2.splat(di);
+    // Factors (d_j - λ_i)/(d_j - d_i) for j ≠ i, and (λ_i - d_i)/rho for j = i.
+    const pairI = i & ~1;
+    let j = 0;
+    for (; j + 1 < k; j += 2) {
+      if (j == pairI) continue;
+      const oj = (<usize>j) << 3;
+      const dj = v128.load(d + oj);
+      const f = f64x2.div(f64x2.sub(f64x2.sub(dj, O), T), f64x2.sub(dj, DI));
+      v128.store(zhat + oj, f64x2.mul(v128.load(zhat + oj), f));
+    }
+    const jEnd = pairI + 2 < k ? pairI + 2 : k;
+    for (let jj = pairI; jj < jEnd; jj++) {
+      const oj = (<usize>jj) << 3;
+      const dj = load<f64>(d + oj);
+      const f = jj == i ? -((dj - o) - t) / rho : ((dj - o) - t) / (dj - di);
+      store<f64>(zhat + oj, load<f64>(zhat + oj) * f);
+    }
+    if (j < k && j != pairI) {
+      const oj = (<usize>j) << 3;
+      const dj = load<f64>(d + oj);
+      store<f64>(zhat + oj, load<f64>(zhat + oj) * (((dj - o) - t) / (dj - di)));
+    }
+  }
+  for (let q = 0; q < k; q++) {
+    const c = (<usize>load<i32>(cols + ((<usize>q) << 2))) << 3;
+    const p = load<f64>(zhat + c);
+    const a = Math.sqrt(p > 0 ? p : 0);
+    store<f64>(zq + ((<usize>q) << 3), load<f64>(z + c) >= 0 ? a : -a);
+    store<f64>(dq + ((<usize>q) << 3), load<f64>(d + c));
+  }
+  const kb = (<usize>k) << 3;
+  for (let i = 0; i < k; i++) {
+    const oi = (<usize>i) << 3;
+    const o = load<f64>(d + ((<usize>load<i32>(org + ((<usize>i) << 2))) << 3));
+    const t = load<f64>(tau + oi);
+    const O = f64x2.splat(o), T = f64x2.splat(t);
+    const row = u + (<usize>i) * kb;
+    let SS = f64x2.splat(0);
+    let q = 0;
+    for (; q + 1 < k; q += 2) {
+      const oq = (<usize>q) << 3;
+      const x = f64x2.div(v128.load(zq + oq), f64x2.sub(f64x2.sub(v128.load(dq + oq), O), T));
+      v128.store(row + oq, x);
+      SS = f64x2.add(SS, f64x2.mul(x, x));
+    }
+    let ss = hsum(SS);
+    if (q < k) {
+      const oq = (<usize>q) << 3;
+      const x = load<f64>(zq + oq) / ((load<f64>(dq + oq) - o) - t);
+      store<f64>(row + oq, x);
+      ss += x * x;
+    }
+    const sc = 1 / Math.sqrt(ss);
+    const SC = f64x2.splat(sc);
+    q = 0;
+    for (; q + 1 < k; q += 2) {
+      const oq = (<usize>q) << 3;
+      v128.store(row + oq, f64x2.mul(v128.load(row + oq), SC));
+    }
+    if (q < k) store<f64>(row + ((<usize>q) << 3), load<f64>(row + ((<usize>q) << 3)) * sc);
+  }
+}
+
+/**
+ * out[i*m + r] = Σ_{q in [q0, q1)} u[i*ku + q] · x_q[r] for i < rows and r in [r0, r1), where x_q
+ * is the vector at byte address ptrs[q] (an i32 array): the old eigenvectors gathered in place,
+ * four rows of out by four components per block.
+ */
+export function gemmRows(
+  u: usize, ku: i32, rows: i32, ptrs: usize, q0: i32, q1: i32, out: usize, m: i32, r0: i32, r1: i32,
+): void {
+  const kb = (<usize>ku) << 3;
+  const mb = (<usize>m) << 3;
+  let i = 0;
+  for (; i + 3 < rows; i += 4) {
+    const u0 = u + (<usize>i) * kb, u1 = u0 + kb, u2 = u1 + kb, u3 = u2 + kb;
+    const o0 = out + (<usize>i) * mb, o1 = o0 + mb, o2 = o1 + mb, o3 = o2 + mb;
+    let r = r0;
+    for (; r + 3 < r1; r += 4) {
+      const ro = (<usize>r) << 3;
+      let A0 = f64x2.splat(0), B0 = f64x2.splat(0), A1 = f64x2.splat(0), B1 = f64x2.splat(0);
+      let A2 = f64x2.splat(0), B2 = f64x2.splat(0), A3 = f64x2.splat(0), B3 = f64x2.splat(0);
+      for (let q = q0; q < q1; q++) {
+        const oq = (<usize>q) << 3;
+        const x = (<usize>load<i32>(ptrs + ((<usize>q) << 2))) + ro;
+        const y0 = v128.load(x), y1 = v128.load(x + 16);
+        const s0 = f64x2.splat(load<f64>(u0 + oq)), s1 = f64x2.splat(load<f64>(u1 + oq));
+        const s2 = f64x2.splat(load<f64>(u2 + oq)), s3 = f64x2.splat(load<f64>(u3 + oq));
+        A0 = f64x2.add(A0, f64x2.mul(s0, y0)); B0 = f64x2.add(B0, f64x2.mul(s0, y1));
+        A1 = f64x2.add(A1, f64x2.mul(s1, y0)); B1 = f64x2.add(B1, f64x2.mul(s1, y1));
+        A2 = f64x2.add(A2, f64x2.mul(s2, y0)); B2 = f64x2.add(B2, f64x2.mul(s2, y1));
+        A3 = f64x2.add(A3, f64x2.mul(s3, y0)); B3 = f64x2.add(B3, f64x2.mul(s3, y1));
+      }
+      v128.store(o0 + ro, A0); v128.store(o0 + ro + 16, B0);
+      v128.store(o1 + ro, A1); v128.store(o1 + ro + 16, B1);
+      v128.store(o2 + ro, A2); v128.store(o2 + ro + 16, B2);
+      v128.store(o3 + ro, A3); v128.store(o3 + ro + 16, B3);
+    }
+    for (; r < r1; r++) {
+      const ro = (<usize>r) << 3;
+      let s0: f64 = 0, s1: f64 = 0, s2: f64 = 0, s3: f64 = 0;
+      for (let q = q0; q < q1; q++) {
+        const oq = (<usize>q) << 3;
+        const y = load<f64>((<usize>load<i32>(ptrs + ((<usize>q) << 2))) + ro);
+        s0 += load<f64>(u0 + oq) * y; s1 += load<f64>(u1 + oq) * y;
+        s2 += load<f64>(u2 + oq) * y; s3 += load<f64>(u3 + oq) * y;
+      }
+      store<f64>(o0 + ro, s0); store<f64>(o1 + ro, s1); store<f64>(o2 + ro, s2); store<f64>(o3 + ro, s3);
+    }
+  }
+  for (; i < rows; i++) {
+    const u0 = u + (<usize>i) * kb;
+    const o0 = out + (<usize>i) * mb;
+    let r = r0;
+    for (; r + 1 < r1; r += 2) {
+      const ro = (<usize>r) << 3;
+      let A = f64x2.splat(0);
+      for (let q = q0; q < q1; q++) {
+        const x = (<usize>load<i32>(ptrs + ((<usize>q) << 2))) + ro;
+        A = f64x2.add(A, f64x2.mul(f64x2.splat(load<f64>(u0 + ((<usize>q) << 3))), v128.load(x)));
+      }
+      v128.store(o0 + ro, A);
+    }
+    if (r < r1) {
+      const ro = (<usize>r) << 3;
+      let s: f64 = 0;
+      for (let q = q0; q < q1; q++) {
+        s += load<f64>(u0 + ((<usize>q) << 3)) * load<f64>((<usize>load<i32>(ptrs + ((<usize>q) << 2))) + ro);
+      }
+      store<f64>(o0 + ro, s);
+    }
+  }
+}
