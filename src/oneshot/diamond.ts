@@ -30,16 +30,16 @@
  * complement is (n² + 1)² per iteration, so about O(n⁶): fine for n ≤ 16, slow beyond ~n = 36.
  */
 import {
-  CMatrix, add, eigh, hermitianPart, kron, identity, mul, scale, sub, traceNorm, transpose, zeros, partialTrace,
+  CMatrix, eigh, hermitianPart, identity, scale, sub, traceNorm, transpose, zeros, partialTrace,
 } from '../linalg/index.js';
 import { sqrtm } from '../linalg/functions.js';
 import { product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel } from '../quantum/types.js';
-import { applyKraus, krausSum, krausToChoi } from '../quantum/channels.js';
+import { krausSum, krausToChoi } from '../quantum/channels.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, solverCertificate, type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, solverCertificate, type SolverCertificate,
 } from './sdp-support.js';
 
 export interface DiamondResult {
@@ -147,13 +147,17 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
       psi.im[i * din + r] = root.im[r * din + i];
     }
   }
-  const psiOp = mul(psi, { rows: 1, cols: din * din, re: psi.re.slice(), im: psi.im.map((v) => -v) });
-  const lower = 0.5 * traceNorm(sub(applyOnFirst(a, psiOp, din, din), applyOnFirst(b, psiOp, din, din)));
+  const outputs = zeros(n, n);
+  addOutputOnFirst(outputs, a, psi, din, din, 1);
+  addOutputOnFirst(outputs, b, psi, din, din, -1);
+  const lower = 0.5 * traceNorm(outputs);
 
-  // The dual point: S_T = −Zc, S_W = −J − Zc with Zc = Σ_c y_c A_c; Z = −Zc.
+  // The dual point: S_T = −Zc, S_W = −J − Zc with Zc = Σ_c y_c A_c; Z = −Zc. Z (multiplierMatrix,
+  // negated) and J (hermitianPart) are exactly Hermitian, so their Hermitian parts need no copy.
   const Z = scale(multiplierMatrix(answer.y, 0, n), -1);
-  const dualViolation = Math.max(0, -minEigenvalue(Z), -minEigenvalue(sub(Z, J)));
-  const zr = add(Z, scale(identity(n), dualViolation));
+  const dualViolation = Math.max(0, -eigh(Z, { vectors: false }).values[0], -minEigenvalueOfDifference(Z, J));
+  const zr = Z;
+  for (let i = 0; i < n; i++) zr.re[i * n + i] += dualViolation;
   const reduced = eigh(hermitianPart(partialTrace(zr, [din, dout], [1])), { vectors: false }).values;
   const upper = reduced[reduced.length - 1];
 
@@ -169,12 +173,39 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
   return result;
 }
 
-/** (N ⊗ id_R)(X) for X on C^din ⊗ C^dref, through Kraus operators K ⊗ 1. */
-function applyOnFirst(c: Channel, x: CMatrix, din: number, dref: number): CMatrix {
-  const lifted: Channel = {
-    kraus: c.kraus.map((k) => kron(k, identity(dref))),
-    inputDims: [din, dref],
-    outputDims: [product(c.outputDims), dref],
-  };
-  return applyKraus(lifted, x);
+/**
+ * out += sign · (N ⊗ id_R)(|ψ⟩⟨ψ|) for a column ψ on C^din ⊗ C^dref, as Σ_k v_k v_k† with
+ * v_k = (K_k ⊗ 1)ψ, (v_k)_(o,r) = Σ_i (K_k)_oi ψ_(i,r): the definition through the Kraus operators,
+ * without forming K ⊗ 1 or |ψ⟩⟨ψ|. out is (d_out·dref)², output factor first.
+ */
+function addOutputOnFirst(out: CMatrix, c: Channel, psi: CMatrix, din: number, dref: number, sign: number): void {
+  const m = out.rows;
+  const vr = new Float64Array(m);
+  const vi = new Float64Array(m);
+  for (const K of c.kraus) {
+    const dout = K.rows;
+    for (let o = 0; o < dout; o++) {
+      for (let r = 0; r < dref; r++) {
+        let sr = 0;
+        let si = 0;
+        for (let i = 0; i < din; i++) {
+          const kr = K.re[o * din + i];
+          const ki = K.im[o * din + i];
+          const pr = psi.re[i * dref + r];
+          const pi = psi.im[i * dref + r];
+          sr += kr * pr - ki * pi;
+          si += kr * pi + ki * pr;
+        }
+        vr[o * dref + r] = sr;
+        vi[o * dref + r] = si;
+      }
+    }
+    for (let p = 0; p < m; p++) {
+      for (let q = 0; q < m; q++) {
+        // v_p conj(v_q)
+        out.re[p * m + q] += sign * (vr[p] * vr[q] + vi[p] * vi[q]);
+        out.im[p * m + q] += sign * (vi[p] * vr[q] - vr[p] * vi[q]);
+      }
+    }
+  }
 }

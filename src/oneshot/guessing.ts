@@ -35,7 +35,7 @@ import { RhoError } from '../errors.js';
 import { checkProbabilities } from '../quantum/arguments.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
+  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, renormalisePovm, solverCertificate,
   type SolverCertificate,
 } from './sdp-support.js';
 
@@ -132,12 +132,13 @@ export function guessingProbability(
   let povmDefect = 0;
   for (let k = 0; k < defect.re.length; k++) povmDefect += defect.re[k] ** 2 + defect.im[k] ** 2;
   povmDefect = Math.sqrt(povmDefect);
-  const measurement = renormalisePovm(raw);
+  const measurement = renormalisePovm(raw, sum);
 
   // The dual: S_x = −p_x ρ_x − Z with Z = Σ_i y_i A_i, so Y = −Z satisfies Y − p_x ρ_x = S_x ⪰ 0.
   const dual = scale(multiplierMatrix(answer.y, 0, d), -1);
   let dualViolation = 0;
-  for (const w of weighted) dualViolation = Math.max(dualViolation, -minEigenvalue(sub(dual, w)));
+  // dual (multiplierMatrix, negated) and w (hermitianPart) are exactly Hermitian: no copy needed.
+  for (const w of weighted) dualViolation = Math.max(dualViolation, -minEigenvalueOfDifference(dual, w));
   let lower = 0;
   for (let x = 0; x < n; x++) lower += traceOfProductRe(measurement[x], weighted[x]);
   const upper = trace(dual).re + d * dualViolation;

@@ -234,6 +234,22 @@ export function minEigenvalue(h: CMatrix): number {
 }
 
 /**
+ * λ_min(a − b) for a and b that are EXACTLY Hermitian (built by hermitianPart or multiplierMatrix,
+ * whose mirrored entries are equal bit for bit): then a − b is exactly Hermitian too, its Hermitian
+ * part is itself bit for bit, and minEigenvalue's copy is skipped. Same value as
+ * minEigenvalue(sub(a, b)).
+ */
+export function minEigenvalueOfDifference(a: CMatrix, b: CMatrix): number {
+  const n = a.rows;
+  const d = zeros(n, n);
+  for (let k = 0; k < n * n; k++) {
+    d.re[k] = a.re[k] - b.re[k];
+    d.im[k] = a.im[k] - b.im[k];
+  }
+  return eigh(d, { vectors: false }).values[0];
+}
+
+/**
  * G^{−1/2} for a positive semidefinite G, on its support: eigenvalues at most 1e-14 times the largest
  * (or nonpositive) are treated as zero, and their directions are left out.
  */
@@ -245,12 +261,16 @@ export function inverseRootOnSupport(g: CMatrix): CMatrix {
 
 /**
  * G^{−1/2} M G^{−1/2} for every M, with G = Σ M (inverseRootOnSupport): an interior-point POVM made
- * to sum to the identity on G's support, up to rounding. An empty list stays empty.
+ * to sum to the identity on G's support, up to rounding. An empty list stays empty. `sum`: G when
+ * the caller has it already (it must be Σ M in list order, which is what is computed otherwise).
  */
-export function renormalisePovm(elements: readonly CMatrix[]): CMatrix[] {
+export function renormalisePovm(elements: readonly CMatrix[], sum?: CMatrix): CMatrix[] {
   if (elements.length === 0) return [];
-  let g = elements[0];
-  for (let k = 1; k < elements.length; k++) g = add(g, elements[k]);
+  let g = sum;
+  if (!g) {
+    g = elements[0];
+    for (let k = 1; k < elements.length; k++) g = add(g, elements[k]);
+  }
   const root = inverseRootOnSupport(g);
   return elements.map((m) => hermitianPart(mul(mul(root, m), root)));
 }
