@@ -28,13 +28,16 @@
  * none of which costs anything measurable on a well-posed solve:
  *  - every step is accepted only when the new iterate is numerically interior (Cholesky factors of
  *    X and S on every block, positive finite λ, τ, κ and orthant coordinates); otherwise it is
- *    retried shorter from the saved iterate. The step to the boundary comes from an eigenvalue
+ *    retried shorter (in place, along the same direction). The step to the boundary comes from an eigenvalue
  *    computed in floating point and is not trusted on its own.
  *  - when the Mehrotra-corrected direction allows no step, an uncorrected, at least half-centred
  *    direction is tried before giving up.
  *  - the iterate with the best merit max(residuals/feasTol, relative gap/gapTol) is kept; a solve
  *    that ends as 'inaccurate' or 'iteration-limit' returns it (and says so in `message`), with its
  *    residuals and gap, instead of whatever the last iterate was.
+ *  - data of tiny or huge magnitude is equilibrated first (scaling.ts; rows, b and c by powers of
+ *    two, only outside [1/64, 64], so ordinary problems run bit for bit as without it); every test
+ *    runs on the equilibrated problem and 'optimal' also requires the tolerances in the user's scale.
  *  - numerically dependent constraints are dropped by the Schur factorization (dense.ts,
  *    choleskyInPlaceGuarded) and counted in `dependentConstraints`.
  *
@@ -58,6 +61,7 @@ import { zeros, type CMatrix } from '../linalg/index.js';
 import { compile, type Compiled } from './compile.js';
 import { cholesky, congruence, congruenceT, matMul, matTMul, minEig, svdJacobi } from './dense.js';
 import { SchurSystem } from './schur.js';
+import { equilibrate } from './scaling.js';
 import {
   cCholesky,
   cCongruence,
@@ -263,7 +267,14 @@ export interface SolverInternals {
 
 /** solveSdp with test-only knobs (see SolverInternals). */
 export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals: SolverInternals): SdpAnswer {
-  const cp = compile(problem);
+  // The solver works on the equilibrated problem (scaling.ts: identical to the compiled one unless
+  // some row, b or c has a norm outside [1/64, 64]); everything reported is in the user's scale.
+  const user = compile(problem);
+  const scaling = equilibrate(user);
+  const cp = scaling.cp;
+  const rowScale = scaling.row;
+  const bScale = scaling.b;
+  const cScale = scaling.c;
   const gapTol = options.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance;
   const feasTol = options.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance;
   const maxIter = options.maxIterations ?? DEFAULT_OPTIONS.maxIterations;
@@ -298,6 +309,11 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
   let cn2 = dotv(cp.cL, cp.cL) + dotv(cp.cF, cp.cF);
   for (const blk of cp.psd) cn2 += dotv(blk.c, blk.c);
   const cnorm = Math.sqrt(cn2);
+  // The same norms of the user's data (for the reported residuals).
+  const nb2User = norm2(user.b);
+  let cu2 = dotv(user.cL, user.cL) + dotv(user.cF, user.cF);
+  for (const blk of user.psd) cu2 += dotv(blk.c, blk.c);
+  const cnormUser = Math.sqrt(cu2);
 
   // Iterate, started at x = s = e, y = 0, τ = κ = 1.
   const X = mat();
@@ -414,6 +430,27 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
     };
   };
 
+  /** The iteration's numbers in the user's scale (the internal ones when nothing was rescaled). */
+  const userMetrics = (info: IterationInfo): IterationInfo => {
+    if (!scaling.active) return info;
+    const f = bScale * cScale;
+    const pobj = info.primalObjective * f;
+    const dobj = info.dualObjective * f;
+    let r2 = 0;
+    for (let i = 0; i < m; i++) r2 += (rowScale[i] * bScale * rp[i]) ** 2;
+    return {
+      ...info,
+      primalObjective: pobj,
+      dualObjective: dobj,
+      gap: info.gap * f,
+      relativeGap: Math.abs(pobj - dobj) / (1 + Math.abs(pobj) + Math.abs(dobj)),
+      primalResidual: Math.sqrt(r2) / tau / (1 + nb2User),
+      dualResidual: (cScale * rdNorm) / tau / (1 + cnormUser),
+    };
+  };
+  const meetsTolerances = (info: IterationInfo): boolean =>
+    info.primalResidual <= feasTol && info.dualResidual <= feasTol && info.relativeGap <= gapTol;
+
   const checkInfeasible = (): boolean => {
     // Dual ray: Aᵀy + s = c τ − r_d.
     if (by > 0) {
@@ -427,13 +464,14 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
       for (let p = 0; p < nF; p++) r2 += (cp.cF[p] * tau - rdF[p]) ** 2;
       const resid = Math.sqrt(r2) / by;
       if (resid / Math.max(1, cnorm) <= feasTol) {
-        const scale = 1 / by;
+        // In the user's scale: y_i = ŷ_i / (r_i β_b b̂·ŷ), S = Ŝ / (β_b b̂·ŷ) (scaling.ts), so b·y = 1.
+        const scale = 1 / (by * bScale);
         certificate = {
           kind: 'dual-ray',
-          y: Array.from(y, (v) => v * scale),
+          y: Array.from(y, (v, i) => (v * scale) / rowScale[i]),
           s: userBlocks(cp, S.v, sL, null, scale),
           bDotY: 1,
-          residual: resid,
+          residual: resid / bScale,
         };
         status = 'primal-infeasible';
         message = 'the constraints admit no point in the cone: a dual ray (Farkas certificate) was found';
@@ -446,8 +484,11 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
       for (let i = 0; i < m; i++) r2 += (rp[i] + b[i] * tau) ** 2;
       const resid = Math.sqrt(r2) / -cx;
       if (resid / Math.max(1, nb2) <= feasTol) {
-        const scale = 1 / -cx;
-        certificate = { kind: 'primal-ray', x: userBlocks(cp, X.v, xL, xF, scale), cDotX: -1, residual: resid };
+        // In the user's scale: X = X̂ / (β_c (−ĉ·X̂)), so ⟨c, X⟩ = −1 and A(X)_i = r_i Â_i(X̂) / (β_c (−ĉ·X̂)).
+        const scale = 1 / (-cx * cScale);
+        let u2 = 0;
+        for (let i = 0; i < m; i++) u2 += (rowScale[i] * (rp[i] + b[i] * tau)) ** 2;
+        certificate = { kind: 'primal-ray', x: userBlocks(cp, X.v, xL, xF, scale), cDotX: -1, residual: Math.sqrt(u2) * scale };
         status = 'dual-infeasible';
         message = 'the dual has no feasible point (the primal is unbounded below if feasible): a primal ray was found';
         return true;
@@ -586,12 +627,14 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
   /**
    * NT scaling of the current iterate (X = L Lᵀ, S = R Rᵀ, Rᵀ L = U Σ Vᵀ, G = L V Σ^(−1/2), W = G Gᵀ;
    * orthant: g = √(x/s), λ = √(x s)). False when the iterate is not numerically interior: a
-   * Cholesky factor fails, a scaled eigenvalue λ is not positive and finite, or τ, κ or an orthant
-   * coordinate is not positive. The safeguarded step below uses it as its acceptance test.
+   * Cholesky factor fails, a scaled eigenvalue λ is not positive and finite, τ, κ or an orthant
+   * coordinate is not positive, or y or a free variable is not finite. The safeguarded step below uses it as its acceptance test.
    */
   const computeScaling = (): boolean => {
     if (!(tau > 0 && tau < Infinity) || !(kappa > 0 && kappa < Infinity)) return false;
     for (let p = 0; p < nL; p++) if (!(xL[p] > 0 && xL[p] < Infinity) || !(sL[p] > 0 && sL[p] < Infinity)) return false;
+    for (let i = 0; i < m; i++) if (!isFinite(y[i])) return false;
+    for (let f = 0; f < nF; f++) if (!isFinite(xF[f])) return false;
     for (let k = 0; k < nb; k++) {
       const n = sizes[k];
       if (herm[k]) {
@@ -650,25 +693,40 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
     return true;
   };
 
-  // Safeguards. `prev`: the last accepted iterate, from which a step that leaves the cone in floating
-  // point is retried shorter. `best`: the iterate with the smallest merit max(residuals/feasTol,
-  // relative gap/gapTol), returned when the solve ends as 'inaccurate' or 'iteration-limit'.
-  // Copying them costs O(stored entries) per iteration, next to O(n³) per block for the scaling.
-  interface Snapshot { X: Float64Array; S: Float64Array; xL: Float64Array; sL: Float64Array; xF: Float64Array; y: Float64Array; tau: number; kappa: number; iter: number }
-  const snapshot = (): Snapshot => ({
-    X: new Float64Array(X.data.length), S: new Float64Array(S.data.length), xL: new Float64Array(nL), sL: new Float64Array(nL),
-    xF: new Float64Array(nF), y: new Float64Array(m), tau: 0, kappa: 0, iter: 0,
-  });
-  const saveTo = (t: Snapshot): void => {
-    t.X.set(X.data);
-    t.S.set(S.data);
-    t.xL.set(xL);
-    t.sL.set(sL);
-    t.xF.set(xF);
-    t.y.set(y);
-    t.tau = tau;
-    t.kappa = kappa;
-    t.iter = iter;
+  // Safeguards. A step that leaves the cone in floating point is retried shorter in place (X += (α' − α)ΔX;
+  // the direction arrays still hold ΔX). `best`: the iterate with the smallest merit max(residuals/feasTol,
+  // relative gap/gapTol), returned when the solve ends as 'inaccurate' or 'iteration-limit'. It is stored
+  // only when an iterate is worse than its predecessor (rebuilt as the current iterate minus the last step,
+  // before the next direction overwrites it), so a solve whose merit improves at every iteration, the
+  // common case, copies and allocates nothing for it.
+  interface Snapshot { X: Float64Array; S: Float64Array; xL: Float64Array; sL: Float64Array; xF: Float64Array; y: Float64Array; tau: number; kappa: number }
+  let best: Snapshot | null = null;
+  let bestIter = -1;
+  let bestStored = false;
+  let bestMerit = Infinity;
+  let useBest = false;
+  let backtracks = 0;
+  let lastDtau = 0;
+  let lastDkappa = 0;
+  /** Store the previous iterate (current minus the last accepted step α·Δ) in `best`. */
+  const storePrevious = (): void => {
+    const t: Snapshot = (best ??= {
+      X: new Float64Array(X.data.length), S: new Float64Array(S.data.length), xL: new Float64Array(nL), sL: new Float64Array(nL),
+      xF: new Float64Array(nF), y: new Float64Array(m), tau: 0, kappa: 0,
+    });
+    const a = lastStep;
+    for (let e = 0; e < X.data.length; e++) {
+      t.X[e] = X.data[e] - a * dX.data[e];
+      t.S[e] = S.data[e] - a * dS.data[e];
+    }
+    for (let p = 0; p < nL; p++) {
+      t.xL[p] = xL[p] - a * dxL[p];
+      t.sL[p] = sL[p] - a * dsL[p];
+    }
+    for (let f = 0; f < nF; f++) t.xF[f] = xF[f] - a * dxF[f];
+    for (let i = 0; i < m; i++) t.y[i] = y[i] - a * dy[i];
+    t.tau = tau - a * lastDtau;
+    t.kappa = kappa - a * lastDkappa;
   };
   const loadFrom = (t: Snapshot): void => {
     X.data.set(t.X);
@@ -680,11 +738,25 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
     tau = t.tau;
     kappa = t.kappa;
   };
-  const prev = snapshot();
-  const best = snapshot();
-  let bestMerit = Infinity;
-  let useBest = false;
-  let backtracks = 0;
+  /** Move the iterate along the current direction by `delta` (a step, or a correction of one). */
+  const move = (delta: number, dtau: number, dkappa: number): void => {
+    const Xd = X.data;
+    const Sd = S.data;
+    const dXd = dX.data;
+    const dSd = dS.data;
+    for (let e = 0; e < Xd.length; e++) {
+      Xd[e] += delta * dXd[e];
+      Sd[e] += delta * dSd[e];
+    }
+    for (let p = 0; p < nL; p++) {
+      xL[p] += delta * dxL[p];
+      sL[p] += delta * dsL[p];
+    }
+    for (let f = 0; f < nF; f++) xF[f] += delta * dxF[f];
+    for (let i = 0; i < m; i++) y[i] += delta * dy[i];
+    tau += delta * dtau;
+    kappa += delta * dkappa;
+  };
   const merit = (info: IterationInfo): number => {
     const v = Math.max(info.primalResidual / feasTol, info.dualResidual / feasTol, info.relativeGap / gapTol);
     return v === v ? v : Infinity;
@@ -697,19 +769,24 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
     message = 'the starting point could not be scaled (non-finite data?)';
   } else for (;;) {
     const info = metrics();
-    if (iter > 0) options.onIteration?.(info);
+    const shown = userMetrics(info);
+    if (iter > 0) options.onIteration?.(shown);
+    const meritNow = merit(info);
+    if (meritNow < bestMerit) {
+      bestMerit = meritNow;
+      bestIter = iter;
+      bestStored = false;
+    } else if (!bestStored && bestIter === iter - 1) {
+      storePrevious();
+      bestStored = true;
+    }
     if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(mu)) {
       status = 'inaccurate';
       message = 'the iteration produced non-finite numbers';
       useBest = true;
       break;
     }
-    const meritNow = merit(info);
-    if (meritNow < bestMerit) {
-      bestMerit = meritNow;
-      saveTo(best);
-    }
-    if (info.primalResidual <= feasTol && info.dualResidual <= feasTol && info.relativeGap <= gapTol) {
+    if (meetsTolerances(info) && (shown === info || meetsTolerances(shown))) {
       status = 'optimal';
       break;
     }
@@ -806,29 +883,12 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
     // Safeguarded step: the new iterate must be numerically interior (Cholesky factors of every
     // block, positive λ, τ, κ and orthant coordinates). The step length is computed to stay inside
     // by the margin 1 − stepFraction, but it comes from an eigenvalue computed in floating point;
-    // when the iterate is not accepted, the step is shortened (×0.9 on the first retry, then halved)
-    // and retried from the saved iterate.
-    saveTo(prev);
+    // when the iterate is not accepted, the step is shortened (×0.9 on the first retry, then halved).
     let accepted = false;
+    let taken = 0;
     for (let tries = 0; tries < 40; tries++) {
-      const Xd = X.data;
-      const Sd = S.data;
-      const pX = prev.X;
-      const pS = prev.S;
-      const dXd = dX.data;
-      const dSd = dS.data;
-      for (let e = 0; e < Xd.length; e++) {
-        Xd[e] = pX[e] + alpha * dXd[e];
-        Sd[e] = pS[e] + alpha * dSd[e];
-      }
-      for (let p = 0; p < nL; p++) {
-        xL[p] = prev.xL[p] + alpha * dxL[p];
-        sL[p] = prev.sL[p] + alpha * dsL[p];
-      }
-      for (let f = 0; f < nF; f++) xF[f] = prev.xF[f] + alpha * dxF[f];
-      for (let i = 0; i < m; i++) y[i] = prev.y[i] + alpha * dy[i];
-      tau = prev.tau + alpha * dir.dtau;
-      kappa = prev.kappa + alpha * dir.dkappa;
+      move(alpha - taken, dir.dtau, dir.dkappa);
+      taken = alpha;
       if (computeScaling()) {
         accepted = true;
         break;
@@ -838,37 +898,36 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
       if (!(alpha > 1e-10)) break;
     }
     if (!accepted) {
-      loadFrom(prev);
+      move(-taken, dir.dtau, dir.dkappa); // back to the last accepted iterate (up to rounding)
       residuals();
       status = 'inaccurate';
       message = 'no step along the Newton direction kept the iterate positive definite in floating point';
       useBest = true;
       break;
     }
+    lastDtau = dir.dtau;
+    lastDkappa = dir.dkappa;
     lastStep = alpha;
     lastSigma = sigma;
     iter++;
     residuals();
   }
 
-  if (useBest && bestMerit < Infinity) {
-    const last = metrics();
-    if (!(merit(last) <= bestMerit)) {
-      loadFrom(best);
-      residuals();
-      message = `${message ?? ''}; returned the best iterate seen (iteration ${best.iter}), not the last`;
-    }
+  if (useBest && bestStored && best && bestIter !== iter) {
+    loadFrom(best);
+    residuals();
+    message = `${message ?? ''}; returned the best iterate seen (iteration ${bestIter}), not the last`;
   }
   if (backtracks > 0 && status !== 'optimal') {
     message = `${message ?? ''} (${backtracks} step${backtracks === 1 ? ' was' : 's were'} shortened to stay inside the cone)`;
   }
-  const info = metrics();
+  const info = userMetrics(metrics());
   const inv = 1 / tau;
   return {
     status,
-    x: userBlocks(cp, X.v, xL, xF, inv),
-    y: Array.from(y, (v) => v * inv),
-    s: userBlocks(cp, S.v, sL, null, inv),
+    x: userBlocks(cp, X.v, xL, xF, inv * bScale),
+    y: Array.from(y, (v, i) => (v * inv * cScale) / rowScale[i]),
+    s: userBlocks(cp, S.v, sL, null, inv * cScale),
     primalObjective: info.primalObjective,
     dualObjective: info.dualObjective,
     gap: info.primalObjective - info.dualObjective,
