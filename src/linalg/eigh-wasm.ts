@@ -20,10 +20,6 @@ import { EIGH_KERNELS_WASM_BASE64 } from './wasm/eigh-kernels.wasm.js';
 
 /** The kernels' exports; every pointer argument is a byte address in the kernels' memory. */
 export interface EighKernels {
-  reduceRowPairs(
-    are: number, aim: number, n: number, iStart: number, j0: number,
-    v: number, vI: number, w: number, wI: number, u: number, uI: number, p: number, pI: number,
-  ): number;
   applyReflectorPairs(
     mRe: number, mIm: number, n: number, vRe: number, vIm: number, betas: number,
     pa: number, pbk: number, bb: number, cRe: number, cIm: number, np: number,
@@ -31,6 +27,10 @@ export interface EighKernels {
   gemmNT(
     u: number, qt: number, out: number, rows: number, ku: number, m: number,
     r0: number, r1: number, q0: number, q1: number,
+  ): void;
+  tridiagonalize(
+    are: number, aim: number, n: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
+    betas: number, p: number, pI: number, w0: number, w0I: number, w1: number, w1I: number,
   ): void;
   secularRoots(d: number, z: number, k: number, rho: number, zz: number, del: number, org: number, tau: number): void;
   secularVectors(

@@ -103,9 +103,9 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
     aim[i * n + i] = 0;
   }
 
-  const d = new Float64Array(n);
-  const eRe = new Float64Array(n);
-  const eIm = new Float64Array(n);
+  const d = ws.f64(n);
+  const eRe = ws.f64(n);
+  const eIm = ws.f64(n);
   // Reflector k (I - beta_k v v*) acts on indices k+1..n-1; v is stored at vRe/vIm[k*n + k+1 ..].
   const vRe = ws.f64(n * n);
   const vIm = ws.f64(n * n);
@@ -199,6 +199,14 @@ function tridiagonalize(
   let wIm = ws.f64(n);
   let nwRe = ws.f64(n);
   let nwIm = ws.f64(n);
+  if (kern) {
+    // The whole loop below, in the kernels (the same steps and sums, pairs of rows in SIMD).
+    kern.tridiagonalize(
+      are.byteOffset, aim.byteOffset, n, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
+      betas.byteOffset, pRe.byteOffset, pIm.byteOffset, wRe.byteOffset, wIm.byteOffset, nwRe.byteOffset, nwIm.byteOffset,
+    );
+    return;
+  }
   let prevBase = 0;
 
   for (let k = 0; k < n; k++) {
@@ -271,16 +279,7 @@ function tridiagonalize(
     let i0 = k + 1;
     if (haveUpdate && useV) {
       // Main case, two rows at a time: the loads of v_j, w_j, u_j and p_j are shared.
-      if (kern) {
-        const vo = vRe.byteOffset;
-        const vio = vIm.byteOffset;
-        i0 = kern.reduceRowPairs(
-          are.byteOffset, aim.byteOffset, n, i0, k + 1, vo + 8 * pb, vio + 8 * pb,
-          wRe.byteOffset, wIm.byteOffset, vo + 8 * base, vio + 8 * base, pRe.byteOffset, pIm.byteOffset,
-        );
-      } else {
-        for (; i0 + 1 < n; i0 += 2) fusedRowPair(are, aim, n, i0, k + 1, vRe, vIm, pb, wRe, wIm, base, pRe, pIm);
-      }
+      for (; i0 + 1 < n; i0 += 2) fusedRowPair(are, aim, n, i0, k + 1, vRe, vIm, pb, wRe, wIm, base, pRe, pIm);
     }
     for (let i = i0; i < n; i++) {
       const row = i * n;

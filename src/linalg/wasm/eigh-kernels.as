@@ -25,20 +25,10 @@
 // ---------------------------------------------------------------------------------------------
 
 /**
- * For i = iStart, iStart + 2, ... while i + 1 < n: rows i and i+1 of the fused pass (columns
- * j0..i+1 of the lower triangle): apply A -= v w* + w v* (v at v/vI, w at w/wI, indexed by the
- * global row) and accumulate p += A u (u at u/uI), using Hermitian symmetry for the upper part.
- * Returns the first row not processed.
+ * Rows i and i+1 of the fused pass (columns j0..i+1 of the lower triangle): apply A -= v w* + w v*
+ * (v at v/vI, w at w/wI, indexed by the global row) and accumulate p += A u (u at u/uI), using
+ * Hermitian symmetry for the upper part. Called by tridiagonalize below.
  */
-export function reduceRowPairs(
-  are: usize, aim: usize, n: i32, iStart: i32, j0: i32,
-  v: usize, vI: usize, w: usize, wI: usize, u: usize, uI: usize, p: usize, pI: usize,
-): i32 {
-  let i = iStart;
-  for (; i + 1 < n; i += 2) rowPair(are, aim, n, i, j0, v, vI, w, wI, u, uI, p, pI);
-  return i;
-}
-
 function rowPair(
   are: usize, aim: usize, n: i32, i: i32, j0: i32,
   v: usize, vI: usize, w: usize, wI: usize, u: usize, uI: usize, p: usize, pI: usize,
@@ -675,5 +665,151 @@ export function gemmRows(
       }
       store<f64>(o0 + ro, s);
     }
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Householder reduction: the whole driver (tridiagonalize in eigh.ts, step for step).
+// ---------------------------------------------------------------------------------------------
+
+/** The same threshold as eigh.ts's TINY2. */
+const TINY2: f64 = 1e-290;
+
+@inline function f64At(p: usize, i: i32): f64 {
+  return load<f64>(p + ((<usize>i) << 3));
+}
+@inline function f64Set(p: usize, i: i32, x: f64): void {
+  store<f64>(p + ((<usize>i) << 3), x);
+}
+
+/**
+ * Reduction of the Hermitian matrix whose lower triangle is (are, aim) (n x n, row-major) to
+ * tridiagonal form: the algorithm of tridiagonalize in eigh.ts (see there), with its loops here so
+ * that no step crosses between JavaScript and WebAssembly. Outputs d, eRe, eIm (n each), the
+ * reflectors in the rows of vRe/vIm and their betas; p/pI, w/wI, x/xI: scratch of n doubles each,
+ * zero on entry.
+ */
+export function tridiagonalize(
+  are: usize, aim: usize, n: i32, d: usize, eRe: usize, eIm: usize, vRe: usize, vIm: usize, betas: usize,
+  p: usize, pI: usize, w0: usize, w0I: usize, w1: usize, w1I: usize,
+): void {
+  let haveUpdate = false;
+  let wR = w0, wI = w0I, nwR = w1, nwI = w1I;
+  let prevBase: i32 = 0;
+  const nb = (<usize>n) << 3;
+  for (let k = 0; k < n; k++) {
+    const pb = prevBase;
+    const vP = vRe + ((<usize>pb) << 3), vPI = vIm + ((<usize>pb) << 3);
+    if (haveUpdate) {
+      const vkr = f64At(vP, k), vki = f64At(vPI, k), wkr = f64At(wR, k), wki = f64At(wI, k);
+      for (let i = k; i < n; i++) {
+        const vir = f64At(vP, i), vii = f64At(vPI, i), wir = f64At(wR, i), wii = f64At(wI, i);
+        const a = ((<usize>(i * n + k)) << 3);
+        store<f64>(are + a, load<f64>(are + a) - (vir * wkr + vii * wki + wir * vkr + wii * vki));
+        store<f64>(aim + a, load<f64>(aim + a) - (vii * wkr - vir * wki + wii * vkr - wir * vki));
+      }
+      store<f64>(aim + ((<usize>(k * n + k)) << 3), 0);
+    }
+    f64Set(d, k, load<f64>(are + ((<usize>(k * n + k)) << 3)));
+    if (k >= n - 1) break;
+
+    const base = k * n;
+    const vB = vRe + ((<usize>base) << 3), vBI = vIm + ((<usize>base) << 3);
+    let xnorm2: f64 = 0;
+    for (let i = k + 1; i < n; i++) {
+      const a = ((<usize>(i * n + k)) << 3);
+      const xr = load<f64>(are + a), xi = load<f64>(aim + a);
+      xnorm2 += xr * xr + xi * xi;
+    }
+    const a0 = (<usize>((k + 1) * n + k)) << 3;
+    const x0r = load<f64>(are + a0), x0i = load<f64>(aim + a0);
+    const alpha2 = x0r * x0r + x0i * x0i;
+    let beta: f64 = 0;
+    if (k < n - 2 && xnorm2 - alpha2 > TINY2) {
+      const alpha = Math.sqrt(alpha2);
+      const xnorm = Math.sqrt(xnorm2);
+      const phr = alpha > 0 ? x0r / alpha : 1;
+      const phi = alpha > 0 ? x0i / alpha : 0;
+      const sc = 1 / Math.sqrt(2 * xnorm * (xnorm + alpha));
+      for (let i = k + 1; i < n; i++) {
+        const a = ((<usize>(i * n + k)) << 3);
+        f64Set(vB, i, load<f64>(are + a) * sc);
+        f64Set(vBI, i, load<f64>(aim + a) * sc);
+      }
+      f64Set(vB, k + 1, f64At(vB, k + 1) + phr * xnorm * sc);
+      f64Set(vBI, k + 1, f64At(vBI, k + 1) + phi * xnorm * sc);
+      beta = 2;
+      f64Set(eRe, k, -phr * xnorm);
+      f64Set(eIm, k, -phi * xnorm);
+    } else {
+      f64Set(eRe, k, x0r);
+      f64Set(eIm, k, x0i);
+    }
+    f64Set(betas, k, beta);
+
+    const useV = beta != 0;
+    if (!haveUpdate && !useV) continue;
+    for (let i = k + 1; i < n; i++) {
+      f64Set(p, i, 0);
+      f64Set(pI, i, 0);
+    }
+    let i0 = k + 1;
+    if (haveUpdate && useV) {
+      for (; i0 + 1 < n; i0 += 2) rowPair(are, aim, n, i0, k + 1, vP, vPI, wR, wI, vB, vBI, p, pI);
+    }
+    for (let i = i0; i < n; i++) {
+      const row = (<usize>i) * nb;
+      const rR = are + row, rI = aim + row;
+      const uir = useV ? f64At(vB, i) : 0;
+      const uii = useV ? f64At(vBI, i) : 0;
+      let sr: f64 = 0, si: f64 = 0;
+      if (haveUpdate) {
+        const vir = f64At(vP, i), vii = f64At(vPI, i), wir = f64At(wR, i), wii = f64At(wI, i);
+        for (let j = k + 1; j < i; j++) {
+          const vjr = f64At(vP, j), vji = f64At(vPI, j), wjr = f64At(wR, j), wji = f64At(wI, j);
+          const ar = f64At(rR, j) - (vir * wjr + vii * wji + wir * vjr + wii * vji);
+          const ai = f64At(rI, j) - (vii * wjr - vir * wji + wii * vjr - wir * vji);
+          f64Set(rR, j, ar);
+          f64Set(rI, j, ai);
+          if (useV) {
+            const ujr = f64At(vB, j), uji = f64At(vBI, j);
+            sr += ar * ujr - ai * uji;
+            si += ar * uji + ai * ujr;
+            f64Set(p, j, f64At(p, j) + (ar * uir + ai * uii));
+            f64Set(pI, j, f64At(pI, j) + (ar * uii - ai * uir));
+          }
+        }
+        f64Set(rR, i, f64At(rR, i) - 2 * (vir * wir + vii * wii));
+      } else {
+        for (let j = k + 1; j < i; j++) {
+          const ar = f64At(rR, j), ai = f64At(rI, j);
+          const ujr = f64At(vB, j), uji = f64At(vBI, j);
+          sr += ar * ujr - ai * uji;
+          si += ar * uji + ai * ujr;
+          f64Set(p, j, f64At(p, j) + (ar * uir + ai * uii));
+          f64Set(pI, j, f64At(pI, j) + (ar * uii - ai * uir));
+        }
+      }
+      const dii = f64At(rR, i);
+      f64Set(p, i, f64At(p, i) + (sr + dii * uir));
+      f64Set(pI, i, f64At(pI, i) + (si + dii * uii));
+    }
+    haveUpdate = false;
+    if (!useV) continue;
+
+    let vpr: f64 = 0;
+    for (let i = k + 1; i < n; i++) vpr += f64At(vB, i) * f64At(p, i) + f64At(vBI, i) * f64At(pI, i);
+    const K = 0.5 * beta * beta * vpr;
+    for (let i = k + 1; i < n; i++) {
+      f64Set(nwR, i, beta * f64At(p, i) - K * f64At(vB, i));
+      f64Set(nwI, i, beta * f64At(pI, i) - K * f64At(vBI, i));
+    }
+    const tr = wR, ti = wI;
+    wR = nwR;
+    wI = nwI;
+    nwR = tr;
+    nwI = ti;
+    haveUpdate = true;
+    prevBase = base;
   }
 }
