@@ -47,7 +47,8 @@
  * certificate (a dual ray y with −Σ y_i A_i ⪰ 0 and b·y = 1, or a primal ray X ⪰ 0 with A(X) = 0
  * and ⟨C, X⟩ = −1). Read the residuals before trusting a near-zero. Numerical trouble never throws:
  * 'inaccurate' and 'iteration-limit' return the best iterate seen with its residuals and gap, and
- * `message` says what went wrong.
+ * `message` says what went wrong. test/sdp/degenerate.test.ts lists what degenerate problems (no
+ * interior, dependent rows, data scaled by 1e±8) give, and what is still not handled.
  *
  * THE METHOD (solver.ts): primal–dual interior point on the homogeneous self-dual embedding,
  * Nesterov–Todd scaling, Mehrotra predictor–corrector; Hermitian blocks through the real
