@@ -32,6 +32,9 @@ export interface EighKernels {
     are: number, aim: number, n: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
     betas: number, p: number, pI: number, w0: number, w0I: number, w1: number, w1I: number,
   ): void;
+  phaseRows(zt: number, dRe: number, dIm: number, mRe: number, mIm: number, n: number): void;
+  transposePair(mRe: number, mIm: number, n: number, tRe: number, tIm: number): void;
+  copyRows(src: number, perm: number, dst: number, dstStride: number, m: number): void;
   secularRoots(d: number, z: number, k: number, rho: number, zz: number, del: number, org: number, tau: number): void;
   secularVectors(
     d: number, z: number, k: number, rho: number, org: number, tau: number, cols: number, u: number,

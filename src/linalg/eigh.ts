@@ -114,8 +114,8 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
 
   // Phases making the off-diagonal real: delta_{k+1} = delta_k e_k / |e_k|.
   const e = new Float64Array(n);
-  const dRe = new Float64Array(n);
-  const dIm = new Float64Array(n);
+  const dRe = ws.f64(n);
+  const dIm = ws.f64(n);
   dRe[0] = 1;
   for (let k = 0; k < n - 1; k++) {
     const m = Math.sqrt(eRe[k] * eRe[k] + eIm[k] * eIm[k]);
@@ -148,12 +148,16 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   // longer needed).
   const mRe = are;
   const mIm = aim;
-  for (let c = 0; c < n; c++) {
-    const row = c * n;
-    for (let r = 0; r < n; r++) {
-      const z = zt[row + r];
-      mRe[row + r] = dRe[r] * z;
-      mIm[row + r] = dIm[r] * z;
+  const K = ws.kernels;
+  if (K) K.phaseRows(zt.byteOffset, dRe.byteOffset, dIm.byteOffset, mRe.byteOffset, mIm.byteOffset, n);
+  else {
+    for (let c = 0; c < n; c++) {
+      const row = c * n;
+      for (let r = 0; r < n; r++) {
+        const z = zt[row + r];
+        mRe[row + r] = dRe[r] * z;
+        mIm[row + r] = dIm[r] * z;
+      }
     }
   }
   applyReflectors(mRe, mIm, n, vRe, vIm, betas, ws);
@@ -161,11 +165,18 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   const V = zeros(n, n);
   const Vr = V.re;
   const Vi = V.im;
-  for (let c = 0; c < n; c++) {
-    const row = c * n;
-    for (let r = 0; r < n; r++) {
-      Vr[r * n + c] = mRe[row + r];
-      Vi[r * n + c] = mIm[row + r];
+  if (K) {
+    // Transposed in the kernels' memory (into zt and vRe, no longer needed), then copied out.
+    K.transposePair(mRe.byteOffset, mIm.byteOffset, n, zt.byteOffset, vRe.byteOffset);
+    Vr.set(zt);
+    Vi.set(vRe);
+  } else {
+    for (let c = 0; c < n; c++) {
+      const row = c * n;
+      for (let r = 0; r < n; r++) {
+        Vr[r * n + c] = mRe[row + r];
+        Vi[r * n + c] = mIm[row + r];
+      }
     }
   }
   return { values, vectors: V };
@@ -593,7 +604,7 @@ class MergeWork {
     this.order = new Int32Array(n);
     this.colOrder = ws.i32(n);
     this.ptrs = ws.i32(n);
-    this.perm = new Int32Array(n);
+    this.perm = ws.i32(n);
   }
 }
 
@@ -829,9 +840,14 @@ function merge(
   // Sort all m eigenpairs ascending and write back.
   const perm = w.perm;
   sortIndices(vals, perm, m);
+  for (let i = 0; i < m; i++) d[s + i] = vals[perm[i]];
+  const K = w.kernels;
+  if (K) {
+    K.copyRows(out.byteOffset, perm.byteOffset, zt.byteOffset + 8 * (s * n + s), n, m);
+    return;
+  }
   for (let i = 0; i < m; i++) {
     const src = perm[i] * m;
-    d[s + i] = vals[perm[i]];
     const dst = (s + i) * n + s;
     for (let r = 0; r < m; r++) zt[dst + r] = out[src + r];
   }

@@ -813,3 +813,66 @@ export function tridiagonalize(
     prevBase = base;
   }
 }
+
+// ---------------------------------------------------------------------------------------------
+// Data movement around the kernels above.
+// ---------------------------------------------------------------------------------------------
+
+/** Row c of (mRe, mIm) = (dRe + i dIm) ∘ row c of zt, for the n rows of n entries. */
+export function phaseRows(zt: usize, dRe: usize, dIm: usize, mRe: usize, mIm: usize, n: i32): void {
+  const nb = (<usize>n) << 3;
+  for (let c = 0; c < n; c++) {
+    const row = (<usize>c) * nb;
+    let r = 0;
+    for (; r + 1 < n; r += 2) {
+      const o = (<usize>r) << 3;
+      const z = v128.load(zt + row + o);
+      v128.store(mRe + row + o, f64x2.mul(v128.load(dRe + o), z));
+      v128.store(mIm + row + o, f64x2.mul(v128.load(dIm + o), z));
+    }
+    if (r < n) {
+      const o = (<usize>r) << 3;
+      const z = load<f64>(zt + row + o);
+      store<f64>(mRe + row + o, load<f64>(dRe + o) * z);
+      store<f64>(mIm + row + o, load<f64>(dIm + o) * z);
+    }
+  }
+}
+
+/** (tRe, tIm) = transpose of (mRe, mIm), n x n, in 8 x 8 tiles. */
+export function transposePair(mRe: usize, mIm: usize, n: i32, tRe: usize, tIm: usize): void {
+  const nb = (<usize>n) << 3;
+  for (let c0 = 0; c0 < n; c0 += 8) {
+    const c1 = c0 + 8 < n ? c0 + 8 : n;
+    for (let r0 = 0; r0 < n; r0 += 8) {
+      const r1 = r0 + 8 < n ? r0 + 8 : n;
+      for (let c = c0; c < c1; c++) {
+        const src = (<usize>c) * nb;
+        const oc = (<usize>c) << 3;
+        for (let r = r0; r < r1; r++) {
+          const o = (<usize>r) << 3;
+          const dst = (<usize>r) * nb + oc;
+          store<f64>(tRe + dst, load<f64>(mRe + src + o));
+          store<f64>(tIm + dst, load<f64>(mIm + src + o));
+        }
+      }
+    }
+  }
+}
+
+/** Row i of dst (stride dstStride doubles) = row perm[i] (an i32 array) of src (stride m), m
+ *  entries each, for i < m. */
+export function copyRows(src: usize, perm: usize, dst: usize, dstStride: i32, m: i32): void {
+  const mb = (<usize>m) << 3;
+  const db = (<usize>dstStride) << 3;
+  for (let i = 0; i < m; i++) {
+    const s = src + (<usize>load<i32>(perm + ((<usize>i) << 2))) * mb;
+    const d = dst + (<usize>i) * db;
+    let r = 0;
+    for (; r + 1 < m; r += 2) {
+      const o = (<usize>r) << 3;
+      v128.store(d + o, v128.load(s + o));
+    }
+    if (r < m) store<f64>(d + ((<usize>r) << 3), load<f64>(s + ((<usize>r) << 3)));
+  }
+}
