@@ -16,7 +16,7 @@
  * with a safeguarded two-pole rational iteration (in the spirit of Li's "middle way", LAPACK
  * dlaed4), and build the eigenvectors of the rank-one update from the recomputed vector ẑ of Gu &
  * Eisenstat (SIAM J. Matrix Anal. Appl. 16 (1995) 172–191), which keeps them orthogonal to
- * working precision. Blocks of at most 24 rows are solved by QL with accumulated rotations.
+ * working precision. Blocks of at most 12 rows are solved by QL with accumulated rotations.
  *
  * Stage 3 forms V = Q D Z: the real tridiagonal eigenvectors Z, the phases D and the reflectors Q,
  * applied two eigenvectors at a time, reflectors in pairs (a two-reflector compact WY form), the
@@ -549,7 +549,7 @@ function applyReflectors(
 }
 
 /** Blocks at most this size are solved by QL with accumulated rotations. */
-const SMALL_BLOCK = 24;
+const SMALL_BLOCK = 12;
 
 /**
  * Eigen-decomposition of the symmetric tridiagonal matrix (d, e) by divide and conquer. On return
