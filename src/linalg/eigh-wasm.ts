@@ -13,8 +13,8 @@
  * a different order) to the same accuracy.
  *
  * What it does not do: share the memory between threads, or shrink it (it keeps the largest size
- * asked for, about 7n² doubles for the largest n seen: 3.7 MB at n = 256).
- * Cost: decoding and compiling about 6 kB of WebAssembly once, well under a millisecond.
+ * asked for, about 7n² + 24n doubles for the largest n seen: 3.7 MB at n = 256).
+ * Cost: decoding and compiling about 12 kB of WebAssembly once, well under a millisecond.
  */
 import { EIGH_KERNELS_WASM_BASE64 } from './wasm/eigh-kernels.wasm.js';
 

@@ -3,12 +3,18 @@
 // `npm run build`) into src/linalg/wasm/eigh-kernels.wasm.ts, which is committed so that tests and
 // browser bundles need no compiler; a test checks that the committed module equals a fresh compile.
 //
-// What it is for: the three loops that hold nearly all of eigh's O(n³) work, written with 128-bit
-// vectors of two doubles. The file has the extension .as (not .ts) so that the project's TypeScript
-// compiler does not try to type-check AssemblyScript's types (f64, usize, v128).
+// What it is for: the loops that hold nearly all of eigh's work, written with 128-bit vectors of
+// two doubles: the whole Householder reduction loop (its fused pass over pairs of rows), the
+// reflector pairs of the back-transformation, the O(k²) parts of each divide-and-conquer merge
+// (secular equation, Gu–Eisenstat ẑ, the normalised vectors of the rank-one update) and its matrix
+// product, and the data movement around them (phases, final transpose, merge write-back). The
+// extension is .as (not .ts) so that the project's TypeScript compiler does not try to type-check
+// AssemblyScript's types (f64, usize, v128).
 // What it deliberately does not do: allocate, throw, or call out; every argument is a byte address
 // into the memory that the host (src/linalg/eigh-wasm.ts) imports, or an index. No bounds checks
-// beyond WebAssembly's own: the host sizes the memory before each call.
+// beyond WebAssembly's own: the host sizes the memory before each call. The arithmetic follows the
+// scalar TypeScript of eigh.ts step for step (same algorithms, thresholds and stopping rules);
+// only the order of some sums differs.
 // Cost: the same flop counts as the scalar TypeScript loops they replace (see eigh.ts); each loop
 // runs over two consecutive indices per vector instruction, with a scalar tail for an odd count.
 //
@@ -16,9 +22,9 @@
 // a form that runs in both Node and browsers without a native build. AssemblyScript rather than
 // hand-written WebAssembly text: both compile on Node 20 from npm packages with no binary download,
 // and AssemblyScript's loops are far easier to read and check than stack code.
-// Measured against the scalar TypeScript loops (whole eigh, values and vectors, CPU-time medians of
-// interleaved runs in one process, shared 2-core machine): 1.8×, 2.2×, 2.9× faster at n = 64, 128,
-// 256 (0.99 vs 1.83 ms, 5.4 vs 11.6 ms, 35 vs 100 ms).
+// Measured against the scalar TypeScript path (whole eigh, values and vectors, CPU-time medians of
+// interleaved runs in one process, shared 2-core machine, bench/eigh.ts): 2.6–3.1× faster at
+// n = 64, 128 and 256.
 
 // ---------------------------------------------------------------------------------------------
 // Householder reduction: the fused pass over pairs of rows of the trailing lower triangle.
