@@ -50,6 +50,12 @@
  *   256   33.7|20.7 1.62   35.0|23.4 1.50   34.0|21.0 1.61    1.41   1.38   1.19
  * TS/SIMD 2.6–3.1×. The 2× goal holds in 8 of these 9 values-and-vectors measurements; the
  * exception (n = 128, 2.06) is a run where numpy's own median was 20% below its other two.
+ * A fourth run minutes later (load 1.9), in which numpy hit its quiet-machine times (0.44, 2.39,
+ * 17.6 ms) while ours stayed at 0.87, 4.87, 33.4 ms, gave 1.99, 2.04, 1.90 (values only 1.17,
+ * 1.61, 1.52). In a separate loop harness on a quieter moment rhosigma took 0.49–0.55 ms at
+ * n = 64 and 3.0–3.1 ms at 128, so much of the spread is the load during our part versus during
+ * numpy's part of the run, which are timed minutes apart; alternating the two in rounds would
+ * make the ratio steadier (not done yet).
  */
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
