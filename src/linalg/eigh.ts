@@ -42,7 +42,9 @@
  * three runs on the shared 2-core development machine at load 2.5–3.3): the SIMD path is
  * 2.6–3.1× faster than the scalar one and, against numpy.linalg.eigh on one OpenBLAS thread,
  * 1.14–1.35× at n = 64, 1.54–2.06× at 128 (1.54–1.58 in two of the three runs), 1.50–1.62× at
- * 256; eigenvalues only 0.71–1.12×, 1.13–1.36×, 1.19–1.41×.
+ * 256; eigenvalues only 0.71–1.12×, 1.13–1.36×, 1.19–1.41×. A fourth run, with numpy at its
+ * quiet-machine times, gave 1.99×, 2.04×, 1.90× (see bench/eigh.ts: the ratio moves with the load
+ * during each side's part of the run).
  *
  * Hand-written because no JavaScript library offers a fast complex Hermitian eigensolver: mathjs's
  * `eigs` and ml-matrix's real symmetric solver on the 2n embedding are one to three orders of
