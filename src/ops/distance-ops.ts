@@ -13,7 +13,7 @@
  * Deliberately not here: numerics (src/quantities), parsing details (codec.ts, expressions.ts).
  * Cost: that of the quantities, O(n³) each.
  */
-import { trace } from '../linalg/cmatrix.js';
+import { type CMatrix, trace } from '../linalg/cmatrix.js';
 import { RhoError } from '../errors.js';
 import { fidelity, generalizedFidelity } from '../quantities/fidelity.js';
 import { traceDistance, buresDistance, buresAngle } from '../quantities/distances.js';
@@ -38,6 +38,14 @@ function sameSize(a: { rows: number }, b: { rows: number }, pathB: string): void
   }
 }
 
+/** Reads the two density matrices `rho` and `sigma` of a pair op and checks they have one size. */
+function readStatePair(req: Record<string, unknown>, tolerance: number): { rho: CMatrix; sigma: CMatrix } {
+  const rho = readState(req.rho, 'rho', tolerance).matrix;
+  const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
+  sameSize(rho, sigma, 'sigma');
+  return { rho, sigma };
+}
+
 const pairArgs = {
   rho: { ...schemas.state, description: 'A density matrix.' },
   sigma: { ...schemas.state, description: 'A density matrix of the same size.' },
@@ -48,9 +56,7 @@ defineOp({
   summary: 'Uhlmann fidelity F(ρ,σ) = ‖√ρ√σ‖₁² (squared), with the root ‖√ρ√σ‖₁, from the singular values of √Λ V*U √M on both supports.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
   run(req, { tolerance }) {
-    const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
-    sameSize(rho, sigma, 'sigma');
+    const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
     const f = fidelity(rho, sigma, tol);
     return {
@@ -70,9 +76,7 @@ defineOp({
   summary: 'Trace distance ½‖ρ − σ‖₁, from the eigenvalues of the Hermitian difference.',
   args: { type: 'object', properties: pairArgs, required: ['rho', 'sigma'] },
   run(req, { tolerance }) {
-    const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
-    sameSize(rho, sigma, 'sigma');
+    const { rho, sigma } = readStatePair(req, tolerance);
     return { value: traceDistance(rho, sigma) };
   },
 });
@@ -82,9 +86,7 @@ defineOp({
   summary: 'Bures distance √(2(1 − √F)) with F the squared fidelity; also the Bures angle arccos √F and the root fidelity.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
   run(req, { tolerance }) {
-    const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
-    sameSize(rho, sigma, 'sigma');
+    const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
     const f = fidelity(rho, sigma, tol);
     return { value: buresDistance(rho, sigma, tol), angle: buresAngle(rho, sigma, tol), root: f.root, supportTolerance: tol };
@@ -132,9 +134,7 @@ defineOp({
     'Quantum Chernoff exponent ξ = −log min_{0≤s≤1} Tr ρ^s σ^{1−s} (powers on the supports), with the optimal s; Infinity with a reason for orthogonal supports.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
   run(req, { tolerance, base }) {
-    const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const sigma = readState(req.sigma, 'sigma', tolerance).matrix;
-    sameSize(rho, sigma, 'sigma');
+    const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
     const c = chernoffExponent(rho, sigma, { base, tol });
     const out: Record<string, unknown> & { value: unknown } = {
@@ -168,6 +168,34 @@ function readMetric(value: unknown, path: string): MetricFunction {
   return metricFromFunction(f, value, path);
 }
 
+/** Reads a Hermitian tangent vector at `rho` (same size as `rho`) from the argument `key`. */
+function readTangent(req: Record<string, unknown>, key: string, rho: CMatrix, tolerance: number): CMatrix {
+  const x = readHermitian(req[key], key, tolerance);
+  sameSize(rho, x, key);
+  return x;
+}
+
+/**
+ * The answer of a metric op: the value, the metric's name and the rank of ρ, the op's own fields, the
+ * support tolerance, then the reason for an infinite value and the warnings, when there are any.
+ */
+function metricAnswer(
+  r: { value: number; metric: string; rank: number; reason?: string; warnings: string[] },
+  fields: Record<string, unknown>,
+  tol: number,
+): Record<string, unknown> & { value: unknown } {
+  const out: Record<string, unknown> & { value: unknown } = {
+    value: writeNumber(r.value),
+    metric: r.metric,
+    rank: r.rank,
+    ...fields,
+    supportTolerance: tol,
+  };
+  if (r.reason) out.reason = r.reason;
+  if (r.warnings.length) out.warnings = r.warnings;
+  return out;
+}
+
 defineOp({
   name: 'monotone-metric',
   summary:
@@ -186,23 +214,12 @@ defineOp({
   },
   run(req, { tolerance }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const x = readHermitian(req.x, 'x', tolerance);
-    sameSize(rho, x, 'x');
-    const y = req.y === undefined ? x : readHermitian(req.y, 'y', tolerance);
-    sameSize(rho, y, 'y');
+    const x = readTangent(req, 'x', rho, tolerance);
+    const y = req.y === undefined ? x : readTangent(req, 'y', rho, tolerance);
     const metric = readMetric(req.metric, 'metric');
     const tol = readSupportTolerance(req);
     const g = monotoneMetric(rho, x, y, metric, { tol, restrictToSupport: req.restrictToSupport === true });
-    const out: Record<string, unknown> & { value: unknown } = {
-      value: writeNumber(g.value),
-      metric: g.metric,
-      rank: g.rank,
-      dropped: g.dropped,
-      supportTolerance: tol,
-    };
-    if (g.reason) out.reason = g.reason;
-    if (g.warnings.length) out.warnings = g.warnings;
-    return out;
+    return metricAnswer(g, { dropped: g.dropped }, tol);
   },
 });
 
@@ -223,20 +240,11 @@ defineOp({
   },
   run(req, { tolerance }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
-    const d = readHermitian(req.derivative, 'derivative', tolerance);
-    sameSize(rho, d, 'derivative');
+    const d = readTangent(req, 'derivative', rho, tolerance);
     const metric = readMetric(req.metric, 'metric');
     const tol = readSupportTolerance(req);
     const q = quantumFisherInformation(rho, d, { metric, tol });
-    const out: Record<string, unknown> & { value: unknown } = {
-      value: writeNumber(q.value),
-      metric: q.metric,
-      rank: q.rank,
-      kernelBlock: q.kernelBlock,
-      supportTolerance: tol,
-    };
-    if (q.reason) out.reason = q.reason;
-    if (q.warnings.length) out.warnings = q.warnings;
+    const out = metricAnswer(q, { kernelBlock: q.kernelBlock }, tol);
     if (req.sld === true) out.sld = writeMatrix(symmetricLogarithmicDerivative(rho, d, tol));
     return out;
   },

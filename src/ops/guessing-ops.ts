@@ -20,6 +20,26 @@ import { readChannel, readState, readSupportTolerance, schemas, supportTolerance
 
 const MAX_STATES = 256;
 
+/** Adds the solver's warning, when there is one, to an op answer. */
+function withWarning(out: { value: number } & Record<string, unknown>, warning: string | undefined): { value: number } & Record<string, unknown> {
+  if (warning) out.warning = warning;
+  return out;
+}
+
+/**
+ * The answer of an SDP op with checkable bounds: the value, the op's own fields, then bounds,
+ * certificate and diagnostics (and the warning, if any).
+ */
+function boundedAnswer(
+  r: { value: number; bounds: unknown; certificate: Parameters<typeof writeCertificate>[0]; diagnostics: unknown; warning?: string },
+  fields: Record<string, unknown>,
+): { value: number } & Record<string, unknown> {
+  return withWarning(
+    { value: r.value, ...fields, bounds: r.bounds, certificate: writeCertificate(r.certificate), diagnostics: r.diagnostics },
+    r.warning,
+  );
+}
+
 defineOp({
   name: 'guessing-probability',
   summary:
@@ -56,16 +76,7 @@ defineOp({
     }
     const states: CMatrix[] = list.map((s, k) => readState(s, `states[${k}]`, tolerance).matrix);
     const g = guessingProbability(probabilities, states, { tolerance });
-    const out: Record<string, unknown> = {
-      value: g.value,
-      measurement: g.measurement.map(writeMatrix),
-      dual: writeMatrix(g.dual),
-      bounds: g.bounds,
-      certificate: writeCertificate(g.certificate),
-      diagnostics: g.diagnostics,
-    };
-    if (g.warning) out.warning = g.warning;
-    return out as { value: number } & Record<string, unknown>;
+    return boundedAnswer(g, { measurement: g.measurement.map(writeMatrix), dual: writeMatrix(g.dual) });
   },
 });
 
@@ -87,17 +98,11 @@ defineOp({
     // Trace preservation is checked at 1e-9 or the request's tolerance, whichever is looser, since Kraus
     // operators typed with a dozen digits rarely sum to the identity better than that.
     const d = diamondDistance(a, b, { tolerance: Math.max(tolerance, 1e-9) });
-    const out: Record<string, unknown> = {
-      value: d.value,
+    return boundedAnswer(d, {
       input: writeMatrix(d.input),
       // |ψ⟩ = Σ_i |i⟩ ⊗ √σ|i⟩ on (channel input) ⊗ (reference), as a column.
       purification: writeMatrix(d.purification),
-      bounds: d.bounds,
-      certificate: writeCertificate(d.certificate),
-      diagnostics: d.diagnostics,
-    };
-    if (d.warning) out.warning = d.warning;
-    return out as { value: number } & Record<string, unknown>;
+    });
   },
 });
 
@@ -124,16 +129,17 @@ defineOp({
     }
     const tol = readSupportTolerance(req);
     const f = fidelitySdp(rho, sigma, { tol });
-    const out: Record<string, unknown> = {
-      value: f.value,
-      root: f.root,
-      offDiagonal: writeMatrix(f.offDiagonal),
-      // Objectives of the certificate are those of the root fidelity √F.
-      certificate: writeCertificate(f.certificate),
-      rankRho: f.rankRho,
-      rankSigma: f.rankSigma,
-    };
-    if (f.warning) out.warning = f.warning;
-    return out as { value: number } & Record<string, unknown>;
+    return withWarning(
+      {
+        value: f.value,
+        root: f.root,
+        offDiagonal: writeMatrix(f.offDiagonal),
+        // Objectives of the certificate are those of the root fidelity √F.
+        certificate: writeCertificate(f.certificate),
+        rankRho: f.rankRho,
+        rankSigma: f.rankSigma,
+      },
+      f.warning,
+    );
   },
 });
