@@ -14,29 +14,11 @@ import {
 } from '../../src/linalg/index.js';
 import { setEighWasmEnabled, eighWasmStatus } from '../../src/linalg/eigh-wasm.js';
 import { randomHermitian, rng, randomDensity } from '../helpers/random.js';
+import { numpyEigvalsh, numpySkip, numpyVersion } from '../helpers/numpy-eigvalsh.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '../..');
 
-function numpyAvailable(): boolean {
-  return spawnSync('/usr/bin/python3', ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0;
-}
-const NUMPY = numpyAvailable();
-
-/** numpy.linalg.eigvalsh of each matrix (ascending), computed by /usr/bin/python3. */
-function numpyEigvalsh(ms: CMatrix[]): number[][] {
-  const payload = JSON.stringify(ms.map((m) => ({ n: m.rows, re: Array.from(m.re), im: Array.from(m.im) })));
-  const code = [
-    'import json, sys, numpy as np',
-    'out = []',
-    'for m in json.load(sys.stdin):',
-    "    a = (np.array(m['re']) + 1j * np.array(m['im'])).reshape(m['n'], m['n'])",
-    '    out.append(np.linalg.eigvalsh(a).tolist())',
-    'print(json.dumps(out))',
-  ].join('\n');
-  const r = spawnSync('/usr/bin/python3', ['-c', code], { input: payload, encoding: 'utf8', maxBuffer: 1 << 26 });
-  if (r.status !== 0) throw new Error(`numpy reference failed: ${r.stderr}`);
-  return JSON.parse(r.stdout) as number[][];
-}
+const NUMPY = numpyVersion();
 
 function unitary(n: number, r: () => number): CMatrix {
   return eigh(randomHermitian(n, r)).vectors!;
@@ -107,7 +89,7 @@ describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', ()
 
   it(
     'both paths agree with numpy.linalg.eigvalsh (Debian python3-numpy, LAPACK) within 1e-12·n·‖H‖',
-    { skip: !NUMPY && process.env.CI !== 'true' ? '/usr/bin/python3 with numpy not available (under CI=true this fails instead)' : false },
+    { skip: numpySkip(NUMPY) },
     () => {
       const ms = cases().map(([, h]) => h).filter((h) => h.rows >= 24 && operatorNorm(h) < 1e100);
       const ref = numpyEigvalsh(ms);

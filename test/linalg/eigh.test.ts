@@ -7,31 +7,10 @@ import assert from 'node:assert/strict';
 import {
   CMatrix, eigh, mul, adjoint, sub, identity, frobeniusNorm, zeros, diagonal, scale, operatorNorm,
 } from '../../src/linalg/index.js';
-import { spawnSync } from 'node:child_process';
 import { randomHermitian, rng, randomComplex, randomDensity } from '../helpers/random.js';
+import { numpyEigvalsh, numpySkip, numpyVersion } from '../helpers/numpy-eigvalsh.js';
 
-/** numpy's version from Debian's interpreter, or null when it cannot be run. */
-function numpyVersion(): string | null {
-  const r = spawnSync('/usr/bin/python3', ['-c', 'import numpy; print(numpy.__version__)'], { encoding: 'utf8' });
-  return r.status === 0 ? r.stdout.trim() : null;
-}
 const NUMPY = numpyVersion();
-
-/** numpy.linalg.eigvalsh of each matrix (ascending), computed by /usr/bin/python3. */
-function numpyEigvalsh(ms: CMatrix[]): number[][] {
-  const payload = JSON.stringify(ms.map((m) => ({ n: m.rows, re: Array.from(m.re), im: Array.from(m.im) })));
-  const code = [
-    'import json, sys, numpy as np',
-    'out = []',
-    'for m in json.load(sys.stdin):',
-    "    a = (np.array(m['re']) + 1j * np.array(m['im'])).reshape(m['n'], m['n'])",
-    '    out.append(np.linalg.eigvalsh(a).tolist())',
-    'print(json.dumps(out))',
-  ].join('\n');
-  const r = spawnSync('/usr/bin/python3', ['-c', code], { input: payload, encoding: 'utf8', maxBuffer: 1 << 26 });
-  if (r.status !== 0) throw new Error(`numpy reference failed: ${r.stderr}`);
-  return JSON.parse(r.stdout) as number[][];
-}
 
 /** Direct sum diag(a, b). */
 function directSum(a: CMatrix, b: CMatrix): CMatrix {
@@ -147,7 +126,7 @@ describe('Hermitian eigensolver', () => {
     check(w, 'Wilkinson W+ 101');
   });
 
-  it(`agrees with numpy.linalg.eigvalsh (Debian python3-numpy ${NUMPY ?? 'not available'}, LAPACK) on random matrices, with and without vectors`, { skip: NUMPY === null && process.env.CI !== 'true' ? '/usr/bin/python3 with numpy not available (under CI=true this fails instead)' : false }, () => {
+  it(`agrees with numpy.linalg.eigvalsh (Debian python3-numpy ${NUMPY ?? 'not available'}, LAPACK) on random matrices, with and without vectors`, { skip: numpySkip(NUMPY) }, () => {
     const r = rng(15);
     const ms: CMatrix[] = [];
     for (const n of [5, 24, 25, 60, 128, 200]) ms.push(randomHermitian(n, r));
