@@ -38,14 +38,10 @@ import { krausToChoi } from '../src/quantum/channels.js';
 import { solveSdp } from '../src/sdp/index.js';
 import { guessingProbability, guessingProblem } from '../src/oneshot/guessing.js';
 import { diamondDistance, diamondProblem } from '../src/oneshot/diamond.js';
+import { median, timeCalls, warmUp } from './timing.js';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guessing.py`;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
 
 /** Deterministic pseudo-random numbers (Park–Miller), so both sides see the same data. */
 function lcg(seed: number): () => number {
@@ -75,26 +71,6 @@ function randomState(d: number, r: () => number): CMatrix {
 const WARM_CALLS = 30;
 const WARM_MS = 1000;
 
-/** Call fn until at least WARM_CALLS calls and WARM_MS ms have passed; returns the first call's time. */
-function warmUp(fn: () => unknown): number {
-  const t0 = performance.now();
-  fn();
-  const first = performance.now() - t0;
-  for (let k = 1; k < WARM_CALLS || performance.now() - t0 < WARM_MS; k++) fn();
-  return first;
-}
-
-/** Median time of k calls. */
-function timeCalls(fn: () => unknown, k: number): number {
-  const ts: number[] = [];
-  for (let r = 0; r < k; r++) {
-    const t0 = performance.now();
-    fn();
-    ts.push(performance.now() - t0);
-  }
-  return median(ts);
-}
-
 interface Reference {
   cvxopt: string;
   guessing: { value: number; seconds: number; iterations: number }[];
@@ -123,8 +99,8 @@ export default async function bench(argv: string[]): Promise<void> {
     { name: 'p_guess, 6 states, d = 4', full: () => guessingProbability(probs, states), solve: () => solveSdp(guessProblem) },
     { name: '½‖N − M‖_⋄, qubit channels', full: () => diamondDistance(a, b), solve: () => solveSdp(diamondSdp) },
   ];
-  const first = cases.map((cs) => warmUp(cs.full));
-  cases.forEach((cs) => warmUp(cs.solve));
+  const first = cases.map((cs) => warmUp(cs.full, WARM_CALLS, WARM_MS));
+  cases.forEach((cs) => warmUp(cs.solve, WARM_CALLS, WARM_MS));
   const g = guessingProbability(probs, states);
   const d = diamondDistance(a, b);
 

@@ -32,36 +32,12 @@ import { scale, trace, toRows, type CMatrix } from '../src/linalg/index.js';
 import { solveSdp } from '../src/sdp/index.js';
 import { hypothesisTestingDivergence, hypothesisTestingProblem } from '../src/oneshot/hypothesis-testing.js';
 import { randomDensity, rng } from '../test/helpers/random.js';
+import { median, timeCalls, warmUp } from './timing.js';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_oneshot.py`;
 const WARM_CALLS = 12;
 const WARM_MS = 1000;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
-/** Call fn until at least WARM_CALLS calls and WARM_MS ms have passed; returns the first call's time. */
-function warmUp(fn: () => unknown): number {
-  const t0 = performance.now();
-  fn();
-  const first = performance.now() - t0;
-  for (let k = 1; k < WARM_CALLS || performance.now() - t0 < WARM_MS; k++) fn();
-  return first;
-}
-
-/** Median time of k calls. */
-function timeCalls(fn: () => unknown, k: number): number {
-  const ts: number[] = [];
-  for (let r = 0; r < k; r++) {
-    const t0 = performance.now();
-    fn();
-    ts.push(performance.now() - t0);
-  }
-  return median(ts);
-}
 
 interface Instance {
   d: number;
@@ -94,8 +70,8 @@ export default async function run(flags: string[]): Promise<void> {
     const problem = hypothesisTestingProblem(inst.rho, scale(inst.sigma, 1 / trace(inst.sigma).re), inst.epsilon);
     return { full: () => hypothesisTestingDivergence(inst.rho, inst.sigma, inst.epsilon), solve: () => solveSdp(problem) };
   });
-  const first = cases.map((c) => warmUp(c.full));
-  cases.forEach((c) => warmUp(c.solve));
+  const first = cases.map((c) => warmUp(c.full, WARM_CALLS, WARM_MS));
+  cases.forEach((c) => warmUp(c.solve, WARM_CALLS, WARM_MS));
   const answers = cases.map((c) => c.full());
   console.log(
     `D_H^ε(ρ‖σ), ε = 0.1, random full-rank non-commuting states: ours end to end vs cvxopt.solvers.sdp, ${rounds} interleaved ` +

@@ -1,6 +1,7 @@
 /**
- * Runs the benchmark modules in bench/: every bench/*.ts except this file, in name order. Each
- * module exports a default async function taking the remaining command-line arguments.
+ * Runs the benchmark modules in bench/: every bench/*.ts except this file and the helper modules in
+ * HELPERS, in name order. Each benchmark module exports a default async function taking the
+ * remaining command-line arguments.
  *
  * Usage: npm run bench [-- <filter> ...] [-- --slow]
  *   <filter>  run only modules whose file name contains one of the given substrings (e.g. `eigh`).
@@ -13,11 +14,13 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 import { dirname, join } from 'node:path';
 
 const here = dirname(fileURLToPath(import.meta.url));
+/** Modules of bench/ that benchmarks import and that are not benchmarks themselves. */
+const HELPERS = new Set(['run.ts', 'timing.ts']);
 const args = process.argv.slice(2);
 const filters = args.filter((a) => !a.startsWith('--'));
 const flags = args.filter((a) => a.startsWith('--'));
 const modules = readdirSync(here)
-  .filter((f) => f.endsWith('.ts') && f !== 'run.ts' && !f.endsWith('.d.ts'))
+  .filter((f) => f.endsWith('.ts') && !HELPERS.has(f) && !f.endsWith('.d.ts'))
   .filter((f) => filters.length === 0 || filters.some((s) => f.includes(s)))
   .sort();
 if (modules.length === 0) {
