@@ -10,38 +10,22 @@ import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 import {
-  CMatrix, eigh, mul, adjoint, sub, identity, frobeniusNorm, zeros, diagonal, scale, operatorNorm,
+  CMatrix, eigh, mul, adjoint, zeros, diagonal, scale, operatorNorm,
 } from '../../src/linalg/index.js';
 import { setEighWasmEnabled, eighWasmStatus } from '../../src/linalg/eigh-wasm.js';
 import { randomHermitian, rng, randomDensity } from '../helpers/random.js';
-import { numpyEigvalsh, numpySkip, numpyVersion } from '../helpers/numpy-eigvalsh.js';
+import { eighContract, numpyEigvalsh, numpySkip, numpyVersion, randomUnitary } from '../helpers/eigh-reference.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '../..');
 
 const NUMPY = numpyVersion();
-
-function unitary(n: number, r: () => number): CMatrix {
-  return eigh(randomHermitian(n, r)).vectors!;
-}
-
-function contract(h: CMatrix, label: string): void {
-  const n = h.rows;
-  const { values, vectors } = eigh(h);
-  const V = vectors!;
-  const norm = Math.max(operatorNorm(h), Number.MIN_VALUE);
-  const residual = frobeniusNorm(sub(mul(h, V), mul(V, diagonal(values))));
-  const orth = frobeniusNorm(sub(mul(adjoint(V), V), identity(n)));
-  assert.ok(residual <= 1e-12 * n * norm, `${label}: residual ${residual} vs ${1e-12 * n * norm}`);
-  assert.ok(orth <= 1e-12 * n, `${label}: orthogonality ${orth}`);
-  for (let i = 1; i < n; i++) assert.ok(values[i - 1] <= values[i], `${label}: eigenvalues not ascending`);
-}
 
 /** Test matrices covering odd and even sizes, deflation, splitting and scaling. */
 function cases(): [string, CMatrix][] {
   const r = rng(21);
   const out: [string, CMatrix][] = [];
   for (const n of [1, 2, 3, 4, 5, 7, 24, 25, 33, 64, 101, 128, 200]) out.push([`random n=${n}`, randomHermitian(n, r)]);
-  const U = unitary(97, r);
+  const U = randomUnitary(97, r);
   out.push(['two eigenvalues n=97', mul(mul(U, diagonal(Array.from({ length: 97 }, (_, i) => (i % 2 ? 1 : -2)))), adjoint(U))]);
   out.push(['clustered n=97', mul(mul(U, diagonal(Array.from({ length: 97 }, (_, i) => 1 + 1e-13 * i))), adjoint(U))]);
   out.push(['rank-5 density matrix n=96', randomDensity(96, r, 5)]);
@@ -83,7 +67,7 @@ describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', ()
     it(`${path}: residual and orthogonality within 1e-12·n·‖H‖ on random, degenerate, clustered, low-rank, scaled and Wilkinson matrices`, () => {
       setEighWasmEnabled(on);
       assert.equal(eighWasmStatus().active, on);
-      for (const [label, h] of cases()) contract(h, `${path}, ${label}`);
+      for (const [label, h] of cases()) eighContract(h, `${path}, ${label}`);
     });
   }
 
