@@ -35,6 +35,8 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix, solvers
 
+from embedding import embed, hermitian_basis
+
 
 # ----------------------------------------------------------------------------------------------
 # Plain data
@@ -89,30 +91,6 @@ def choi(kraus):
 
 # ----------------------------------------------------------------------------------------------
 # Linear matrix inequalities in cvxopt's form  h - G x  in the PSD cone
-
-def embed(a):
-    return np.block([[a.real, -a.imag], [a.imag, a.real]])
-
-
-def hermitian_basis(n):
-    """Real coordinates of an n x n Hermitian matrix: the basis matrices E_c with H = sum_c x_c E_c."""
-    out = []
-    for i in range(n):
-        for j in range(i, n):
-            if i == j:
-                e = np.zeros((n, n), dtype=complex)
-                e[i, i] = 1
-                out.append(e)
-            else:
-                e = np.zeros((n, n), dtype=complex)
-                e[i, j] = e[j, i] = 1
-                out.append(e)
-                e = np.zeros((n, n), dtype=complex)
-                e[i, j] = 1j
-                e[j, i] = -1j
-                out.append(e)
-    return out
-
 
 def lmi(const, coeffs, nvars):
     """F(x) = const + sum_i x_i coeffs[i] >= 0, coeffs a dict {variable index: matrix}: (G, h)."""

@@ -30,36 +30,13 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix, solvers
 
-
-def embed(h):
-    """The real embedding [[Re H, -Im H], [Im H, Re H]] of a complex matrix."""
-    return np.block([[h.real, -h.imag], [h.imag, h.real]])
-
-
-def coordinate_basis(d):
-    """Hermitian B_k with Y = sum_k x_k B_k for x the real coordinates of Y (rhosigma's matrixCoordinates order)."""
-    out = []
-    for i in range(d):
-        for j in range(i, d):
-            if i == j:
-                b = np.zeros((d, d), dtype=complex)
-                b[i, i] = 1
-                out.append(b)
-            else:
-                b = np.zeros((d, d), dtype=complex)
-                b[i, j] = b[j, i] = 1
-                out.append(b)
-                b = np.zeros((d, d), dtype=complex)
-                b[i, j] = 1j
-                b[j, i] = -1j
-                out.append(b)
-    return out
+from embedding import embed, hermitian_basis
 
 
 def guesswork(p, rhos, k):
     n = len(p)
     d = rhos[0].shape[0]
-    basis = coordinate_basis(d)
+    basis = hermitian_basis(d)
     c = matrix([-float(np.trace(b).real) for b in basis])
     gs, hs = [], []
     for order in itertools.permutations(range(n)):

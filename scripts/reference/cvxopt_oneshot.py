@@ -34,6 +34,8 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix, solvers
 
+from embedding import embed, hermitian_basis
+
 
 # ----------------------------------------------------------------------------------------------
 # Building blocks
@@ -43,30 +45,6 @@ def rand_state(rng, n, rank=None):
     g = rng.standard_normal((n, k)) + 1j * rng.standard_normal((n, k))
     p = g @ g.conj().T
     return p / np.trace(p).real
-
-
-def embed(h):
-    return np.block([[h.real, -h.imag], [h.imag, h.real]])
-
-
-def herm_basis(d):
-    """Hermitian B_c with H = sum_c x_c B_c, x the real coordinates of H."""
-    out = []
-    for i in range(d):
-        for j in range(i, d):
-            e = np.zeros((d, d), dtype=complex)
-            if i == j:
-                e[i, i] = 1
-                out.append(e)
-                continue
-            e[i, j] = 1
-            e[j, i] = 1
-            out.append(e)
-            f = np.zeros((d, d), dtype=complex)
-            f[i, j] = 1j
-            f[j, i] = -1j
-            out.append(f)
-    return out
 
 
 def complex_basis(r, c):
@@ -84,7 +62,7 @@ def complex_basis(r, c):
 
 
 def hermitian_from(x, d):
-    return sum(xc * b for xc, b in zip(x, herm_basis(d)))
+    return sum(xc * b for xc, b in zip(x, hermitian_basis(d)))
 
 
 def rows(m):
@@ -142,7 +120,7 @@ def solve(c, lmi, gl=None, hl=None, a=None, b=None, ladder=(1e-10, 1e-9, 1e-8, 1
 def hypothesis_testing_problem(rho, sigma, eps):
     """cvxopt data (c, lmi, Gl, hl) of the D_H^eps SDP over the real coordinates of L."""
     d = rho.shape[0]
-    basis = herm_basis(d)
+    basis = hermitian_basis(d)
     nv = len(basis)
     lmi = Lmi(nv)
     lmi.add(np.zeros((d, d)), {i: -b for i, b in enumerate(basis)})  # L >= 0
@@ -160,7 +138,7 @@ def hypothesis_testing(rho, sigma, eps, ladder=(1e-10, 1e-9, 1e-8, 1e-7)):
 
 
 def min_entropy(rho_ab, da, db):
-    basis = herm_basis(db)
+    basis = hermitian_basis(db)
     lmi = Lmi(len(basis))
     lmi.add(-rho_ab, {i: -np.kron(np.eye(da), b) for i, b in enumerate(basis)})  # I (x) s - rho >= 0
     c = [np.trace(b).real for b in basis]
@@ -171,7 +149,7 @@ def min_entropy(rho_ab, da, db):
 
 def max_entropy(rho_ab, da, db):
     n = da * db
-    hb = herm_basis(db)
+    hb = hermitian_basis(db)
     cb = complex_basis(n, n)
     nv = len(hb) + len(cb)
     coeffs = {}
@@ -201,7 +179,7 @@ def max_entropy(rho_ab, da, db):
 
 def smooth_max(rho, sigma, eps):
     n = rho.shape[0]
-    hb = herm_basis(n)
+    hb = hermitian_basis(n)
     cb = complex_basis(n, n)
     # variables: lambda, coordinates of r (the smoothed state), entries of X
     i_l, i_r, i_x = 0, 1, 1 + len(hb)
@@ -240,7 +218,7 @@ def smooth_max(rho, sigma, eps):
 
 def max_information(rho_ab, da, db):
     rho_a = np.trace(rho_ab.reshape(da, db, da, db), axis1=1, axis2=3)
-    basis = herm_basis(db)
+    basis = hermitian_basis(db)
     lmi = Lmi(len(basis))
     lmi.add(-rho_ab, {i: -np.kron(rho_a, b) for i, b in enumerate(basis)})  # rho_A (x) s - rho_AB >= 0
     c = [np.trace(b).real for b in basis]
