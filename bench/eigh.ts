@@ -3,7 +3,7 @@
  *
  * Compares, for n = 64, 128, 256 on random complex Hermitian matrices (values and vectors):
  *  - numpy.linalg.eigh (LAPACK zheevd through OpenBLAS, single thread), measured in the same run by
- *    scripts/reference/numpy_eigh_bench.py under /usr/bin/python3 with OPENBLAS_NUM_THREADS=1;
+ *    scripts/reference/numpy_eigh_bench.py under .venv/bin/python with OPENBLAS_NUM_THREADS=1;
  *  - ml-matrix EigenvalueDecomposition of the real symmetric embedding [[Re, -Im], [Im, Re]] (2n);
  *  - mathjs `eigs` on the same real embedding (its complex route is slower still: about 49 s for a
  *    single n = 64 call on the development machine). mathjs is timed at n = 64 only unless `--slow`
@@ -58,6 +58,7 @@
  * make the ratio steadier (not done yet).
  */
 import { spawnSync } from 'node:child_process';
+import { PYTHON } from '../test/helpers/python.js';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 import { create, all } from 'mathjs';
@@ -148,7 +149,7 @@ function runNumpy(sizes: number[]): NumpyTimes | string {
   const env: NodeJS.ProcessEnv = { ...process.env, OPENBLAS_NUM_THREADS: '1' };
   delete env.OPENBLAS_CORETYPE;
   delete env.OPENBLAS_L2_SIZE;
-  const r = spawnSync('/usr/bin/python3', [join(root, 'scripts/reference/numpy_eigh_bench.py'), ...sizes.map(String)], {
+  const r = spawnSync(PYTHON, [join(root, 'scripts/reference/numpy_eigh_bench.py'), ...sizes.map(String)], {
     env,
     encoding: 'utf8',
   });

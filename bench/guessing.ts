@@ -14,7 +14,7 @@
  *  - cvxopt: scripts/reference/cvxopt_guessing.py --solve-stdin --time k --tolerance 1e-8 times only
  *    the call to cvxopt.solvers.sdp (with its cvxopt.matrix conversion) on the dual problem it builds
  *    with numpy; building that problem is EXCLUDED. abstol = reltol = feastol = 1e-8 and no loosening
- *    retries (a failed attempt would otherwise count); /usr/bin/python3 with OPENBLAS_NUM_THREADS=1.
+ *    retries (a failed attempt would otherwise count); .venv/bin/python with OPENBLAS_NUM_THREADS=1.
  *
  * HOW: ours is timed in steady state. V8 compiles the solver's hot functions only after they have
  * run for a while: in a fresh process the first call of a quantity takes ~100× its steady time and
@@ -30,6 +30,7 @@
  * Usage: npm run bench -- guessing [-- --slow]   (--slow: more rounds)
  */
 import { spawnSync } from 'node:child_process';
+import { PYTHON } from '../test/helpers/python.js';
 import { fileURLToPath } from 'node:url';
 import { adjoint, hermitianPart, mul, scale, sub, toRows, zeros, type CMatrix } from '../src/linalg/index.js';
 import { amplitudeDamping } from '../src/quantum/presets.js';
@@ -116,7 +117,7 @@ export default async function bench(argv: string[]): Promise<void> {
   const ratios = cases.map(() => [] as number[]);
   let ref: Reference | null = null;
   for (let round = 0; round < rounds; round++) {
-    const run = spawnSync('/usr/bin/python3', [script, '--solve-stdin', '--time', String(k), '--tolerance', '1e-8'], {
+    const run = spawnSync(PYTHON, [script, '--solve-stdin', '--time', String(k), '--tolerance', '1e-8'], {
       input,
       encoding: 'utf8',
       env: { ...process.env, OPENBLAS_NUM_THREADS: '1' },

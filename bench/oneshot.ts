@@ -9,7 +9,7 @@
  *    certificate); beside it, for reference, the solve alone of the very problem it builds
  *    (hypothesisTestingProblem, built once). Our tolerances are the defaults, gapTolerance =
  *    feasibilityTolerance = 1e-8.
- *  - cvxopt: /usr/bin/python3 with OPENBLAS_NUM_THREADS=1 runs scripts/reference/cvxopt_oneshot.py
+ *  - cvxopt: .venv/bin/python with OPENBLAS_NUM_THREADS=1 runs scripts/reference/cvxopt_oneshot.py
  *    --solve-hypothesis-stdin, which builds its own (independent) formulation once — building is
  *    EXCLUDED from its time — and times only solvers.sdp with time.perf_counter(), at abstol = reltol
  *    = feastol = 1e-8 (the two solvers define their tolerances differently, so the accuracies are
@@ -27,6 +27,7 @@
  * Usage: npm run bench -- oneshot [-- --slow]   (--slow: more rounds)
  */
 import { spawnSync } from 'node:child_process';
+import { PYTHON } from '../test/helpers/python.js';
 import { fileURLToPath } from 'node:url';
 import { scale, trace, toRows, type CMatrix } from '../src/linalg/index.js';
 import { solveSdp } from '../src/sdp/index.js';
@@ -50,7 +51,7 @@ type Reference = { cvxopt: string; results: { value: number; seconds: number; it
 
 function cvxoptRound(instances: Instance[], repeats: number): Reference | string {
   const cases = instances.map((i) => ({ rho: toRows(i.rho), sigma: toRows(i.sigma), epsilon: i.epsilon }));
-  const r = spawnSync('/usr/bin/python3', [script, '--solve-hypothesis-stdin'], {
+  const r = spawnSync(PYTHON, [script, '--solve-hypothesis-stdin'], {
     input: JSON.stringify({ cases, repeats, tolerance: 1e-8 }),
     encoding: 'utf8',
     env: { ...process.env, OPENBLAS_NUM_THREADS: '1' },

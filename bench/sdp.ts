@@ -3,7 +3,7 @@
  *
  * 1. Our solver against cvxopt.solvers.sdp on the problem shapes of scripts/reference/cvxopt_sdp.py
  *    (real, Hermitian-in-embedding, orthant, many small blocks, partial trace), measured in this run:
- *    cvxopt through /usr/bin/python3 with OPENBLAS_NUM_THREADS=1 (its own timer around the solve,
+ *    cvxopt through .venv/bin/python with OPENBLAS_NUM_THREADS=1 (its own timer around the solve,
  *    excluding interpreter start-up), ours with performance.now() around solveSdp. Medians per shape.
  * 2. Many 2×2 blocks (5,000 / 10,000 / 20,000; add --slow for 40,000): each block has its own
  *    trace constraint and all are coupled by one global row, the structure the Schur complement's
@@ -16,6 +16,7 @@
  * Flags: --quantities (only part 0), --repeats=N (default 5), --slow (adds 40,000 blocks).
  */
 import { spawnSync } from 'node:child_process';
+import { PYTHON } from '../test/helpers/python.js';
 import { fileURLToPath } from 'node:url';
 import { solveSdp, matrixCoordinates, coordinateEntry, type SdpProblem, type Constraint, type Entry, type BlockTerm } from '../src/sdp/index.js';
 import { adjoint, matrixPower, mul, scale, sub, toRows, zeros, type CMatrix } from '../src/linalg/index.js';
@@ -190,7 +191,7 @@ export function quantityShapes(): { shape: string; problem: SdpProblem }[] {
 
 function cvxoptSolve(problems: SdpProblem[], repeats: number, tolerance?: number): { cvxopt: string; results: { optimal: number; seconds: number; iterations: number }[] } | null {
   const tol = tolerance === undefined ? [] : ['--timing-tolerance', String(tolerance)];
-  const r = spawnSync('/usr/bin/python3', [script, '--solve-stdin', '--time', String(repeats), ...tol], {
+  const r = spawnSync(PYTHON, [script, '--solve-stdin', '--time', String(repeats), ...tol], {
     input: JSON.stringify({ problems }),
     encoding: 'utf8',
     env,
@@ -263,7 +264,7 @@ export default async function bench(argv: string[]): Promise<void> {
   compareQuantityShapes(repeats);
   if (argv.includes('--quantities')) return;
   console.log('\nRandom feasible SDPs of scripts/reference/cvxopt_sdp.py (cvxopt at its 1e-10 → 1e-8 tolerance ladder)');
-  const gen = spawnSync('/usr/bin/python3', [script, '--seed', '99', '--count', '18', '--time', String(repeats), '--out', '-'], {
+  const gen = spawnSync(PYTHON, [script, '--seed', '99', '--count', '18', '--time', String(repeats), '--out', '-'], {
     encoding: 'utf8',
     env,
     maxBuffer: 1 << 28,

@@ -1,22 +1,36 @@
 #!/usr/bin/env bash
-# Installs everything a new machine needs to run and test rhosigma:
-# the Debian packages behind the reference checks (numpy, scipy, cvxopt), Debian's Chromium for the
-# real-browser test (test/browser; playwright-core drives it and never downloads a browser of its own)
-# and the npm packages, then builds the TypeScript. Safe to run again; it installs only what is missing.
+# Installs everything a new machine needs to run and test rhosigma, and nothing by hand:
+#  - Debian's Chromium, for the real-browser tests (playwright-core drives it; no test tool ever
+#    downloads a browser of its own). Debian is used only for what PyPI and npm do not carry.
+#  - one Python virtual environment in the checkout (.venv) from the pinned requirements.txt: JupyterLab,
+#    ipywidgets, the kernel, numpy/scipy/cvxopt/mpmath for the reference checks, pandas, Dask, pytest, nbclient;
+#  - the npm packages (npm ci from package-lock.json), then the build.
+# Safe to run again: each step runs only when what it installs is missing or out of date.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-debs=(python3-numpy python3-scipy python3-cvxopt python3-pytest libopenblas0-pthread chromium)
+SUDO=""
+[ "$(id -u)" -eq 0 ] || SUDO="sudo"
+
+debs=(chromium)
 missing=()
 for p in "${debs[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q 'install ok installed' || missing+=("$p")
 done
 if [ ${#missing[@]} -gt 0 ]; then
   echo "setup: installing Debian packages: ${missing[*]}"
-  SUDO=""
-  [ "$(id -u)" -eq 0 ] || SUDO="sudo"
   $SUDO apt-get update -qq
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq "${missing[@]}" >/dev/null
+fi
+
+# The Python environment: recreated only when requirements.txt changed (its hash is kept in the venv).
+want="$(sha256sum requirements.txt | cut -d' ' -f1)"
+have="$(cat .venv/.requirements-sha256 2>/dev/null || true)"
+if [ ! -x .venv/bin/python ] || [ "$want" != "$have" ]; then
+  echo "setup: creating the Python environment .venv from requirements.txt"
+  [ -x .venv/bin/python ] || python3 -m venv .venv
+  .venv/bin/python -m pip install -q --disable-pip-version-check -r requirements.txt
+  echo "$want" > .venv/.requirements-sha256
 fi
 
 if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then

@@ -3,14 +3,14 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/setup.sh
-# The reference checks need Debian's numpy, scipy, cvxopt and pytest; fail loudly rather than let a
-# suite skip when they are missing.
-/usr/bin/python3 -c 'import numpy, scipy, cvxopt, pytest' || {
-  echo "test: /usr/bin/python3 lacks numpy/scipy/cvxopt/pytest; scripts/setup.sh should have installed them" >&2
+# The reference checks need numpy, scipy, cvxopt, mpmath and pytest in .venv; fail loudly rather than
+# let a suite skip when they are missing.
+.venv/bin/python -c 'import numpy, scipy, cvxopt, mpmath, pytest' || {
+  echo "test: .venv lacks numpy/scipy/cvxopt/mpmath/pytest; scripts/setup.sh should have installed them" >&2
   exit 1
 }
 npm run --silent typecheck
 # The Python kernel bridge against the built command (setup.sh built dist/).
-(cd kernel-bridge && /usr/bin/python3 -m pytest -q -p no:cacheprovider tests)
+(cd kernel-bridge && ../.venv/bin/python -m pytest -q -p no:cacheprovider tests)
 # Every TypeScript suite (Node's test runner; its summary closes the output).
 node scripts/run-tests.mjs "$@"

@@ -1,4 +1,4 @@
-"""The Python bridge against numpy (Debian's python3-numpy): values sent through the real engine process."""
+"""The Python bridge against numpy (numpy from PyPI): values sent through the real engine process."""
 import math
 
 import numpy as np

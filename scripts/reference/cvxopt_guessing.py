@@ -1,6 +1,6 @@
-#!/usr/bin/python3
+#!/usr/bin/env python3
 """Reference values for rhosigma's guessing probability, diamond distance and fidelity of recovery,
-each computed with cvxopt.solvers.sdp (Debian's python3-cvxopt) from an SDP built here with numpy,
+each computed with cvxopt.solvers.sdp (cvxopt from PyPI in .venv) from an SDP built here with numpy,
 independently of the TypeScript code (different formulation where one exists: the dual side).
 
   guessing   p_guess = min Tr Y  s.t.  Y - p_x rho_x >= 0 for every x
@@ -33,7 +33,9 @@ import time
 
 import numpy as np
 import cvxopt
-from cvxopt import matrix, solvers
+from cvxopt import matrix
+
+from cvxopt_ladder import solve_sdp
 
 from embedding import embed, hermitian_basis
 
@@ -105,24 +107,9 @@ TOLERANCES = (1e-10, 1e-9, 1e-8)
 
 
 def solve(c, gs, hs, a=None, b=None):
-    # Tight tolerances; cvxopt may stop with an arithmetic error when asked for more than the
-    # iterates allow, so loosen step by step (the tolerance used is recorded with the case).
-    last = None
-    for tol in TOLERANCES:
-        solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
-        try:
-            kw = {}
-            if a is not None:
-                kw = {"A": matrix(a), "b": matrix(b)}
-            sol = solvers.sdp(matrix(c), Gs=gs, hs=hs, **kw)
-        except (ZeroDivisionError, ArithmeticError, ValueError) as err:
-            last = err
-            continue
-        if sol["status"] == "optimal":
-            sol["tolerance"] = tol
-            return sol
-        last = sol["status"]
-    raise RuntimeError(f"cvxopt did not reach an optimal solution ({last})")
+    # Down the shared tolerance ladder (cvxopt_ladder.py); the tolerance used is recorded with the case.
+    kw = {} if a is None else {"A": matrix(a), "b": matrix(b)}
+    return solve_sdp(matrix(c), ladder=TOLERANCES, Gs=gs, hs=hs, **kw)
 
 
 def timed(fn, repeats):

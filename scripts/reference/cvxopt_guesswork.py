@@ -1,5 +1,5 @@
-#!/usr/bin/python3
-"""Reference values of guesswork with quantum side information, computed by cvxopt (Debian's python3-cvxopt).
+#!/usr/bin/env python3
+"""Reference values of guesswork with quantum side information, computed by cvxopt (cvxopt from PyPI in .venv).
 
 For an ensemble {p_x, rho_x} and a moment k the guesswork is the SDP over POVMs indexed by guessing
 orders g (permutations of the alphabet):
@@ -28,8 +28,9 @@ import sys
 
 import numpy as np
 import cvxopt
-from cvxopt import matrix, solvers
+from cvxopt import matrix
 
+from cvxopt_ladder import solve_sdp
 from embedding import embed, hermitian_basis
 
 
@@ -45,13 +46,9 @@ def guesswork(p, rhos, k):
         cols = [embed(b).flatten(order="F") for b in basis]
         gs.append(matrix(np.array(cols).T))
         hs.append(matrix(embed(cg)))
-    # Tightest tolerance first; cvxopt sometimes stops with status "unknown" at 1e-10 on rank-deficient
-    # ensembles, then the next looser tolerance is tried. The tolerance used is recorded.
-    for tol in (1e-10, 1e-9, 1e-8):
-        solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
-        sol = solvers.sdp(c, Gs=gs, hs=hs)
-        if sol["status"] == "optimal":
-            break
+    # Tightest tolerance first, down the shared ladder (cvxopt_ladder.py); the tolerance used is recorded.
+    sol = solve_sdp(c, ladder=(1e-10, 1e-9, 1e-8), Gs=gs, hs=hs)
+    tol = sol["tolerance"]
     return -sol["primal objective"], -sol["dual objective"], sol["status"], tol
 
 

@@ -1,5 +1,5 @@
-#!/usr/bin/python3
-"""Reference optimal values for rhosigma's SDP solver, computed by cvxopt (Debian's python3-cvxopt).
+#!/usr/bin/env python3
+"""Reference optimal values for rhosigma's SDP solver, computed by cvxopt (cvxopt from PyPI in .venv).
 
 Builds random feasible SDPs in rhosigma's own plain-data problem format (see src/sdp/types.ts):
 
@@ -28,7 +28,9 @@ import sys
 
 import numpy as np
 import cvxopt
-from cvxopt import matrix, solvers
+from cvxopt import matrix
+
+from cvxopt_ladder import solve_sdp
 
 
 def rand_sym(rng, n):
@@ -210,22 +212,8 @@ def solve_with_cvxopt(problem, mats, cfull, tolerances=(1e-10, 1e-9, 1e-8), data
     """cvxopt.solvers.sdp on the problem. Tight tolerances first; cvxopt can divide by zero when asked
     for more than the iterates allow, so loosen step by step (the tolerance used is recorded). With
     `clock` (a list), the seconds spent inside solvers.sdp for the accepted attempt are appended."""
-    import time
     c, kwargs = data if data is not None else cvxopt_data(problem, mats, cfull)
-    for tol in tolerances:
-        solvers.options.update({"show_progress": False, "abstol": tol, "reltol": tol, "feastol": tol, "maxiters": 200})
-        t0 = time.perf_counter()
-        try:
-            sol = solvers.sdp(c, **kwargs)
-        except (ZeroDivisionError, ArithmeticError, ValueError):
-            continue
-        t1 = time.perf_counter()
-        if sol["status"] == "optimal":
-            sol["tolerance"] = tol
-            if clock is not None:
-                clock.append(t1 - t0)
-            return sol
-    raise RuntimeError("cvxopt did not reach an optimal solution")
+    return solve_sdp(c, ladder=tolerances, clock=clock, **kwargs)
 
 
 def parse_problem(problem):

@@ -1,4 +1,4 @@
-#!/usr/bin/python3
+#!/usr/bin/env python3
 """Reference values of quantum divergences, computed independently with numpy/scipy.
 
 Reads JSON from stdin: {"cases": [{"rho": {"re": rows, "im": rows}, "sigma": {...},

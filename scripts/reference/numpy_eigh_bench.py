@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Reference timings for bench/eigh.ts: numpy.linalg.eigh on random complex Hermitian matrices.
 
-Run with Debian's interpreter (/usr/bin/python3, python3-numpy on OpenBLAS). The caller sets
+Run with .venv/bin/python (numpy's wheel, on OpenBLAS). The caller sets
 OPENBLAS_NUM_THREADS=1 (and removes OPENBLAS_CORETYPE / OPENBLAS_L2_SIZE) so the comparison is
 single-threaded like the JavaScript side.
 

@@ -1,10 +1,10 @@
-#!/usr/bin/python3
+#!/usr/bin/env python3
 """Independent numpy/scipy reference cases for rhosigma's plain-data protocol (PROTOCOL.md, version 1).
 
 What it is for: with a fixed seed, draw random density matrices (full rank and rank deficient, complex
 entries, d from 2 to 16, multipartite dims such as 2x2, 2x3, 2x2x2), write for each a protocol request in
 exactly PROTOCOL.md's shapes, and compute the expected answer here, from the textbook definitions, with
-numpy/scipy from Debian's packages only. test/reference/numpy-reference.test.ts runs the requests through
+numpy/scipy (pinned in requirements.txt) only. test/reference/numpy-reference.test.ts runs the requests through
 the engine and compares.
 
 How the expected values are computed (none of this is taken from the engine):
@@ -33,7 +33,7 @@ divergence, the recovery or guessing ops (SDP-based; other suites), or anything 
 
 Cost: a few seconds for the committed batch (a few hundred cases); under a second for --small.
 
-Usage: /usr/bin/python3 scripts/reference/numpy_reference.py --seed N [--small] [--out FILE]
+Usage: .venv/bin/python scripts/reference/numpy_reference.py --seed N [--small] [--out FILE]
 Output: {"generator": "numpy X.Y / scipy X.Y", "seed": N, "tolerance_rule": ..., "cases": [
           {"name": "<group>: <details>", "request": {...}, "expected": ..., "tolerance": t, "also"?: {...}}]}
 The group (text before ':') is "op" or "divergence/<family>". Expected scalars are numbers or "Infinity";

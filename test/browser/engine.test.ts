@@ -2,8 +2,8 @@
 // answer a batch of requests exactly as `handle` answers them in Node.
 //
 // This is a consistency check between two runtimes of our own engine, not a check of the numbers: the
-// numerical correctness of every op here is tested elsewhere against numpy/scipy/cvxopt from Debian's
-// packages and published closed forms (test/linalg, test/quantities, test/oneshot, ...). What this file
+// numerical correctness of every op here is tested elsewhere against numpy/scipy/cvxopt from PyPI in .venv, and against
+// published closed forms (test/linalg, test/quantities, test/oneshot, ...). What this file
 // adds is that the browser build (esbuild, platform browser, no Node built-ins; mathjs's browser bundle;
 // ajv compiling validators with `new Function`; the eigensolver's WebAssembly SIMD kernels instantiated
 // inside a worker) computes the same answers. Agreement required: errors deep-equal, every other field

@@ -1,7 +1,7 @@
 // Guesswork without and with quantum side information (src/guessing/guesswork.ts) and the `guesswork`
 // op, checked against: the definition by brute force over all orders; the definition's special cases
 // (uninformative and orthogonal side information); Helstrom's closed form for two states; and cvxopt
-// (Debian's python3-cvxopt, version recorded in the reference file) through
+// (cvxopt from PyPI in .venv, version recorded in the reference file) through
 // scripts/reference/cvxopt_guesswork.py. Every SDP instance is also checked for strong duality.
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
@@ -233,7 +233,7 @@ describe('guesswork with quantum side information against cvxopt.solvers.sdp', (
   });
 
   it('matches a fresh batch of random ensembles solved by cvxopt in this run (seed 11) to 1e-6 relative', (t) => {
-    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '11', '--count', '4', '--out', '-'], 'python3-cvxopt');
+    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '11', '--count', '4', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
     if (ref) compareWithCvxopt(ref, 'live');
   });
 });

@@ -2,7 +2,7 @@
  * What the eigensolver tests (test/linalg/eigh*.test.ts) share: the accuracy contract of a Hermitian
  * eigendecomposition (the defining property HV = VΛ, V*V = I, ascending Λ; common practice, no published
  * source beyond the definition, with the project's tolerance 1e-12·n·‖H‖), random unitaries, and
- * numpy.linalg.eigvalsh (Debian's python3-numpy, LAPACK) as the outside reference, run through
+ * numpy.linalg.eigvalsh (numpy pinned in requirements.txt, LAPACK) as the outside reference, run through
  * test/helpers/python.ts.
  *
  * Deliberately not here: the test matrices and the comparisons with numpy. Under CI=true a missing interpreter or
@@ -17,7 +17,7 @@ import {
 import { randomHermitian } from './random.js';
 import { PythonUnavailable, runPythonCode } from './python.js';
 
-/** numpy's version from /usr/bin/python3, or undefined when the interpreter or numpy is missing. */
+/** numpy's version from .venv/bin/python, or undefined when the interpreter or numpy is missing. */
 export function numpyVersion(): string | undefined {
   try {
     return runPythonCode<string>('import json, numpy\nprint(json.dumps(numpy.__version__))');
@@ -30,11 +30,11 @@ export function numpyVersion(): string | undefined {
 /** The `skip` option of a numpy check: a reason when numpy is missing outside CI, otherwise false. */
 export function numpySkip(version: string | undefined): string | false {
   return version === undefined && process.env.CI !== 'true'
-    ? '/usr/bin/python3 with numpy not available (under CI=true this fails instead)'
+    ? '.venv/bin/python with numpy not available (under CI=true this fails instead)'
     : false;
 }
 
-/** numpy.linalg.eigvalsh of each matrix (ascending), computed by /usr/bin/python3. */
+/** numpy.linalg.eigvalsh of each matrix (ascending), computed by .venv/bin/python. */
 export function numpyEigvalsh(ms: CMatrix[]): number[][] {
   const code = [
     'import json, sys, numpy as np',

@@ -1,6 +1,6 @@
 /**
- * Runs outside references in Debian's /usr/bin/python3 (numpy, scipy, cvxopt from the system packages)
- * for tests: the input crosses as JSON on stdin, the script prints one JSON value on stdout.
+ * Runs outside references in the checkout's Python environment (.venv/bin/python: numpy, scipy, cvxopt,
+ * mpmath from the pinned requirements.txt, installed by scripts/setup.sh) for tests and benchmarks: the input crosses as JSON on stdin, the script prints one JSON value on stdout.
  *
  *  - runPython / runPythonCode: the parsed JSON, or a thrown error carrying python's stderr. A missing
  *    interpreter or module throws PythonUnavailable, anything else a plain Error.
@@ -18,8 +18,10 @@
 import assert from 'node:assert/strict';
 import { existsSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
 
-export const PYTHON = '/usr/bin/python3';
+/** The interpreter of the checkout's virtual environment (scripts/setup.sh creates it). */
+export const PYTHON = fileURLToPath(new URL('../../.venv/bin/python', import.meta.url));
 
 /** A missing interpreter or a module that python could not import. */
 export class PythonUnavailable extends Error {}
@@ -33,7 +35,7 @@ export interface PythonOptions {
   maxBuffer?: number;
 }
 
-/** Runs /usr/bin/python3 with `args` (a script path and its arguments, or ['-c', code]); returns stdout as JSON. */
+/** Runs .venv/bin/python with `args` (a script path and its arguments, or ['-c', code]); returns stdout as JSON. */
 export function runPython<T = any>(args: readonly string[], options: PythonOptions = {}): T {
   const input = options.input === undefined ? undefined : typeof options.input === 'string' ? options.input : JSON.stringify(options.input);
   const what = args[0] === '-c' ? `${PYTHON} -c <inline script>` : `${PYTHON} ${args.join(' ')}`;
@@ -84,7 +86,7 @@ export function liveReference<T = any>(
   }
 }
 
-/** Why /usr/bin/python3 or one of `modules` is unavailable, or undefined when all import. */
+/** Why .venv/bin/python or one of `modules` is unavailable, or undefined when all import. */
 export function missingPython(modules: readonly string[]): string | undefined {
   try {
     runPython(['-c', `import json, ${modules.join(', ')}\nprint(json.dumps(None))`]);

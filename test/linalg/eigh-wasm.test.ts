@@ -1,8 +1,8 @@
 // The eigensolver's two code paths, WebAssembly SIMD kernels and pure TypeScript, checked against
 // the same accuracy contract: the defining property of an eigendecomposition (common practice, no
 // published source beyond the definition) with the project's tolerance, residual ‖HV − VΛ‖ and
-// ‖V*V − I‖ below 1e-12·n·‖H‖; eigenvalues also against numpy.linalg.eigvalsh (Debian's
-// /usr/bin/python3). Also: the committed kernel module is a fresh compile of its source, and the
+// ‖V*V − I‖ below 1e-12·n·‖H‖; eigenvalues also against numpy.linalg.eigvalsh (numpy from PyPI,
+// .venv/bin/python). Also: the committed kernel module is a fresh compile of its source, and the
 // environment switch turns the kernels off.
 import { describe, it, after } from 'node:test';
 import assert from 'node:assert/strict';
@@ -72,7 +72,7 @@ describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', ()
   }
 
   it(
-    'both paths agree with numpy.linalg.eigvalsh (Debian python3-numpy, LAPACK) within 1e-12·n·‖H‖',
+    'both paths agree with numpy.linalg.eigvalsh (numpy, LAPACK) within 1e-12·n·‖H‖',
     { skip: numpySkip(NUMPY) },
     () => {
       const ms = cases().map(([, h]) => h).filter((h) => h.rows >= 24 && operatorNorm(h) < 1e100);

@@ -1,4 +1,4 @@
-// Guessing probability and diamond distance against cvxopt (Debian's python3-cvxopt,
+// Guessing probability and diamond distance against cvxopt (cvxopt from PyPI in .venv,
 // cvxopt.solvers.sdp), which solves the DUAL problems built independently with numpy in
 // scripts/reference/cvxopt_guessing.py (min Tr Y s.t. Y ⪰ p_x ρ_x; Watrous's dual for the diamond
 // norm, min ‖Tr_out Z‖_∞ s.t. Z ⪰ 0, Z ⪰ J). A committed batch (test/reference/data/guessing-cases.json)
@@ -30,7 +30,7 @@ const ch = (c: { kraus: Plain[]; inputDims: number[]; outputDims: number[] }): C
 });
 
 function live(t: { skip: (msg: string) => void }): ReferenceFile | undefined {
-  return liveReference<ReferenceFile>(t, [script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], 'python3-cvxopt');
+  return liveReference<ReferenceFile>(t, [script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
 }
 
 function relErr(a: number, b: number): number {

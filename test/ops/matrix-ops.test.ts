@@ -1,4 +1,4 @@
-// Facts about the matrix ops, through `handle`. Outside references: numpy (Debian's python3-numpy; its
+// Facts about the matrix ops, through `handle`. Outside references: numpy (from PyPI in .venv; its
 // version is printed into each failure message) for eigenvalues (numpy.linalg.eigvalsh) and for the subsystem
 // operations (reshape/transpose/trace on the tensor indices); the definition of an eigendecomposition
 // (M V = V diag(λ), V unitary); Peres, Phys. Rev. Lett. 77, 1413 (1996): the partial transpose of a Bell

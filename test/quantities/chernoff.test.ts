@@ -9,7 +9,7 @@ import { rng, randomDensity, randomProbabilities } from '../helpers/random.js';
 import { runPythonCode } from '../helpers/python.js';
 
 describe('quantum Chernoff exponent', () => {
-  it('equals the classical Chernoff information −log min_λ Σ p^λ q^{1−λ} for commuting states (Cover & Thomas, Elements of Information Theory, 2nd ed., Thm 11.9.1), reference minimised by scipy 1.10.1 minimize_scalar', () => {
+  it('equals the classical Chernoff information −log min_λ Σ p^λ q^{1−λ} for commuting states (Cover & Thomas, Elements of Information Theory, 2nd ed., Thm 11.9.1), reference minimised by scipy 1.17.1 minimize_scalar', () => {
     const r = rng(31);
     const cases: [number[], number[]][] = [];
     for (const n of [2, 3, 5, 8]) cases.push([randomProbabilities(n, r), randomProbabilities(n, r)]);
@@ -34,7 +34,7 @@ describe('quantum Chernoff exponent', () => {
     });
   });
 
-  it('agrees on non-commuting full-rank states with min_s Tr ρ^s σ^{1−s} from numpy 1.24.2 eigh powers and scipy 1.10.1 minimize_scalar', () => {
+  it('agrees on non-commuting full-rank states with min_s Tr ρ^s σ^{1−s} from numpy 2.4.6 eigh powers and scipy 1.17.1 minimize_scalar', () => {
     const r = rng(36);
     const pairs = [2, 3, 4, 6].map((n) => [randomDensity(n, r), randomDensity(n, r)]);
     const script = [

@@ -1,4 +1,4 @@
-// Cross-check against numpy/scipy (Debian's python3-numpy and python3-scipy, versions named in the
+// Cross-check against numpy/scipy (numpy and scipy pinned in requirements.txt, versions named in the
 // assertion messages): scripts/reference/divergences.py evaluates the textbook formulas with
 // scipy.linalg.fractional_matrix_power and scipy.linalg.logm on a few random full-rank pairs.
 // Orders are kept away from α = 1, where the plain formula loses digits to cancellation in numpy

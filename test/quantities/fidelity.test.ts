@@ -1,6 +1,6 @@
 // Facts about the Uhlmann fidelity F(ρ,σ) = ‖√ρ√σ‖₁² (squared; the root alongside).
 // Sources are named in each it(...): closed forms from the literature and an independent computation
-// with scipy 1.10.1 / numpy 1.24.2 (Debian packages, run through /usr/bin/python3).
+// with scipy 1.17.1 / numpy 2.4.6 (pinned in requirements.txt, run through .venv/bin/python).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
@@ -24,7 +24,7 @@ function scipyFidelities(pairs: [CMatrix, CMatrix][]): number[] {
     'for a, b in json.load(sys.stdin):',
     '    r = np.array(a["re"]) + 1j * np.array(a["im"])',
     '    s = np.array(b["re"]) + 1j * np.array(b["im"])',
-    // scipy 1.10.1's sqrtm returns complex256 for complex input; cast back and take the Hermitian
+    // scipy's sqrtm may return a wider complex type for complex input; cast back and take the Hermitian
     // part before the second root, otherwise its Schur method loses about 1e-7 on the product.
     '    q = np.asarray(sl.sqrtm(r), dtype=complex)',
     '    m = q @ s @ q',
@@ -82,7 +82,7 @@ describe('fidelity', () => {
     assert.equal(fidelity(a, b).value, 0);
   });
 
-  it('agrees with (Tr √(√ρ σ √ρ))² from scipy.linalg.sqrtm (scipy 1.10.1) on full-rank states', () => {
+  it('agrees with (Tr √(√ρ σ √ρ))² from scipy.linalg.sqrtm (scipy 1.17.1) on full-rank states', () => {
     const r = rng(15);
     const pairs: [CMatrix, CMatrix][] = [];
     for (const n of [2, 3, 4, 5, 8]) pairs.push([randomDensity(n, r), randomDensity(n, r)]);
@@ -97,7 +97,7 @@ describe('fidelity', () => {
   // dominate): with ρ = AA*, σ = BB*, ‖√ρ√σ‖₁ = ‖A*B‖₁ for any such factors (polar decomposition;
   // Watrous, The Theory of Quantum Information, 2018, Sec. 3.2 — recalled from memory), and numpy's
   // nuclear norm is SVD-based.
-  it('agrees with ‖A*B‖₁² from numpy 1.24.2 (ρ = AA*, σ = BB*) on rank-deficient states', () => {
+  it('agrees with ‖A*B‖₁² from numpy 2.4.6 (ρ = AA*, σ = BB*) on rank-deficient states', () => {
     const r = rng(18);
     const factors: [CMatrix, CMatrix][] = [];
     for (const [n, ka, kb] of [[3, 1, 2], [4, 2, 4], [5, 5, 2], [6, 3, 3], [8, 1, 1], [8, 4, 7]]) {

@@ -1,5 +1,5 @@
 // Facts about monotone metrics (Petz's classification) and double operator integrals.
-// Sources in each it(...). External references: numpy 1.24.2 / scipy 1.10.1 (Debian packages).
+// Sources in each it(...). External references: numpy 2.4.6 / scipy 1.17.1 (pinned in requirements.txt).
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
@@ -56,7 +56,7 @@ describe('monotone metrics', () => {
     }
   });
 
-  it('the SLD metric equals Tr X L with ρL + Lρ = 2X solved by scipy.linalg.solve_sylvester (scipy 1.10.1; Braunstein & Caves, PRL 72, 3439 (1994))', () => {
+  it('the SLD metric equals Tr X L with ρL + Lρ = 2X solved by scipy.linalg.solve_sylvester (scipy 1.17.1; Braunstein & Caves, PRL 72, 3439 (1994))', () => {
     const r = rng(42);
     const cases = [2, 3, 6].map((n) => [randomDensity(n, r), randomHermitian(n, r)] as [CMatrix, CMatrix]);
     const expected: number[] = python(
@@ -69,7 +69,7 @@ describe('monotone metrics', () => {
     });
   });
 
-  it('the Kubo–Mori metric equals Tr X · d/dt log(ρ + tY)|₀, with the derivative from central differences of scipy.linalg.logm (scipy 1.10.1; Petz 1996 / Hiai & Petz 2014: the Bogoliubov inner product)', () => {
+  it('the Kubo–Mori metric equals Tr X · d/dt log(ρ + tY)|₀, with the derivative from central differences of scipy.linalg.logm (scipy 1.17.1; Petz 1996 / Hiai & Petz 2014: the Bogoliubov inner product)', () => {
     const r = rng(43);
     const cases = [2, 4].map((n) => [randomDensity(n, r), randomHermitian(n, r), randomHermitian(n, r)] as [CMatrix, CMatrix, CMatrix]);
     const expected: number[] = python(
@@ -139,7 +139,7 @@ describe('monotone metrics', () => {
 });
 
 describe('double operator integrals', () => {
-  it('with the divided-difference kernel of exp it is the Fréchet derivative of the matrix exponential, as scipy.linalg.expm_frechet computes (scipy 1.10.1; Daleckii & Krein 1965)', () => {
+  it('with the divided-difference kernel of exp it is the Fréchet derivative of the matrix exponential, as scipy.linalg.expm_frechet computes (scipy 1.17.1; Daleckii & Krein 1965)', () => {
     const r = rng(46);
     const cases = [2, 3, 5].map((n) => [randomHermitian(n, r), randomHermitian(n, r)] as [CMatrix, CMatrix]);
     const expected = python(

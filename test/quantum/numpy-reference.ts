@@ -1,5 +1,5 @@
 /**
- * Runs a short numpy/scipy script in Debian's /usr/bin/python3 as an outside reference for tests.
+ * Runs a short numpy/scipy script in .venv/bin/python as an outside reference for tests.
  * Matrices cross as {re, im} arrays of rows. The script reads `data` (parsed JSON input) and assigns
  * `result`; helpers `M(x)` (to a complex ndarray) and `W(a)` (back to {re, im}) are predefined.
  */

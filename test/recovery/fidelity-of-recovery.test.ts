@@ -1,5 +1,5 @@
 // Fidelity of recovery F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB))
-// (Seshadreesan & Wilde 2015): against cvxopt (Debian's python3-cvxopt, the SDP built independently
+// (Seshadreesan & Wilde 2015): against cvxopt (cvxopt from PyPI in .venv, the SDP built independently
 // with numpy in scripts/reference/cvxopt_guessing.py), the Fawzi–Renner bound, the Petz map as a
 // feasible channel, Markov chains, and the fidelity-of-recovery op.
 import { describe, it } from 'node:test';
@@ -48,7 +48,7 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
   });
 
   it('matches cvxopt.solvers.sdp on a random three-qubit state generated in this run (seed 41) to 1e-6 relative', (t) => {
-    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'python3-cvxopt');
+    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
     if (ref) check(ref, 'live');
   });
 

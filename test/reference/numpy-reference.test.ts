@@ -1,5 +1,5 @@
 // The engine, through the plain-data protocol (`handle`), against an independent reference computed in
-// numpy/scipy from the textbook definitions (scripts/reference/numpy_reference.py; Debian's python3-numpy
+// numpy/scipy from the textbook definitions (scripts/reference/numpy_reference.py; numpy from PyPI
 // and python3-scipy, versions named in every message). Two batches:
 //   (a) the committed cases test/reference/data/numpy-cases.json (seed 1, a few hundred requests);
 //   (b) a small batch generated live with another fixed seed, so the comparison does not rest on a file.
@@ -193,7 +193,7 @@ describe('protocol answers against numpy/scipy (committed reference file)', () =
 describe('protocol answers against numpy/scipy (small batch generated live)', () => {
   const unavailable = missingPython(['numpy', 'scipy', 'scipy.linalg', 'scipy.optimize']);
   if (unavailable) {
-    const msg = `${unavailable} (install Debian's python3-numpy and python3-scipy) — the live numpy/scipy reference cannot run`;
+    const msg = `${unavailable} (install numpy and scipy pinned in requirements.txt) — the live numpy/scipy reference cannot run`;
     if (CI) it('the live numpy/scipy reference runs', () => assert.fail(msg));
     else it('the live numpy/scipy reference runs', { skip: msg }, () => {});
     return;
