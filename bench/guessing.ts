@@ -90,7 +90,7 @@ export default async function bench(argv: string[]): Promise<void> {
   const s = Math.sin(0.2);
   const rot = { rows: 2, cols: 2, re: new Float64Array([c, -s, s, c]), im: new Float64Array(4) };
   const z = { rows: 2, cols: 2, re: new Float64Array([1, 0, 0, -1]), im: new Float64Array(4) };
-  const b: Channel = { kraus: [scale(rot, Math.sqrt(0.8)), scale(mul(z, rot), Math.sqrt(0.2))], inputDims: [2], outputDims: [2] };
+  const b: Channel = { kraus: [scale(rot, Math.sqrt(0.8)), scale(mul(z, rot), Math.sqrt(0.2))], fromDims: [2], toDims: [2] };
 
   // The problems the two functions build, for the solve-only column (the same construction they use).
   const guessProblem = guessingProblem(states.map((st, x) => hermitianPart(scale(st, probs[x]))));
@@ -109,7 +109,7 @@ export default async function bench(argv: string[]): Promise<void> {
     `guessing probability (6 states, d = 4) and diamond distance (qubit channels): ours end to end vs cvxopt.solvers.sdp, ` +
       `${rounds} interleaved rounds of ${k} calls, steady state after ≥ ${WARM_CALLS} warm-up calls and ≥ ${WARM_MS} ms`,
   );
-  const plain = (ch: Channel) => ({ kraus: ch.kraus.map(toRows), inputDims: ch.inputDims, outputDims: ch.outputDims });
+  const plain = (ch: Channel) => ({ kraus: ch.kraus.map(toRows), fromDims: ch.fromDims, toDims: ch.toDims });
   const input = JSON.stringify({ guessing: [{ probabilities: probs, states: states.map(toRows) }], diamond: [{ a: plain(a), b: plain(b) }] });
   const ours = cases.map(() => [] as number[]);
   const solveOnly = cases.map(() => [] as number[]);

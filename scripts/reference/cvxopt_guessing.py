@@ -24,7 +24,7 @@ Usage:
                                                                read from stdin; with --time, median
                                                                seconds of R calls to solvers.sdp
 Writes JSON {generator, cvxopt, numpy, seed, guessing: [...], diamond: [...], recovery: [...]}.
-States are {"re": rows, "im": rows}; channels {"kraus": [{"re", "im"}, ...], "inputDims", "outputDims"}.
+States are {"re": rows, "im": rows}; channels {"kraus": [{"re", "im"}, ...], "from", "to"}.
 """
 import argparse
 import json
@@ -227,7 +227,7 @@ def diamond_case(rng):
     ka = random_channel_kraus(rng, din, dout, int(rng.integers(1, 4)))
     kb = random_channel_kraus(rng, din, dout, int(rng.integers(1, 4)))
     sol = diamond_problem(ka, kb)()
-    ch = lambda ks: {"kraus": [cplx(k) for k in ks], "inputDims": [din], "outputDims": [dout]}
+    ch = lambda ks: {"kraus": [cplx(k) for k in ks], "from": [din], "to": [dout]}
     return {
         "a": ch(ka),
         "b": ch(kb),

@@ -660,7 +660,7 @@ def gen_channels(g, C):
             cross(rtr(out), 1.0, 'channel output trace')
             C.add('apply-channel', f'dims={dims}, {n} Kraus operators {d_in}->{d_out} on subsystem {on}, rank {r}',
                   {'op': 'apply-channel', 'rho': jstate(rho, dims), 'on': [on],
-                   'channel': {'kraus': [jmat(k) for k in ks], 'inputDims': [d_in], 'outputDims': [d_out]}},
+                   'channel': {'kraus': [jmat(k) for k in ks], 'from': [d_in], 'to': [d_out]}},
                   jmat(out))
     # whole system, `on` left out (default: all)
     for d_in, d_out, n in ([(2, 3, 2)] if C.small else [(2, 3, 2), (3, 3, 4)]):
@@ -669,7 +669,7 @@ def gen_channels(g, C):
         out = apply_channel(rho, [d_in], ks, 0)
         C.add('apply-channel', f'single system, {n} Kraus operators {d_in}->{d_out}, on omitted',
               {'op': 'apply-channel', 'rho': jstate(rho),
-               'channel': {'kraus': [jmat(k) for k in ks], 'inputDims': [d_in], 'outputDims': [d_out]}},
+               'channel': {'kraus': [jmat(k) for k in ks], 'from': [d_in], 'to': [d_out]}},
               jmat(out))
 
 

@@ -100,17 +100,17 @@ export function marginal(m: CMatrix, dims: readonly number[], keep: readonly num
   const sortedKeep = [...keep].sort((a, b) => a - b);
   const perm = keep.map((s) => sortedKeep.indexOf(s));
   if (perm.every((p, k) => p === k)) return reduced;
-  return permuteSubsystems(reduced, sortedKeep.map((s) => dims[s]), perm);
+  return reorderSubsystems(reduced, sortedKeep.map((s) => dims[s]), perm);
 }
 
 /**
  * Reorder subsystems: subsystem k of the result is subsystem perm[k] of the input.
  * For a product A ⊗ B ⊗ C and perm [2, 0, 1] the result is C ⊗ A ⊗ B.
  */
-export function permuteSubsystems(m: CMatrix, dims: readonly number[], perm: readonly number[]): CMatrix {
-  checkLayout(m, dims, 'permuteSubsystems');
-  if (perm.length !== dims.length) throw new RangeError('permuteSubsystems: perm must list every subsystem once');
-  checkSystems(perm, dims.length, 'permuteSubsystems');
+export function reorderSubsystems(m: CMatrix, dims: readonly number[], perm: readonly number[]): CMatrix {
+  checkLayout(m, dims, 'reorderSubsystems');
+  if (perm.length !== dims.length) throw new RangeError('reorderSubsystems: perm must list every subsystem once');
+  checkSystems(perm, dims.length, 'reorderSubsystems');
   const map = offsets(dims, perm);
   const n = m.rows;
   const r = zeros(n, n);

@@ -68,7 +68,7 @@ export interface DiamondOptions {
 }
 
 function traceDefect(c: Channel): number {
-  const d = product(c.inputDims);
+  const d = product(c.fromDims);
   const e = eigh(hermitianPart(sub(krausSum(c, 'KstarK'), identity(d))), { vectors: false }).values;
   return Math.max(Math.abs(e[0]), Math.abs(e[e.length - 1]));
 }
@@ -108,12 +108,12 @@ export function diamondProblem(J: CMatrix, din: number, dout: number): SdpProble
 /** ½‖N − M‖_⋄ with the optimal input and the certificate (see the header for the SDP). */
 export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions = {}): DiamondResult {
   const tol = options.tolerance ?? 1e-9;
-  const din = product(a.inputDims);
-  const dout = product(a.outputDims);
-  if (product(b.inputDims) !== din || product(b.outputDims) !== dout) {
+  const din = product(a.fromDims);
+  const dout = product(a.toDims);
+  if (product(b.fromDims) !== din || product(b.toDims) !== dout) {
     throw new RhoError(
       'dimension-mismatch',
-      `The channels map C^${din} → C^${dout} and C^${product(b.inputDims)} → C^${product(b.outputDims)}; the diamond distance needs the same input and output spaces.`,
+      `The channels map C^${din} → C^${dout} and C^${product(b.fromDims)} → C^${product(b.toDims)}; the diamond distance needs the same input and output spaces.`,
       'b',
     );
   }

@@ -38,28 +38,28 @@ import {
 // Helpers
 
 /** A channel given as {"choi": J, ...}: the raw matrix and dims, without conversion (so nothing is refused). */
-function readChoiForm(value: Record<string, unknown>, path: string): { J: CMatrix; inputDims: number[]; outputDims: number[] } {
+function readChoiForm(value: Record<string, unknown>, path: string): { J: CMatrix; fromDims: number[]; toDims: number[] } {
   const J = readSquareMatrix(value.choi, `${path}.choi`);
   const n = J.rows;
-  let inputDims: number[];
-  let outputDims: number[];
-  if (value.inputDims !== undefined) {
-    inputDims = readDims(value.inputDims, `${path}.inputDims`);
-    const din = product(inputDims);
-    if (n % din !== 0) throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the input dimension ${din}.`, `${path}.inputDims`);
-    outputDims = value.outputDims === undefined ? [n / din] : readDims(value.outputDims, `${path}.outputDims`);
-  } else if (value.outputDims !== undefined) {
-    outputDims = readDims(value.outputDims, `${path}.outputDims`);
-    const dout = product(outputDims);
-    if (n % dout !== 0) throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the output dimension ${dout}.`, `${path}.outputDims`);
-    inputDims = [n / dout];
+  let fromDims: number[];
+  let toDims: number[];
+  if (value.from !== undefined) {
+    fromDims = readDims(value.from, `${path}.from`);
+    const din = product(fromDims);
+    if (n % din !== 0) throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the input dimension ${din}.`, `${path}.from`);
+    toDims = value.to === undefined ? [n / din] : readDims(value.to, `${path}.to`);
+  } else if (value.to !== undefined) {
+    toDims = readDims(value.to, `${path}.to`);
+    const dout = product(toDims);
+    if (n % dout !== 0) throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the output dimension ${dout}.`, `${path}.to`);
+    fromDims = [n / dout];
   } else {
-    throw new RhoError('missing-argument', 'A Choi matrix needs "inputDims" (or "outputDims") to tell the input and output apart.', `${path}.inputDims`);
+    throw new RhoError('missing-argument', 'A Choi matrix needs "from" (or "to") to tell the input and output apart.', `${path}.from`);
   }
-  if (product(inputDims) * product(outputDims) !== n) {
-    throw new RhoError('dimension-mismatch', `The Choi matrix is ${n}x${n} but input and output dimensions multiply to ${product(inputDims) * product(outputDims)}.`, `${path}.choi`);
+  if (product(fromDims) * product(toDims) !== n) {
+    throw new RhoError('dimension-mismatch', `The Choi matrix is ${n}x${n} but input and output dimensions multiply to ${product(fromDims) * product(toDims)}.`, `${path}.choi`);
   }
-  return { J, inputDims, outputDims };
+  return { J, fromDims, toDims };
 }
 
 function hasChoi(value: unknown): value is Record<string, unknown> {
@@ -84,13 +84,13 @@ function underPath<T>(prefix: string, f: () => T): T {
  */
 function readKrausWithRank(value: unknown, path: string, tolerance: number, minimal: boolean) {
   if (hasChoi(value)) {
-    const { J, inputDims, outputDims } = readChoiForm(value, path);
-    const res = underPath(path, () => choiToKrausDetailed(J, inputDims, outputDims, tolerance));
+    const { J, fromDims, toDims } = readChoiForm(value, path);
+    const res = underPath(path, () => choiToKrausDetailed(J, fromDims, toDims, tolerance));
     return { channel: res.channel, rank: { droppedEigenvalues: res.dropped, threshold: res.threshold } };
   }
   const channel = readChannel(value, path, tolerance);
   if (!minimal) return { channel, rank: undefined };
-  const res = choiToKrausDetailed(krausToChoi(channel), channel.inputDims, channel.outputDims, tolerance);
+  const res = choiToKrausDetailed(krausToChoi(channel), channel.fromDims, channel.toDims, tolerance);
   return { channel: res.channel, rank: { droppedEigenvalues: res.dropped, threshold: res.threshold } };
 }
 
@@ -178,8 +178,8 @@ defineOp({
   run(req, { tolerance }) {
     let d: ChannelDiagnostics;
     if (hasChoi(req.channel)) {
-      const { J, inputDims, outputDims } = readChoiForm(req.channel, 'channel');
-      d = underPath('channel', () => choiDiagnostics(J, inputDims, outputDims, tolerance));
+      const { J, fromDims, toDims } = readChoiForm(req.channel, 'channel');
+      d = underPath('channel', () => choiDiagnostics(J, fromDims, toDims, tolerance));
     } else {
       d = channelDiagnostics(readChannel(req.channel, 'channel', tolerance), tolerance);
     }
@@ -202,21 +202,21 @@ defineOp({
     type: 'object',
     properties: {
       channel: schemas.channel,
-      to: { enum: ['kraus', 'choi', 'stinespring'], description: 'The form wanted.' },
+      form: { enum: ['kraus', 'choi', 'stinespring'], description: 'The form wanted.' },
       minimal: { type: 'boolean', description: 'Reduce to the fewest Kraus operators (through the Choi matrix) first; default false.' },
     },
-    required: ['channel', 'to'],
+    required: ['channel', 'form'],
   },
   run(req, { tolerance }) {
-    const to = req.to as 'kraus' | 'choi' | 'stinespring';
-    const minimal = req.minimal === true && to !== 'choi';
+    const form = req.form as 'kraus' | 'choi' | 'stinespring';
+    const minimal = req.minimal === true && form !== 'choi';
     const { channel, rank } = readKrausWithRank(req.channel, 'channel', tolerance, minimal);
-    const dims = { inputDims: [...channel.inputDims], outputDims: [...channel.outputDims] };
+    const dims = { from: [...channel.fromDims], to: [...channel.toDims] };
     const rankInfo = rank ? { droppedEigenvalues: rank.droppedEigenvalues, threshold: rank.threshold, note: rankNote } : {};
-    if (to === 'choi') {
+    if (form === 'choi') {
       return { value: writeMatrix(krausToChoi(channel)), ...dims, convention: 'J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor first, unnormalised (Tr J = d_in for a trace-preserving map).' };
     }
-    if (to === 'kraus') {
+    if (form === 'kraus') {
       return { value: channel.kraus.map(writeMatrix), ...dims, count: channel.kraus.length, ...rankInfo };
     }
     const s = krausToStinespring(channel);
@@ -284,16 +284,16 @@ const CHANNEL_PRESETS: Record<string, PresetSpec> = {
     },
   },
   'measure-prepare': {
-    fields: ['povm', 'states', 'inputDims', 'outputDims'],
+    fields: ['povm', 'states', 'from', 'to'],
     convention: 'ρ ↦ Σ_x Tr(M_x ρ) σ_x for a POVM {M_x} (checked: positive, summing to I) and states {σ_x}.',
     build: (r, tol) => {
       const povm = readMatrixList(need(r, 'povm', 'measure-prepare'), 'povm');
       const list = need(r, 'states', 'measure-prepare');
       if (!Array.isArray(list) || list.length === 0) throw new RhoError('invalid-argument', 'Expected a non-empty list of states.', 'states');
       const states = list.map((s, k) => readState(s, `states[${k}]`, tol));
-      const inputDims = r.inputDims === undefined ? undefined : readDims(r.inputDims, 'inputDims');
-      const outputDims = r.outputDims === undefined ? states[0].dims : readDims(r.outputDims, 'outputDims');
-      return measurePrepare(povm, states.map((s) => s.matrix), tol, inputDims, outputDims);
+      const fromDims = r.from === undefined ? undefined : readDims(r.from, 'from');
+      const toDims = r.to === undefined ? states[0].dims : readDims(r.to, 'to');
+      return measurePrepare(povm, states.map((s) => s.matrix), tol, fromDims, toDims);
     },
   },
   pinching: {
@@ -348,8 +348,8 @@ defineOp({
       traceOut: { ...schemas.systems, description: 'Subsystems traced out (partial-trace).' },
       povm: matrixList('POVM elements (measure-prepare).'),
       states: { type: 'array', minItems: 1, maxItems: 4096, items: schemas.state, description: 'States prepared, one per POVM element (measure-prepare).' },
-      inputDims: { ...schemas.dims, description: 'Optional input dims (measure-prepare).' },
-      outputDims: { ...schemas.dims, description: 'Optional output dims (measure-prepare).' },
+      from: { ...schemas.dims, description: 'Optional input dims (measure-prepare).' },
+      to: { ...schemas.dims, description: 'Optional output dims (measure-prepare).' },
       basis: { ...schemas.matrix, description: 'A unitary whose columns are a basis (pinching, conditional-expectation).' },
       projectors: matrixList('Orthogonal projectors summing to the identity (pinching).'),
       blocks: { ...schemas.dims, description: 'Block sizes n_k (conditional-expectation).' },

@@ -408,12 +408,12 @@ export function readOperatorState(value: unknown, path: string, tol: number): St
 // ---------------------------------------------------------------------------------------------------
 // Channels
 
-const CHANNEL_KEYS = ['kraus', 'choi', 'inputDims', 'outputDims'] as const;
+const CHANNEL_KEYS = ['kraus', 'choi', 'from', 'to'] as const;
 
 /**
  * A channel from Kraus operators or a Choi matrix (convention J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor
- * first). Kraus operators must share one shape prod(outputDims) × prod(inputDims); inputDims and
- * outputDims default to [cols] and [rows]. A Choi matrix needs inputDims or outputDims (the other one
+ * first). Kraus operators must share one shape prod(to) × prod(from), "from" and "to" being the input and
+ * output dims; they default to [cols] and [rows]. A Choi matrix needs "from" or "to" (the other one
  * follows from its side) and must be Hermitian and positive semidefinite within `tol`, else
  * 'not-completely-positive'; the Kraus form comes from its eigendecomposition (quantum/channels.ts,
  * choiToKraus: eigenvalues at or below tol·λ_max are dropped, a tolerance-dependent rank decision).
@@ -421,7 +421,12 @@ const CHANNEL_KEYS = ['kraus', 'choi', 'inputDims', 'outputDims'] as const;
  */
 export function readChannel(value: unknown, path: string, tol: number): Channel {
   if (!isPlainObject(value)) {
-    throw new RhoError('invalid-argument', `Expected a channel: {"kraus": [...]} or {"choi": M}, with inputDims and outputDims; not ${describe(value)}.`, path);
+    throw new RhoError('invalid-argument', `Expected a channel: {"kraus": [...]} or {"choi": M}, with "from" (the input dims) and "to" (the output dims); not ${describe(value)}.`, path);
+  }
+  for (const [old, now] of [['inputDims', 'from'], ['outputDims', 'to']] as const) {
+    if (old in value) {
+      throw new RhoError('invalid-argument', `The channel field "${old}" is now "${now}" (protocol 1.1: "from" the input dims, "to" the output dims).`, `${path}.${old}`);
+    }
   }
   refuseUnknownKeys(value, CHANNEL_KEYS, path, 'a channel');
   if (value.kraus !== undefined && value.choi !== undefined) {
@@ -458,51 +463,51 @@ function readKrausChannel(value: Record<string, unknown>, path: string): Channel
       );
     }
   });
-  const inputDims = value.inputDims === undefined ? [cols] : readDims(value.inputDims, `${path}.inputDims`);
-  const outputDims = value.outputDims === undefined ? [rows] : readDims(value.outputDims, `${path}.outputDims`);
-  if (product(inputDims) !== cols) {
-    throw new RhoError('dimension-mismatch', `inputDims multiply to ${product(inputDims)} but the Kraus operators have ${cols} columns.`, `${path}.inputDims`);
+  const fromDims = value.from === undefined ? [cols] : readDims(value.from, `${path}.from`);
+  const toDims = value.to === undefined ? [rows] : readDims(value.to, `${path}.to`);
+  if (product(fromDims) !== cols) {
+    throw new RhoError('dimension-mismatch', `The input dims (from) multiply to ${product(fromDims)} but the Kraus operators have ${cols} columns.`, `${path}.from`);
   }
-  if (product(outputDims) !== rows) {
-    throw new RhoError('dimension-mismatch', `outputDims multiply to ${product(outputDims)} but the Kraus operators have ${rows} rows.`, `${path}.outputDims`);
+  if (product(toDims) !== rows) {
+    throw new RhoError('dimension-mismatch', `The output dims (to) multiply to ${product(toDims)} but the Kraus operators have ${rows} rows.`, `${path}.to`);
   }
-  return { kraus, inputDims, outputDims };
+  return { kraus, fromDims, toDims };
 }
 
 function readChoiChannel(value: Record<string, unknown>, path: string, tol: number): Channel {
   const p = `${path}.choi`;
   const J = readSquareMatrix(value.choi, p);
   const n = J.rows;
-  let inputDims: number[];
-  let outputDims: number[];
-  if (value.inputDims === undefined && value.outputDims === undefined) {
-    throw new RhoError('missing-argument', 'A Choi matrix needs "inputDims" (or "outputDims") to tell the input and output apart.', `${path}.inputDims`);
+  let fromDims: number[];
+  let toDims: number[];
+  if (value.from === undefined && value.to === undefined) {
+    throw new RhoError('missing-argument', 'A Choi matrix needs "from" (or "to") to tell the input and output apart.', `${path}.from`);
   }
-  if (value.inputDims !== undefined) {
-    inputDims = readDims(value.inputDims, `${path}.inputDims`);
-    const din = product(inputDims);
+  if (value.from !== undefined) {
+    fromDims = readDims(value.from, `${path}.from`);
+    const din = product(fromDims);
     if (n % din !== 0) {
-      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the input dimension ${din}.`, `${path}.inputDims`);
+      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the input dimension ${din}.`, `${path}.from`);
     }
-    outputDims = value.outputDims === undefined ? [n / din] : readDims(value.outputDims, `${path}.outputDims`);
+    toDims = value.to === undefined ? [n / din] : readDims(value.to, `${path}.to`);
   } else {
-    outputDims = readDims(value.outputDims, `${path}.outputDims`);
-    const dout = product(outputDims);
+    toDims = readDims(value.to, `${path}.to`);
+    const dout = product(toDims);
     if (n % dout !== 0) {
-      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the output dimension ${dout}.`, `${path}.outputDims`);
+      throw new RhoError('dimension-mismatch', `The Choi matrix side ${n} is not a multiple of the output dimension ${dout}.`, `${path}.to`);
     }
-    inputDims = [n / dout];
+    fromDims = [n / dout];
   }
-  if (product(inputDims) * product(outputDims) !== n) {
+  if (product(fromDims) * product(toDims) !== n) {
     throw new RhoError(
       'dimension-mismatch',
-      `The Choi matrix is ${n}x${n} but input and output dimensions multiply to ${product(inputDims) * product(outputDims)}.`,
+      `The Choi matrix is ${n}x${n} but input and output dimensions multiply to ${product(fromDims) * product(toDims)}.`,
       p,
     );
   }
   checkHermitian(J, tol, p);
   try {
-    return choiToKraus(J, inputDims, outputDims, tol);
+    return choiToKraus(J, fromDims, toDims, tol);
   } catch (err) {
     // quantum/channels.ts names its argument "choi"; put the request's path in front.
     if (err instanceof RhoError && err.path !== undefined && err.path.startsWith('choi')) {
@@ -603,10 +608,10 @@ export function writeState(s: State): { matrix: number[][] | { re: number[][]; i
 
 export function writeChannel(c: Channel): {
   kraus: (number[][] | { re: number[][]; im: number[][] })[];
-  inputDims: number[];
-  outputDims: number[];
+  from: number[];
+  to: number[];
 } {
-  return { kraus: c.kraus.map(writeMatrix), inputDims: [...c.inputDims], outputDims: [...c.outputDims] };
+  return { kraus: c.kraus.map(writeMatrix), from: [...c.fromDims], to: [...c.toDims] };
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -662,14 +667,14 @@ const stateSchema = {
 };
 const channelSchema = {
   description:
-    'A channel: {"kraus": [M, ...]} or {"choi": J} with "inputDims" and "outputDims"; Choi convention J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor first.',
+    'A channel: {"kraus": [M, ...]} or {"choi": J} with "from" and "to"; Choi convention J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|), input factor first.',
   anyOf: [
     {
       type: 'object',
-      properties: { kraus: { type: 'array', minItems: 1, maxItems: MAX_KRAUS, items: matrixSchema }, inputDims: dimsSchema, outputDims: dimsSchema },
+      properties: { kraus: { type: 'array', minItems: 1, maxItems: MAX_KRAUS, items: matrixSchema }, from: dimsSchema, to: dimsSchema },
       required: ['kraus'],
     },
-    { type: 'object', properties: { choi: matrixSchema, inputDims: dimsSchema, outputDims: dimsSchema }, required: ['choi'] },
+    { type: 'object', properties: { choi: matrixSchema, from: dimsSchema, to: dimsSchema }, required: ['choi'] },
   ],
 };
 const systemsSchema = {

@@ -9,7 +9,7 @@
  */
 import { eigh } from '../linalg/eigh.js';
 import { hermiticityDefect } from '../linalg/cmatrix.js';
-import { marginal, partialTrace, partialTranspose, permuteSubsystems } from '../linalg/subsystems.js';
+import { marginal, partialTrace, partialTranspose, reorderSubsystems } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import { defineOp } from './registry.js';
 import {
@@ -127,7 +127,7 @@ defineOp({
       throw new RhoError('invalid-argument', `"order" must list every one of the ${dims.length} subsystems exactly once.`, 'order');
     }
     const out: Record<string, unknown> & { value: unknown } = {
-      value: writeMatrix(permuteSubsystems(matrix, dims, order)),
+      value: writeMatrix(reorderSubsystems(matrix, dims, order)),
       dims: order.map((k) => dims[k]),
     };
     if (labels) out.labels = order.map((k) => labels[k]);

@@ -91,7 +91,7 @@ defineOp({
     const out: OpResult = {
       value: f.value,
       root: f.root,
-      channel: { choi: writeMatrix(f.choi), inputDims: f.channel.inputDims, outputDims: f.channel.outputDims },
+      channel: { choi: writeMatrix(f.choi), from: f.channel.fromDims, to: f.channel.toDims },
       // F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) for the returned channel, by the closed form: a checkable lower bound.
       achieved: f.achieved,
       // Objectives of the certificate are those of the root fidelity √F.

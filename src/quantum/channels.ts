@@ -27,7 +27,7 @@ import {
 } from '../linalg/cmatrix.js';
 import { eigh, eigvalsh } from '../linalg/eigh.js';
 import { operatorNorm } from '../linalg/norms.js';
-import { partialTrace, permuteSubsystems, product } from '../linalg/subsystems.js';
+import { partialTrace, reorderSubsystems, product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel, State } from './types.js';
 import { checkHermitian, checkDims, DEFAULT_TOLERANCE } from './validate.js';
@@ -35,8 +35,8 @@ import { checkDimList, checkSystemList } from './arguments.js';
 
 /** Throws unless the channel is well formed: dims valid, ≥ 1 Kraus operator, each d_out × d_in and finite. */
 export function checkChannelShape(channel: Channel, path = 'channel'): void {
-  const inDims = checkDimList(channel.inputDims, `${path}.inputDims`);
-  const outDims = checkDimList(channel.outputDims, `${path}.outputDims`);
+  const inDims = checkDimList(channel.fromDims, `${path}.from`);
+  const outDims = checkDimList(channel.toDims, `${path}.to`);
   const dIn = product(inDims);
   const dOut = product(outDims);
   if (!Array.isArray(channel.kraus) || channel.kraus.length === 0) {
@@ -55,11 +55,11 @@ export function checkChannelShape(channel: Channel, path = 'channel'): void {
 }
 
 export function inputDimension(channel: Channel): number {
-  return product(channel.inputDims);
+  return product(channel.fromDims);
 }
 
 export function outputDimension(channel: Channel): number {
-  return product(channel.outputDims);
+  return product(channel.toDims);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -112,10 +112,10 @@ export interface ChoiToKrausResult {
  * refused with 'not-completely-positive' and that eigenvalue; a non-Hermitian one with 'not-hermitian'.
  */
 export function choiToKrausDetailed(
-  choi: CMatrix, inputDims: readonly number[], outputDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
+  choi: CMatrix, fromDims: readonly number[], toDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
 ): ChoiToKrausResult {
-  const inDims = checkDimList(inputDims, 'inputDims');
-  const outDims = checkDimList(outputDims, 'outputDims');
+  const inDims = checkDimList(fromDims, 'fromDims');
+  const outDims = checkDimList(toDims, 'toDims');
   const dIn = product(inDims);
   const dOut = product(outDims);
   checkHermitian(choi, tolerance, 'choi');
@@ -154,7 +154,7 @@ export function choiToKrausDetailed(
   }
   if (kraus.length === 0) kraus.push(zeros(dOut, dIn)); // the zero map
   return {
-    channel: { kraus, inputDims: [...inDims], outputDims: [...outDims] },
+    channel: { kraus, fromDims: [...inDims], toDims: [...outDims] },
     eigenvalues: Array.from(values),
     dropped: dropped.reverse(),
     threshold,
@@ -162,14 +162,14 @@ export function choiToKrausDetailed(
 }
 
 export function choiToKraus(
-  choi: CMatrix, inputDims: readonly number[], outputDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
+  choi: CMatrix, fromDims: readonly number[], toDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
 ): Channel {
-  return choiToKrausDetailed(choi, inputDims, outputDims, tolerance).channel;
+  return choiToKrausDetailed(choi, fromDims, toDims, tolerance).channel;
 }
 
 /** The same map with a minimal number of Kraus operators (through the Choi matrix; see choiToKraus). */
 export function compressKraus(channel: Channel, tolerance = DEFAULT_TOLERANCE): Channel {
-  return choiToKraus(krausToChoi(channel), channel.inputDims, channel.outputDims, tolerance);
+  return choiToKraus(krausToChoi(channel), channel.fromDims, channel.toDims, tolerance);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -178,8 +178,8 @@ export function compressKraus(channel: Channel, tolerance = DEFAULT_TOLERANCE): 
 export interface Stinespring {
   /** V: A → B ⊗ E, of shape (d_out · environmentDim) × d_in, environment last. */
   isometry: CMatrix;
-  inputDims: number[];
-  outputDims: number[];
+  fromDims: number[];
+  toDims: number[];
   environmentDim: number;
 }
 
@@ -198,15 +198,15 @@ export function krausToStinespring(channel: Channel): Stinespring {
       }
     }
   });
-  return { isometry: V, inputDims: [...channel.inputDims], outputDims: [...channel.outputDims], environmentDim: r };
+  return { isometry: V, fromDims: [...channel.fromDims], toDims: [...channel.toDims], environmentDim: r };
 }
 
 /** Kraus operators K_k = (I_B ⊗ ⟨k|_E) V of a Stinespring operator (environment last). */
 export function stinespringToKraus(
-  isometry: CMatrix, inputDims: readonly number[], outputDims: readonly number[], environmentDim: number,
+  isometry: CMatrix, fromDims: readonly number[], toDims: readonly number[], environmentDim: number,
 ): Channel {
-  const inDims = checkDimList(inputDims, 'inputDims');
-  const outDims = checkDimList(outputDims, 'outputDims');
+  const inDims = checkDimList(fromDims, 'fromDims');
+  const outDims = checkDimList(toDims, 'toDims');
   const dIn = product(inDims);
   const dOut = product(outDims);
   const r = environmentDim;
@@ -229,7 +229,7 @@ export function stinespringToKraus(
     }
     kraus.push(K);
   }
-  return { kraus, inputDims: [...inDims], outputDims: [...outDims] };
+  return { kraus, fromDims: [...inDims], toDims: [...outDims] };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -258,10 +258,10 @@ export interface ChannelDiagnostics {
  * These are numerical judgements at the stated tolerance, not proofs.
  */
 export function choiDiagnostics(
-  choi: CMatrix, inputDims: readonly number[], outputDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
+  choi: CMatrix, fromDims: readonly number[], toDims: readonly number[], tolerance = DEFAULT_TOLERANCE,
 ): ChannelDiagnostics {
-  const dIn = product(checkDimList(inputDims, 'inputDims'));
-  const dOut = product(checkDimList(outputDims, 'outputDims'));
+  const dIn = product(checkDimList(fromDims, 'fromDims'));
+  const dOut = product(checkDimList(toDims, 'toDims'));
   checkHermitian(choi, tolerance, 'choi');
   checkDims(choi, [dIn, dOut], 'choi');
   const values = eigvalsh(choi);
@@ -285,7 +285,7 @@ export function choiDiagnostics(
 /** As choiDiagnostics, from Kraus operators, adding ‖Σ K*K − I‖ and computing ‖Σ K K* − I‖ directly. */
 export function channelDiagnostics(channel: Channel, tolerance = DEFAULT_TOLERANCE): ChannelDiagnostics {
   const J = krausToChoi(channel);
-  const fromChoi = choiDiagnostics(J, channel.inputDims, channel.outputDims, tolerance);
+  const fromChoi = choiDiagnostics(J, channel.fromDims, channel.toDims, tolerance);
   const traceDefectKraus = operatorNorm(sub(krausSum(channel, 'KstarK'), identity(inputDimension(channel))));
   const unitalDefect = operatorNorm(sub(krausSum(channel, 'KKstar'), identity(outputDimension(channel))));
   return {
@@ -346,14 +346,14 @@ export function applyChannel(channel: Channel, state: State, on?: readonly numbe
   const actedDims = acted.map((s) => dims[s]);
   const dIn = inputDimension(channel);
   const dOut = outputDimension(channel);
-  const sameFactors = acted.length === channel.inputDims.length;
+  const sameFactors = acted.length === channel.fromDims.length;
   if (
-    (sameFactors && actedDims.some((d, k) => d !== channel.inputDims[k])) ||
+    (sameFactors && actedDims.some((d, k) => d !== channel.fromDims[k])) ||
     (!sameFactors && product(actedDims) !== dIn)
   ) {
     throw new RhoError(
       'dimension-mismatch',
-      `The channel takes input dims [${channel.inputDims.join(', ')}], but the subsystems [${acted.join(', ')}] have dims [${actedDims.join(', ')}].`,
+      `The channel takes input dims [${channel.fromDims.join(', ')}], but the subsystems [${acted.join(', ')}] have dims [${actedDims.join(', ')}].`,
       'on',
     );
   }
@@ -365,7 +365,7 @@ export function applyChannel(channel: Channel, state: State, on?: readonly numbe
 
   const perm1 = [...acted, ...rest];
   const isIdentity = perm1.every((p, k) => p === k);
-  const front = isIdentity ? state.matrix : permuteSubsystems(state.matrix, dims, perm1);
+  const front = isIdentity ? state.matrix : reorderSubsystems(state.matrix, dims, perm1);
 
   // W = Σ_k (K ⊗ I_R) [(K ⊗ I_R) ρ]*; the result is W* = Σ_k (K ⊗ I) ρ (K ⊗ I)*.
   const flat = reshaped(front, dIn, R * N);
@@ -380,9 +380,9 @@ export function applyChannel(channel: Channel, state: State, on?: readonly numbe
   const out = adjoint(reshaped(acc!, dOut * R, dOut * R));
 
   // Current layout: [outputs..., rest...]. Build the final layout.
-  const outFactors = channel.outputDims.length;
+  const outFactors = channel.toDims.length;
   const inPlace = outFactors === acted.length;
-  const currentDims = [...channel.outputDims, ...restDims];
+  const currentDims = [...channel.toDims, ...restDims];
   const finalTokens: number[] = []; // indices into the current layout
   const firstActed = Math.min(...acted);
   let restIdx = 0;
@@ -396,7 +396,7 @@ export function applyChannel(channel: Channel, state: State, on?: readonly numbe
   }
   const finalDims = finalTokens.map((t) => currentDims[t]);
   const identityFinal = finalTokens.every((t, k) => t === k);
-  const matrix = identityFinal ? out : permuteSubsystems(out, currentDims, finalTokens);
+  const matrix = identityFinal ? out : reorderSubsystems(out, currentDims, finalTokens);
   if (inPlace && state.labels) return { matrix, dims: finalDims, labels: [...state.labels] };
   return { matrix, dims: finalDims };
 }
@@ -414,13 +414,13 @@ export function composeChannels(outer: Channel, inner: Channel, tolerance = DEFA
   if (outputDimension(inner) !== inputDimension(outer)) {
     throw new RhoError(
       'dimension-mismatch',
-      `The first channel outputs dims [${inner.outputDims.join(', ')}] but the next one takes [${outer.inputDims.join(', ')}].`,
+      `The first channel outputs dims [${inner.toDims.join(', ')}] but the next one takes [${outer.fromDims.join(', ')}].`,
       'channels',
     );
   }
   const kraus: CMatrix[] = [];
   for (const A of outer.kraus) for (const B of inner.kraus) kraus.push(mul(A, B));
-  const composed: Channel = { kraus, inputDims: [...inner.inputDims], outputDims: [...outer.outputDims] };
+  const composed: Channel = { kraus, fromDims: [...inner.fromDims], toDims: [...outer.toDims] };
   return kraus.length > inputDimension(composed) * outputDimension(composed) ? compressKraus(composed, tolerance) : composed;
 }
 
@@ -434,7 +434,7 @@ export function composeSequence(channels: readonly Channel[], tolerance = DEFAUL
       acc = composeChannels(channels[k], acc, tolerance);
     } catch (e) {
       if (e instanceof RhoError && e.code === 'dimension-mismatch') {
-        throw new RhoError('dimension-mismatch', `Channel ${k} takes dims [${channels[k].inputDims.join(', ')}], but channel ${k - 1} outputs [${channels[k - 1].outputDims.join(', ')}].`, `channels[${k}]`);
+        throw new RhoError('dimension-mismatch', `Channel ${k} takes dims [${channels[k].fromDims.join(', ')}], but channel ${k - 1} outputs [${channels[k - 1].toDims.join(', ')}].`, `channels[${k}]`);
       }
       throw e;
     }
@@ -454,8 +454,8 @@ export function tensorChannels(...channels: Channel[]): Channel {
   }
   return {
     kraus,
-    inputDims: channels.flatMap((c) => c.inputDims),
-    outputDims: channels.flatMap((c) => c.outputDims),
+    fromDims: channels.flatMap((c) => c.fromDims),
+    toDims: channels.flatMap((c) => c.toDims),
   };
 }
 
@@ -465,7 +465,7 @@ export function tensorChannels(...channels: Channel[]): Channel {
  */
 export function adjointChannel(channel: Channel): Channel {
   checkChannelShape(channel);
-  return { kraus: channel.kraus.map(adjoint), inputDims: [...channel.outputDims], outputDims: [...channel.inputDims] };
+  return { kraus: channel.kraus.map(adjoint), fromDims: [...channel.toDims], toDims: [...channel.fromDims] };
 }
 
 /**
@@ -489,13 +489,13 @@ export function complementaryChannel(channel: Channel): Channel {
     });
     kraus.push(L);
   }
-  return { kraus, inputDims: [...channel.inputDims], outputDims: [r] };
+  return { kraus, fromDims: [...channel.fromDims], toDims: [r] };
 }
 
 /** The identity channel on the given dims. */
 export function identityChannel(dims: readonly number[]): Channel {
   const d = checkDimList(dims, 'dims');
-  return { kraus: [identity(product(d))], inputDims: [...d], outputDims: [...d] };
+  return { kraus: [identity(product(d))], fromDims: [...d], toDims: [...d] };
 }
 
 /** Σ_k ‖K_k‖_F², i.e. Tr J (= d_in for a trace-preserving map); handy in diagnostics. */

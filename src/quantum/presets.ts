@@ -56,7 +56,7 @@ export function depolarizing(d: number, p: number): Channel {
     for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) if (a !== 0 || b !== 0) kraus.push(scale(weylOperator(d, a, b), w));
   }
   if (kraus.length === 0) kraus.push(scale(identity(d), 0));
-  return { kraus, inputDims: [d], outputDims: [d] };
+  return { kraus, fromDims: [d], toDims: [d] };
 }
 
 /** Dephasing ρ ↦ (1 − p)ρ + p·diag(ρ) in the computational basis, 0 ≤ p ≤ 1. */
@@ -72,7 +72,7 @@ export function dephasing(d: number, p: number): Channel {
       kraus.push(P);
     }
   }
-  return { kraus, inputDims: [d], outputDims: [d] };
+  return { kraus, fromDims: [d], toDims: [d] };
 }
 
 /** Qubit amplitude damping with decay probability γ ∈ [0, 1]. */
@@ -83,7 +83,7 @@ export function amplitudeDamping(gamma: number): Channel {
   K0.re[3] = Math.sqrt(1 - gamma);
   const K1 = zeros(2, 2);
   K1.re[1] = Math.sqrt(gamma);
-  return { kraus: [K0, K1], inputDims: [2], outputDims: [2] };
+  return { kraus: [K0, K1], fromDims: [2], toDims: [2] };
 }
 
 /** Generalized amplitude damping: decay γ ∈ [0, 1] towards diag(1 − N, N), N ∈ [0, 1] (see header). */
@@ -102,7 +102,7 @@ export function generalizedAmplitudeDamping(gamma: number, N: number): Channel {
   K2.re[3] = b;
   const K3 = zeros(2, 2);
   K3.re[2] = b * Math.sqrt(gamma);
-  return { kraus: [K0, K1, K2, K3], inputDims: [2], outputDims: [2] };
+  return { kraus: [K0, K1, K2, K3], fromDims: [2], toDims: [2] };
 }
 
 /** Erasure channel C^d → C^{d+1}: ρ ↦ (1 − p)ρ ⊕ p|d⟩⟨d| (the flag is the last level). */
@@ -118,7 +118,7 @@ export function erasure(d: number, p: number): Channel {
     K.re[d * d + i] = Math.sqrt(p);
     kraus.push(K);
   }
-  return { kraus, inputDims: [d], outputDims: [d + 1] };
+  return { kraus, fromDims: [d], toDims: [d + 1] };
 }
 
 /** Largest entry of |U*U − I|: zero for a unitary. */
@@ -141,7 +141,7 @@ export function unitaryChannel(u: CMatrix, dims?: readonly number[], tolerance =
   checkUnitary(u, tolerance, 'unitary');
   const d = dims ? checkDimList(dims, 'dims') : [u.rows];
   if (product(d) !== u.rows) throw new RhoError('dimension-mismatch', `The dims [${d.join(', ')}] do not multiply to ${u.rows}.`, 'dims');
-  return { kraus: [u], inputDims: [...d], outputDims: [...d] };
+  return { kraus: [u], fromDims: [...d], toDims: [...d] };
 }
 
 /**
@@ -166,7 +166,7 @@ export function partialTraceChannel(dims: readonly number[], traceOut: readonly 
     for (let i = 0; i < dk; i++) K.re[i * D + offK[i] + offT[t]] = 1;
     kraus.push(K);
   }
-  return { kraus, inputDims: [...d], outputDims: keep.map((k) => d[k]) };
+  return { kraus, fromDims: [...d], toDims: keep.map((k) => d[k]) };
 }
 
 /** Throws unless the list is a POVM: each element PSD, all the same size, summing to I within tolerance. */
@@ -214,7 +214,7 @@ function psdFactors(m: CMatrix, tolerance: number): { re: Float64Array; im: Floa
  */
 export function measurePrepare(
   povm: readonly CMatrix[], states: readonly CMatrix[], tolerance = DEFAULT_TOLERANCE,
-  inputDims?: readonly number[], outputDims?: readonly number[],
+  fromDims?: readonly number[], toDims?: readonly number[],
 ): Channel {
   checkPovm(povm, tolerance, 'povm');
   if (states.length !== povm.length) {
@@ -226,10 +226,10 @@ export function measurePrepare(
     if (s.rows !== dOut) throw new RhoError('dimension-mismatch', `State ${k} is ${s.rows}x${s.cols}; state 0 is ${dOut}x${dOut}.`, `states[${k}]`);
     checkDensityMatrix(s, tolerance, `states[${k}]`);
   });
-  const inD = inputDims ? checkDimList(inputDims, 'inputDims') : [dIn];
-  const outD = outputDims ? checkDimList(outputDims, 'outputDims') : [dOut];
-  if (product(inD) !== dIn) throw new RhoError('dimension-mismatch', `inputDims multiply to ${product(inD)}, the POVM acts on dimension ${dIn}.`, 'inputDims');
-  if (product(outD) !== dOut) throw new RhoError('dimension-mismatch', `outputDims multiply to ${product(outD)}, the states have dimension ${dOut}.`, 'outputDims');
+  const inD = fromDims ? checkDimList(fromDims, 'fromDims') : [dIn];
+  const outD = toDims ? checkDimList(toDims, 'toDims') : [dOut];
+  if (product(inD) !== dIn) throw new RhoError('dimension-mismatch', `fromDims multiply to ${product(inD)}, the POVM acts on dimension ${dIn}.`, 'fromDims');
+  if (product(outD) !== dOut) throw new RhoError('dimension-mismatch', `toDims multiply to ${product(outD)}, the states have dimension ${dOut}.`, 'toDims');
   const kraus: CMatrix[] = [];
   povm.forEach((M, x) => {
     const ms = psdFactors(M, tolerance);
@@ -249,7 +249,7 @@ export function measurePrepare(
     }
   });
   if (kraus.length === 0) kraus.push(zeros(dOut, dIn));
-  return { kraus, inputDims: inD, outputDims: outD };
+  return { kraus, fromDims: inD, toDims: outD };
 }
 
 /**
@@ -276,7 +276,7 @@ export function pinchingByProjectors(projectors: readonly CMatrix[], tolerance =
   if (defect > tolerance) throw new RhoError('invalid-argument', `The projectors do not sum to the identity (defect ${defect.toExponential(3)}).`, 'projectors', { defect });
   const d = dims ? checkDimList(dims, 'dims') : [n];
   if (product(d) !== n) throw new RhoError('dimension-mismatch', `dims multiply to ${product(d)}, the projectors are ${n}x${n}.`, 'dims');
-  return { kraus: projectors.map((P) => ({ rows: n, cols: n, re: P.re.slice(), im: P.im.slice() })), inputDims: [...d], outputDims: [...d] };
+  return { kraus: projectors.map((P) => ({ rows: n, cols: n, re: P.re.slice(), im: P.im.slice() })), fromDims: [...d], toDims: [...d] };
 }
 
 /**
@@ -298,7 +298,7 @@ export function pinchingInBasis(basis: CMatrix | number, tolerance = DEFAULT_TOL
   }
   const d = dims ? checkDimList(dims, 'dims') : [n];
   if (product(d) !== n) throw new RhoError('dimension-mismatch', `dims multiply to ${product(d)}, the basis has ${n} vectors.`, 'dims');
-  return { kraus: projectors, inputDims: [...d], outputDims: [...d] };
+  return { kraus: projectors, fromDims: [...d], toDims: [...d] };
 }
 
 /**
@@ -341,7 +341,7 @@ export function conditionalExpectation(
     }
     offset += nk * mk;
   });
-  return { kraus, inputDims: [D], outputDims: [D] };
+  return { kraus, fromDims: [D], toDims: [D] };
 }
 
 /**
@@ -358,7 +358,7 @@ export function groupTwirl(unitaries: readonly CMatrix[], dims?: readonly number
   const d = dims ? checkDimList(dims, 'dims') : [n];
   if (product(d) !== n) throw new RhoError('dimension-mismatch', `dims multiply to ${product(d)}, the unitaries are ${n}x${n}.`, 'dims');
   const w = 1 / Math.sqrt(unitaries.length);
-  return { kraus: unitaries.map((U) => scale(U, w)), inputDims: [...d], outputDims: [...d] };
+  return { kraus: unitaries.map((U) => scale(U, w)), fromDims: [...d], toDims: [...d] };
 }
 
 /** U ⊗ U for each U (for Werner-type twirls) or U ⊗ Ū (isotropic-type), as a helper for callers. */

@@ -22,7 +22,7 @@ import {
 } from '../linalg/cmatrix.js';
 import { eigh } from '../linalg/eigh.js';
 import { fromSpectrum } from '../linalg/functions.js';
-import { marginal, permuteSubsystems, product } from '../linalg/subsystems.js';
+import { marginal, reorderSubsystems, product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { State } from './types.js';
 import { checkDims, checkHermitian, DEFAULT_TOLERANCE } from './validate.js';
@@ -222,12 +222,12 @@ export function reducedState(state: State, keep: readonly number[]): State {
 }
 
 /** Reorder subsystems: subsystem k of the result is subsystem perm[k] of the input (labels follow). */
-export function permuteState(state: State, perm: readonly number[]): State {
+export function reorderState(state: State, perm: readonly number[]): State {
   if (perm.length !== state.dims.length) {
     throw new RhoError('invalid-argument', `A permutation of ${state.dims.length} subsystems must list each once.`, 'perm');
   }
   checkSystemList(perm, state.dims.length, 'perm');
-  const matrix = permuteSubsystems(state.matrix, state.dims, perm);
+  const matrix = reorderSubsystems(state.matrix, state.dims, perm);
   const dims = perm.map((s) => state.dims[s]);
   return state.labels ? { matrix, dims, labels: perm.map((s) => state.labels![s]) } : { matrix, dims };
 }

@@ -3,7 +3,7 @@
  *
  * A `State` is a density matrix on a tensor product of subsystems (dims multiply to its size).
  * A `Channel` is a completely positive map given by Kraus operators, each of shape
- * prod(outputDims) x prod(inputDims); trace preservation is not assumed (check it where it matters).
+ * prod(toDims) x prod(fromDims); trace preservation is not assumed (check it where it matters).
  */
 import type { CMatrix } from '../linalg/cmatrix.js';
 
@@ -15,6 +15,6 @@ export interface State {
 
 export interface Channel {
   kraus: CMatrix[];
-  inputDims: number[];
-  outputDims: number[];
+  fromDims: number[];
+  toDims: number[];
 }

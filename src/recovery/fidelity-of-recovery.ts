@@ -50,7 +50,7 @@ export interface FidelityOfRecoveryResult {
   value: number;
   /** √F(A;C|B) = the solver's primal objective (as a maximum). */
   root: number;
-  /** An optimal recovery channel B → BC (inputDims: B's dims, outputDims: B's then C's), trace preserving. */
+  /** An optimal recovery channel B → BC (fromDims: B's dims, toDims: B's then C's), trace preserving. */
   channel: Channel;
   /** Its Choi matrix (input factor first). */
   choi: CMatrix;
@@ -144,8 +144,8 @@ export function fidelityOfRecovery(
   // The optimal channel, made trace preserving.
   const bDims = b.map((s) => dims[s]);
   const cDims = c.map((s) => dims[s]);
-  const inputDims = bDims.length ? bDims : [1];
-  const outputDims = [...bDims, ...cDims].length ? [...bDims, ...cDims] : [1];
+  const fromDims = bDims.length ? bDims : [1];
+  const toDims = [...bDims, ...cDims].length ? [...bDims, ...cDims] : [1];
   const J = hermitianPart(answer.x[1] as CMatrix);
   const raw = choiToKraus(J, [dB], [dO], tol);
   const G = hermitianPart(krausSum(raw, 'KstarK'));
@@ -154,8 +154,8 @@ export function fidelityOfRecovery(
     traceDefect = Math.max(traceDefect, Math.abs(v - 1));
   });
   const invRoot = inverseRootOnSupport(G);
-  const channel: Channel = { kraus: raw.kraus.map((K) => mul(K, invRoot)), inputDims, outputDims };
-  const flat: Channel = { kraus: channel.kraus, inputDims: [dB], outputDims: [dO] };
+  const channel: Channel = { kraus: raw.kraus.map((K) => mul(K, invRoot)), fromDims, toDims };
+  const flat: Channel = { kraus: channel.kraus, fromDims: [dB], toDims: [dO] };
   const state: State = { matrix: rhoAB, dims: [dA, dB] };
   const recovered = hermitianPart(applyChannel(flat, state, [1]).matrix);
   const achieved = fidelity(rhoABC, recovered, tol).value;

@@ -97,7 +97,7 @@ export interface PetzMapOptions {
 }
 
 export interface PetzMap {
-  /** The map B → BC as a channel (inputDims [d_B], outputDims [d_B, d_C]). */
+  /** The map B → BC as a channel (fromDims [d_B], toDims [d_B, d_C]). */
   channel: Channel;
   diagnostics: {
     /** Ranks of ρ_B and ρ_BC used. */
@@ -167,7 +167,7 @@ export function petzRecoveryMap(rhoBC: CMatrix, dB: number, dC: number, options:
     });
   }
   return {
-    channel: { kraus, inputDims: [dB], outputDims: [dB, dC] },
+    channel: { kraus, fromDims: [dB], toDims: [dB, dC] },
     diagnostics: {
       rankB: inner.rank,
       rankBC: left.rank,

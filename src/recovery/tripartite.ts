@@ -8,7 +8,7 @@
  * density matrix itself (the ops layer does that).
  * Cost: one partial trace and one permutation, O(n²) in the matrix size.
  */
-import { CMatrix, marginal, permuteSubsystems, product } from '../linalg/index.js';
+import { CMatrix, marginal, reorderSubsystems, product } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 
 export interface Tripartite {
@@ -66,6 +66,6 @@ export function toOriginalOrder(sigma: CMatrix, t: Tripartite): { matrix: CMatri
   const systems = [...t.order].sort((x, y) => x - y);
   if (systems.length <= 1) return { matrix: sigma, dims: [...t.dims], systems };
   const perm = systems.map((s) => t.order.indexOf(s));
-  const matrix = perm.every((p, k) => p === k) ? sigma : permuteSubsystems(sigma, t.dims, perm);
+  const matrix = perm.every((p, k) => p === k) ? sigma : reorderSubsystems(sigma, t.dims, perm);
   return { matrix, dims: systems.map((s) => t.dims[t.order.indexOf(s)]), systems };
 }

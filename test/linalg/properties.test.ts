@@ -5,7 +5,7 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import {
-  CMatrix, adjoint, kron, mul, sub, frobeniusNorm, partialTrace, permuteSubsystems, partialTranspose, trace,
+  CMatrix, adjoint, kron, mul, sub, frobeniusNorm, partialTrace, reorderSubsystems, partialTranspose, trace,
   transpose, traceNorm, operatorNorm, eigh, fromSpectrum, sqrtm, expm, logm, add, identity, marginal, scale,
 } from '../../src/linalg/index.js';
 import { randomComplex, randomHermitian, randomDensity, rng } from '../helpers/random.js';
@@ -66,15 +66,15 @@ describe('linalg identities (property tests)', () => {
       const perm = dims.map((_, k) => k).reverse();
       const newDims = perm.map((k) => dims[k]);
       const inverse = perm.map((_, k) => perm.indexOf(k));
-      const P = permuteSubsystems(H, dims, perm);
-      close(permuteSubsystems(P, newDims, inverse), H);
+      const P = reorderSubsystems(H, dims, perm);
+      close(reorderSubsystems(P, newDims, inverse), H);
       const a = eigh(H, { vectors: false }).values;
       const b = eigh(P, { vectors: false }).values;
       a.forEach((x, i) => assert.ok(Math.abs(x - b[i]) < 1e-9 * (1 + Math.abs(x))));
       // The reordered product of factors is the product in the new order.
       if (dims.length === 2) {
         const [X, Y] = [randomComplex(dims[0], dims[0], r), randomComplex(dims[1], dims[1], r)];
-        close(permuteSubsystems(kron(X, Y), dims, [1, 0]), kron(Y, X));
+        close(reorderSubsystems(kron(X, Y), dims, [1, 0]), kron(Y, X));
       }
     }), RUNS);
   });

@@ -52,7 +52,7 @@ function distanceToHull(theta: readonly number[]): number {
   return best;
 }
 
-const unitaryChannel = (u: CMatrix): Channel => ({ kraus: [u], inputDims: [u.rows], outputDims: [u.rows] });
+const unitaryChannel = (u: CMatrix): Channel => ({ kraus: [u], fromDims: [u.rows], toDims: [u.rows] });
 
 describe('diamond-norm distance ½‖N − M‖_⋄ (Watrous 2009/2013 SDP)', () => {
   it('equals √(1 − ν²) for unitary channels U·U*, V·V*, with ν the distance from 0 to the convex hull of the eigenvalues of U*V (Aharonov, Kitaev & Nisan 1998; Watrous, The Theory of Quantum Information, Thm 3.55; recalled)', () => {
@@ -79,7 +79,7 @@ describe('diamond-norm distance ½‖N − M‖_⋄ (Watrous 2009/2013 SDP)', ()
       [amplitudeDamping(0.9), unitaryChannel(randomUnitary(2, r))],
     ];
     for (const [a, b] of pairs) {
-      const d = a.inputDims[0];
+      const d = a.fromDims[0];
       const entangled = 0.5 * traceNorm(sub(krausToChoi(a), krausToChoi(b))) / d;
       const got = diamondDistance(a, b);
       assert.ok(got.value >= entangled - 1e-8, `${got.value} < ${entangled}`);
@@ -114,7 +114,7 @@ describe('diamond-norm distance ½‖N − M‖_⋄ (Watrous 2009/2013 SDP)', ()
           kraus.push(k);
         }
       }
-      return { kraus, inputDims: [2], outputDims: [3] };
+      return { kraus, fromDims: [2], toDims: [3] };
     };
     const got = diamondDistance(replace(rho), replace(sigma));
     const td = 0.5 * traceNorm(sub(rho, sigma));
@@ -132,7 +132,7 @@ describe('diamond-norm distance ½‖N − M‖_⋄ (Watrous 2009/2013 SDP)', ()
   });
 
   it('refuses a map that is not trace preserving and channels with different dimensions', () => {
-    const half: Channel = { kraus: [scale(identity(2), 0.9)], inputDims: [2], outputDims: [2] };
+    const half: Channel = { kraus: [scale(identity(2), 0.9)], fromDims: [2], toDims: [2] };
     assert.throws(() => diamondDistance(half, amplitudeDamping(0.1)), (e: any) => e.code === 'not-trace-preserving' && e.path === 'a');
     const big = unitaryChannel(identity(3));
     assert.throws(() => diamondDistance(amplitudeDamping(0.1), big), (e: any) => e.code === 'dimension-mismatch');

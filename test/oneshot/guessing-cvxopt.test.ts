@@ -14,19 +14,21 @@ import type { Channel } from '../../src/quantum/types.js';
 import { liveReference } from '../helpers/python.js';
 
 type Plain = { re: number[][]; im: number[][] };
+/** A channel in the protocol's plain-data form ("from": input dims, "to": output dims). */
+type PlainChannel = { kraus: Plain[]; from: number[]; to: number[] };
 interface ReferenceFile {
   cvxopt: string;
   numpy: string;
   seed: number;
   guessing: { probabilities: number[]; states: Plain[]; value: number; cvxoptStatus: string }[];
-  diamond: { a: { kraus: Plain[]; inputDims: number[]; outputDims: number[] }; b: { kraus: Plain[]; inputDims: number[]; outputDims: number[] }; value: number; cvxoptStatus: string }[];
+  diamond: { a: PlainChannel; b: PlainChannel; value: number; cvxoptStatus: string }[];
 }
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guessing.py`;
 const m = (x: Plain): CMatrix => fromRows(x.re, x.im);
-const ch = (c: { kraus: Plain[]; inputDims: number[]; outputDims: number[] }): Channel => ({
-  kraus: c.kraus.map(m), inputDims: c.inputDims, outputDims: c.outputDims,
+const ch = (c: PlainChannel): Channel => ({
+  kraus: c.kraus.map(m), fromDims: c.from, toDims: c.to,
 });
 
 function live(t: { skip: (msg: string) => void }): ReferenceFile | undefined {

@@ -84,7 +84,7 @@ describe('channel and state ops', () => {
 
   it('channel-check reports the transpose map (Choi = swap) as not completely positive with eigenvalue −1, and still trace preserving (textbook example)', () => {
     const swap = [[1, 0, 0, 0], [0, 0, 1, 0], [0, 1, 0, 0], [0, 0, 0, 1]];
-    const a = ok({ op: 'channel-check', channel: { choi: swap, inputDims: [2] } });
+    const a = ok({ op: 'channel-check', channel: { choi: swap, from: [2] } });
     assert.equal(a.value, false);
     assert.equal(a.completelyPositive, false);
     assert.ok(Math.abs(a.minChoiEigenvalue + 1) < 1e-14);
@@ -101,9 +101,9 @@ describe('channel and state ops', () => {
 
   it('channel-convert: the identity channel has Choi matrix Σ_ij |ii⟩⟨jj| (Choi 1975) and a one-operator Kraus form', () => {
     const id = { kraus: [[[1, 0], [0, 1]]] };
-    const choi = ok({ op: 'channel-convert', channel: id, to: 'choi' }).value;
+    const choi = ok({ op: 'channel-convert', channel: id, form: 'choi' }).value;
     assertClose(choi, [[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]], 0);
-    const back = ok({ op: 'channel-convert', channel: { choi, inputDims: [2] }, to: 'kraus' });
+    const back = ok({ op: 'channel-convert', channel: { choi, from: [2] }, form: 'kraus' });
     assert.equal(back.count, 1);
     assert.equal(back.droppedEigenvalues.length, 3);
   });
@@ -111,7 +111,7 @@ describe('channel and state ops', () => {
   it('channel-convert to a minimal Kraus family keeps the action: dephasing (d = 2) has Choi rank 2 (common practice)', () => {
     const deph = ok({ op: 'channel-preset', name: 'dephasing', d: 2, p: 0.5 }).value;
     assert.equal(deph.kraus.length, 3);
-    const min = ok({ op: 'channel-convert', channel: deph, to: 'kraus', minimal: true });
+    const min = ok({ op: 'channel-convert', channel: deph, form: 'kraus', minimal: true });
     assert.equal(min.count, 2);
     const rho = [[0.5, 0.5], [0.5, 0.5]];
     const a = ok({ op: 'apply-channel', channel: deph, rho }).value;
@@ -121,7 +121,7 @@ describe('channel and state ops', () => {
 
   it('channel-convert to a Stinespring isometry: V*V = I for a trace-preserving channel (Stinespring 1955)', () => {
     const ad = ok({ op: 'channel-preset', name: 'amplitude-damping', gamma: 0.3 }).value;
-    const s = ok({ op: 'channel-convert', channel: ad, to: 'stinespring' });
+    const s = ok({ op: 'channel-convert', channel: ad, form: 'stinespring' });
     assert.equal(s.environmentDim, 2);
     const V = fromRows(parts(s.value).re, parts(s.value).im);
     assert.equal(V.rows, 4);
@@ -134,7 +134,7 @@ describe('channel and state ops', () => {
 
   it('channel-convert refuses a Choi matrix that is not positive semidefinite when converting to Kraus', () => {
     const swap = [[1, 0, 0, 0], [0, 0, 1, 0], [0, 1, 0, 0], [0, 0, 0, 1]];
-    const a = fails({ op: 'channel-convert', channel: { choi: swap, inputDims: [2] }, to: 'kraus' }, 'not-completely-positive', 'channel.choi');
+    const a = fails({ op: 'channel-convert', channel: { choi: swap, from: [2] }, form: 'kraus' }, 'not-completely-positive', 'channel.choi');
     assert.ok(Math.abs(a.error.detail.eigenvalue + 1) < 1e-14);
   });
 

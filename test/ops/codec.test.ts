@@ -186,14 +186,14 @@ describe('codec: channels', () => {
 
   it('reads Kraus operators with dims defaulting to their shape, and writes them back', () => {
     const c = readChannel(damping, 'channel', 1e-9);
-    assert.deepEqual(c.inputDims, [2]);
-    assert.deepEqual(c.outputDims, [2]);
-    assert.deepEqual(writeChannel(c), { ...damping, inputDims: [2], outputDims: [2] });
+    assert.deepEqual(c.fromDims, [2]);
+    assert.deepEqual(c.toDims, [2]);
+    assert.deepEqual(writeChannel(c), { ...damping, from: [2], to: [2] });
   });
 
   it('turns the Choi matrix I⊗I/2 of the completely depolarising qubit channel into Kraus operators that map every state to I/2 (Choi convention of PROTOCOL.md)', () => {
     const J = [[0.5, 0, 0, 0], [0, 0.5, 0, 0], [0, 0, 0.5, 0], [0, 0, 0, 0.5]];
-    const c = readChannel({ choi: J, inputDims: [2], outputDims: [2] }, 'channel', 1e-9);
+    const c = readChannel({ choi: J, from: [2], to: [2] }, 'channel', 1e-9);
     const rho = fromRows([[0.7, 0.2], [0.2, 0.3]], [[0, -0.1], [0.1, 0]]);
     near(apply(c.kraus, rho), fromRows([[0.5, 0], [0, 0.5]]), 1e-14);
   });
@@ -210,26 +210,28 @@ describe('codec: channels', () => {
         for (let a = 0; a < 2; a++) for (let b = 0; b < 2; b++) J.re[(i * 2 + a) * 4 + (j * 2 + b)] = NE.re[a * 2 + b];
       }
     }
-    const c = readChannel({ choi: writeMatrix(J), inputDims: [2] }, 'channel', 1e-9);
-    assert.deepEqual(c.outputDims, [2]);
+    const c = readChannel({ choi: writeMatrix(J), from: [2] }, 'channel', 1e-9);
+    assert.deepEqual(c.toDims, [2]);
     const rho = fromRows([[0.4, 0.1], [0.1, 0.6]], [[0, 0.2], [-0.2, 0]]);
     near(apply(c.kraus, rho), apply(K, rho), 1e-14);
   });
 
   it('refuses the Choi matrix of the transpose map (the swap operator) as not completely positive (Watrous 2018, Thm 2.22)', () => {
     const swap = [[1, 0, 0, 0], [0, 0, 1, 0], [0, 1, 0, 0], [0, 0, 0, 1]];
-    fails(() => readChannel({ choi: swap, inputDims: [2], outputDims: [2] }, 'channel', 1e-9), 'not-completely-positive', 'channel.choi');
+    fails(() => readChannel({ choi: swap, from: [2], to: [2] }, 'channel', 1e-9), 'not-completely-positive', 'channel.choi');
   });
 
   it('refuses malformed channels with the exact path', () => {
     fails(() => readChannel({ kraus: [[[1, 0], [0, 1]], [[1, 0, 0]]] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.kraus[1]');
     fails(() => readChannel({ kraus: [] }, 'ch', 1e-9), 'invalid-argument', 'ch.kraus');
     fails(() => readChannel({ kraus: [[[1]]], choi: [[1]] }, 'ch', 1e-9), 'invalid-argument', 'ch');
-    fails(() => readChannel({ inputDims: [2] }, 'ch', 1e-9), 'missing-argument', 'ch.kraus');
-    fails(() => readChannel({ kraus: [[[1, 0], [0, 1]]], inputDims: [3] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.inputDims');
-    fails(() => readChannel({ kraus: [[[1, 0], [0, 1]]], outputDims: [4] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.outputDims');
-    fails(() => readChannel({ choi: [[1, 0], [0, 1]] }, 'ch', 1e-9), 'missing-argument', 'ch.inputDims');
-    fails(() => readChannel({ choi: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], inputDims: [2] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.inputDims');
+    // Protocol 1.1 (shared PROTOCOL.md) renamed the channel's dims to from/to; the old names are refused by name.
+    fails(() => readChannel({ kraus: [[[1, 0], [0, 1]]], inputDims: [2] }, 'ch', 1e-9), 'invalid-argument', 'ch.inputDims');
+    fails(() => readChannel({ from: [2] }, 'ch', 1e-9), 'missing-argument', 'ch.kraus');
+    fails(() => readChannel({ kraus: [[[1, 0], [0, 1]]], from: [3] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.from');
+    fails(() => readChannel({ kraus: [[[1, 0], [0, 1]]], to: [4] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.to');
+    fails(() => readChannel({ choi: [[1, 0], [0, 1]] }, 'ch', 1e-9), 'missing-argument', 'ch.from');
+    fails(() => readChannel({ choi: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], from: [2] }, 'ch', 1e-9), 'dimension-mismatch', 'ch.from');
     fails(() => readChannel({ kraus: [[[1, 'q']]] }, 'ch', 1e-9), 'parse-error', 'ch.kraus[0][0][1]');
     fails(() => readChannel({ kraus: [[[1]]], inputdims: [1] }, 'ch', 1e-9), 'invalid-argument', 'ch.inputdims');
     fails(() => readChannel([[1]], 'ch', 1e-9), 'invalid-argument', 'ch');

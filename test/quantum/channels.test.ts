@@ -2,7 +2,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  CMatrix, adjoint, identity, kron, mul, scale, zeros, eigvalsh, partialTrace, permuteSubsystems,
+  CMatrix, adjoint, identity, kron, mul, scale, zeros, eigvalsh, partialTrace, reorderSubsystems,
   traceOfProductRe, add, innerProduct,
 } from '../../src/linalg/index.js';
 import {
@@ -142,7 +142,7 @@ describe('checks of complete positivity, trace preservation and unitality', () =
 function slowApply(ch: Channel, rho: CMatrix, dims: number[], on: number[]): { matrix: CMatrix; dims: number[] } {
   const rest = dims.map((_, k) => k).filter((k) => !on.includes(k));
   const perm = [...on, ...rest];
-  const front = permuteSubsystems(rho, dims, perm);
+  const front = reorderSubsystems(rho, dims, perm);
   const R = rest.reduce((a, k) => a * dims[k], 1);
   let acc: CMatrix | null = null;
   for (const K of ch.kraus) {
@@ -150,7 +150,7 @@ function slowApply(ch: Channel, rho: CMatrix, dims: number[], on: number[]): { m
     const t = mul(mul(big, front), adjoint(big));
     acc = acc ? add(acc, t) : t;
   }
-  return { matrix: acc!, dims: [...ch.outputDims, ...rest.map((k) => dims[k])] };
+  return { matrix: acc!, dims: [...ch.toDims, ...rest.map((k) => dims[k])] };
 }
 
 describe('applying a channel to chosen subsystems', () => {
@@ -159,24 +159,24 @@ describe('applying a channel to chosen subsystems', () => {
     const dims = [2, 3, 2];
     const rho = randomDensity(12, r);
     // A channel on C²⊗C² with two output factors [3, 2]: output k replaces subsystem on[k].
-    const ch: Channel = { ...randomChannel(4, 6, 3, r), inputDims: [2, 2], outputDims: [3, 2] };
+    const ch: Channel = { ...randomChannel(4, 6, 3, r), fromDims: [2, 2], toDims: [3, 2] };
     const out = applyChannel(ch, { matrix: rho, dims, labels: ['A', 'B', 'C'] }, [2, 0]);
     assert.deepEqual(out.dims, [2, 3, 3]);
     assert.deepEqual(out.labels, ['A', 'B', 'C']);
     const slow = slowApply(ch, rho, dims, [2, 0]); // layout [out0 (C'), out1 (A'), B]
     // Final layout [A', B, C'] = slow subsystems [1, 2, 0].
-    assert.ok(close(out.matrix, permuteSubsystems(slow.matrix, slow.dims, [1, 2, 0]), 1e-12));
+    assert.ok(close(out.matrix, reorderSubsystems(slow.matrix, slow.dims, [1, 2, 0]), 1e-12));
   });
 
   it('a channel with a different number of output factors puts its outputs where the first acted-on subsystem was', () => {
     const r = rng(8);
     const dims = [2, 2, 3];
     const rho = randomDensity(12, r);
-    const ch: Channel = { ...randomChannel(6, 5, 2, r), inputDims: [6], outputDims: [5] };
+    const ch: Channel = { ...randomChannel(6, 5, 2, r), fromDims: [6], toDims: [5] };
     const out = applyChannel(ch, { matrix: rho, dims }, [1, 2]);
     assert.deepEqual(out.dims, [2, 5]);
     const slow = slowApply(ch, rho, dims, [1, 2]); // [out, A]
-    assert.ok(close(out.matrix, permuteSubsystems(slow.matrix, slow.dims, [1, 0]), 1e-12));
+    assert.ok(close(out.matrix, reorderSubsystems(slow.matrix, slow.dims, [1, 0]), 1e-12));
   });
 
   it('with no subsystems listed the channel acts on the whole state, giving Σ K ρ K*', () => {
@@ -236,7 +236,7 @@ describe('composition, tensor products and complementary channels', () => {
     const ra = randomDensity(2, r);
     const rb = randomDensity(3, r);
     const t = tensorChannels(a, b);
-    assert.deepEqual(t.inputDims, [2, 3]);
+    assert.deepEqual(t.fromDims, [2, 3]);
     assert.ok(close(applyKraus(t, kron(ra, rb)), kron(applyKraus(a, ra), applyKraus(b, rb)), 1e-12));
   });
 
@@ -244,7 +244,7 @@ describe('composition, tensor products and complementary channels', () => {
     const r = rng(14);
     const ch = randomChannel(3, 2, 4, r);
     const comp = complementaryChannel(ch);
-    assert.deepEqual(comp.outputDims, [4]);
+    assert.deepEqual(comp.toDims, [4]);
     for (let t = 0; t < 3; t++) {
       const psi = stateFromKet(randomKet(3, r)).matrix;
       const a = nonzeroSpectrum(applyKraus(ch, psi));

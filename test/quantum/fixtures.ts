@@ -20,7 +20,7 @@ export function randomChannel(dIn: number, dOut: number, count: number, r: () =>
     }
     kraus.push(K);
   }
-  return { kraus, inputDims: [dIn], outputDims: [dOut] };
+  return { kraus, fromDims: [dIn], toDims: [dOut] };
 }
 
 function canonicalKey(U: CMatrix): string {

@@ -125,7 +125,7 @@ describe('unitary, partial trace, measure-and-prepare', () => {
     const r = rng(8);
     const rho = randomDensity(12, r);
     const ch = partialTraceChannel([2, 3, 2], [1]);
-    assert.deepEqual(ch.outputDims, [2, 2]);
+    assert.deepEqual(ch.toDims, [2, 2]);
     assert.ok(close(applyKraus(ch, rho), partialTrace(rho, [2, 3, 2], [1]), 1e-14));
     assert.ok(channelDiagnostics(ch).tracePreserving);
   });

@@ -3,11 +3,11 @@ import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, combine, identity, kron, mul, scale, trace, traceOfProductRe, zeros, columnVector,
-  eigvalsh, maxAbs, sub, permuteSubsystems, diagonal,
+  eigvalsh, maxAbs, sub, reorderSubsystems, diagonal,
 } from '../../src/linalg/index.js';
 import {
   stateFromKet, blochState, mixture, maximallyMixed, maximallyEntangled, wernerState, isotropicState,
-  ghzState, wState, thermalState, thermalStateWithPartition, tensorStates, reducedState, permuteState,
+  ghzState, wState, thermalState, thermalStateWithPartition, tensorStates, reducedState, reorderState,
   relabelState, swapOperator, checkDensityMatrix, applyKraus, groupTwirl, doubled,
 } from '../../src/quantum/index.js';
 import { RhoError } from '../../src/errors.js';
@@ -202,14 +202,14 @@ describe('tensor products, reduced states and reordering', () => {
   it('reordering subsystems of ρ_A ⊗ ρ_B ⊗ ρ_C by [2, 0, 1] gives ρ_C ⊗ ρ_A ⊗ ρ_B with labels following', () => {
     const r = rng(9);
     const [a, b, c] = [2, 3, 2].map((d, k) => ({ matrix: randomDensity(d, r), dims: [d], labels: ['ABC'[k]] }));
-    const s = permuteState(tensorStates(a, b, c), [2, 0, 1]);
+    const s = reorderState(tensorStates(a, b, c), [2, 0, 1]);
     assert.deepEqual(s.dims, [2, 2, 3]);
     assert.deepEqual(s.labels, ['C', 'A', 'B']);
     assert.ok(close(s.matrix, kron(kron(c.matrix, a.matrix), b.matrix)));
     // The reduced state in a chosen order equals the permuted marginal.
     const rho = { matrix: randomDensity(12, r), dims: [2, 3, 2] };
     const red = reducedState(rho, [2, 1]);
-    assert.ok(close(red.matrix, permuteSubsystems(reducedState(rho, [1, 2]).matrix, [3, 2], [1, 0])));
+    assert.ok(close(red.matrix, reorderSubsystems(reducedState(rho, [1, 2]).matrix, [3, 2], [1, 0])));
   });
 
   it('relabelling changes names only, and wrong counts or indices are refused', () => {
@@ -217,7 +217,7 @@ describe('tensor products, reduced states and reordering', () => {
     assert.deepEqual(s.labels, ['X', 'Y']);
     throwsCode(() => relabelState(s, ['X']), 'dimension-mismatch');
     throwsCode(() => reducedState(s, [2]), 'invalid-argument', 'keep[0]');
-    throwsCode(() => permuteState(s, [0, 0]), 'invalid-argument');
+    throwsCode(() => reorderState(s, [0, 0]), 'invalid-argument');
   });
 
   it('the thermal state of a sum of local Hamiltonians is the product of the local thermal states (exp of commuting sums factorises)', () => {

@@ -93,7 +93,7 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
 });
 
 describe('fidelity-of-recovery op (PROTOCOL.md fields: rho with dims, a, b, c; the channel and the certificate)', () => {
-  it('answers with value, root, a protocol channel {choi, inputDims, outputDims} and the certificate, and agrees with the Petz bound', () => {
+  it('answers with value, root, a protocol channel {choi, from, to} and the certificate, and agrees with the Petz bound', () => {
     const r = rng(55);
     const rho = randomDensity(8, r);
     const plain = toRows(rho);
@@ -102,8 +102,8 @@ describe('fidelity-of-recovery op (PROTOCOL.md fields: rho with dims, a, b, c; t
     const p = handle({ op: 'petz-recovery', rho: { matrix: plain, dims: [2, 2, 2] }, a: [0], b: [1], c: [2] }) as Record<string, any>;
     assert.ok(a.value >= p.value - 1e-7);
     assert.ok(Math.abs(a.root ** 2 - a.value) <= 1e-12);
-    assert.deepEqual(a.channel.inputDims, [2]);
-    assert.deepEqual(a.channel.outputDims, [2, 2]);
+    assert.deepEqual(a.channel.from, [2]);
+    assert.deepEqual(a.channel.to, [2, 2]);
     assert.ok(a.channel.choi);
     assert.equal(a.certificate.status, 'optimal');
     assert.equal(typeof a.certificate.dualObjective, 'number');

@@ -4,7 +4,7 @@
 import { describe, it } from 'node:test';
 import assert from 'node:assert/strict';
 import {
-  CMatrix, adjoint, eigvalsh, identity, kron, mul, sub, zeros, marginal, permuteSubsystems,
+  CMatrix, adjoint, eigvalsh, identity, kron, mul, sub, zeros, marginal, reorderSubsystems,
 } from '../../src/linalg/index.js';
 import { petzRecovery, petzRecoveryMap } from '../../src/recovery/petz.js';
 import { applyKraus, krausSum } from '../../src/quantum/channels.js';
@@ -121,7 +121,7 @@ describe('petz-recovery op (PROTOCOL.md fields: rho with dims, a, b, c; value, r
     const rhoA = randomDensity(2, r);
     const rhoBC = randomDensity(4, r);
     const abc = kron(rhoA, rhoBC);
-    const cab = permuteSubsystems(abc, [2, 2, 2], [2, 0, 1]);
+    const cab = reorderSubsystems(abc, [2, 2, 2], [2, 0, 1]);
     const plain = (m: CMatrix) => ({ re: Array.from({ length: m.rows }, (_, i) => Array.from(m.re.slice(i * m.cols, (i + 1) * m.cols))), im: Array.from({ length: m.rows }, (_, i) => Array.from(m.im.slice(i * m.cols, (i + 1) * m.cols))) });
     const a = handle({
       op: 'petz-recovery',
