@@ -12,5 +12,5 @@ bash scripts/setup.sh
 npm run --silent typecheck
 # The Python kernel bridge against the built command (setup.sh built dist/).
 (cd kernel-bridge && ../.venv/bin/python -m pytest -q -p no:cacheprovider tests)
-# Every TypeScript suite (Node's test runner; its summary closes the output).
+# Every TypeScript suite under jest (its summary closes the output).
 node scripts/run-tests.mjs "$@"

@@ -1,7 +1,7 @@
 // Facts about the `rhosigma` command, run as a real process (test/cli/launch.ts). Source: PROTOCOL.md,
 // "The command" (shapes, order, exit codes 0/1/2, no stack trace, a bad request never stops the batch);
 // the rest (--pretty, `ops`, help text) is the project's own contract, no published source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { spawn } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';

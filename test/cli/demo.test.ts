@@ -1,6 +1,6 @@
 // The demo report of `rhosigma demo`, run as a real process: it must answer every request it makes,
 // and its numbers must obey facts from outside the project.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';

@@ -3,7 +3,7 @@
 // (uninformative and orthogonal side information); Helstrom's closed form for two states; and cvxopt
 // (cvxopt from PyPI in .venv, version recorded in the reference file) through
 // scripts/reference/cvxopt_guesswork.py. Every SDP instance is also checked for strong duality.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -232,8 +232,8 @@ describe('guesswork with quantum side information against cvxopt.solvers.sdp', (
     compareWithCvxopt(ref, 'committed');
   });
 
-  it('matches a fresh batch of random ensembles solved by cvxopt in this run (seed 11) to 1e-6 relative', (t) => {
-    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '11', '--count', '4', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
+  it('matches a fresh batch of random ensembles solved by cvxopt in this run (seed 11) to 1e-6 relative', () => {
+    const ref = liveReference<ReferenceFile>([script, '--seed', '11', '--count', '4', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
     if (ref) compareWithCvxopt(ref, 'live');
   });
 });

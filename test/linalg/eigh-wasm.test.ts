@@ -4,7 +4,7 @@
 // ‖V*V − I‖ below 1e-12·n·‖H‖; eigenvalues also against numpy.linalg.eigvalsh (numpy from PyPI,
 // .venv/bin/python). Also: the committed kernel module is a fresh compile of its source, and the
 // environment switch turns the kernels off.
-import { describe, it, after } from 'node:test';
+import { describe, it, afterAll } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -41,7 +41,7 @@ function cases(): [string, CMatrix][] {
 }
 
 describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', () => {
-  after(() => setEighWasmEnabled(true));
+  afterAll(() => setEighWasmEnabled(true));
 
   it('runs the WebAssembly SIMD path by default on Node 20 (so the checks below exercise it)', () => {
     setEighWasmEnabled(true);
@@ -71,9 +71,8 @@ describe('Hermitian eigensolver: WebAssembly SIMD and pure TypeScript paths', ()
     });
   }
 
-  it(
+  (numpySkip(NUMPY) ? it.skip : it)(
     'both paths agree with numpy.linalg.eigvalsh (numpy, LAPACK) within 1e-12·n·‖H‖',
-    { skip: numpySkip(NUMPY) },
     () => {
       const ms = cases().map(([, h]) => h).filter((h) => h.rows >= 24 && operatorNorm(h) < 1e100);
       const ref = numpyEigvalsh(ms);

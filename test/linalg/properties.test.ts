@@ -1,7 +1,7 @@
 // Property tests (fast-check) for linalg identities. Each identity is a textbook fact of matrix
 // analysis (Horn & Johnson, Matrix Analysis, 2nd ed., ch. 4 for Kronecker products; Nielsen & Chuang
 // §2.4.3 for the partial trace; Bhatia, Matrix Analysis, ch. IV for unitarily invariant norms).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import {

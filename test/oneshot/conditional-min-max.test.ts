@@ -1,6 +1,6 @@
 // Conditional min- and max-entropy (König, Renner & Schaffner, IEEE Trans. Inf. Theory 55, 4337 (2009))
 // as SDPs: against cvxopt, published closed forms and the min/max duality for pure states.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   eigvalsh, kron, marginal, mul, sub, trace, identity,
@@ -43,8 +43,8 @@ describe('conditional min-entropy', () => {
     checkMin(committedCases('conditional-min-entropy'), 'committed');
   });
 
-  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 12)', (t) => {
-    const ref = liveCases('conditional-min-entropy', 12, 2, t);
+  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 12)', () => {
+    const ref = liveCases('conditional-min-entropy', 12, 2);
     if (ref) checkMin(ref, 'live');
   });
 
@@ -96,8 +96,8 @@ describe('conditional max-entropy', () => {
     checkMax(committedCases('conditional-max-entropy'), 'committed');
   });
 
-  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 13)', (t) => {
-    const ref = liveCases('conditional-max-entropy', 13, 2, t);
+  it('matches cvxopt.solvers.sdp on a fresh batch generated in this run (seed 13)', () => {
+    const ref = liveCases('conditional-max-entropy', 13, 2);
     if (ref) checkMax(ref, 'live');
   });
 

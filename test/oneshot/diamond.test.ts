@@ -1,7 +1,7 @@
 // Diamond-norm distance ½‖N − M‖_⋄ by Watrous's SDP: unitary channels (numerical-range formula),
 // the maximally entangled input as a lower bound, replacement channels, identity vs completely
 // depolarizing, and the diamond-distance op. The comparison with cvxopt is in guessing-cvxopt.test.ts.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, mul, scale, sub, traceNorm, zeros, identity, eigvalsh, sqrtm,

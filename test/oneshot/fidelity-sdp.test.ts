@@ -1,7 +1,7 @@
 // Fidelity by Watrous's SDP against the closed form ‖√ρ√σ‖₁² (src/quantities/fidelity.ts, itself
 // checked against numpy/scipy in test/quantities), on full-rank and rank-deficient states, and the
 // fidelity-sdp op.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { hermitianPart, eigvalsh, zeros, toRows } from '../../src/linalg/index.js';
 import { fidelity } from '../../src/quantities/fidelity.js';

@@ -3,7 +3,7 @@
 // scripts/reference/cvxopt_guessing.py (min Tr Y s.t. Y ⪰ p_x ρ_x; Watrous's dual for the diamond
 // norm, min ‖Tr_out Z‖_∞ s.t. Z ⪰ 0, Z ⪰ J). A committed batch (test/reference/data/guessing-cases.json)
 // and a small fresh batch generated in this run. Under CI=true a missing python3/cvxopt fails.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -31,8 +31,8 @@ const ch = (c: PlainChannel): Channel => ({
   kraus: c.kraus.map(m), fromDims: c.from, toDims: c.to,
 });
 
-function live(t: { skip: (msg: string) => void }): ReferenceFile | undefined {
-  return liveReference<ReferenceFile>(t, [script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
+function live(): ReferenceFile | undefined {
+  return liveReference<ReferenceFile>([script, '--seed', '31', '--count', '3', '--recovery', '0', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
 }
 
 function relErr(a: number, b: number): number {
@@ -73,8 +73,8 @@ describe('guessing probability and diamond distance against cvxopt.solvers.sdp',
     checkDiamond(committed, 'committed');
   });
 
-  it('both match cvxopt on a fresh batch generated in this run (seed 31) to 1e-6 relative', (t) => {
-    const ref = live(t);
+  it('both match cvxopt on a fresh batch generated in this run (seed 31) to 1e-6 relative', () => {
+    const ref = live();
     if (!ref) return;
     checkGuessing(ref, 'live');
     checkDiamond(ref, 'live');

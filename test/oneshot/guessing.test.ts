@@ -1,7 +1,7 @@
 // Guessing probability p_guess(X|B): published facts (Helstrom–Holevo for two states, perfect
 // discrimination of orthogonal states, the Holevo / Yuen–Kennedy–Lax optimality conditions) and the
 // op through the plain-data door. The comparison with cvxopt is in guessing-cvxopt.test.ts.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, eigvalsh, hermitianPart, mul, scale, sub, add, identity, traceNorm, zeros,

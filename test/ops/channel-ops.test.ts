@@ -1,5 +1,5 @@
 // The channel and state ops through the plain-data door (handle). Each check names its source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/channel-ops.js';
 import { handle, compileAll } from '../../src/ops/handle.js';

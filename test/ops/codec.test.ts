@@ -5,7 +5,7 @@
 // standard fact that the Choi matrix of the transpose map is the swap operator (checkable by hand from the
 // definition: Σ_ij |i⟩⟨j| ⊗ |j⟩⟨i| = SWAP), whose eigenvalue −1 shows the transpose is not completely positive. The error paths are the protocol's
 // own contract ("path: the place in the request"), no published source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   readMatrix, readHermitian, readState, readOperatorState, readChannel, readSystems, readNumber, readDims, readKet,

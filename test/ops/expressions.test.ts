@@ -2,7 +2,7 @@
 // complex analysis (e.g. Ahlfors, Complex Analysis, ch. 1–2: Euler's identity e^{iπ} = −1, principal square
 // root, i² = −1); operator precedence as documented by mathjs 15 ("Syntax" page: ^ binds tighter than unary
 // minus and is right-associative); the rest is the reader's own contract (allow-list, error code).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import { readExpression, MAX_EXPRESSION_LENGTH } from '../../src/ops/expressions.js';

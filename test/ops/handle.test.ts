@@ -3,7 +3,7 @@
 // messages, internal-error wrapping) is the project's own contract, no published source. The ops named
 // "test-..." below are real registry entries defined by this file to reach the result walker; they exist
 // only in this test process.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/all.js';
 import { handle, compileAll, pointerToPath, type Answer } from '../../src/ops/handle.js';

@@ -3,7 +3,7 @@
 // operations (reshape/transpose/trace on the tensor indices); the definition of an eigendecomposition
 // (M V = V diag(λ), V unitary); Peres, Phys. Rev. Lett. 77, 1413 (1996): the partial transpose of a Bell
 // state has the eigenvalue −1/2; the reduced state of a Bell state is I/2 (Nielsen & Chuang, §2.4.3).
-import { describe, it, before } from 'node:test';
+import { describe, it, beforeAll } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';
@@ -12,7 +12,7 @@ import { randomComplex, randomHermitian, rng } from '../helpers/random.js';
 import { adjoint, diagonal, frobeniusNorm, fromRows, identity, mul, sub, toRows } from '../../src/linalg/index.js';
 
 let versions = '';
-before(() => {
+beforeAll(() => {
   const v = numpyVersions();
   versions = `numpy ${v.numpy}`;
 });

@@ -2,7 +2,7 @@
 // by ajv 8 (the validator named in the project rules) and PROTOCOL.md's request/answer shapes. The committed
 // files must equal what scripts/write-schema.ts generates from the registry: whoever adds an op runs
 // `npm run schema`.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import Ajv2020Module from 'ajv/dist/2020.js';

@@ -1,5 +1,5 @@
 // Facts about the quantum Chernoff exponent ξ = −log min_s Tr ρ^s σ^{1−s}. Sources in each it(...).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { diagonal, kron, outer, columnVector, scale, fromRows, toRows } from '../../src/linalg/index.js';
 import { chernoffExponent, chernoffTrace } from '../../src/quantities/chernoff.js';

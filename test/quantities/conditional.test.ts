@@ -5,7 +5,7 @@
 // duality H̄↑_α(A|B) = −H̃↓_{1/α}(A|C) for pure ρ_ABC); Müller-Lennert, Dupuis, Szehr, Fehr & Tomamichel,
 // J. Math. Phys. 54, 122203 (2013), Thm 9, and Beigi, J. Math. Phys. 54, 122202 (2013) (duality
 // H̃↑_α(A|B) = −H̃↑_β(A|C) with 1/α + 1/β = 2 for pure ρ_ABC); Arimoto (1977) for the classical case.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, zeros, kron, diagonal } from '../../src/linalg/index.js';
 import {

@@ -1,6 +1,6 @@
 // Facts about the distance, fidelity and metric ops, through `handle` (PROTOCOL.md answer shapes).
 // Numerical sources as in the quantity tests: closed forms from the literature, named per it(...).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';

@@ -1,5 +1,5 @@
 // Facts about trace distance, Bures distance and purified distance. Sources named in each it(...).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, toRows, scale, fromRows } from '../../src/linalg/index.js';
 import { fidelity } from '../../src/quantities/fidelity.js';

@@ -4,7 +4,7 @@
 // log max p/q and D_min = −log Σ_{p>0} q (Datta, IEEE Trans. Inf. Theory 55 (2009) 2816, Def. 1–2).
 // That all of Petz, sandwiched, α-z and geometric collapse to the classical Rényi divergence on
 // commuting pairs is noted in Tomamichel, Quantum Information Processing with Finite Resources (2016), §4.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { divergence } from '../../src/quantities/divergences.js';
 import { rng, eigenbasisUnitary, inBasis, randomProbabilities } from '../helpers/random.js';

@@ -4,7 +4,7 @@
 // D_BS ≥ D (Umegaki); Belavkin & Staszewski (1982) for D_BS = Tr ρ log(ρ^{1/2} σ^{-1} ρ^{1/2}); the weighted
 // geometric mean of positive semidefinite operators as the limit of σ + ε1 (Kubo & Ando, Math. Ann. 246,
 // 205 (1980)) for the support convention below 1.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { add, identity, scale, sqrtm, logm, mul, matrixPower, traceOfProductRe } from '../../src/linalg/index.js';
 import { divergence } from '../../src/quantities/divergences.js';

@@ -2,7 +2,7 @@
 // Sources: Berta, Fawzi & Tomamichel, Lett. Math. Phys. 107, 2239 (2017) [BFT]: D_M ≤ D (Umegaki), the
 // variational formula, and optimality of projective measurements; for qubits a direct search over
 // projective measurements (Bloch-sphere grid) is the reference (common practice, no published source).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, mul, adjoint } from '../../src/linalg/index.js';
 import { divergence } from '../../src/quantities/divergences.js';

@@ -4,7 +4,7 @@
 // Wilde, Winter & Yang, Commun. Math. Phys. 331, 593 (2014) [WWY]; Datta, IEEE Trans. Inf. Theory 55,
 // 2816 (2009); Audenaert & Datta, J. Math. Phys. 56, 022202 (2015) for the α-z family; Zhang,
 // Adv. Math. 365, 107053 (2020) for its data-processing region.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { mul, sqrtm, traceNorm, scale, identity, diagonal, fromRows, CMatrix } from '../../src/linalg/index.js';
 import { divergence, alphaZDataProcessing, DivergenceResult } from '../../src/quantities/divergences.js';

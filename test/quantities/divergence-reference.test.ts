@@ -3,7 +3,7 @@
 // scipy.linalg.fractional_matrix_power and scipy.linalg.logm on a few random full-rank pairs.
 // Orders are kept away from α = 1, where the plain formula loses digits to cancellation in numpy
 // (ours does not: see divergence-properties.test.ts for continuity there).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { fileURLToPath } from 'node:url';
 import { toRows } from '../../src/linalg/index.js';

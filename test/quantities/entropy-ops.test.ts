@@ -3,7 +3,7 @@
 // maximally mixed state, mutual information and conditional entropy of maximally entangled and GHZ
 // states; Datta 2009 for D_max = log max p/q on commuting states); answer shapes, error codes and the
 // "Infinity" rule are PROTOCOL.md's.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';

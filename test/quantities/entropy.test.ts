@@ -2,7 +2,7 @@
 // Quantum Computation and Quantum Information (2000), §11.2–11.3 (von Neumann entropy, binary entropy);
 // Rényi, "On measures of entropy and information" (1961) for H_α and its limits α = 0, 1, ∞
 // (the formulas below are the textbook definitions, written out in each test from the eigenvalues).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, identity, scale } from '../../src/linalg/index.js';
 import { entropy, renyiEntropy, vonNeumannEntropy } from '../../src/quantities/entropy.js';

@@ -1,5 +1,5 @@
 // Facts about D(ρ‖E(ρ)), the relative entropy to a conditional expectation. Sources in each it(...).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, diagonal, toRows, fromRows, frobeniusNorm, sub, eigh, mul, adjoint } from '../../src/linalg/index.js';
 import {

@@ -1,7 +1,7 @@
 // Facts about the Uhlmann fidelity F(ρ,σ) = ‖√ρ√σ‖₁² (squared; the root alongside).
 // Sources are named in each it(...): closed forms from the literature and an independent computation
 // with scipy 1.17.1 / numpy 2.4.6 (pinned in requirements.txt, run through .venv/bin/python).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, columnVector, outer, mul, trace, toRows, scale, innerProduct, adjoint, eigh,

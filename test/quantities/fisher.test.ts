@@ -1,5 +1,5 @@
 // Facts about the quantum Fisher information of one-parameter families. Sources in each it(...).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, add, sub, mul, scale, adjoint, diagonal, eigh, frobeniusNorm, fromRows, innerProduct,

@@ -1,6 +1,6 @@
 // Facts about monotone metrics (Petz's classification) and double operator integrals.
 // Sources in each it(...). External references: numpy 2.4.6 / scipy 1.17.1 (pinned in requirements.txt).
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, add, sub, mul, scale, adjoint, diagonal, eigh, frobeniusNorm, toRows, trace, sqrtm,

@@ -1,5 +1,5 @@
 // Facts about channel representations, checks, application and constructions. Each names its source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, identity, kron, mul, scale, zeros, eigvalsh, partialTrace, reorderSubsystems,

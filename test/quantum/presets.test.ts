@@ -1,5 +1,5 @@
 // Facts about the preset channels. Each names its source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, identity, kron, mul, scale, zeros, combine, diagonal, partialTrace, fromRows, traceOfProductRe,

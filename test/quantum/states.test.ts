@@ -1,5 +1,5 @@
 // Facts about the state constructors. Each check names its source beside it.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, combine, identity, kron, mul, scale, trace, traceOfProductRe, zeros, columnVector,

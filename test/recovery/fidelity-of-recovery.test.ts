@@ -2,7 +2,7 @@
 // (Seshadreesan & Wilde 2015): against cvxopt (cvxopt from PyPI in .venv, the SDP built independently
 // with numpy in scripts/reference/cvxopt_guessing.py), the Fawzi–Renner bound, the Petz map as a
 // feasible channel, Markov chains, and the fidelity-of-recovery op.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -47,8 +47,8 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
     check(ref, 'committed');
   });
 
-  it('matches cvxopt.solvers.sdp on a random three-qubit state generated in this run (seed 41) to 1e-6 relative', (t) => {
-    const ref = liveReference<ReferenceFile>(t, [script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
+  it('matches cvxopt.solvers.sdp on a random three-qubit state generated in this run (seed 41) to 1e-6 relative', () => {
+    const ref = liveReference<ReferenceFile>([script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
     if (ref) check(ref, 'live');
   });
 

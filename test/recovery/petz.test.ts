@@ -1,7 +1,7 @@
 // The Petz recovery map and its rotated versions: perfect recovery on quantum Markov chains
 // (Hayden, Jozsa, Petz & Winter 2004), recovery of the reference state, the channel property, the
 // recovered state against numpy/scipy, and the petz-recovery op through the plain-data door.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
   CMatrix, adjoint, eigvalsh, identity, kron, mul, sub, zeros, marginal, reorderSubsystems,

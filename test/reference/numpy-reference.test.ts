@@ -8,7 +8,7 @@
 // spectrum elementwise relative to max(1, max|λ|); matrices max entry difference ≤ tol·max(1, ‖expected‖_F).
 // One `it` per op or divergence family. An op (or a divergence family the op's schema does not list) that is
 // not registered yet is a todo outside CI and a failure under CI=true, so the final CI run proves every op.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -168,7 +168,7 @@ function registerGroups(batch: Batch, source: string): void {
     if (why && CI) {
       it(name, () => assert.fail(`${why}: under CI every op of the numpy/scipy reference (${source}) must be present`));
     } else if (why) {
-      it(name, { todo: why }, () => checkGroup(batch, source, cases));
+      it.todo(`${name} (${why})`);
     } else {
       it(name, () => checkGroup(batch, source, cases));
     }
@@ -195,7 +195,7 @@ describe('protocol answers against numpy/scipy (small batch generated live)', ()
   if (unavailable) {
     const msg = `${unavailable} (install numpy and scipy pinned in requirements.txt) — the live numpy/scipy reference cannot run`;
     if (CI) it('the live numpy/scipy reference runs', () => assert.fail(msg));
-    else it('the live numpy/scipy reference runs', { skip: msg }, () => {});
+    else it.skip(`the live numpy/scipy reference runs (${msg})`, () => {});
     return;
   }
   let batch: Batch;

@@ -1,5 +1,5 @@
 // The SDP solver's complex kernels for Hermitian blocks (src/sdp/complexdense.ts) against closed forms and definitions.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { cCholesky, cMinEigInPlace, cMul, cMulH, cSvdJacobi, embedComplex, extractHermitian } from '../../src/sdp/complexdense.js';
 import { rng, gaussian } from '../helpers/random.js';

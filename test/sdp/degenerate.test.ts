@@ -9,7 +9,7 @@
 // constraint allows a value error of order √ε (singularity degree one; J. F. Sturm, "Error bounds
 // for linear matrix inequalities", SIAM J. Optim. 10 (2000) 1228, recalled from memory), so those
 // checks use faceBound below, computed from the answer's own residuals.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { fileURLToPath } from 'node:url';
 import { eigvalsh, type CMatrix } from '../../src/linalg/index.js';
@@ -140,7 +140,7 @@ describe('SDP solver: rank-deficient data, zero objective', () => {
     }
   });
 
-  it('rank-one constraint matrices a_i a_iᵀ and a rank-two objective G Gᵀ on a 5×5 block agree with cvxopt.solvers.sdp to 1e-6 relative (cvxopt from PyPI in .venv, live)', (t) => {
+  it('rank-one constraint matrices a_i a_iᵀ and a rank-two objective G Gᵀ on a 5×5 block agree with cvxopt.solvers.sdp to 1e-6 relative (cvxopt from PyPI in .venv, live)', () => {
     const r = rng(2024);
     const n = 5;
     const G = Array.from({ length: n }, () => [gaussian(r), gaussian(r)]);
@@ -153,7 +153,7 @@ describe('SDP solver: rank-deficient data, zero objective', () => {
     }
     constraints.push({ terms: [{ block: 0, entries: unitTrace(n) }], equals: 1 });
     const problem: SdpProblem = { cones: [sym(n)], objective: [{ block: 0, matrix: C }], constraints };
-    const ref = liveReference<{ cvxopt: string; results: { optimal: number }[] }>(t, [`${root}scripts/reference/cvxopt_sdp.py`, '--solve-stdin'], 'cvxopt (bash scripts/setup.sh)', { input: { problems: [problem] } });
+    const ref = liveReference<{ cvxopt: string; results: { optimal: number }[] }>([`${root}scripts/reference/cvxopt_sdp.py`, '--solve-stdin'], 'cvxopt (bash scripts/setup.sh)', { input: { problems: [problem] } });
     if (!ref) return;
     const a = solveSdp(problem);
     const want = ref.results[0].optimal;

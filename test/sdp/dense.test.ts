@@ -1,5 +1,5 @@
 // The SDP solver's dense kernels (src/sdp/dense.ts) against closed forms and definitions.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { choleskyInPlaceGuarded, minEig } from '../../src/sdp/dense.js';
 import { rng, gaussian } from '../helpers/random.js';

@@ -1,5 +1,5 @@
 // Published facts the SDP solver must reproduce. Each `it` names its source.
-import { describe, it } from 'node:test';
+import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { fromRows, eigvalsh, type CMatrix } from '../../src/linalg/index.js';
 import { solveSdp, partialTraceConstraints, type SdpProblem, type Constraint, type BlockValue } from '../../src/sdp/index.js';
