@@ -3,6 +3,8 @@
  *
  *   rhosigma compute [FILE|-] [--lines] [--pretty]   answer requests (PROTOCOL.md, "The command")
  *   rhosigma ops [NAME] [--json]                     list the ops, or print one op's request schema
+ *   rhosigma serve                                   a long-lived engine: JSON Lines in, one answer line out per
+ *                                                    request, in order, flushed as each is computed (kernel bridge)
  *   rhosigma demo                                    a short worked report (src/cli/demo.ts)
  *
  * Exit codes: 0 every answer ok; 1 at least one answer failed (all others still answered); 2 the input is
@@ -15,6 +17,7 @@
 import { readFileSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
 import { createInterface } from 'node:readline';
+import { once } from 'node:events';
 import type { Readable, Writable } from 'node:stream';
 import { Command, CommanderError } from 'commander';
 import '../ops/all.js';
@@ -99,22 +102,16 @@ async function computeWhole(file: string | undefined, pretty: boolean, io: Io): 
   return list.every((a) => a.ok) ? 0 : 1;
 }
 
-async function computeLines(file: string | undefined, io: Io): Promise<number> {
-  let stream = inputStream(file, io);
-  if (!stream) {
-    try {
-      const { createReadStream } = await import('node:fs');
-      const s = createReadStream(file!, { encoding: 'utf8' });
-      await new Promise<void>((resolve, reject) => {
-        s.once('open', () => resolve());
-        s.once('error', reject);
-      });
-      stream = s;
-    } catch (err) {
-      io.stderr.write(`rhosigma compute: cannot read ${file}: ${(err as NodeJS.ErrnoException).code ?? String(err)}\n`);
-      return 2;
-    }
-  }
+/** Writes one line, waiting for the reader when the pipe is full (back-pressure: nothing piles up in memory). */
+async function writeLine(io: Io, text: string): Promise<void> {
+  if (!io.stdout.write(`${text}\n`)) await once(io.stdout, 'drain');
+}
+
+/**
+ * Answers JSON Lines from `stream`: one answer line per non-blank request line, in order, each written as
+ * soon as it is computed. Returns what happened, for the exit code.
+ */
+async function answerLines(stream: Readable, io: Io): Promise<{ notJson: boolean; failed: boolean }> {
   let notJson = false;
   let failed = false;
   let lineNumber = 0;
@@ -135,9 +132,44 @@ async function computeLines(file: string | undefined, io: Io): Promise<number> {
       };
     }
     if (!answer.ok) failed = true;
-    io.stdout.write(`${JSON.stringify(answer)}\n`);
+    await writeLine(io, JSON.stringify(answer));
   }
+  return { notJson, failed };
+}
+
+async function computeLines(file: string | undefined, io: Io): Promise<number> {
+  let stream = inputStream(file, io);
+  if (!stream) {
+    try {
+      const { createReadStream } = await import('node:fs');
+      const s = createReadStream(file!, { encoding: 'utf8' });
+      await new Promise<void>((resolve, reject) => {
+        s.once('open', () => resolve());
+        s.once('error', reject);
+      });
+      stream = s;
+    } catch (err) {
+      io.stderr.write(`rhosigma compute: cannot read ${file}: ${(err as NodeJS.ErrnoException).code ?? String(err)}\n`);
+      return 2;
+    }
+  }
+  const { notJson, failed } = await answerLines(stream, io);
   return notJson ? 2 : failed ? 1 : 0;
+}
+
+/** The protocol version this engine speaks (docs/protocol.md). */
+export const PROTOCOL_VERSION = '1.1';
+
+/**
+ * `rhosigma serve`: the long-lived engine behind the Python bridge. First line out: a ready line
+ * {"ready": true, "engine": "rhosigma", "version", "protocol"}, so that a client can tell a started engine
+ * from a failed start. Then exactly one answer line per request line, in order. Failed requests do not
+ * change the exit status: it is 0 when standard input ends.
+ */
+async function serve(io: Io): Promise<number> {
+  await writeLine(io, JSON.stringify({ ready: true, engine: 'rhosigma', version: version(), protocol: PROTOCOL_VERSION }));
+  await answerLines(io.stdin, io);
+  return 0;
 }
 
 function listing(json: boolean, io: Io): number {
@@ -212,6 +244,21 @@ Example:
     )
     .action(async (file: string | undefined, opts: { lines?: boolean; pretty?: boolean }) => {
       setCode(opts.lines ? await computeLines(file, io) : await computeWhole(file, opts.pretty === true, io));
+    });
+
+  program
+    .command('serve')
+    .description('Run as a long-lived engine: JSON Lines in, one answer line per request out, in order, each as soon as it is computed.')
+    .addHelpText(
+      'after',
+      `
+The first line written is {"ready": true, "engine": "rhosigma", "version": ..., "protocol": ...}.
+Then every non-blank line of standard input is answered by one line, in order; a line that is not
+JSON is answered with a parse-error. The command ends with exit code 0 when standard input ends.
+This is what the Python package starts once per kernel.`,
+    )
+    .action(async () => {
+      setCode(await serve(io));
     });
 
   program

@@ -110,6 +110,13 @@ function rowsShape(value: unknown, path: string): { rows: number; cols: number }
 
 /** The shape a matrix value claims, from array lengths only (for size checks before reading). */
 function peekShape(value: unknown, path: string): { rows: number; cols: number } {
+  if (isPlainObject(value) && ('packed' in value || 'shape' in value)) {
+    const shape = value.shape;
+    if (Array.isArray(shape) && shape.length === 2 && shape.every((x) => Number.isInteger(x) && (x as number) >= 1)) {
+      return { rows: shape[0] as number, cols: shape[1] as number };
+    }
+    throw new RhoError('invalid-argument', 'The shape of a packed matrix is [rows, columns], two positive integers.', `${path}.shape`);
+  }
   if (isPlainObject(value) && 're' in value) return rowsShape(value.re, `${path}.re`);
   return rowsShape(value, path);
 }
@@ -141,12 +148,75 @@ function fillRows(
 // ---------------------------------------------------------------------------------------------------
 // Matrices and kets
 
+/** The encoding name of the packed matrix form (protocol 1.1). */
+export const PACKED_ENCODING = 'float64-le';
+
+/** Bytes of `b64` (standard base64, padded), checked to be exactly `bytes` long before decoding. */
+function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
+  if (typeof b64 !== 'string') throw new RhoError('invalid-argument', `Expected a base64 string, not ${describe(b64)}.`, path);
+  const want = 4 * Math.ceil(bytes / 3);
+  if (b64.length !== want) {
+    throw new RhoError('dimension-mismatch', `The base64 text has ${b64.length} characters; ${bytes} bytes of float64 need ${want}.`, path);
+  }
+  let text: string;
+  try {
+    // atob is standard in Node (>= 16) and in browsers and workers; it rejects characters outside base64.
+    text = atob(b64);
+  } catch {
+    throw new RhoError('parse-error', 'The packed data is not valid base64.', path);
+  }
+  if (text.length !== bytes) throw new RhoError('dimension-mismatch', `The packed data holds ${text.length} bytes, not ${bytes}.`, path);
+  const out = new Uint8Array(bytes);
+  for (let k = 0; k < bytes; k++) out[k] = text.charCodeAt(k);
+  return out;
+}
+
+const LITTLE_ENDIAN = new Uint8Array(new Float64Array([1]).buffer)[7] === 0x3f;
+
+/** Float64 values from little-endian bytes into `target`; every value must be finite. */
+function fillPacked(bytes: Uint8Array, target: Float64Array, path: string): void {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (LITTLE_ENDIAN) target.set(new Float64Array(bytes.buffer, bytes.byteOffset, target.length));
+  else for (let k = 0; k < target.length; k++) target[k] = view.getFloat64(8 * k, true);
+  for (let k = 0; k < target.length; k++) {
+    if (!Number.isFinite(target[k])) {
+      throw new RhoError('invalid-argument', `Entry ${k} (row-major) of the packed matrix is NaN or infinite; entries must be finite.`, path);
+    }
+  }
+}
+
+/**
+ * The packed matrix form {"shape": [n, m], "packed": "float64-le", "re": BASE64, "im": BASE64} (im
+ * optional): row-major little-endian float64. The shape is checked against the size limits and the
+ * text lengths against the shape before anything is decoded.
+ */
+function readPackedMatrix(value: Record<string, unknown>, path: string): CMatrix {
+  refuseUnknownKeys(value, ['shape', 'packed', 're', 'im'], path, 'a packed matrix');
+  if (value.packed !== PACKED_ENCODING) {
+    throw new RhoError('invalid-argument', `The only packed encoding is "${PACKED_ENCODING}" (row-major little-endian float64, base64).`, `${path}.packed`);
+  }
+  const shape = value.shape;
+  if (!Array.isArray(shape) || shape.length !== 2 || !shape.every((x) => Number.isInteger(x) && (x as number) >= 1)) {
+    throw new RhoError('invalid-argument', 'The shape of a packed matrix is [rows, columns], two positive integers.', `${path}.shape`);
+  }
+  const [rows, cols] = shape as [number, number];
+  if (rows > MAX_DIMENSION) throw tooLarge(`${path}.shape[0]`, 'The number of rows', rows, MAX_DIMENSION);
+  if (cols > MAX_DIMENSION) throw tooLarge(`${path}.shape[1]`, 'The number of columns', cols, MAX_DIMENSION);
+  if (value.re === undefined) throw new RhoError('missing-argument', 'A packed matrix needs "re".', `${path}.re`);
+  const m = zeros(rows, cols);
+  fillPacked(decodeBase64(value.re, 8 * rows * cols, `${path}.re`), m.re, `${path}.re`);
+  if (value.im !== undefined) fillPacked(decodeBase64(value.im, 8 * rows * cols, `${path}.im`), m.im, `${path}.im`);
+  return m;
+}
+
 /**
  * A complex matrix from any of the protocol's forms: rows of numbers, rows mixing numbers and expression
- * strings, or {"re": rows, "im": rows} (im optional; both numbers only). Rectangular matrices are allowed.
+ * strings, {"re": rows, "im": rows} (im optional; both numbers only), or the packed form (above).
+ * Rectangular matrices are allowed.
  */
 export function readMatrix(value: unknown, path: string): CMatrix {
   if (isPlainObject(value)) {
+    if ('packed' in value || 'shape' in value) return readPackedMatrix(value, path);
     if (!('re' in value)) {
       const hint = 'matrix' in value || 'ket' in value ? ' (this looks like a state; give its matrix here)' : '';
       throw new RhoError(
@@ -623,9 +693,21 @@ const realRows = {
   maxItems: MAX_DIMENSION,
   items: { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: 'number' } },
 };
+const packedMatrixSchema = {
+  description: 'A packed matrix: row-major little-endian float64, base64 (protocol 1.1), for large matrices.',
+  type: 'object',
+  properties: {
+    shape: { type: 'array', minItems: 2, maxItems: 2, items: { type: 'integer', minimum: 1, maximum: MAX_DIMENSION } },
+    packed: { const: PACKED_ENCODING },
+    re: { type: 'string', contentEncoding: 'base64' },
+    im: { type: 'string', contentEncoding: 'base64' },
+  },
+  required: ['shape', 'packed', 're'],
+  additionalProperties: false,
+};
 const matrixSchema = {
   description:
-    'A matrix: rows of numbers, rows of numbers and expression strings ("1/2", "i/sqrt(2)"), or {"re": rows, "im": rows} with im optional.',
+    'A matrix: rows of numbers, rows of numbers and expression strings ("1/2", "i/sqrt(2)"), {"re": rows, "im": rows} with im optional, or the packed form {"shape", "packed": "float64-le", "re", "im"}.',
   anyOf: [
     {
       type: 'array',
@@ -634,6 +716,7 @@ const matrixSchema = {
       items: { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: ['number', 'string'] } },
     },
     { type: 'object', properties: { re: realRows, im: realRows }, required: ['re'], additionalProperties: false },
+    packedMatrixSchema,
   ],
 };
 const realList = { type: 'array', minItems: 1, maxItems: MAX_DIMENSION, items: { type: 'number' } };

@@ -127,3 +127,40 @@ describe('rhosigma ops, help', () => {
     assert.match(sub.stdout, /Example/);
   });
 });
+
+describe('rhosigma serve', () => {
+  it('writes a ready line, then answers each request line as it arrives, before the next is sent (the bridge waits for each answer), and ends with 0 at end of input', async () => {
+    const child = spawn(process.execPath, ['--import', 'tsx', launcher, 'serve'], { cwd: root });
+    const lines: string[] = [];
+    let buffer = '';
+    let wake: (() => void) | undefined;
+    child.stdout.setEncoding('utf8');
+    child.stdout.on('data', (d: string) => {
+      buffer += d;
+      let k;
+      while ((k = buffer.indexOf('\n')) >= 0) {
+        lines.push(buffer.slice(0, k));
+        buffer = buffer.slice(k + 1);
+      }
+      wake?.();
+    });
+    const nextLine = async (): Promise<any> => {
+      while (lines.length === 0) await new Promise<void>((r) => (wake = r));
+      return JSON.parse(lines.shift()!);
+    };
+    const closed = new Promise<number | null>((r) => child.on('close', r));
+    const ready = await nextLine();
+    assert.equal(ready.ready, true);
+    assert.equal(ready.protocol, '1.1');
+    child.stdin.write(`${JSON.stringify({ ...good, id: 1 })}\n`);
+    const first = await nextLine(); // answered while stdin is still open
+    assert.equal(first.id, 1);
+    assert.deepEqual(first.value, [1, 3]); // eigenvalues of [[2,1],[1,2]] (textbook)
+    child.stdin.write('not json\n');
+    assert.equal((await nextLine()).error.code, 'parse-error');
+    child.stdin.write(`${JSON.stringify(bad)}\n`);
+    assert.equal((await nextLine()).error.code, 'not-hermitian');
+    child.stdin.end();
+    assert.equal(await closed, 0);
+  });
+});

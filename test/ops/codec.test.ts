@@ -13,6 +13,7 @@ import {
 } from '../../src/ops/codec.js';
 import { RhoError } from '../../src/errors.js';
 import { CMatrix, fromRows, mul, adjoint, add, zeros, frobeniusNorm, sub } from '../../src/linalg/index.js';
+import { runPythonCode } from '../helpers/python.js';
 
 function fails(f: () => unknown, code: string, path: string): RhoError {
   try {
@@ -113,6 +114,36 @@ describe('codec: matrices', () => {
     readHermitian([[1, 'i'], ['-i', 1]], 'matrix', 1e-9);
     fails(() => readHermitian([[1, 'i'], ['i', 1]], 'matrix', 1e-9), 'not-hermitian', 'matrix[1][0]');
     fails(() => readHermitian([[1, 2, 3]], 'matrix', 1e-9), 'dimension-mismatch', 'matrix');
+  });
+});
+
+describe('codec: the packed matrix form (protocol 1.1)', () => {
+  // Outside reference: numpy's own serialisation, base64.b64encode(np.asarray(M, dtype='<f8').tobytes())
+  // (row-major, little-endian float64: numpy's documented C order and dtype '<f8').
+  const packed = runPythonCode<{ re: string; im: string; rows: number[][]; imRows: number[][] }>(
+    `import base64, json, sys, numpy as np
+rng = np.random.default_rng(3)
+m = rng.standard_normal((3, 5)) + 1j * rng.standard_normal((3, 5))
+enc = lambda a: base64.b64encode(np.ascontiguousarray(a, dtype='<f8').tobytes()).decode()
+json.dump({"re": enc(m.real), "im": enc(m.imag), "rows": m.real.tolist(), "imRows": m.imag.tolist()}, sys.stdout)`,
+  );
+
+  it('reads numpy\'s row-major little-endian float64 bytes (base64) as the same matrix as its rows, bit for bit', () => {
+    const m = readMatrix({ shape: [3, 5], packed: 'float64-le', re: packed.re, im: packed.im }, 'm');
+    const want = fromRows(packed.rows, packed.imRows);
+    assert.deepEqual([...m.re], [...want.re]);
+    assert.deepEqual([...m.im], [...want.im]);
+    const realOnly = readMatrix({ shape: [3, 5], packed: 'float64-le', re: packed.re }, 'm');
+    assert.ok(realOnly.im.every((x) => x === 0));
+  });
+
+  it('refuses a wrong length, bad base64, a NaN, an unknown encoding and a shape over the limit, before decoding (common practice)', () => {
+    fails(() => readMatrix({ shape: [5, 3], packed: 'float64-le', re: packed.re.slice(4) }, 'm'), 'dimension-mismatch', 'm.re');
+    fails(() => readMatrix({ shape: [3, 5], packed: 'float64-le', re: `*${packed.re.slice(1)}` }, 'm'), 'parse-error', 'm.re');
+    const nan = Buffer.from(new Float64Array([1, Number.NaN]).buffer).toString('base64');
+    fails(() => readMatrix({ shape: [1, 2], packed: 'float64-le', re: nan }, 'm'), 'invalid-argument', 'm.re');
+    fails(() => readMatrix({ shape: [3, 5], packed: 'float32-le', re: packed.re }, 'm'), 'invalid-argument', 'm.packed');
+    fails(() => readMatrix({ shape: [MAX_DIMENSION + 1, 1], packed: 'float64-le', re: 'AAAA' }, 'm'), 'too-large', 'm.shape[0]');
   });
 });
 
