@@ -18,6 +18,10 @@ export type ErrorCode =
   | 'not-completely-positive'
   | 'not-trace-preserving'
   | 'solver-failed'
+  /** The request ran past its deadline (milliseconds; see docs/protocol.md, "Limits and deadlines"). */
+  | 'deadline-exceeded'
+  /** The caller cancelled the request (a front end's cancel button; the engine client answers this itself). */
+  | 'cancelled'
   | 'internal-error';
 
 export class RhoError extends Error {

@@ -27,7 +27,7 @@ const Ajv2020 = ((Ajv2020Module as unknown as { default?: unknown }).default ?? 
 export const ERROR_CODES = [
   'not-hermitian', 'not-positive', 'trace-not-one', 'dimension-mismatch', 'parse-error', 'unknown-op', 'unknown-family',
   'invalid-argument', 'missing-argument', 'too-large', 'not-completely-positive', 'not-trace-preserving', 'solver-failed',
-  'internal-error',
+  'deadline-exceeded', 'cancelled', 'internal-error',
 ] as const satisfies readonly ErrorCode[];
 // Compile-time: fails if src/errors.ts gains a code that is not listed above.
 const _allCodesListed: Exclude<ErrorCode, (typeof ERROR_CODES)[number]> extends never ? true : never = true;
