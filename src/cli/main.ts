@@ -6,6 +6,7 @@
  *   rhosigma serve                                   a long-lived engine: JSON Lines in, one answer line out per
  *                                                    request, in order, flushed as each is computed (kernel bridge)
  *   rhosigma demo                                    a short worked report (src/cli/demo.ts)
+ *   rhosigma sweep SPEC | merge | summary | plot ...  sweeps and counterexample searches (src/cli/sweep.ts)
  *
  * Exit codes: 0 every answer ok; 1 at least one answer failed (all others still answered); 2 the input is
  * not JSON, a file cannot be read, or the command line is wrong. Nothing here computes: every answer comes
@@ -24,6 +25,7 @@ import '../ops/all.js';
 import { handle, requestSchema, closeOpNames, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
 import { runDemo } from './demo.js';
+import { addSweepCommands } from './sweep.js';
 
 /** The streams the command uses (the process's own by default; tests may pass others). */
 export interface Io {
@@ -277,6 +279,8 @@ This is what the Python package starts once per kernel.`,
     .action(async (opts: { json?: boolean }) => {
       setCode(await runDemo((s) => io.stdout.write(s), { json: opts.json === true }));
     });
+
+  addSweepCommands(program, io, setCode);
 
   return program;
 }
