@@ -181,7 +181,9 @@ Examples:
     .description('Join the outputs of --shard 0/N … (N−1)/N into exactly the file one run writes.')
     .argument('<shards...>', 'the shard outputs, in any order')
     .option('-o, --output <file>', 'write here instead of standard output')
-    .action(async (shards: string[], opts: { output?: string }) => {
+    .action(async (shards: string[], _opts: unknown, cmd: Command) => {
+      // -o after the subcommand may have been taken by `sweep` itself: read both levels.
+      const opts = cmd.optsWithGlobals() as { output?: string };
       try {
         await writeOut(mergeShards(shards), opts.output, io);
         setCode(0);
@@ -214,7 +216,8 @@ Examples:
     .option('--y <field>', 'value, gap, left or right (default: gap when the spec has an inequality, else value)')
     .option('--color <name>', 'a parameter to colour the points by (default: the second parameter, if any)')
     .option('--vega-lite', 'print the Vega-Lite specification instead of the SVG')
-    .action(async (file: string, opts: { output?: string; x?: string; y?: string; color?: string; vegaLite?: boolean }) => {
+    .action(async (file: string, _opts: unknown, cmd: Command) => {
+      const opts = cmd.optsWithGlobals() as { output?: string; x?: string; y?: string; color?: string; vegaLite?: boolean };
       try {
         const { svg, vegaLite } = await plotSvg(readSweepFile(file), { x: opts.x, y: opts.y, color: opts.color });
         await writeOut(opts.vegaLite ? `${JSON.stringify(vegaLite, null, 2)}\n` : svg, opts.output, io);
