@@ -1,6 +1,6 @@
 /**
  * Generates schema/protocol.schema.json (JSON Schema 2020-12 of requests and answers) and the ops table in
- * docs/protocol.md from the op registry, so both always list exactly the registered ops.
+ * docs/protocol.md from the op registry (and schema/sweep.schema.json, the sweep spec's, from src/sweep/spec.ts), so both always list exactly the registered ops.
  * Run `npm run schema` after adding or changing an op; test/ops/schema.test.ts fails while either file is stale.
  *
  * Deliberately not here: per-op answer schemas (ops declare their arguments, not their results).
@@ -12,6 +12,7 @@ import '../src/ops/all.js';
 import { listOps } from '../src/ops/registry.js';
 import { COMMON_FIELDS, ERROR_CODES, requestSchema } from '../src/ops/handle.js';
 import { schemas } from '../src/ops/codec.js';
+import { specSchemaText } from '../src/sweep/spec.js';
 
 export const SCHEMA_FILE = fileURLToPath(new URL('../schema/protocol.schema.json', import.meta.url));
 export const DOC_FILE = fileURLToPath(new URL('../docs/protocol.md', import.meta.url));
@@ -141,5 +142,7 @@ export function schemaText(): string {
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   writeFileSync(SCHEMA_FILE, schemaText());
   writeFileSync(DOC_FILE, renderDoc(readFileSync(DOC_FILE, 'utf8')));
+  // The sweep spec's schema (src/sweep/spec.ts); test/sweep/spec.test.ts checks it is current.
+  writeFileSync(fileURLToPath(new URL('../schema/sweep.schema.json', import.meta.url)), specSchemaText());
   process.stdout.write(`wrote ${SCHEMA_FILE} and the ops table of ${DOC_FILE} (${listOps().length} ops)\n`);
 }

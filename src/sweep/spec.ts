@@ -197,21 +197,24 @@ function specError(errors: ErrorObject[]): RhoError {
   const p = best.params as Record<string, any>;
   const alternatives = [...errors].reverse().find((e) => e.keyword === 'anyOf' && e.instancePath === best.instancePath);
   const wanted = (alternatives?.parentSchema as { description?: string } | undefined)?.description;
+  // No branch of an anyOf got deeper than the anyOf itself: its description says best what is wanted.
+  if (wanted) return new RhoError('invalid-argument', `${where} is not valid. Expected: ${wanted}`, at);
   if (best.keyword === 'required') {
     const path = at === '' ? String(p.missingProperty) : `${at}.${p.missingProperty}`;
     return new RhoError('missing-argument', `The field ${path} is required in a sweep spec.`, path);
   }
   if (best.keyword === 'additionalProperties') {
     const path = at === '' ? String(p.additionalProperty) : `${at}.${p.additionalProperty}`;
-    const hint = at === '' ? ` A spec has: ${Object.keys(SPEC_SCHEMA.properties).join(', ')}.` : wanted ? ` Expected: ${wanted}` : '';
+    const hint = at === '' ? ` A spec has: ${Object.keys(SPEC_SCHEMA.properties).join(', ')}.` : '';
     return new RhoError('invalid-argument', `Unknown field ${path} in the sweep spec.${hint}`, path);
   }
-  if (best.keyword === 'propertyNames' || best.keyword === 'pattern') {
-    const name = best.keyword === 'propertyNames' ? String(p.propertyName) : '';
-    const path = name ? (at === '' ? name : `${at}.${name}`) : at;
+  const badName = errors.find((e) => e.keyword === 'propertyNames') ?? errors.find((e) => (e as { propertyName?: string }).propertyName !== undefined);
+  if (badName || best.keyword === 'pattern') {
+    const name = badName ? String((badName.params as { propertyName?: string }).propertyName ?? (badName as { propertyName?: string }).propertyName) : '';
+    const base = badName ? pointerToPath(badName.instancePath) : at;
+    const path = name ? (base === '' ? name : `${base}.${name}`) : at;
     return new RhoError('invalid-argument', `${name ? `The name "${name}"` : where} must start with a letter or "_" and hold only letters, digits and "_" (dots separate fields in references).`, path);
   }
-  if (wanted) return new RhoError('invalid-argument', `${where} is not valid. Expected: ${wanted}`, at);
   if (best.keyword === 'const' && at === 'sweep') {
     return new RhoError('invalid-argument', `This engine reads sweep specs of version ${SPEC_VERSION} ("sweep": ${SPEC_VERSION}).`, at);
   }
