@@ -172,11 +172,17 @@ def channel_bundle(channel: Channel) -> dict:
 _REGISTERED = ((Answer, answer_bundle), (State, state_bundle), (Channel, channel_bundle))
 
 
+def _answer_pretty(answer: Answer, p: Any, cycle: bool) -> None:
+    # An Answer is a dict: IPython's text/plain printer for dicts would otherwise win over the bundle's.
+    p.text(answer_text(answer, answer.request))
+
+
 def load_ipython_extension(ipython: Any) -> None:
     """`%load_ext rhosigma`: rich display of answers, states and channels in this kernel."""
     formatter = ipython.display_formatter.mimebundle_formatter
     for cls, func in _REGISTERED:
         formatter.for_type(cls, func)
+    ipython.display_formatter.formatters["text/plain"].for_type(Answer, _answer_pretty)
 
 
 def unload_ipython_extension(ipython: Any) -> None:
@@ -184,3 +190,4 @@ def unload_ipython_extension(ipython: Any) -> None:
     formatter = ipython.display_formatter.mimebundle_formatter
     for cls, _ in _REGISTERED:
         formatter.type_printers.pop(cls, None)
+    ipython.display_formatter.formatters["text/plain"].type_printers.pop(Answer, None)
