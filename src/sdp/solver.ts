@@ -59,7 +59,8 @@
  */
 import { zeros, type CMatrix } from '../linalg/index.js';
 import { compile, type Compiled } from './compile.js';
-import { cholesky, congruence, congruenceT, matMul, matTMul, minEig, svdJacobi } from './dense.js';
+import { cholesky, congruence, congruenceT, matMul, matTMul, svdJacobi } from '../linalg/dense.js';
+import { minEig, minEigHermitianInPlace } from '../linalg/smallest-eigenvalue.js';
 import { SchurSystem } from './schur.js';
 import { equilibrate } from './scaling.js';
 import {
@@ -68,12 +69,11 @@ import {
   cCongruenceH,
   cGram,
   cHMul,
-  cMinEigInPlace,
   cMul,
   cSvdJacobi,
   embedComplex,
   extractHermitian,
-} from './complexdense.js';
+} from '../linalg/dense-complex.js';
 import type { BlockValue, Certificate, IterationInfo, SdpAnswer, SdpOptions, SdpProblem, SdpStatus } from './types.js';
 
 export const DEFAULT_OPTIONS = {
@@ -87,8 +87,8 @@ export const DEFAULT_OPTIONS = {
  * Whether Hermitian blocks' step-length eigenvalues stop bisecting once they are known to lie above
  * −½·min(1, stepFraction) (such an eigenvalue allows a step ≥ 2/min(1, f), and steps are capped at 1).
  * An earlier attempt at this made a degenerate smooth-max instance lose positive definiteness; the
- * cause was not rounding but a wrong 1×1 case in cMinEigInPlace (it returned the floor for an
- * eigenvalue below it), fixed in complexdense.ts; the step is now also safeguarded (see solveSdpWith).
+ * cause was not rounding but a wrong 1×1 case in the 1×1 case of the Hermitian smallest eigenvalue (it returned the floor for an
+ * eigenvalue below it), fixed in linalg/smallest-eigenvalue.ts; the step is now also safeguarded (see solveSdpWith).
  */
 export const EARLY_STEP_EXIT = false;
 
@@ -207,7 +207,7 @@ function maxStepHermitian(lambda: Float64Array, D: Float64Array, h: number, t: F
       t[hh + i * h + j] = D[hh + i * h + j] * f;
     }
   }
-  const mn = cMinEigInPlace(t, h, w.diag, w.off2, w.v, floor);
+  const mn = minEigHermitianInPlace(t, h, w.diag, w.off2, w.v, floor);
   return mn < 0 ? -1 / mn : Infinity;
 }
 
