@@ -185,13 +185,15 @@ def test_a_timeout_kills_a_wrapper_started_engine(tmp_path, engine):
         assert len(members) >= 2, "the wrapper and its node child"
         rng = np.random.default_rng(5)
         answers = slow.compute_batch(
-            [{"op": "spectrum", "matrix": random_hermitian(1024, rng), "vectors": True, "id": "slow"},
-             {"op": "entropy", "rho": np.eye(2) / 2, "id": "after"}],
+            [{"op": "spectrum", "matrix": random_hermitian(1024, rng), "vectors": True, "id": "slow"}],
             timeout=0.3,
         )
         assert answers[0]["error"]["code"] == "deadline-exceeded" and answers[0]["id"] == "slow"
         assert group_members(pgid) == []       # the shell and its node child: gone (zombies aside)
-        assert answers[1]["ok"] and answers[1]["value"] == 1 and slow.starts == 2
+        # The next request is answered by a restarted engine. (No timeout here: a fresh engine's first
+        # request pays its start-up, which on a loaded machine can exceed a sub-second budget.)
+        after = slow.compute({"op": "entropy", "rho": np.eye(2) / 2, "id": "after"})
+        assert after["ok"] and after["value"] == 1 and slow.starts == 2
     finally:
         slow.close()
 
