@@ -41,7 +41,7 @@ from pathlib import Path
 from typing import Any, Iterable, Sequence
 
 from .answer import Answer
-from .convert import Refusal, to_protocol
+from .convert import Refusal, dumps_line, to_protocol
 from .errors import EngineNotFound, EngineStartError
 
 __all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "shutdown", "compute", "compute_batch"]
@@ -110,8 +110,7 @@ class _Prepared:
         op = request.get("op") if isinstance(request, dict) else None
         request_id = request.get("id") if isinstance(request, dict) else None
         try:
-            data = to_protocol(request)
-            self.line = json.dumps(data, separators=(",", ":"), allow_nan=False).encode("utf-8") + b"\n"
+            self.line = dumps_line(to_protocol(request))
         except Refusal as refusal:
             self.answer = _failure(op, request_id, refusal.code, refusal.message, path=refusal.path)
         except (TypeError, ValueError) as err:
