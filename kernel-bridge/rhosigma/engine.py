@@ -351,13 +351,13 @@ class Engine:
             proc = self._proc
             lines = [p.line for p in pending]
             writer: threading.Thread | None = None
-            if len(lines) == 1:
-                self._write(lines[0])  # a lone request: the engine writes nothing before reading it all
-            else:
-                writer = threading.Thread(target=self._write, args=(b"".join(lines),), daemon=True)
-                writer.start()
             done = 0
             try:
+                if len(lines) == 1:
+                    self._write(lines[0])  # a lone request: the engine writes nothing before reading it all
+                else:
+                    writer = threading.Thread(target=self._write, args=(b"".join(lines),), daemon=True)
+                    writer.start()
                 for p in pending:
                     deadline = time.monotonic() + timeout if timeout is not None else None
                     try:
@@ -397,9 +397,12 @@ class Engine:
                         break
                     done += 1
             finally:
+                if proc is not None and proc.poll() is None and done < len(pending):
+                    # Interrupted (KeyboardInterrupt, a kernel interrupt) with answers still owed: a late
+                    # answer would be taken for the next request's, so this process is stopped and the
+                    # next request starts a new one.
+                    self._kill()
                 if writer is not None:
-                    if proc is not None and proc.poll() is None and done < len(pending):
-                        self._kill()  # interrupted (KeyboardInterrupt): unknown state, start afresh
                     writer.join()
             pending = pending[done:]
 
