@@ -21,7 +21,7 @@ import { readFileSync, createReadStream } from 'node:fs';
 import type { Readable, Writable } from 'node:stream';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import '../ops/all.js';
-import { handle, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
+import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
 import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
 import { runDemo } from './demo.js';
@@ -92,9 +92,11 @@ function duplicateAnswer(request: unknown, dups: DuplicateKey[], prefix = ''): A
   return answer;
 }
 
-function safeHandle(request: unknown, defaultDeadline: number): Answer {
+async function safeHandle(request: unknown, defaultDeadline: number): Promise<Answer> {
   try {
-    return handle(request, { defaultDeadline });
+    // handleAsync: loads the expression reader first when the request may need it (a bundle run
+    // outside the checkout can only load it this way).
+    return await handleAsync(request, { defaultDeadline });
   } catch {
     // handle() never throws by contract; this guard keeps one broken request from stopping a batch.
     return { ok: false, op: null, error: { code: 'internal-error', message: 'The engine failed unexpectedly on this request.' } };
@@ -239,7 +241,7 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
   }
   const { value, duplicates } = parsed;
   bytes = undefined;
-  const answerOf = (request: unknown, k?: number): Answer => {
+  const answerOf = async (request: unknown, k?: number): Promise<Answer> => {
     const prefix = k === undefined ? '' : `[${k}]`;
     const mine = duplicates.filter((d) => (k === undefined ? true : d.path === prefix || d.path.startsWith(`${prefix}.`) || d.path.startsWith(`${prefix}[`)));
     return mine.length ? duplicateAnswer(request, mine, prefix) : safeHandle(request, deadline);
@@ -248,7 +250,7 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
   // brings the process down cannot take the answers before it with it.
   let failed = false;
   if (!Array.isArray(value)) {
-    const a = answerOf(value);
+    const a = await answerOf(value);
     await out.write(`${JSON.stringify(a, null, pretty ? 2 : undefined)}\n`);
     await out.finish();
     return out.code(a.ok ? 0 : 1, 1);
@@ -258,7 +260,7 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
     return out.code(0, 0);
   }
   for (let k = 0; k < value.length; k++) {
-    const a = answerOf(value[k], k);
+    const a = await answerOf(value[k], k);
     value[k] = undefined; // the request's memory can go before the next one is computed
     if (!a.ok) failed = true;
     const body = pretty ? JSON.stringify(a, null, 2).replace(/\n/g, '\n  ') : JSON.stringify(a);
@@ -343,7 +345,7 @@ async function answerLines(stream: Readable, io: Io, deadline: number, out: Outp
       } else {
         try {
           const { value, duplicates } = parseText(text);
-          answer = duplicates.length ? duplicateAnswer(value, duplicates) : safeHandle(value, deadline);
+          answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
         } catch (err) {
           // The line keeps its place in the output, so answers still line up with requests.
           notJson = true;

@@ -70,7 +70,9 @@ export function expressionReaderLoaded(): boolean {
  */
 export async function loadExpressionReader(): Promise<void> {
   if (parse) return;
-  adopt(await import('mathjs/lib/browser/math.js'));
+  // webpackMode eager: a webpack build (the wheel's engine, browser workers) keeps mathjs in its one
+  // file instead of a chunk beside it; esbuild's command bundle leaves it outside (a real import).
+  adopt(await import(/* webpackMode: "eager" */ 'mathjs/lib/browser/math.js'));
 }
 
 function reader(): (text: string) => unknown {
@@ -81,8 +83,12 @@ function reader(): (text: string) => unknown {
     | { createRequire(from: string): (id: string) => unknown }
     | undefined;
   if (nodeModule) {
-    adopt(nodeModule.createRequire(import.meta.url)(MATHJS_BUNDLE));
-    return parse!;
+    try {
+      adopt(nodeModule.createRequire(import.meta.url)(MATHJS_BUNDLE));
+      return parse!;
+    } catch {
+      // Not beside us (a bundle run outside the checkout): only loadExpressionReader can load it.
+    }
   }
   throw new RhoError(
     'internal-error',
