@@ -33,6 +33,7 @@
  * Deliberately not here: measured Rényi divergences. Cost: O(m^3) per function evaluation
  * (m = rank σ), O(m^2 · memory) per L-BFGS step; a few hundred steps for well-conditioned inputs.
  */
+import { checkDeadline } from '../deadline.js';
 import { CMatrix, zeros, adjoint, mul, hermitianPart } from '../linalg/cmatrix.js';
 import { eigh } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
@@ -147,7 +148,7 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix): Evaluation {
 }
 
 /** Maximise f by L-BFGS; returns the final point's evaluation and the run's record. */
-function ascend(rhoS: CMatrix, sigmaS: CMatrix, x0: Float64Array, maxIterations: number, gtol: number) {
+function ascend(rhoS: CMatrix, sigmaS: CMatrix, x0: Float64Array, maxIterations: number, gtol: number, lb: number) {
   const memory = 12;
   const S: Float64Array[] = [];
   const Yd: Float64Array[] = [];
@@ -158,6 +159,8 @@ function ascend(rhoS: CMatrix, sigmaS: CMatrix, x0: Float64Array, maxIterations:
   let finalChange = 0;
   let stall = 0;
   while (iterations < maxIterations) {
+    // The request's deadline (src/deadline.ts): every iterate's objective is a lower bound on D_M.
+    checkDeadline('the ascent of the measured relative entropy', () => ({ iterations, lowerBound: cur.f / lb }), () => `after ${iterations} steps the best lower bound was ${cur.f / lb}`);
     const gnorm = Math.sqrt(dot(cur.grad, cur.grad));
     if (gnorm <= gtol) {
       stoppingRule = `gradient norm ${gnorm.toExponential(2)} <= ${gtol}`;
@@ -307,7 +310,7 @@ export function measuredRelativeEntropy(rho: CMatrix, sigma: CMatrix, options: M
   const delta = 1e-3 * rmax;
   const logRho = mul(mul(r.vectors!, diagonalOf(Array.from(r.values, (v) => Math.log(Math.max(v, 0) + delta)))), adjoint(r.vectors!));
   for (let j = 0; j < m; j++) logRho.re[j * m + j] -= Math.log(p.s[j]);
-  const run = ascend(rhoS, sigmaS, toVector(hermitianPart(logRho)), maxIterations, gtol);
+  const run = ascend(rhoS, sigmaS, toVector(hermitianPart(logRho)), maxIterations, gtol, lb);
   const basis = mul(V1, run.cur.basis);
   const full = kernel.length ? hstack(basis, columns(p.sigma.vectors, kernel)) : basis;
   const { pr, qr } = probs(full);
