@@ -44,16 +44,36 @@ def _read_spec(spec: Any) -> dict:
     return spec
 
 
+#: The deadline of one `sweep-points` request (one day, the protocol's largest): each request of a point
+#: keeps its own default deadline, as under `rhosigma sweep`; a partial answer is completed by asking again.
+SWEEP_DEADLINE_MS = 86_400_000
+
+
 def _ask(engine: Any, spec: dict, *, indices: list[int] | None = None, refine: list[list[int]] | None = None) -> dict:
-    request: dict[str, Any] = {"op": "sweep-points", "spec": spec}
-    if indices is not None:
-        request["indices"] = indices
-    if refine is not None:
-        request["refine"] = refine
-    answer = engine.compute(request)
-    if not answer.get("ok"):
-        raise ComputeError(dict(answer), request)
-    return dict(answer)
+    """One or more `sweep-points` requests for these points, until every line is answered."""
+    lines: list[dict] = []
+    last: dict = {}
+    todo_i, todo_r = list(indices or []), list(refine or [])
+    while True:
+        request: dict[str, Any] = {"op": "sweep-points", "spec": spec, "deadline": SWEEP_DEADLINE_MS}
+        if indices is not None:
+            request["indices"] = todo_i
+        if refine is not None:
+            request["refine"] = todo_r
+        answer = engine.compute(request)
+        if not answer.get("ok"):
+            raise ComputeError(dict(answer), request)
+        last = dict(answer)
+        got = last["value"]
+        lines.extend(got)
+        if last.get("complete", True):
+            break
+        if not got:
+            raise ComputeError({"ok": False, "op": "sweep-points", "error": {"code": "deadline-exceeded", "message": "A sweep point did not finish within the request's deadline."}}, request)
+        done_i = min(len(got), len(todo_i))
+        todo_i, todo_r = todo_i[done_i:], todo_r[len(got) - done_i:]
+    last["value"] = lines
+    return last
 
 
 def _engine(engine: Any) -> Any:

@@ -4,7 +4,7 @@ run in this kernel's engine or on a real Dask cluster (dask and distributed from
 
 Sources: the command itself as the reference for rows (a separate `node bin/rhosigma.js sweep` process);
 pandas 3.1 for the frame; the known facts of the sweep (data processing of the sandwiched Rényi divergence
-fails at α = 0.05 < 1/2, Frank–Lieb 2013 and Beigi 2013 for the range where it holds) and the mean purity
+fails at α = 1/4 < 1/2, Frank–Lieb 2013 and Beigi 2013 for the range where it holds) and the mean purity
 2d/(d² + 1) of Hilbert–Schmidt states (Życzkowski–Sommers 2001).
 """
 from __future__ import annotations
@@ -26,7 +26,7 @@ from conftest import BIN
 
 
 
-def data_processing(alphas, samples, seed, **extra):
+def data_processing(alphas, samples, seed, environment=None, **extra):
     div = lambda r, s: {"op": "divergence", "family": "alpha-z", "alpha": {"$": "alpha"}, "z": {"$": "alpha"}, "rho": {"$": r}, "sigma": {"$": s}}
     spec = {
         "sweep": 1, "seed": seed, "samples": samples,
@@ -34,7 +34,7 @@ def data_processing(alphas, samples, seed, **extra):
         "draws": {
             "rho": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]},
             "sigma": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]},
-            "N": {"op": "random-channel", "kind": "stinespring", "from": [2], "to": [2]},
+            "N": {"op": "random-channel", "kind": "stinespring", "from": [2], "to": [2], **({"environment": environment} if environment else {})},
         },
         "steps": {
             "Nrho": {"op": "apply-channel", "channel": {"$": "N"}, "rho": {"$": "rho"}},
@@ -59,13 +59,13 @@ def command_rows(spec: dict) -> list[dict]:
 
 
 def test_rows_equal_the_command_lines_and_make_a_frame():
-    spec = data_processing([0.05, 0.7], 12, 7, record=["Nrho"])
+    spec = data_processing([0.25, 0.7], 12, 7, record=["Nrho"])
     rows, facts = sweep_rows(spec, chunk=5)
     assert rows == command_rows(spec)
     df = rhosigma.sweep(spec, chunk=7)
     assert isinstance(df, pd.DataFrame)
     assert list(df["index"]) == list(range(24))
-    assert list(df["alpha"]) == [0.05] * 12 + [0.7] * 12
+    assert list(df["alpha"]) == [0.25] * 12 + [0.7] * 12
     assert df.attrs["specHash"] == facts["specHash"] and df.attrs["seed"] == 7
     assert (df["gap"] == df["right"] - df["left"]).all()
     assert df.loc[df["alpha"] == 0.7, "violated"].eq(False).all()  # Frank–Lieb 2013, Beigi 2013
@@ -73,7 +73,7 @@ def test_rows_equal_the_command_lines_and_make_a_frame():
 
 
 def test_first_violation_and_failure_rows_match_the_command():
-    spec = data_processing([0.05], 200, 2013, mode="first-violation")
+    spec = data_processing([0.25], 200, 2013, environment=2, mode="first-violation")
     df = rhosigma.sweep(spec, chunk=16)
     assert df["violated"].iloc[-1] == True and not df["violated"].iloc[:-1].any()
     assert df["reproduce"].iloc[-1][0]["op"] == "random-state"
@@ -104,7 +104,7 @@ def test_hilbert_schmidt_purity_through_a_sweep():
 
 
 def test_a_dask_local_cluster_gives_the_same_rows():
-    spec = data_processing([0.05, 0.3], 10, 11, mode={"search": {"refine": 2, "evaluations": 40}})
+    spec = data_processing([0.25, 0.3], 10, 11, mode={"search": {"refine": 2, "evaluations": 40, "objective": "relative"}})
     single, _ = sweep_rows(spec, chunk=4)
     cluster = distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True, host="127.0.0.1",
                                        dashboard_address=None, protocol="tcp")

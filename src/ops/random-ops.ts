@@ -24,6 +24,7 @@ import {
 import { defineOp } from './registry.js';
 import { MAX_DIMENSION, MAX_KRAUS, MAX_CHANNEL_ENTRIES, readDims, schemas, writeChannel, writeComplexMatrix, writeMatrix } from './codec.js';
 import type { CMatrix } from '../linalg/cmatrix.js';
+import { dense, plain, sequence, type CostEstimate } from './cost.js';
 
 /** Most normals one draw may consume (a 1024 × 4096 Ginibre matrix): bounds the work of one request. */
 export const MAX_COORDINATES = 8 * 1024 * 1024;
@@ -47,6 +48,7 @@ const drawFields = {
       'Instead of seed: the standard normal variates the draw consumes, in order (random-number: the one uniform u in [0, 1]). A smooth parametrization of the ensemble.',
     type: 'array',
     minItems: 1,
+    maxItems: MAX_COORDINATES,
     items: { type: 'number' },
   },
   withCoordinates: {
@@ -160,6 +162,16 @@ function withCoords<T extends Record<string, unknown>>(out: T, coordinates?: num
 
 const dimsSchema = { ...schemas.dims, description: 'The subsystem dimensions of the object (their product is its order).' };
 
+/** The product of a dims list that passed the schema (0 when it is not a list of numbers). */
+function order(dims: unknown): number {
+  return Array.isArray(dims) && dims.every((x) => typeof x === 'number') ? dims.reduce((a: number, b: number) => a * b, 1) : 0;
+}
+
+/** A Ginibre draw of rows × cols and its Gram product or QR (about 8·rows·cols² real operations). */
+function ginibreCost(rows: number, cols: number, what: string): CostEstimate {
+  return plain(8 * rows * cols * Math.max(rows, cols) + 40 * rows * cols, 48 * rows * cols, `${what} from a ${rows}×${cols} Ginibre matrix`);
+}
+
 // ---------------------------------------------------------------------------------------------------
 
 defineOp({
@@ -175,6 +187,13 @@ defineOp({
       ...drawFields,
     },
     required: ['ensemble', 'dims'],
+  },
+  cost(req) {
+    const d = order(req.dims);
+    if (req.ensemble === 'haar-pure') return ginibreCost(d, 1, 'a pure state');
+    if (req.ensemble === 'bures') return sequence(dense(d, 1, 'a Haar unitary'), ginibreCost(d, d, 'a Bures state'));
+    const k = req.ensemble === 'induced' && typeof req.ancilla === 'number' ? req.ancilla : d;
+    return ginibreCost(d, k, 'an induced state');
   },
   run(req) {
     const dims = dimsOf(req, 'dims')!;
@@ -218,6 +237,7 @@ defineOp({
     properties: { d: { type: 'integer', minimum: 1, description: 'The order of the unitary.' }, ...drawFields },
     required: ['d'],
   },
+  cost: (req) => ginibreCost(req.d, req.d, 'a Haar unitary'),
   run(req) {
     const d = positiveInt(req.d, 'd', MAX_DIMENSION);
     const { object, coordinates } = drawWith(req, 2 * d * d, (s) => haarUnitary(d, s));
@@ -240,6 +260,16 @@ defineOp({
       ...drawFields,
     },
     required: ['kind', 'from'],
+  },
+  cost(req) {
+    const din = order(req.from);
+    if (req.kind === 'unital') {
+      const n = typeof req.unitaries === 'number' ? req.unitaries : din;
+      return { ...ginibreCost(din, din, 'Haar unitaries'), flops: n * ginibreCost(din, din, '').flops, bytes: n * 48 * din * din, basis: `${n} Haar unitaries of order ${din}` };
+    }
+    const dout = req.to === undefined ? din : order(req.to);
+    const m = typeof req.environment === 'number' ? req.environment : din * dout;
+    return ginibreCost(dout * m, din, 'a Stinespring isometry');
   },
   run(req) {
     const from = dimsOf(req, 'from')!;
@@ -287,6 +317,13 @@ defineOp({
     },
     required: ['a', 'blocks', 'c'],
   },
+  cost(req) {
+    const blocks = Array.isArray(req.blocks) ? (req.blocks as unknown[]) : [];
+    const dB = blocks.reduce((s: number, b) => s + (Array.isArray(b) && typeof b[0] === 'number' && typeof b[1] === 'number' ? b[0] * b[1] : 0), 0);
+    const n = (typeof req.a === 'number' ? req.a : 0) * dB * (typeof req.c === 'number' ? req.c : 0);
+    const fill = plain(4 * n * n, 48 * n * n, `a Markov state of order ${n}`);
+    return req.rotate === true ? sequence(fill, dense(n, 1, 'a unitary on B applied')) : fill;
+  },
   run(req) {
     const a = positiveInt(req.a, 'a', MAX_DIMENSION);
     const c = positiveInt(req.c, 'c', MAX_DIMENSION);
@@ -311,9 +348,11 @@ defineOp({
       from: { type: 'number', description: 'The lower end.' },
       to: { type: 'number', description: 'The upper end (greater than from).' },
       ...drawFields,
+      coordinates: { ...drawFields.coordinates, maxItems: 1 },
     },
     required: ['from', 'to'],
   },
+  cost: () => plain(1, 0, 'one uniform number'),
   run(req) {
     if (!(req.to > req.from)) throw new RhoError('invalid-argument', `"to" (${req.to}) must be greater than "from" (${req.from}).`, 'to');
     const { object, coordinates } = drawWith(req, 1, (s) => s.uniform());

@@ -7,9 +7,16 @@
  * Registered here, in the sweep layer, rather than in src/ops: the sweep layer sits above the ops and calls
  * `handle` for every request of a point; the command (src/cli/sweep.ts) and the schema script import this
  * module. Deliberately not here: files, threads, ordering (the caller chooses the indices).
+ * Deadline: every request of a point is bounded by its own limits and deadline, and by this request's.
+ * Between points the op looks at its deadline: when it has passed, the answer holds the lines done so far
+ * with "complete": false (a point that failed only because this request's deadline passed is left out),
+ * and the client asks again for the rest. A client that wants each point bounded as `rhosigma sweep`
+ * bounds it gives this request a long "deadline" and sends a few hundred points at a time.
  * Cost: the points' evaluations; reading the spec once per distinct spec (the last few are kept).
  */
 import { RhoError } from '../errors.js';
+import { deadlinePassed } from '../deadline.js';
+import { plain } from '../ops/cost.js';
 import { defineOp } from '../ops/registry.js';
 import { engineVersion } from './file.js';
 import { runJob, type Job } from './jobs.js';
@@ -59,6 +66,12 @@ defineOp({
     },
     required: ['spec'],
   },
+  // Each request of a point is checked against the limits by its own handle call; this estimate only
+  // bounds the number of points (a sweep point is at least a few small requests).
+  cost: (req) => {
+    const n = (Array.isArray(req.indices) ? req.indices.length : 0) + (Array.isArray(req.refine) ? req.refine.length : 0);
+    return plain(n * 1e5, 1e5 * Math.max(1, n), `${n} points of a sweep (each of their requests is bounded by its own limits)`);
+  },
   run(req) {
     const spec = specFrom(req.spec);
     const jobs: Job[] = [];
@@ -76,7 +89,20 @@ defineOp({
     if (jobs.length > MAX_POINTS_PER_REQUEST) {
       throw new RhoError('too-large', `At most ${MAX_POINTS_PER_REQUEST} points per request.`, 'indices', { limit: MAX_POINTS_PER_REQUEST });
     }
-    const lines = jobs.map((j) => JSON.parse(runJob(spec, j).line) as unknown);
-    return { value: lines, specHash: spec.hash, points: spec.total, mode: spec.mode, engine: { version: engineVersion() } };
+    const lines: unknown[] = [];
+    let complete = true;
+    for (const job of jobs) {
+      if (deadlinePassed()) {
+        complete = false;
+        break;
+      }
+      const line = JSON.parse(runJob(spec, job).line) as { failed?: { error?: { code?: string } } };
+      if (line.failed?.error?.code === 'deadline-exceeded' && deadlinePassed()) {
+        complete = false; // this request's deadline, not the point's own: the client asks again
+        break;
+      }
+      lines.push(line);
+    }
+    return { value: lines, complete, specHash: spec.hash, points: spec.total, mode: spec.mode, engine: { version: engineVersion() } };
   },
 });

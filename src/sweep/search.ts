@@ -9,7 +9,10 @@
  * from the point's own coordinates, each step tries x + σ z with z standard normal; a smaller gap is kept
  * and σ grows by 1.5, otherwise σ shrinks by 1.5^(−1/4) (success rate held near 1/5). The directions come
  * from the spec's seed, stream [index, 0, 1] (draws use [index, k, 0]), so a refinement is reproducible.
- * Coordinates of uniform draws (random-number) are kept in [0, 1].
+ * Coordinates of uniform draws (random-number) are kept in [0, 1]. The objective is the gap, or with
+ * "objective": "relative" the gap over max(|left|, |right|, floor): minimising the plain gap of a
+ * data-processing inequality tends to the trivial minimum 0 (both sides shrinking, ρ → σ), the relative
+ * one looks for the inequality's worst ratio instead.
  *
  * Deliberately not here: choosing which points to refine (src/sweep/runner.ts). Evidence, not proof: a
  * refined gap is a local minimum found numerically; the line's requests replay it exactly.
@@ -18,6 +21,14 @@
 import { PhiloxStream } from '../linalg/philox.js';
 import { evaluatePoint, type PointOutcome } from './point.js';
 import type { Spec } from './spec.js';
+
+/** The number the search minimises for an outcome with a gap (see SearchSettings.objective). */
+export function objectiveOf(spec: Spec, o: PointOutcome): number {
+  if (o.failed || o.gap === undefined) return Infinity;
+  if (spec.search.objective === 'gap') return o.gap;
+  const scale = Math.max(Math.abs(o.left!), Math.abs(o.right!), spec.search.floor);
+  return Number.isFinite(scale) ? o.gap / scale : o.gap;
+}
 
 export interface Refinement {
   start: PointOutcome;
@@ -33,6 +44,7 @@ export function refinePoint(spec: Spec, index: number): Refinement {
   const uniform = spec.draws.map(([, req]) => req.op === 'random-number');
   let x = start.coordinates.flat();
   let best = start;
+  let bestScore = objectiveOf(spec, start);
   let sigma = spec.search.step;
   const directions = new PhiloxStream(spec.seed, [index, 0, 1]);
   let evaluations = 0;
@@ -47,8 +59,10 @@ export function refinePoint(spec: Spec, index: number): Refinement {
     });
     const trial = evaluatePoint(spec, index, { coordinates: split });
     evaluations++;
-    if (!trial.failed && trial.gap !== undefined && trial.gap < best.gap!) {
+    const score = objectiveOf(spec, trial);
+    if (score < bestScore) {
       best = trial;
+      bestScore = score;
       x = split.flat();
       sigma *= 1.5;
     } else {

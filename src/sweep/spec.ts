@@ -142,6 +142,11 @@ export const SPEC_SCHEMA = {
                 refine: { type: 'integer', minimum: 1, maximum: 10000, description: 'How many of the points with the smallest gaps are refined; default 5.' },
                 evaluations: { type: 'integer', minimum: 1, maximum: 1_000_000, description: 'Evaluations per refined point; default 200.' },
                 step: { type: 'number', exclusiveMinimum: 0, description: 'Initial step in the draws\' coordinates (standard normals); default 0.3.' },
+                objective: {
+                  enum: ['gap', 'relative'],
+                  description: '"gap" (default) minimises right − left; "relative" minimises (right − left)/max(|left|, |right|, floor), which does not reward shrinking both sides towards 0.',
+                },
+                floor: { type: 'number', exclusiveMinimum: 0, description: 'The floor of the relative objective; default 1e-6.' },
               },
               additionalProperties: false,
             },
@@ -165,6 +170,8 @@ export interface SearchSettings {
   refine: number;
   evaluations: number;
   step: number;
+  objective: 'gap' | 'relative';
+  floor: number;
 }
 
 /** A spec that has been read: the original (for the hash and the header) and what the runner needs. */
@@ -314,7 +321,7 @@ export function readSpec(value: unknown): Spec {
   if (mode === 'search' && draws.length === 0) {
     throw new RhoError('invalid-argument', 'A search refines the draws of the best points; the spec has no "draws".', 'mode');
   }
-  const search: SearchSettings = { refine: 5, evaluations: 200, step: 0.3, ...(typeof modeValue === 'object' ? modeValue.search : {}) };
+  const search: SearchSettings = { refine: 5, evaluations: 200, step: 0.3, objective: 'gap', floor: 1e-6, ...(typeof modeValue === 'object' ? modeValue.search : {}) };
 
   // Names: one namespace for parameters, draws and steps.
   const seen = new Map<string, string>();

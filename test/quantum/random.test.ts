@@ -143,7 +143,7 @@ describe('random-draw requests', () => {
       [{ op: 'random-channel', kind: 'unital', from: [2], to: [2], seed: 1 }, 'invalid-argument', 'to'],
       [{ op: 'random-number', from: 1, to: 1, seed: 1 }, 'invalid-argument', 'to'],
       [{ op: 'random-number', from: 0, to: 1, coordinates: [1.5] }, 'invalid-argument', 'coordinates[0]'],
-      [{ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2048], seed: 1 }, 'too-large', 'dims'],
+      [{ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [1100], seed: 1 }, 'too-large', 'dims'],
     ];
     for (const [req, code, path] of cases) {
       const a = handle(req) as any;

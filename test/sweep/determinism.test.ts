@@ -11,7 +11,7 @@ const tmp = tempFolder();
 afterAll(() => tmp.remove());
 
 describe('sweep determinism', () => {
-  const spec = tmp.file('dpi.json', dataProcessingSpec([0.05, 0.3, 0.7, 2], 9, 424242, { record: ['Nrho'] }));
+  const spec = tmp.file('dpi.json', dataProcessingSpec([0.25, 0.3, 0.7, 2], 9, 424242, { record: ['Nrho'] }));
 
   it('one worker, two workers, the calling thread and four shards merged write byte-identical files (Salmon et al. 2011)', () => {
     const one = tmp.file('one.jsonl'), two = tmp.file('two.jsonl'), zero = tmp.file('zero.jsonl'), merged = tmp.file('merged.jsonl');
@@ -42,7 +42,7 @@ describe('sweep determinism', () => {
 
   it('another seed gives other draws, the same seed the same (common practice)', () => {
     const a = tmp.file('a.jsonl'), b = tmp.file('b.jsonl'), c = tmp.file('c.jsonl');
-    const other = tmp.file('other.json', dataProcessingSpec([0.05, 0.3, 0.7, 2], 9, 424243, { record: ['Nrho'] }));
+    const other = tmp.file('other.json', dataProcessingSpec([0.25, 0.3, 0.7, 2], 9, 424243, { record: ['Nrho'] }));
     assert.equal(rhosigma(['sweep', spec, '-o', a, '--workers', '0']).code, 0);
     assert.equal(rhosigma(['sweep', other, '-o', b, '--workers', '0']).code, 0);
     const la = readFileSync(a, 'utf8').split('\n'), lb = readFileSync(b, 'utf8').split('\n');

@@ -45,8 +45,11 @@ export function tempFolder(): { dir: string; file: (name: string, content?: unkn
   };
 }
 
-/** Data processing of the sandwiched divergence D̃_α = D_{α,z=α} under a random qubit channel. */
-export function dataProcessingSpec(alphas: number[], samples: number, seed: number, extra: Record<string, unknown> = {}) {
+/**
+ * Data processing of the sandwiched divergence D̃_α = D_{α,z=α} under a random qubit channel (from a
+ * Stinespring isometry with `environment` Kraus operators; default 4).
+ */
+export function dataProcessingSpec(alphas: number[], samples: number, seed: number, extra: Record<string, unknown> = {}, environment?: number) {
   const divergence = (rho: string, sigma: string) => ({
     op: 'divergence', family: 'alpha-z', alpha: { $: 'alpha' }, z: { $: 'alpha' }, rho: { $: rho }, sigma: { $: sigma },
   });
@@ -58,7 +61,7 @@ export function dataProcessingSpec(alphas: number[], samples: number, seed: numb
     draws: {
       rho: { op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2] },
       sigma: { op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2] },
-      N: { op: 'random-channel', kind: 'stinespring', from: [2], to: [2] },
+      N: { op: 'random-channel', kind: 'stinespring', from: [2], to: [2], ...(environment ? { environment } : {}) },
     },
     steps: {
       Nrho: { op: 'apply-channel', channel: { $: 'N' }, rho: { $: 'rho' } },
