@@ -16,8 +16,9 @@
  * one Hermitian eigendecomposition, O(n^3), per state (positivity) and per Choi matrix (Kraus form).
  */
 import {
-  CMatrix, adjoint, frobeniusNorm, mul, zeros,
+  CMatrix, adjoint, frobeniusNorm, hermitianPart, hermiticityDefect, mul, scale, trace, zeros,
 } from '../linalg/cmatrix.js';
+import { eigh } from '../linalg/eigh.js';
 import { product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel, State } from '../quantum/types.js';
@@ -260,10 +261,26 @@ export function readMatrix(value: unknown, path: string): CMatrix {
   return m;
 }
 
-/** A square matrix (finite, non-empty). */
+/**
+ * Largest magnitude of a matrix entry: above it the squares that norms and products are made of
+ * overflow double precision (about 1.3e154), and the answers would be NaN instead of numbers.
+ */
+export const MAX_ENTRY_MAGNITUDE = 1e150;
+
+/** A square matrix (finite, non-empty, entries of magnitude at most MAX_ENTRY_MAGNITUDE). */
 export function readSquareMatrix(value: unknown, path: string): CMatrix {
   const m = readMatrix(value, path);
   checkSquareFinite(m, path);
+  for (let k = 0; k < m.re.length; k++) {
+    if (Math.abs(m.re[k]) > MAX_ENTRY_MAGNITUDE || Math.abs(m.im[k]) > MAX_ENTRY_MAGNITUDE) {
+      const i = Math.floor(k / m.cols);
+      throw new RhoError(
+        'invalid-argument',
+        `Entry [${i}][${k % m.cols}] has magnitude ${Math.max(Math.abs(m.re[k]), Math.abs(m.im[k])).toExponential(3)}, above ${MAX_ENTRY_MAGNITUDE}: its square would overflow double precision. Rescale the matrix (and a parameter it multiplies, such as β).`,
+        `${path}[${i}][${k % m.cols}]`,
+      );
+    }
+  }
   return m;
 }
 
@@ -412,6 +429,92 @@ export function readNumber(value: unknown, path: string, range: NumberRange = {}
 
 const STATE_KEYS = ['matrix', 'ket', 'dims', 'labels'] as const;
 
+/**
+ * How an accepted state was made exact before use, when that changed it by more than rounding (the one
+ * rule for inputs accepted within a loose "tolerance"; docs/protocol.md, "Values"): the Hermitian part,
+ * negative eigenvalues set to zero, and, for density matrices and kets, divided by the trace (norm²).
+ */
+export interface Adjustment {
+  /** The input's place in the request ("rho", "states[2]"). */
+  path: string;
+  /** Its trace (a ket: its squared norm) before the division, when that was not 1 to within 1e-12. */
+  trace?: number;
+  /** Its most negative eigenvalue before it was set to zero, when below −1e-12 · ‖M‖_F. */
+  smallestEigenvalue?: number;
+  /** Its Hermiticity defect max|M_ij − conj(M_ji)|, when above 1e-12 · ‖M‖_F. */
+  hermiticityDefect?: number;
+}
+
+/** What is done to an accepted input, in words (the answer's note beside its list of adjustments). */
+export const ADJUSTMENT_RULE =
+  'Inputs accepted within the tolerance are used made exact: their Hermitian part, negative eigenvalues set to zero, and density matrices (and kets) divided by their trace (squared norm); the inputs listed here changed by more than rounding.';
+
+/** Changes below this (relative to the norm; absolute for traces) count as rounding and are not reported. */
+const ROUNDING = 1e-12;
+
+let adjustments: Adjustment[] | undefined;
+
+/** Runs `f`, collecting the adjustments made to the states it reads (handle reports them in the answer). */
+export function collectingAdjustments<T>(f: () => T): { result: T; adjustments: Adjustment[] } {
+  const saved = adjustments;
+  const mine: Adjustment[] = [];
+  adjustments = mine;
+  try {
+    return { result: f(), adjustments: mine };
+  } finally {
+    adjustments = saved;
+  }
+}
+
+/**
+ * The exact version of an accepted matrix (see Adjustment): Hermitian part, negative eigenvalues (given
+ * ascending in `values`) set to zero, divided by the trace when `normalise`.
+ */
+function madeExact(m: CMatrix, values: Float64Array, normalise: boolean, path: string): CMatrix {
+  const norm = Math.max(frobeniusNorm(m), 1e-300);
+  const note: Adjustment = { path };
+  const defect = hermiticityDefect(m).size;
+  let out = m;
+  if (defect > 0) {
+    out = hermitianPart(m);
+    if (defect > ROUNDING * norm) note.hermiticityDefect = defect;
+  }
+  if (values[0] < 0) {
+    if (values[0] < -ROUNDING * norm) {
+      note.smallestEigenvalue = values[0];
+      const { values: w, vectors } = eigh(out, { vectors: true });
+      const n = out.rows;
+      const clipped = zeros(n, n);
+      for (let k = 0; k < n; k++) {
+        const lam = w[k];
+        if (!(lam > 0)) continue;
+        for (let i = 0; i < n; i++) {
+          const ar = vectors!.re[i * n + k] * lam;
+          const ai = vectors!.im[i * n + k] * lam;
+          for (let j = 0; j < n; j++) {
+            const br = vectors!.re[j * n + k];
+            const bi = vectors!.im[j * n + k];
+            clipped.re[i * n + j] += ar * br + ai * bi;
+            clipped.im[i * n + j] += ai * br - ar * bi;
+          }
+        }
+      }
+      out = hermitianPart(clipped);
+    }
+  }
+  if (normalise) {
+    const tr = trace(out).re;
+    if (tr !== 1 && tr > 0) {
+      if (Math.abs(tr - 1) > ROUNDING) note.trace = trace(m).re;
+      out = scale(out, 1 / tr);
+    }
+  }
+  if (adjustments && (note.trace !== undefined || note.smallestEigenvalue !== undefined || note.hermiticityDefect !== undefined)) {
+    adjustments.push(note);
+  }
+  return out;
+}
+
 function readStateWith(value: unknown, path: string, tol: number, check: 'density' | 'positive'): State {
   // A bare matrix stands for {"matrix": M} (one system).
   const obj: Record<string, unknown> = Array.isArray(value) || (isPlainObject(value) && 're' in value) ? { matrix: value } : (value as Record<string, unknown>);
@@ -444,6 +547,10 @@ function readStateWith(value: unknown, path: string, tol: number, check: 'densit
       );
     }
     matrix = mul(v, adjoint(v));
+    if (norm2 !== 1) {
+      if (Math.abs(norm2 - 1) > ROUNDING && adjustments) adjustments.push({ path: at('ket'), trace: norm2 });
+      matrix = scale(matrix, 1 / norm2);
+    }
   } else {
     matrix = readSquareMatrix(obj.matrix, at('matrix'));
   }
@@ -452,18 +559,21 @@ function readStateWith(value: unknown, path: string, tol: number, check: 'densit
   checkDims(matrix, dims, at('dims'));
   const labels = obj.labels === undefined ? undefined : readLabels(obj.labels, at('labels'), dims.length);
   if (obj.ket === undefined) {
-    if (check === 'density') checkDensityMatrix(matrix, tol, at('matrix'));
-    else checkPositive(matrix, tol, at('matrix'));
+    const values = check === 'density' ? checkDensityMatrix(matrix, tol, at('matrix')) : checkPositive(matrix, tol, at('matrix'));
+    matrix = madeExact(matrix, values, check === 'density', bare ? path : path);
   }
   return labels ? { matrix, dims, labels } : { matrix, dims };
 }
 
-/** A density matrix (Hermitian, positive semidefinite, unit trace within `tol`); dims default [n]. */
+/**
+ * A density matrix (Hermitian, positive semidefinite, unit trace within `tol`); dims default [n]. It is
+ * returned made exact (Hermitian part, negative eigenvalues set to zero, unit trace; see Adjustment).
+ */
 export function readState(value: unknown, path: string, tol: number): State {
   return readStateWith(value, path, tol, 'density');
 }
 
-/** A positive semidefinite operator of any trace (the σ of a divergence), in the state's form. */
+/** A positive semidefinite operator of any trace (the σ of a divergence), in the state's form; made exact but not normalised. */
 export function readOperatorState(value: unknown, path: string, tol: number): State {
   return readStateWith(value, path, tol, 'positive');
 }

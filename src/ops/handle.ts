@@ -23,7 +23,7 @@ import { DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import { withDeadline } from '../deadline.js';
 import { overLimits, type CostEstimate } from '../limits.js';
 import { getOp, listOps, type OpContext, type OpDefinition } from './registry.js';
-import { writeMatrix } from './codec.js';
+import { ADJUSTMENT_RULE, collectingAdjustments, writeMatrix } from './codec.js';
 import { checkRequestSizes, type RequestSizes } from './sizes.js';
 import { dense } from './cost.js';
 import { validators as precompiled } from './validators.generated.js';
@@ -415,7 +415,7 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
       base: req.base === 'e' ? Math.E : typeof req.base === 'number' ? req.base : DEFAULT_BASE,
     };
     const deadline = typeof req.deadline === 'number' ? req.deadline : (options.defaultDeadline ?? DEFAULT_DEADLINE_MS);
-    const result = withDeadline(deadline, () => def.run(req, context));
+    const { result, adjustments } = collectingAdjustments(() => withDeadline(deadline, () => def.run(req, context)));
     if (typeof result !== 'object' || result === null || !('value' in result)) {
       throw new NotPlain('', 'a result without "value"');
     }
@@ -425,6 +425,7 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
     if (id !== undefined) answer.id = id;
     answer.value = value ?? null;
     Object.assign(answer, extras);
+    if (adjustments.length) answer.inputsAdjusted = { note: ADJUSTMENT_RULE, inputs: toPlain(adjustments, 'inputsAdjusted', 0) };
     return answer as Answer;
   } catch (err) {
     if (err instanceof RhoError) return failure(opName, id, fromRhoError(err));
