@@ -19,6 +19,7 @@
  */
 import { readFileSync, createReadStream } from 'node:fs';
 import type { Readable, Writable } from 'node:stream';
+import { isAscii, isUtf8 } from 'node:buffer';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import '../ops/all.js';
 import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
@@ -201,6 +202,15 @@ async function readBytes(stream: Readable, limit: number): Promise<Buffer | unde
   return Buffer.concat(chunks, total);
 }
 
+/**
+ * The text of UTF-8 bytes, or undefined when they are not UTF-8. Node's native checks first: ASCII
+ * (the usual case, and the base64 of packed matrices) is decoded as one-byte text, three times faster.
+ */
+function decodeBytes(bytes: Buffer): string | undefined {
+  if (isAscii(bytes)) return bytes.toString('latin1');
+  return isUtf8(bytes) ? decodeUtf8(bytes) : undefined;
+}
+
 /** Parses one request's text: JSON, then the duplicate-key check. */
 function parseText(text: string): { value: unknown; duplicates: DuplicateKey[] } {
   const value = JSON.parse(text);
@@ -226,7 +236,7 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
     await out.write(`${JSON.stringify(a)}\n`);
     return out.code(1, 1);
   }
-  const text = decodeUtf8(bytes);
+  const text = decodeBytes(bytes);
   if (text === undefined) {
     io.stderr.write('rhosigma compute: the input is not valid UTF-8 text (JSON must be UTF-8); nothing was computed.\n');
     return 2;
@@ -336,7 +346,7 @@ async function answerLines(stream: Readable, io: Io, deadline: number, out: Outp
     if ('tooLong' in line) {
       answer = failureAnswer('too-large', `Line ${line.number} is ${line.tooLong} bytes long, above the limit of ${MAX_LINE_BYTES} bytes for one request.`);
     } else {
-      const text = decodeUtf8(line.bytes);
+      const text = decodeBytes(line.bytes);
       if (text === undefined) {
         notJson = true;
         answer = failureAnswer('parse-error', `Line ${line.number} is not valid UTF-8 text (JSON must be UTF-8).`);

@@ -403,7 +403,8 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
     return failure(opName.slice(0, 100), id, { code: 'unknown-op', message: `There is no op "${clip(opName, 100)}". ${hint}`, path: 'op' });
   }
   try {
-    const sizes = checkRequestSizes(req);
+    const sizes = sizesOf(req);
+    lastSizes = undefined; // do not keep the request alive
     const validate = validatorFor(def);
     if (!validate(req)) throw schemaError(validate.errors ?? [], def, req);
     if (req.base === 1) throw new RhoError('invalid-argument', 'The logarithm base must not be 1.', 'base');
@@ -452,19 +453,33 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
   }
 }
 
-/** Whether a request holds a string anywhere but in "op" and "id" (it may need the expression reader). */
-function holdsStrings(v: unknown, depth: number): boolean {
-  if (typeof v === 'string') return true;
-  if (depth > 12 || typeof v !== 'object' || v === null) return false;
-  if (Array.isArray(v)) {
-    for (const x of v) if (holdsStrings(x, depth + 1)) return true;
-    return false;
+/** The size check of the last request looked at (handleAsync checks first; handle need not walk it again). */
+let lastSizes: { request: object; sizes: RequestSizes } | undefined;
+
+function sizesOf(req: Record<string, unknown>): RequestSizes {
+  if (lastSizes?.request === req) return lastSizes.sizes;
+  const sizes = checkRequestSizes(req);
+  lastSizes = { request: req, sizes };
+  return sizes;
+}
+
+/** Fields whose strings are names or choices, never expressions. */
+const NAME_FIELDS = new Set(['op', 'id', 'name', 'family', 'form']);
+
+/**
+ * Whether a request may need the expression reader: expression strings in its matrices or kets (the
+ * size check counts them; the base64 text of packed matrices is not among them), or a top-level
+ * string field that may hold an expression (such as a metric function).
+ */
+function mayNeedExpressions(request: unknown): boolean {
+  if (typeof request !== 'object' || request === null || Array.isArray(request)) return false;
+  const req = request as Record<string, unknown>;
+  for (const [k, v] of Object.entries(req)) if (typeof v === 'string' && !NAME_FIELDS.has(k)) return true;
+  try {
+    return sizesOf(req).expressions > 0;
+  } catch {
+    return false; // too large: handle() refuses it without reading anything
   }
-  for (const [k, x] of Object.entries(v)) {
-    if (depth === 0 && (k === 'op' || k === 'id')) continue;
-    if (holdsStrings(x, depth + 1)) return true;
-  }
-  return false;
 }
 
 /**
@@ -473,7 +488,7 @@ function holdsStrings(v: unknown, depth: number): boolean {
  * alone is enough.
  */
 export async function handleAsync(request: unknown, options: HandleOptions = {}): Promise<Answer> {
-  if (!expressionReaderLoaded() && holdsStrings(request, 0)) {
+  if (!expressionReaderLoaded() && mayNeedExpressions(request)) {
     try {
       await loadExpressionReader();
     } catch {
