@@ -135,7 +135,8 @@ function readMatrixList(value: unknown, path: string): CMatrix[] {
   return value.map((m, k) => readMatrix(m, `${path}[${k}]`));
 }
 
-const COMMON = ['op', 'tolerance', 'base', 'id', 'name'] as const;
+// The common request fields (handle.ts COMMON_FIELDS) and the preset's name, which every preset accepts.
+const COMMON = ['op', 'tolerance', 'base', 'id', 'deadline', 'answerMatrices', 'name'] as const;
 const integer = (description: string, minimum = 1) => ({ type: 'integer', minimum, description });
 const num = (description: string) => ({ type: 'number', description });
 const matrixList = (description: string) => ({ type: 'array', minItems: 1, maxItems: 4096, items: schemas.matrix, description });

@@ -782,7 +782,56 @@ function cleanZero(x: number): number {
   return x === 0 ? 0 : x; // no -0 in answers
 }
 
-/** A matrix as plain data: real rows when every imaginary part is zero, else {re, im}. */
+/** How answers write matrices: as rows (the default) or packed (the request's "answerMatrices"). */
+let answerForm: 'rows' | 'packed' = 'rows';
+
+/** Runs `f` with matrices in answers written in `form` (handle sets this from the request). */
+export function withAnswerMatrices<T>(form: 'rows' | 'packed', f: () => T): T {
+  const saved = answerForm;
+  answerForm = form;
+  try {
+    return f();
+  } finally {
+    answerForm = saved;
+  }
+}
+
+/** A packed matrix in an answer (the protocol's packed form): row-major little-endian float64, base64. */
+export interface PackedMatrix {
+  shape: [number, number];
+  packed: typeof PACKED_ENCODING;
+  re: string;
+  im?: string;
+}
+
+const NodeBufferOut = (globalThis as { Buffer?: { from(b: ArrayBuffer, offset: number, length: number): { toString(e: 'base64'): string } } }).Buffer;
+
+/** Base64 of the little-endian bytes of `values`, with −0 written as 0 (answers carry no signed zeros). */
+function encodeFloat64(values: Float64Array): string {
+  const copy = new Float64Array(values.length);
+  for (let k = 0; k < values.length; k++) copy[k] = values[k] === 0 ? 0 : values[k];
+  if (!LITTLE_ENDIAN) {
+    const view = new DataView(copy.buffer);
+    for (let k = 0; k < copy.length; k++) view.setFloat64(8 * k, values[k] === 0 ? 0 : values[k], true);
+  }
+  if (NodeBufferOut) return NodeBufferOut.from(copy.buffer, 0, copy.byteLength).toString('base64');
+  const bytes = new Uint8Array(copy.buffer);
+  let text = '';
+  for (let k = 0; k < bytes.length; k += 0x8000) text += String.fromCharCode(...bytes.subarray(k, k + 0x8000));
+  return btoa(text);
+}
+
+/** A matrix in the packed form; `im` left out when `withIm` is false. */
+export function writePackedMatrix(m: CMatrix, withIm: boolean): PackedMatrix {
+  const out: PackedMatrix = { shape: [m.rows, m.cols], packed: PACKED_ENCODING, re: encodeFloat64(m.re) };
+  if (withIm) out.im = encodeFloat64(m.im);
+  return out;
+}
+
+/**
+ * A matrix as plain data: real rows when every imaginary part is zero, else {re, im}; in the packed form
+ * (im left out when zero) when the request asked for packed answer matrices.
+ */
 export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: number[][] } {
   let complex = false;
   for (let k = 0; k < m.im.length; k++) {
@@ -791,6 +840,8 @@ export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: numb
       break;
     }
   }
+  // (Typed as rows for the ops that build answers; a packed matrix is plain data as well.)
+  if (answerForm === 'packed') return writePackedMatrix(m, complex) as unknown as number[][];
   const re: number[][] = [];
   const im: number[][] = [];
   for (let i = 0; i < m.rows; i++) {
@@ -808,6 +859,7 @@ export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: numb
 
 /** A matrix always as {re, im} (for answers whose shape should not depend on the data). */
 export function writeComplexMatrix(m: CMatrix): { re: number[][]; im: number[][] } {
+  if (answerForm === 'packed') return writePackedMatrix(m, true) as unknown as { re: number[][]; im: number[][] };
   const re: number[][] = [];
   const im: number[][] = [];
   for (let i = 0; i < m.rows; i++) {

@@ -23,7 +23,7 @@ import { DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import { withDeadline } from '../deadline.js';
 import { overLimits, type CostEstimate } from '../limits.js';
 import { getOp, listOps, type OpContext, type OpDefinition } from './registry.js';
-import { ADJUSTMENT_RULE, collectingAdjustments, writeMatrix } from './codec.js';
+import { ADJUSTMENT_RULE, collectingAdjustments, withAnswerMatrices, writeMatrix } from './codec.js';
 import { checkRequestSizes, type RequestSizes } from './sizes.js';
 import { dense } from './cost.js';
 import { validators as precompiled } from './validators.generated.js';
@@ -79,6 +79,10 @@ export const COMMON_FIELDS = {
   id: {
     description: 'Any string or number; echoed back in the answer so batch users can match answers to requests.',
     type: ['string', 'number'],
+  },
+  answerMatrices: {
+    description: 'How matrices in the answer are written: "rows" (the default: real rows, or {"re", "im"} rows) or "packed" ({"shape", "packed": "float64-le", "re", "im"?}, base64 of row-major little-endian float64, im left out when zero), for large matrices.',
+    enum: ['rows', 'packed'],
   },
   deadline: {
     description: `Milliseconds the op may run; past it the op stops with 'deadline-exceeded' (iterative methods and the SDP solver say how far they got). Default ${DEFAULT_DEADLINE_MS} for the command and the engine, at most ${MAX_DEADLINE_MS}.`,
@@ -416,11 +420,16 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
       base: req.base === 'e' ? Math.E : typeof req.base === 'number' ? req.base : DEFAULT_BASE,
     };
     const deadline = typeof req.deadline === 'number' ? req.deadline : (options.defaultDeadline ?? DEFAULT_DEADLINE_MS);
-    const { result, adjustments } = collectingAdjustments(() => withDeadline(deadline, () => def.run(req, context)));
-    if (typeof result !== 'object' || result === null || !('value' in result)) {
-      throw new NotPlain('', 'a result without "value"');
-    }
-    const plain = toPlain(result, '', 0) as Record<string, unknown>;
+    const form = req.answerMatrices === 'packed' ? 'packed' : 'rows';
+    const { result: plain, adjustments } = collectingAdjustments(() =>
+      withAnswerMatrices(form, () => {
+        const result = withDeadline(deadline, () => def.run(req, context));
+        if (typeof result !== 'object' || result === null || !('value' in result)) {
+          throw new NotPlain('', 'a result without "value"');
+        }
+        return toPlain(result, '', 0) as Record<string, unknown>;
+      }),
+    );
     const { ok: _ok, op: _op, id: _id, value, ...extras } = plain;
     const answer: Record<string, unknown> = { ok: true, op: opName };
     if (id !== undefined) answer.id = id;

@@ -7,6 +7,7 @@ import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';
+import { runPythonCode } from '../helpers/python.js';
 
 function refused(request: Record<string, unknown>, path: string, code = 'invalid-argument'): string {
   const a = handle(request);
@@ -103,5 +104,38 @@ describe('finite values that overflow, and entries that would', () => {
     assert.deepEqual(a.value, [[0, 0], [0, 1]]);
     assert.equal(a.logPartition, 'Infinity');
     assert.match(a.reason as string, /beyond the largest double/);
+  });
+});
+
+describe('answers with packed matrices ("answerMatrices": "packed")', () => {
+  it('numpy reads every packed matrix of an answer as the rows of the same request, bit for bit', () => {
+    // Outside reference: numpy.frombuffer(base64.b64decode(text), dtype="<f8").reshape(shape) (numpy's
+    // documented C order and little-endian float64 dtype), compared with the rows answer of the same request.
+    const request = { op: 'spectrum', matrix: [['1/2', 'i/3', 0], ['-i/3', '1/4', '1/5'], [0, '1/5', 1]], vectors: true };
+    const rows = handle(request);
+    const packed = handle({ ...request, answerMatrices: 'packed' });
+    assert.ok(rows.ok && packed.ok);
+    assert.deepEqual(packed.value, rows.value);
+    const check = runPythonCode<{ same: boolean; shape: number[] }>(
+      `import base64, json, sys, numpy as np
+d = json.load(sys.stdin)
+p, r = d["packed"], d["rows"]
+dec = lambda s: np.frombuffer(base64.b64decode(s), dtype="<f8").reshape(p["shape"])
+same = np.array_equal(dec(p["re"]), np.array(r["re"])) and np.array_equal(dec(p["im"]), np.array(r["im"]))
+json.dump({"same": bool(same), "shape": p["shape"]}, sys.stdout)`,
+      { packed: packed.vectors, rows: rows.vectors },
+    );
+    assert.deepEqual(check, { same: true, shape: [3, 3] });
+  });
+
+  it('a real matrix leaves "im" out; presets and states take the common fields too', () => {
+    const a = handle({ op: 'state-preset', name: 'maximally-mixed', d: 2, answerMatrices: 'packed', deadline: 1000 });
+    assert.ok(a.ok, JSON.stringify(a));
+    const v = a.value as { shape: number[]; packed: string; re: string; im?: string };
+    assert.deepEqual(v.shape, [2, 2]);
+    assert.equal(v.im, undefined);
+    const bytes = Buffer.from(v.re, 'base64');
+    assert.deepEqual(Array.from({ length: bytes.length / 8 }, (_, k) => bytes.readDoubleLE(8 * k)), [0.5, 0, 0, 0.5]);
+    refused({ op: 'spectrum', matrix: [[1]], answerMatrices: 'binary' }, 'answerMatrices');
   });
 });
