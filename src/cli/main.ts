@@ -25,6 +25,7 @@ import '../ops/all.js';
 import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
 import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
+import { warmUp } from '../ops/warm-up.js';
 import { runDemo } from './demo.js';
 
 /** The streams the command uses (the process's own by default; tests may pass others). */
@@ -337,11 +338,14 @@ async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line
  * soon as it is computed, reading the next line only then (so a slow reader slows the reading, and
  * nothing piles up). Returns what happened, for the exit code.
  */
-async function answerLines(stream: Readable, io: Io, deadline: number, out: Output): Promise<{ notJson: boolean; failed: boolean; answers: number }> {
+async function answerLines(
+  stream: Readable, io: Io, deadline: number, out: Output, state: { busy: boolean } = { busy: false },
+): Promise<{ notJson: boolean; failed: boolean; answers: number }> {
   let notJson = false;
   let failed = false;
   let answers = 0;
   for await (const line of splitLines(stream, MAX_LINE_BYTES)) {
+    state.busy = true;
     let answer: Answer;
     if ('tooLong' in line) {
       answer = failureAnswer('too-large', `Line ${line.number} is ${line.tooLong} bytes long, above the limit of ${MAX_LINE_BYTES} bytes for one request.`);
@@ -351,6 +355,7 @@ async function answerLines(stream: Readable, io: Io, deadline: number, out: Outp
         notJson = true;
         answer = failureAnswer('parse-error', `Line ${line.number} is not valid UTF-8 text (JSON must be UTF-8).`);
       } else if (text.trim() === '') {
+        state.busy = false;
         continue;
       } else {
         try {
@@ -365,7 +370,9 @@ async function answerLines(stream: Readable, io: Io, deadline: number, out: Outp
     }
     if (!answer.ok) failed = true;
     answers++;
-    if (!(await out.write(`${JSON.stringify(answer)}\n`))) {
+    const delivered = await out.write(`${JSON.stringify(answer)}\n`);
+    state.busy = false;
+    if (!delivered) {
       (stream as Readable).destroy();
       break;
     }
@@ -394,10 +401,17 @@ export const PROTOCOL_VERSION = '1.1';
  * from a failed start. Then exactly one answer line per request line, in order. Failed requests do not
  * change the exit status: it is 0 when standard input ends, 3 when an answer could not be written.
  */
-async function serve(deadline: number, io: Io): Promise<number> {
+async function serve(deadline: number, warm: boolean, io: Io): Promise<number> {
   const out = new Output(io);
   await out.write(`${JSON.stringify({ ready: true, engine: 'rhosigma', version: version(), protocol: PROTOCOL_VERSION })}\n`);
-  const { answers } = await answerLines(io.stdin, io, deadline, out);
+  // Warm the solver while idle (src/ops/warm-up.ts): one small step at a time, never while a request is
+  // being answered, stopped when the input ends. It changes speed only, never an answer.
+  const state = { busy: false };
+  const stop = { aborted: false };
+  const warming = warm ? warmUp({ busy: () => state.busy, signal: stop }) : Promise.resolve();
+  const { answers } = await answerLines(io.stdin, io, deadline, out, state);
+  stop.aborted = true;
+  await warming;
   return out.code(0, answers);
 }
 
@@ -494,12 +508,15 @@ Example:
       `
 The first line written is {"ready": true, "engine": "rhosigma", "version": ..., "protocol": ...}.
 Then every non-blank line of standard input is answered by one line, in order; a line that is not
-JSON is answered with a parse-error. The command ends with exit code 0 when standard input ends.
+JSON is answered with a parse-error. The command ends with exit code 0 when standard input ends
+(3 when an answer could not be written). While idle it warms the solver (small requests of its own,
+one at a time, never while a request is answered), so that the first real solve runs at full speed.
 This is what the Python package starts once per kernel.`,
     )
     .option('--deadline <ms>', `deadline of requests that give none, in milliseconds (default ${SERVE_DEFAULT_DEADLINE_MS})`, parseDeadline)
-    .action(async (opts: { deadline?: number }) => {
-      setCode(await serve(opts.deadline ?? SERVE_DEFAULT_DEADLINE_MS, io));
+    .option('--no-warm-up', 'do not warm the solver while idle (for measuring a cold engine)')
+    .action(async (opts: { deadline?: number; warmUp?: boolean }) => {
+      setCode(await serve(opts.deadline ?? SERVE_DEFAULT_DEADLINE_MS, opts.warmUp !== false, io));
     });
 
   program
