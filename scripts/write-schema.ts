@@ -2,8 +2,10 @@
  * Generates schema/protocol.schema.json (JSON Schema 2020-12 of requests and answers), the ops table in
  * docs/protocol.md and the precompiled request validators src/ops/validators.generated.ts (ajv's
  * standalone code, so that `handle` compiles nothing at run time: no `new Function`, which a page under
- * a strict Content-Security-Policy forbids, and no schema compilation at start-up) from the op registry.
- * Run `npm run schema` after adding or changing an op; test/ops/schema.test.ts fails while any of them is stale.
+ * a strict Content-Security-Policy forbids, and no schema compilation at start-up) from the op registry,
+ * and schema/sweep.schema.json (the sweep spec's) from src/sweep/spec.ts.
+ * Run `npm run schema` after adding or changing an op; test/ops/schema.test.ts (and test/sweep/spec.test.ts
+ * for the sweep spec) fail while any of them is stale.
  *
  * Deliberately not here: per-op answer schemas (ops declare their arguments, not their results).
  * Cost: negligible (imports every op module once).
@@ -16,6 +18,7 @@ import '../src/ops/all.js';
 import { listOps } from '../src/ops/registry.js';
 import { AJV_OPTIONS, COMMON_FIELDS, ERROR_CODES, requestSchema } from '../src/ops/handle.js';
 import { schemas } from '../src/ops/codec.js';
+import { specSchemaText } from '../src/sweep/spec.js';
 
 export const SCHEMA_FILE = fileURLToPath(new URL('../schema/protocol.schema.json', import.meta.url));
 export const DOC_FILE = fileURLToPath(new URL('../docs/protocol.md', import.meta.url));
@@ -182,5 +185,7 @@ if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) 
   writeFileSync(SCHEMA_FILE, schemaText());
   writeFileSync(DOC_FILE, renderDoc(readFileSync(DOC_FILE, 'utf8')));
   writeFileSync(VALIDATORS_FILE, validatorsText());
-  process.stdout.write(`wrote ${SCHEMA_FILE}, the ops table of ${DOC_FILE} and ${VALIDATORS_FILE} (${listOps().length} ops)\n`);
+  // The sweep spec's schema (src/sweep/spec.ts); test/sweep/spec.test.ts checks it is current.
+  writeFileSync(fileURLToPath(new URL('../schema/sweep.schema.json', import.meta.url)), specSchemaText());
+  process.stdout.write(`wrote ${SCHEMA_FILE}, the ops table of ${DOC_FILE}, ${VALIDATORS_FILE} and the sweep spec's schema (${listOps().length} ops)\n`);
 }

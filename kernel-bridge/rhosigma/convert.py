@@ -22,6 +22,7 @@ packed arrays cost one byte copy and base64.
 from __future__ import annotations
 
 import base64
+import json
 import math
 from typing import Any
 
@@ -37,6 +38,7 @@ __all__ = [
     "to_numpy",
     "pack_matrix",
     "unpack_matrix",
+    "dumps_line",
 ]
 
 #: 2-D arrays with at least this many entries are sent packed (smaller ones read better as rows).
@@ -81,7 +83,7 @@ def _index_path(base: str, index: tuple[int, ...]) -> str:
 
 
 def _b64(values: np.ndarray) -> str:
-    return base64.b64encode(np.ascontiguousarray(values, dtype="<f8").tobytes()).decode("ascii")
+    return base64.b64encode(np.ascontiguousarray(values, dtype="<f8")).decode("ascii")
 
 
 def pack_matrix(matrix: np.ndarray) -> dict:
@@ -199,6 +201,47 @@ def _value(obj: Any, path: str) -> Any:
 def to_protocol(obj: Any) -> Any:
     """Python and numpy values to protocol JSON data; raises `Refusal` for NaN and unsendable values."""
     return _value(obj, "")
+
+
+_SPLICE_MIN = 4096
+
+
+def _lift_packed(obj: Any, lifted: list[str]) -> Any:
+    """A copy of `obj` whose long packed strings are replaced by numbered tokens (for dumps_line)."""
+    if isinstance(obj, dict):
+        if obj.get("packed") == "float64-le":
+            out = dict(obj)
+            for part in ("re", "im"):
+                text = out.get(part)
+                if isinstance(text, str) and len(text) >= _SPLICE_MIN:
+                    out[part] = f"\x00{len(lifted)}\x00"
+                    lifted.append(text)
+            return out
+        return {k: _lift_packed(v, lifted) for k, v in obj.items()}
+    if isinstance(obj, list):
+        return [_lift_packed(v, lifted) for v in obj]
+    return obj
+
+
+def dumps_line(data: Any) -> bytes:
+    """Protocol JSON data as one line of UTF-8 JSON (newline included), as `rhosigma serve` reads it.
+
+    json.dumps scans every character of a string for escapes, which makes a large packed matrix cost
+    more than the rest of the request; base64 needs no escaping, so long packed strings are spliced
+    into the encoded line as they are. Same bytes as json.dumps(data, separators=(",", ":")).
+    """
+    lifted: list[str] = []
+    skeleton = _lift_packed(data, lifted)
+    text = json.dumps(skeleton, separators=(",", ":"), allow_nan=False).encode("utf-8")
+    if not lifted:
+        return text + b"\n"
+    parts = text.split(b"\\u0000")
+    # parts alternate: text, index, text, ... A NUL character anywhere else in the request would be
+    # escaped as \u0000 too and upset the count: then the plain encoding is used instead.
+    if len(parts) != 2 * len(lifted) + 1 or any(parts[i] != str(i // 2).encode() for i in range(1, len(parts), 2)):
+        return json.dumps(data, separators=(",", ":"), allow_nan=False).encode("utf-8") + b"\n"
+    out = [lifted[i // 2].encode("ascii") if i % 2 else piece for i, piece in enumerate(parts)]
+    return b"".join(out) + b"\n"
 
 
 def from_protocol(obj: Any, _key: str | None = None) -> Any:

@@ -41,7 +41,7 @@ from pathlib import Path
 from typing import Any, Iterable, Sequence
 
 from .answer import Answer
-from .convert import Refusal, to_protocol
+from .convert import Refusal, dumps_line, to_protocol
 from .errors import EngineNotFound, EngineStartError
 
 __all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "shutdown", "compute", "compute_batch"]
@@ -110,8 +110,7 @@ class _Prepared:
         op = request.get("op") if isinstance(request, dict) else None
         request_id = request.get("id") if isinstance(request, dict) else None
         try:
-            data = to_protocol(request)
-            self.line = json.dumps(data, separators=(",", ":"), allow_nan=False).encode("utf-8") + b"\n"
+            self.line = dumps_line(to_protocol(request))
         except Refusal as refusal:
             self.answer = _failure(op, request_id, refusal.code, refusal.message, path=refusal.path)
         except (TypeError, ValueError) as err:
@@ -352,13 +351,13 @@ class Engine:
             proc = self._proc
             lines = [p.line for p in pending]
             writer: threading.Thread | None = None
-            if len(lines) == 1:
-                self._write(lines[0])  # a lone request: the engine writes nothing before reading it all
-            else:
-                writer = threading.Thread(target=self._write, args=(b"".join(lines),), daemon=True)
-                writer.start()
             done = 0
             try:
+                if len(lines) == 1:
+                    self._write(lines[0])  # a lone request: the engine writes nothing before reading it all
+                else:
+                    writer = threading.Thread(target=self._write, args=(b"".join(lines),), daemon=True)
+                    writer.start()
                 for p in pending:
                     deadline = time.monotonic() + timeout if timeout is not None else None
                     try:
@@ -398,9 +397,12 @@ class Engine:
                         break
                     done += 1
             finally:
+                if proc is not None and proc.poll() is None and done < len(pending):
+                    # Interrupted (KeyboardInterrupt, a kernel interrupt) with answers still owed: a late
+                    # answer would be taken for the next request's, so this process is stopped and the
+                    # next request starts a new one.
+                    self._kill()
                 if writer is not None:
-                    if proc is not None and proc.poll() is None and done < len(pending):
-                        self._kill()  # interrupted (KeyboardInterrupt): unknown state, start afresh
                     writer.join()
             pending = pending[done:]
 

@@ -89,3 +89,48 @@ def engine():
     e = Engine()
     yield e
     e.close()
+
+
+def cpu_seconds(pid: int) -> float:
+    """User + system CPU time of a process so far (/proc/PID/stat, Linux)."""
+    with open(f"/proc/{pid}/stat", "rb") as f:
+        fields = f.read().rsplit(b")", 1)[1].split()
+    return (int(fields[11]) + int(fields[12])) / os.sysconf("SC_CLK_TCK")
+
+
+def kill_when_busy(pid: int, cpu: float = 0.3, limit: float = 60.0, action=None) -> "threading.Thread":
+    """A started thread that SIGKILLs `pid` (or calls `action()`) once it has spent `cpu` more seconds of
+    CPU (it is computing), which on a loaded machine is a surer sign than wall time that a request is
+    in flight."""
+    import signal
+    import threading
+    import time
+
+    def run() -> None:
+        start = cpu_seconds(pid)
+        deadline = time.monotonic() + limit
+        while time.monotonic() < deadline:
+            try:
+                if cpu_seconds(pid) - start >= cpu:
+                    if action is None:
+                        os.kill(pid, signal.SIGKILL)
+                    else:
+                        action()
+                    return
+            except (OSError, ValueError):
+                return
+            time.sleep(0.01)
+
+    t = threading.Thread(target=run, daemon=True)
+    t.start()
+    return t
+
+
+def slow_request(**extra) -> dict:
+    """A request that is small to send and takes seconds to compute: the diamond distance of two
+    6-dimensional channels (an SDP; built from the engine's own presets)."""
+    from rhosigma import channel_preset
+
+    a = channel_preset("depolarizing", d=6, p=0.3).to_protocol()
+    b = channel_preset("dephasing", d=6, p=0.4).to_protocol()
+    return {"op": "diamond-distance", "a": a, "b": b, **extra}

@@ -156,3 +156,25 @@ def test_state_and_channel_objects():
     ch = Channel(kraus=[np.eye(2)])
     assert "Channel(from_dims=[2], to_dims=[2], 1 Kraus operator=" in repr(ch)
     assert Channel.from_protocol(ch.to_protocol()).to_dims == [2]
+
+
+def test_every_friendly_function_speaks_its_ops_schema():
+    """Each function names an op of the registry and only fields of that op (schema/protocol.schema.json)."""
+    import inspect
+    import json
+
+    from conftest import ROOT
+    from rhosigma import functions
+
+    defs = json.loads((ROOT / "schema" / "protocol.schema.json").read_text())["$defs"]
+    local = {"details", "timeout", "dims", "labels", "params"}
+    for name in functions.__all__:
+        if name == "call":
+            continue
+        op = name.replace("_", "-")
+        assert f"op:{op}" in defs, f"{name}: no op {op}"
+        fields = set(defs[f"op:{op}"]["properties"])
+        for p in inspect.signature(getattr(functions, name)).parameters.values():
+            if p.name in local or p.kind is p.VAR_POSITIONAL:
+                continue
+            assert functions._field(p.name) in fields, f"{name}({p.name}=...) is not a field of {op}"

@@ -6,6 +6,7 @@
  *   rhosigma serve                                   a long-lived engine: JSON Lines in, one answer line out per
  *                                                    request, in order, flushed as each is computed (kernel bridge)
  *   rhosigma demo                                    a short worked report (src/cli/demo.ts)
+ *   rhosigma sweep SPEC | merge | summary | plot ...  sweeps and counterexample searches (src/cli/sweep.ts)
  *
  * Exit codes: 0 every answer ok; 1 at least one answer failed (all others still answered); 2 the input is
  * not JSON (or not UTF-8), a file cannot be read, or the command line is wrong; 3 some answer could not be
@@ -27,6 +28,7 @@ import { getOp, listOps } from '../ops/registry.js';
 import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
 import { warmUp } from '../ops/warm-up.js';
 import { runDemo } from './demo.js';
+import { addSweepCommands } from './sweep.js';
 
 /** The streams the command uses (the process's own by default; tests may pass others). */
 export interface Io {
@@ -535,6 +537,8 @@ This is what the Python package starts once per kernel.`,
     .action(async (opts: { json?: boolean }) => {
       setCode(await runDemo((s) => io.stdout.write(s), { json: opts.json === true }));
     });
+
+  addSweepCommands(program, io, setCode);
 
   return program;
 }

@@ -156,14 +156,14 @@ defineOp({
 defineOp({
   name: 'divergence',
   summary:
-    'Quantum divergence D(ρ‖σ) of a chosen family: umegaki, petz (alpha), sandwiched (alpha), alpha-z (alpha, z), geometric (alpha), max, min, measured, and families registered by other modules; σ may have any trace.',
+    'Quantum divergence D(ρ‖σ) of a chosen family: umegaki, petz (alpha), sandwiched (alpha), alpha-z (alpha, z), geometric (alpha), max, min, measured (the measured relative entropy, or with alpha the measured Rényi divergence), and families registered by other modules; σ may have any trace.',
   args: {
     type: 'object',
     properties: {
       family: { type: 'string', description: 'The divergence family.' },
       rho: { ...schemas.state, description: 'A density matrix.' },
       sigma: { ...schemas.state, description: 'A positive semidefinite operator of the same size, of any trace.' },
-      alpha: orderSchema('The Rényi order, for petz ([0, ∞)), sandwiched ([1/2, ∞] incl. "Infinity"), alpha-z ((0, ∞)) and geometric ((0, 2]).'),
+      alpha: orderSchema('The Rényi order, for petz ([0, ∞)), sandwiched ([1/2, ∞] incl. "Infinity"), alpha-z ((0, ∞)), geometric ((0, 2]) and measured ([1/2, ∞), default 1).'),
       z: { type: 'number', exclusiveMinimum: 0, description: 'The z of the alpha-z family, > 0.' },
       epsilon: { type: 'number', minimum: 0, maximum: 1, description: 'The ε of families that need one (hypothesis-testing).' },
       maxIterations: { type: 'integer', minimum: 1, maximum: 100000, description: 'measured: largest number of ascent steps (default 3000).' },

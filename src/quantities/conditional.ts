@@ -26,9 +26,8 @@ import { DEFAULT_SUPPORT_TOLERANCE, fromSpectrum } from '../linalg/functions.js'
 import { RhoError } from '../errors.js';
 import { entropy, EntropyOptions } from './entropy.js';
 import { divergence } from './divergences.js';
-import {
-  columns, dividedDifferences, hadamardReal, powerDivided, spectral, logOfBase, checkOrder, logSumExp,
-} from './divergence-kit.js';
+import { columns, dividedDifferences, hadamardReal, powerDivided, spectral } from '../linalg/spectral.js';
+import { logOfBase, checkOrder, logSumExp } from './divergence-kit.js';
 
 /** Check that the groups are disjoint lists of valid subsystem indices. */
 export function checkGroups(dims: readonly number[], groups: Record<string, readonly number[]>): void {
