@@ -82,6 +82,38 @@ export interface ExtraDivergenceInput {
  */
 export const extraDivergenceFamilies = new Map<string, (input: ExtraDivergenceInput) => OpResult>();
 
+/**
+ * The family-specific fields each divergence family uses; a request giving one its family does not use
+ * is refused naming the field (an "alpha" on umegaki would otherwise be ignored silently). A module that
+ * registers a family in extraDivergenceFamilies sets its fields here too; a family without an entry is
+ * not checked.
+ */
+export const divergenceFamilyFields = new Map<string, readonly string[]>([
+  ['umegaki', []],
+  ['petz', ['alpha']],
+  ['sandwiched', ['alpha']],
+  ['alpha-z', ['alpha', 'z']],
+  ['geometric', ['alpha']],
+  ['max', []],
+  ['min', []],
+  ['measured', ['maxIterations']],
+  ['hypothesis-testing', ['epsilon']],
+]);
+
+const FAMILY_SPECIFIC = ['alpha', 'z', 'epsilon', 'maxIterations'] as const;
+
+/** Refuses a family-specific field that `family` does not use. */
+function refuseUnusedFields(family: string, req: Record<string, unknown>): void {
+  const uses = divergenceFamilyFields.get(family);
+  if (!uses) return;
+  for (const field of FAMILY_SPECIFIC) {
+    if (req[field] !== undefined && !uses.includes(field)) {
+      const takes = uses.length ? `it takes ${uses.map((f) => `"${f}"`).join(', ')}` : 'it takes no parameter';
+      throw new RhoError('invalid-argument', `The ${family} divergence does not use "${field}"; ${takes}.`, field);
+    }
+  }
+}
+
 function knownFamilies(): string[] {
   return [...DIVERGENCE_FAMILIES, ...extraDivergenceFamilies.keys()];
 }
@@ -147,6 +179,7 @@ defineOp({
     if (!extra && !(DIVERGENCE_FAMILIES as readonly string[]).includes(family)) {
       throw new RhoError('unknown-family', `Unknown divergence family "${family}"; known families: ${knownFamilies().join(', ')}.`, 'family');
     }
+    refuseUnusedFields(family, req);
     const rho = readState(req.rho, 'rho', context.tolerance).matrix;
     const sigma = readOperatorState(req.sigma, 'sigma', context.tolerance).matrix;
     if (rho.rows !== sigma.rows) {
@@ -255,6 +288,9 @@ defineOp({
     return dense(sideOf(req.rho), 6 * iterations, iterations > 1 ? `${iterations} iterations of six dense steps` : 'six dense steps');
   },
   run(req, { tolerance, base }) {
+    if (req.maxIterations !== undefined && !(req.family === 'sandwiched' && req.optimized === true)) {
+      throw new RhoError('invalid-argument', '"maxIterations" is used only by the optimised sandwiched entropy (family "sandwiched" with "optimized": true).', 'maxIterations');
+    }
     const { state, groups: [a, b] } = readGroups(req, ['a', 'b'], tolerance, ['a']);
     const r = conditionalRenyiEntropy(state.matrix, state.dims, a, b, {
       family: req.family,

@@ -24,6 +24,12 @@ import {
 import { defineOp } from './registry.js';
 import { MAX_DIMENSION, MAX_KRAUS, MAX_CHANNEL_ENTRIES, readDims, schemas, writeChannel, writeComplexMatrix, writeMatrix } from './codec.js';
 import type { CMatrix } from '../linalg/cmatrix.js';
+import { dense, plain } from './cost.js';
+
+/** The order of a dims list of a schema-valid request (for cost estimates: nothing is read). */
+function orderOf(dims: unknown): number {
+  return Array.isArray(dims) ? dims.reduce((p: number, d) => p * (Number(d) || 1), 1) : 1;
+}
 
 /** Most normals one draw may consume (a 1024 × 4096 Ginibre matrix): bounds the work of one request. */
 export const MAX_COORDINATES = 8 * 1024 * 1024;
@@ -176,6 +182,11 @@ defineOp({
     },
     required: ['ensemble', 'dims'],
   },
+  cost: (req) => {
+    const d = orderOf(req.dims);
+    const k = req.ensemble === 'induced' ? Number(req.ancilla) || d : d;
+    return plain(8 * d * d * k, 64 * d * Math.max(d, k), `drawing a ${d}×${d} state`);
+  },
   run(req) {
     const dims = dimsOf(req, 'dims')!;
     const d = product(dims);
@@ -218,6 +229,7 @@ defineOp({
     properties: { d: { type: 'integer', minimum: 1, description: 'The order of the unitary.' }, ...drawFields },
     required: ['d'],
   },
+  cost: (req) => dense(Number(req.d) || 1, 1, 'a QR factorisation'),
   run(req) {
     const d = positiveInt(req.d, 'd', MAX_DIMENSION);
     const { object, coordinates } = drawWith(req, 2 * d * d, (s) => haarUnitary(d, s));
@@ -240,6 +252,12 @@ defineOp({
       ...drawFields,
     },
     required: ['kind', 'from'],
+  },
+  cost: (req) => {
+    const din = orderOf(req.from);
+    const dout = req.to === undefined ? din : orderOf(req.to);
+    const m = Number(req.environment ?? req.unitaries) || din * dout;
+    return plain(16 * (m * dout) * din * din, 64 * m * dout * din, `drawing ${m} Kraus operators ${dout}×${din}`);
   },
   run(req) {
     const from = dimsOf(req, 'from')!;
@@ -287,6 +305,10 @@ defineOp({
     },
     required: ['a', 'blocks', 'c'],
   },
+  cost: (req) => {
+    const dB = Array.isArray(req.blocks) ? req.blocks.reduce((s: number, b: number[]) => s + (b[0] ?? 1) * (b[1] ?? 1), 0) : 1;
+    return dense((Number(req.a) || 1) * dB * (Number(req.c) || 1), 2, 'drawing and rotating the blocks');
+  },
   run(req) {
     const a = positiveInt(req.a, 'a', MAX_DIMENSION);
     const c = positiveInt(req.c, 'c', MAX_DIMENSION);
@@ -314,6 +336,7 @@ defineOp({
     },
     required: ['from', 'to'],
   },
+  cost: () => plain(100, 1024, 'one uniform number'),
   run(req) {
     if (!(req.to > req.from)) throw new RhoError('invalid-argument', `"to" (${req.to}) must be greater than "from" (${req.from}).`, 'to');
     const { object, coordinates } = drawWith(req, 1, (s) => s.uniform());
