@@ -56,6 +56,7 @@ from .functions import (
     trace_distance,
 )
 from .objects import Channel, State
+from .sweeps import sweep
 
 __all__ = [
     "__version__", "ANSWER_MIME", "Answer", "Channel", "ComputeError", "Engine", "EngineError", "EngineNotFound",
@@ -67,5 +68,5 @@ __all__ = [
     "fisher_information", "from_protocol", "guessing_probability", "guesswork", "load_ipython_extension",
     "max_information", "monotone_metric", "mutual_information", "partial_trace", "partial_transpose", "petz_recovery",
     "purified_distance", "reorder_subsystems", "shutdown", "smooth_max_divergence", "spectrum", "state_preset",
-    "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
+    "sweep", "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
 ]
