@@ -72,6 +72,16 @@ export function roundingPad(n: number, scale: number): number {
   return 8 * Math.max(1, n) * 1.1102230246251565e-16 * Math.abs(scale);
 }
 
+/**
+ * Rounding allowance of one computed eigenvalue of an n×n Hermitian matrix of Frobenius norm `norm`:
+ * 4√n·u·‖A‖_F, a few times the backward error of a Householder-based eigensolver (the rigorous bound
+ * p(n)·u·‖A‖₂ has a p(n) growing with n that is far from what happens; this is evidence, not proof).
+ * The checker (kernel-bridge/rhosigma/certificates.py) uses the same allowance.
+ */
+export function eigenvalueAllowance(n: number, norm: number): number {
+  return 4 * Math.sqrt(Math.max(1, n)) * 1.1102230246251565e-16 * Math.abs(norm);
+}
+
 /** What `certify` needs of a quantity. */
 export interface CertifyInput {
   /** Names the quantity in messages ("the guessing probability"). */
