@@ -1,7 +1,7 @@
 /**
- * Shared numerics for the entropies and divergences: spectra with an explicit support decision,
- * the joint analysis of a pair (ρ, σ) in their eigenbases, divided differences for Fréchet
- * derivatives (Daleckii–Krein formula), Gauss–Legendre nodes, and parameter checks.
+ * Shared numerics for the entropies and divergences: the joint analysis of a pair (ρ, σ) in their
+ * eigenbases with the support decisions, a log-sum-exp, and parameter checks. (Spectra with a support
+ * decision, divided differences and the other spectral helpers are in src/linalg/spectral.ts.)
  *
  * Support convention (used by every quantity in this folder): an eigenvalue λ of a positive
  * semidefinite operator counts as zero when λ <= tol · λ_max, with `tol` an explicit argument
@@ -15,77 +15,14 @@
  * layer does that). Cost: one Hermitian eigendecomposition per operand, O(n^3), plus O(n^3) for
  * the overlap matrix U*V.
  */
-import { CMatrix, zeros, adjoint, mul } from '../linalg/cmatrix.js';
-import { eigh } from '../linalg/eigh.js';
+import { CMatrix, adjoint, mul } from '../linalg/cmatrix.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
+import { spectral, columns, Spectral } from '../linalg/spectral.js';
 import { RhoError } from '../errors.js';
 
-export { DEFAULT_SUPPORT_TOLERANCE };
-
-/** Eigen-data of a positive semidefinite operator with the support decided. */
-export interface Spectral {
-  /** Eigenvalues, ascending, with those at or below the threshold set to exactly 0. */
-  values: Float64Array;
-  /** Eigenvectors as columns. */
-  vectors: CMatrix;
-  /** Indices of the eigenvalues kept (the support). */
-  support: number[];
-  /** Absolute threshold tol · λ_max used. */
-  threshold: number;
-  /** Largest eigenvalue (0 for the zero operator). */
-  max: number;
-}
-
-export function spectral(m: CMatrix, tol = DEFAULT_SUPPORT_TOLERANCE): Spectral {
-  const { values: raw, vectors } = eigh(m, { vectors: true });
-  let max = 0;
-  for (let i = 0; i < raw.length; i++) max = Math.max(max, raw[i]);
-  const threshold = tol * max;
-  const values = new Float64Array(raw.length);
-  const support: number[] = [];
-  for (let i = 0; i < raw.length; i++) {
-    if (raw[i] > threshold && raw[i] > 0) {
-      values[i] = raw[i];
-      support.push(i);
-    }
-  }
-  return { values, vectors: vectors!, support, threshold, max };
-}
-
-/** Columns `cols` of a matrix. */
-export function columns(m: CMatrix, cols: readonly number[]): CMatrix {
-  const out = zeros(m.rows, cols.length);
-  for (let i = 0; i < m.rows; i++) {
-    for (let k = 0; k < cols.length; k++) {
-      out.re[i * cols.length + k] = m.re[i * m.cols + cols[k]];
-      out.im[i * cols.length + k] = m.im[i * m.cols + cols[k]];
-    }
-  }
-  return out;
-}
-
-/** diag(a) X diag(b) for real vectors a, b. */
-export function scaleRowsCols(x: CMatrix, a: ArrayLike<number>, b: ArrayLike<number>): CMatrix {
-  const out = zeros(x.rows, x.cols);
-  for (let i = 0; i < x.rows; i++) {
-    for (let j = 0; j < x.cols; j++) {
-      const f = a[i] * b[j];
-      out.re[i * x.cols + j] = f * x.re[i * x.cols + j];
-      out.im[i * x.cols + j] = f * x.im[i * x.cols + j];
-    }
-  }
-  return out;
-}
-
-/** V* X V: X written in the basis of the columns of V. */
-export function compress(x: CMatrix, v: CMatrix): CMatrix {
-  return mul(mul(adjoint(v), x), v);
-}
-
-/** V X V*: the inverse of compress for an isometry V. */
-export function expand(x: CMatrix, v: CMatrix): CMatrix {
-  return mul(mul(v, x), adjoint(v));
-}
+// The spectral helpers live in src/linalg/spectral.ts; re-exported for the one-shot modules that
+// import them from here.
+export { DEFAULT_SUPPORT_TOLERANCE, spectral, columns };
 
 /**
  * Joint data of ρ (normalised to unit trace) and σ (any trace) in their eigenbases:
@@ -111,6 +48,8 @@ export interface PairAnalysis {
   tolerance: number;
   /** Trace of ρ before normalisation. */
   traceRho: number;
+  /** U₁* V: ρ's support eigenvectors (rows, in the order of rho.support) against all of σ's. */
+  cross: CMatrix;
 }
 
 export function analysePair(rho: CMatrix, sigma: CMatrix, tol = DEFAULT_SUPPORT_TOLERANCE): PairAnalysis {
@@ -155,81 +94,9 @@ export function analysePair(rho: CMatrix, sigma: CMatrix, tol = DEFAULT_SUPPORT_
     orthogonal: inside <= tol,
     tolerance: tol,
     traceRho,
+    cross: C,
   };
 }
-
-/**
- * The matrix of first divided differences f[λ_k, λ_l] = (f(λ_k) − f(λ_l))/(λ_k − λ_l), with f'(λ_k)
- * on (near-)coincident pairs. The Fréchet derivative of the matrix function f at H = V diag(λ) V*
- * in the direction X is V (f[λ_k,λ_l] ∘ V* X V) V* (Daleckii–Krein). `divided(a, b)` may supply a
- * cancellation-free formula; it is used whenever given.
- */
-export function dividedDifferences(
-  lambda: ArrayLike<number>,
-  f: (x: number) => number,
-  fprime: (x: number) => number,
-  divided?: (a: number, b: number) => number,
-): Float64Array {
-  const n = lambda.length;
-  const out = new Float64Array(n * n);
-  for (let k = 0; k < n; k++) {
-    for (let l = 0; l < n; l++) {
-      const a = lambda[k];
-      const b = lambda[l];
-      let v: number;
-      if (divided) v = divided(a, b);
-      else if (Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b), 1e-300)) v = fprime(0.5 * (a + b));
-      else v = (f(a) - f(b)) / (a - b);
-      out[k * n + l] = v;
-    }
-  }
-  return out;
-}
-
-/** Entrywise (Hadamard) product of a complex matrix with a real kernel. */
-export function hadamardReal(x: CMatrix, kernel: ArrayLike<number>): CMatrix {
-  const out = zeros(x.rows, x.cols);
-  for (let k = 0; k < x.re.length; k++) {
-    out.re[k] = x.re[k] * kernel[k];
-    out.im[k] = x.im[k] * kernel[k];
-  }
-  return out;
-}
-
-/** exp[a, b] = (e^a − e^b)/(a − b) without cancellation: e^{(a+b)/2} sinh(d)/d with d = (a−b)/2. */
-export function expDivided(a: number, b: number): number {
-  const d = 0.5 * (a - b);
-  const m = Math.exp(0.5 * (a + b));
-  if (Math.abs(d) < 1e-8) return m * (1 + (d * d) / 6);
-  return (m * Math.sinh(d)) / d;
-}
-
-/**
- * x^p divided differences for positive a, b without cancellation:
- * (a^p − b^p)/(a − b) = b^{p−1} · expm1(p ln(a/b)) / (a/b − 1).
- */
-export function powerDivided(p: number): (a: number, b: number) => number {
-  return (a, b) => {
-    if (a === b) return p * Math.pow(a, p - 1);
-    const lr = Math.log(a / b);
-    // expm1 keeps the ratio accurate however close a and b are.
-    return (Math.pow(b, p - 1) * Math.expm1(p * lr)) / Math.expm1(lr);
-  };
-}
-
-/** Gauss–Legendre nodes and weights on [0, 1] (8 points; exact for polynomials of degree 15). */
-export const GAUSS_LEGENDRE_01: { nodes: number[]; weights: number[] } = (() => {
-  // Nodes and weights on [−1, 1], from the standard table (Abramowitz & Stegun, Table 25.4).
-  const x = [0.1834346424956498, 0.525532409916329, 0.7966664774136267, 0.9602898564975363];
-  const w = [0.362683783378362, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
-  const nodes: number[] = [];
-  const weights: number[] = [];
-  for (let k = 0; k < 4; k++) {
-    nodes.push(0.5 * (1 - x[k]), 0.5 * (1 + x[k]));
-    weights.push(0.5 * w[k], 0.5 * w[k]);
-  }
-  return { nodes, weights };
-})();
 
 /** ln Σ_k w_k e^{x_k} for positive weights, without overflow. */
 export function logSumExp(weights: readonly number[], exponents: readonly number[]): number {

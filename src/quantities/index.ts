@@ -1,7 +1,7 @@
 /** quantities: entropies, divergences and metrics of states (one export line per module). */
 export * from './entropy.js';
 export * from './divergences.js';
-export * from './measured-relative-entropy.js';
+export * from './measured.js';
 export * from './fidelity.js';
 export * from './distances.js';
 export * from './chernoff.js';

@@ -65,6 +65,8 @@ import { computeResiduals } from './residuals.js';
 import { ntScaling } from './nt-scaling.js';
 import { mehrotraCorrector, newtonDirection, prepareDirections } from './direction.js';
 import { SHORTEST_STEP, maxStep, safeguardedStep } from './step.js';
+import { checkSdpLimits } from './cost.js';
+import { deadlineError, deadlinePassed } from '../deadline.js';
 import {
   BestIterate, detectInfeasibility, iterationInfo, meetsTolerances, merit, userBlocks, userInfo, type Tolerances,
 } from './termination.js';
@@ -91,7 +93,24 @@ export const EARLY_STEP_EXIT = false;
  * malformed problem.
  */
 export function solveSdp(problem: SdpProblem, options: SdpOptions = {}): SdpAnswer {
-  return solveSdpWith(problem, options, {});
+  // The request's limits and deadline (src/limits.ts, src/deadline.ts): a problem whose estimated cost
+  // is above the limits is refused before anything is allocated, and a solve still running at the
+  // deadline stops after the current iteration with what it has (RhoError 'deadline-exceeded').
+  checkSdpLimits(problem);
+  const stop = options.shouldStop;
+  const answer = solveSdpWith(problem, { ...options, shouldStop: () => deadlinePassed() || (stop?.() ?? false) }, {});
+  if (answer.status === 'cancelled' && deadlinePassed() && !options.signal?.aborted) {
+    throw deadlineError('the SDP solver', {
+      status: 'stopped at the deadline',
+      iterations: answer.iterations,
+      primalObjective: answer.primalObjective,
+      dualObjective: answer.dualObjective,
+      relativeGap: answer.relativeGap,
+      primalResidual: answer.primalResidual,
+      dualResidual: answer.dualResidual,
+    }, `after ${answer.iterations} iterations its primal and dual objectives (minimize ⟨C, X⟩) were ${answer.primalObjective} and ${answer.dualObjective}, relative gap ${answer.relativeGap.toExponential(2)}, residuals ${answer.primalResidual.toExponential(2)} / ${answer.dualResidual.toExponential(2)}; the optimum lies between the two objectives as far as the residuals are small`);
+  }
+  return answer;
 }
 
 /**

@@ -6,7 +6,7 @@ import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { CMatrix, mul, adjoint } from '../../src/linalg/index.js';
 import { divergence } from '../../src/quantities/divergences.js';
-import { measuredRelativeEntropy } from '../../src/quantities/measured-relative-entropy.js';
+import { measuredRelativeEntropy } from '../../src/quantities/measured.js';
 import { randomDensity, rng } from '../helpers/random.js';
 
 /** ⟨v|M|v⟩ for a unit vector v = (c, e^{iφ} s). */

@@ -16,6 +16,7 @@ import '../../src/ops/all.js';
 import { handle } from '../../src/ops/handle.js';
 import { getOp } from '../../src/ops/registry.js';
 import { missingPython, runPython } from '../helpers/python.js';
+import { groupsOf } from '../helpers/reference-batch.js';
 
 const CI = process.env.CI === 'true';
 const SCRIPT = fileURLToPath(new URL('../../scripts/reference/numpy_reference.py', import.meta.url));
@@ -134,16 +135,6 @@ function missing(group: string): string | undefined {
   return undefined;
 }
 
-function groupsOf(batch: Batch): Map<string, Case[]> {
-  const groups = new Map<string, Case[]>();
-  for (const c of batch.cases) {
-    const g = c.name.split(':')[0];
-    if (!groups.has(g)) groups.set(g, []);
-    groups.get(g)!.push(c);
-  }
-  return groups;
-}
-
 function title(group: string, count: number): string {
   const [opName, family] = group.split('/');
   const what = family ? `divergence, family ${family}` : opName;
@@ -162,7 +153,7 @@ function checkGroup(batch: Batch, source: string, cases: Case[]): void {
 }
 
 function registerGroups(batch: Batch, source: string): void {
-  for (const [group, cases] of groupsOf(batch)) {
+  for (const [group, cases] of groupsOf(batch.cases)) {
     const why = missing(group);
     const name = title(group, cases.length);
     if (why && CI) {
@@ -179,7 +170,7 @@ describe('protocol answers against numpy/scipy (committed reference file)', () =
   const batch = JSON.parse(readFileSync(DATA, 'utf8')) as Batch;
   const source = `test/reference/data/numpy-cases.json (seed ${batch.seed})`;
   it('the committed reference file holds a few hundred cases covering every op of PROTOCOL.md it targets', () => {
-    const groups = [...groupsOf(batch).keys()];
+    const groups = [...groupsOf(batch.cases).keys()];
     for (const g of ['spectrum', 'entropy', 'divergence/umegaki', 'divergence/petz', 'divergence/sandwiched',
       'divergence/alpha-z', 'divergence/geometric', 'divergence/max', 'divergence/min', 'divergence/measured',
       'fidelity', 'trace-distance', 'conditional-mutual-information', 'apply-channel']) {
