@@ -33,6 +33,7 @@
 import { eigh, zeros, type CMatrix } from '../linalg/index.js';
 import { columnQuadraticForms, isPositiveDefiniteCombination, weightedColumnGram } from '../linalg/dense-complex.js';
 import { eigenvalueAllowance, roundingPad } from '../sdp/support.js';
+import { checkDeadline } from '../deadline.js';
 
 /** One evaluation of the dual at μ. */
 export interface DualEvaluation {
@@ -219,6 +220,11 @@ export function neymanPearsonDual(rho: CMatrix, sigma: CMatrix, epsilon: number,
   const maxEval = options.maxEvaluations ?? 80;
   let evaluations = 0;
   const evaluate = (mu: number): DualEvaluation => {
+    checkDeadline('the Neyman–Pearson search for the hypothesis-testing relative entropy', () => ({
+      evaluations,
+      ...(br.lo ? { lowerMultiplier: br.lo.mu } : {}),
+      ...(br.hi ? { upperMultiplier: br.hi.mu } : {}),
+    }));
     evaluations++;
     return evaluateDual(rho, sigma, epsilon, mu);
   };
