@@ -24,7 +24,7 @@ import { hypothesisTestingDivergence } from '../oneshot/hypothesis-testing.js';
 import { smoothMaxRelativeEntropy } from '../oneshot/smooth-max.js';
 import { conditionalMinEntropy, conditionalMaxEntropy } from '../oneshot/conditional-min-max.js';
 import { maxInformation } from '../oneshot/max-information.js';
-import type { LegacyCertificate } from '../sdp/support.js';
+import type { SdpCertificate } from '../sdp/support.js';
 import { defineOp, type OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate,
@@ -161,7 +161,7 @@ const bipartiteArgs = (bWhat: string) => ({
   required: ['rho', 'a', 'b'],
 });
 
-function sigmaAnswer(value: number, sigma: CMatrix, certificate: LegacyCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
+function sigmaAnswer(value: number, sigma: CMatrix, certificate: SdpCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
   return withNote({ value: writeNumber(value), sigma: writeMatrix(sigma), ...extra, certificate: writeCertificate(certificate), supportTolerance: tol }, note);
 }
 
