@@ -4,7 +4,8 @@
 #    downloads a browser of its own). Debian is used only for what PyPI and npm do not carry.
 #  - one Python virtual environment in the checkout (.venv) from the pinned requirements.txt: JupyterLab,
 #    ipywidgets, the kernel, numpy/scipy/cvxopt/mpmath for the reference checks, pandas, Dask, pytest, nbclient;
-#  - the npm packages (npm ci from package-lock.json), then the build.
+#  - the npm packages (npm ci from package-lock.json), then the build;
+#  - the Python package rhosigma (kernel-bridge/) installed into .venv in editable mode.
 # Safe to run again: each step runs only when what it installs is missing or out of date.
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -37,3 +38,15 @@ if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.j
   npm ci --no-audit --no-fund
 fi
 npm run --silent build
+
+# The Python package in editable mode: again only when kernel-bridge/pyproject.toml changed or the
+# package is not importable from this checkout (the venv may have been re-created).
+want_py="$(sha256sum kernel-bridge/pyproject.toml | cut -d' ' -f1)"
+have_py="$(cat .venv/.rhosigma-editable-sha256 2>/dev/null || true)"
+py="$PWD/.venv/bin/python"
+where="$(cd /tmp && "$py" -c 'import rhosigma, os; print(os.path.dirname(rhosigma.__file__))' 2>/dev/null || true)"
+if [ "$want_py" != "$have_py" ] || [ "$where" != "$PWD/kernel-bridge/rhosigma" ]; then
+  echo "setup: installing the Python package rhosigma (kernel-bridge) into .venv, editable"
+  .venv/bin/python -m pip install -q --disable-pip-version-check --no-build-isolation --no-deps -e kernel-bridge
+  echo "$want_py" > .venv/.rhosigma-editable-sha256
+fi

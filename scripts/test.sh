@@ -10,7 +10,7 @@ bash scripts/setup.sh
   exit 1
 }
 npm run --silent typecheck
-# The Python kernel bridge against the built command (setup.sh built dist/).
+# The Python package rhosigma (installed editable by setup.sh) against the built command.
 (cd kernel-bridge && ../.venv/bin/python -m pytest -q -p no:cacheprovider tests)
 # Every TypeScript suite under jest (its summary closes the output).
 node scripts/run-tests.mjs "$@"

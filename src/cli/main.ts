@@ -6,24 +6,27 @@
  *   rhosigma serve                                   a long-lived engine: JSON Lines in, one answer line out per
  *                                                    request, in order, flushed as each is computed (kernel bridge)
  *   rhosigma demo                                    a short worked report (src/cli/demo.ts)
+ *   rhosigma sweep SPEC | merge | summary | plot ...  sweeps and counterexample searches (src/cli/sweep.ts)
  *
  * Exit codes: 0 every answer ok; 1 at least one answer failed (all others still answered); 2 the input is
- * not JSON, a file cannot be read, or the command line is wrong. Nothing here computes: every answer comes
+ * not JSON (or not UTF-8), a file cannot be read, or the command line is wrong; 3 some answer could not be
+ * written (the reader went away). Input is read as bytes: lines longer than MAX_LINE_BYTES and documents
+ * longer than MAX_INPUT_BYTES are answered with 'too-large' without being held, invalid UTF-8 is a
+ * parse error, and a request that repeats a key is refused. Nothing here computes: every answer comes
  * from `handle`, and no stack trace is ever printed. `main` returns the exit code and never calls
  * process.exit (bin/rhosigma.js sets process.exitCode), so it can run in-process too.
- * Command-line parsing is commander's. Cost: one `handle` call per request; JSON Lines input is streamed,
- * each answer written as soon as its line is read.
+ * Command-line parsing is commander's. Cost: one `handle` call per request; answers are written as they
+ * are computed (an array element by element) with back-pressure, the next request read only then.
  */
-import { readFileSync } from 'node:fs';
-import { readFile } from 'node:fs/promises';
-import { createInterface } from 'node:readline';
-import { once } from 'node:events';
+import { readFileSync, createReadStream } from 'node:fs';
 import type { Readable, Writable } from 'node:stream';
-import { Command, CommanderError } from 'commander';
+import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import '../ops/all.js';
-import { handle, requestSchema, closeOpNames, type Answer } from '../ops/handle.js';
+import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
+import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
 import { runDemo } from './demo.js';
+import { addSweepCommands } from './sweep.js';
 
 /** The streams the command uses (the process's own by default; tests may pass others). */
 export interface Io {
@@ -33,6 +36,18 @@ export interface Io {
 }
 
 const EXAMPLE_REQUEST = '{"op": "spectrum", "matrix": [["3/4", "i/4"], ["-i/4", "3/4"]]}';
+
+/** Largest input read as one JSON document (without --lines), in bytes. */
+export const MAX_INPUT_BYTES = 1 << 28;
+/** Largest line read as one request (--lines, serve), in bytes. */
+export const MAX_LINE_BYTES = 1 << 28;
+
+/** Default deadline of a request through `compute` and through `serve`, in milliseconds. */
+export const COMPUTE_DEFAULT_DEADLINE_MS = DEFAULT_DEADLINE_MS;
+export const SERVE_DEFAULT_DEADLINE_MS = DEFAULT_DEADLINE_MS;
+
+/** Exit code when some answer could not be written (the reader went away, the write failed). */
+export const EXIT_NOT_DELIVERED = 3;
 
 function version(): string {
   try {
@@ -56,19 +71,38 @@ function describeJsonError(err: unknown, text: string, oneLine = false): string 
   return oneLine ? `${message} (column ${column})` : `${message} (line ${line}, column ${column})`;
 }
 
-function safeHandle(request: unknown): Answer {
+function failureAnswer(code: 'parse-error' | 'too-large' | 'invalid-argument', message: string, path?: string): Answer {
+  return { ok: false, op: null, error: path === undefined ? { code, message } : { code, message, path } };
+}
+
+/** The answer for a request that repeats a key: the engine would run another request than a validator saw. */
+function duplicateAnswer(request: unknown, dups: DuplicateKey[], prefix = ''): Answer {
+  const d = dups[0];
+  const path = prefix && d.path.startsWith(prefix) ? d.path.slice(prefix.length).replace(/^\./, '') : d.path;
+  const op = typeof request === 'object' && request !== null && typeof (request as { op?: unknown }).op === 'string' ? (request as { op: string }).op : null;
+  const id = typeof request === 'object' && request !== null ? (request as { id?: unknown }).id : undefined;
+  const answer: Answer = {
+    ok: false,
+    op,
+    error: {
+      code: 'invalid-argument',
+      message: `The key "${d.key}" appears twice${path !== d.key ? ` (at ${path})` : ''}; JSON readers disagree on which one counts, so the request is refused.`,
+      path,
+    },
+  };
+  if (typeof id === 'string' || typeof id === 'number') answer.id = id;
+  return answer;
+}
+
+async function safeHandle(request: unknown, defaultDeadline: number): Promise<Answer> {
   try {
-    return handle(request);
+    // handleAsync: loads the expression reader first when the request may need it (a bundle run
+    // outside the checkout can only load it this way).
+    return await handleAsync(request, { defaultDeadline });
   } catch {
     // handle() never throws by contract; this guard keeps one broken request from stopping a batch.
     return { ok: false, op: null, error: { code: 'internal-error', message: 'The engine failed unexpectedly on this request.' } };
   }
-}
-
-async function readAll(stream: Readable): Promise<string> {
-  const chunks: Buffer[] = [];
-  for await (const chunk of stream) chunks.push(typeof chunk === 'string' ? Buffer.from(chunk) : chunk);
-  return Buffer.concat(chunks).toString('utf8');
 }
 
 function inputStream(file: string | undefined, io: Io): Readable | undefined {
@@ -79,82 +113,268 @@ function inputStream(file: string | undefined, io: Io): Readable | undefined {
   return io.stdin;
 }
 
-async function computeWhole(file: string | undefined, pretty: boolean, io: Io): Promise<number> {
-  let text: string;
+/** The file (opened, so that a missing file is reported before anything else) or standard input, as bytes. */
+async function openInput(file: string | undefined, io: Io): Promise<Readable | string> {
   const stream = inputStream(file, io);
+  if (stream) return stream;
   try {
-    text = stream ? await readAll(stream) : await readFile(file!, 'utf8');
+    const s = createReadStream(file!);
+    await new Promise<void>((resolve, reject) => {
+      s.once('open', () => resolve());
+      s.once('error', reject);
+    });
+    return s;
   } catch (err) {
-    io.stderr.write(`rhosigma compute: cannot read ${file}: ${(err as NodeJS.ErrnoException).code ?? String(err)}\n`);
+    return `cannot read ${file}: ${(err as NodeJS.ErrnoException).code ?? String(err)}`;
+  }
+}
+
+/**
+ * The output side: writes with back-pressure (waits for 'drain' when the pipe is full, so nothing piles
+ * up in memory) and notices when the reader has gone or a write failed, so that the exit code can say
+ * that some answer did not arrive.
+ */
+class Output {
+  failed: string | undefined;
+  written = 0;
+  constructor(private readonly io: Io) {
+    io.stdout.on('error', (err: NodeJS.ErrnoException) => {
+      this.failed ??= err.code ?? err.message;
+    });
+  }
+
+  /** Writes `text`; false once the output has failed (the caller then stops). */
+  async write(text: string): Promise<boolean> {
+    if (this.failed) return false;
+    const out = this.io.stdout;
+    let ready: boolean;
+    try {
+      ready = out.write(text);
+    } catch (err) {
+      this.failed ??= (err as NodeJS.ErrnoException).code ?? String(err);
+      return false;
+    }
+    if (!ready && !this.failed) {
+      await new Promise<void>((resolve) => {
+        const done = () => {
+          out.off('drain', done);
+          out.off('error', done);
+          out.off('close', done);
+          resolve();
+        };
+        out.on('drain', done);
+        out.on('error', done);
+        out.on('close', done);
+      });
+    }
+    if (!this.failed) this.written++;
+    return !this.failed;
+  }
+
+  /** Waits until everything written has been handed to the system (or the output failed). */
+  async finish(): Promise<void> {
+    if (this.failed) return;
+    const out = this.io.stdout as Writable & { writableNeedDrain?: boolean };
+    if (out.writableNeedDrain) await this.write('');
+  }
+
+  /** The exit code, given what it would be had every answer arrived. */
+  code(ifDelivered: number, answers: number): number {
+    if (!this.failed) return ifDelivered;
+    const why = this.failed === 'EPIPE' ? 'the reader closed the output' : `writing the output failed (${this.failed})`;
+    this.io.stderr.write(`rhosigma: ${why}; not every answer was delivered (${this.written} writes of ${answers} answers went out before it).\n`);
+    return EXIT_NOT_DELIVERED;
+  }
+}
+
+/** Reads a whole stream as bytes, stopping (undefined) once it is longer than `limit`. */
+async function readBytes(stream: Readable, limit: number): Promise<Buffer | undefined> {
+  const chunks: Buffer[] = [];
+  let total = 0;
+  for await (const chunk of stream) {
+    const b = typeof chunk === 'string' ? Buffer.from(chunk) : (chunk as Buffer);
+    total += b.length;
+    if (total > limit) {
+      stream.destroy();
+      return undefined;
+    }
+    chunks.push(b);
+  }
+  return Buffer.concat(chunks, total);
+}
+
+/** Parses one request's text: JSON, then the duplicate-key check. */
+function parseText(text: string): { value: unknown; duplicates: DuplicateKey[] } {
+  const value = JSON.parse(text);
+  return { value, duplicates: findDuplicateKeys(text, value) };
+}
+
+async function computeWhole(file: string | undefined, pretty: boolean, deadline: number, io: Io): Promise<number> {
+  const input = await openInput(file, io);
+  if (typeof input === 'string') {
+    io.stderr.write(`rhosigma compute: ${input}\n`);
     return 2;
   }
-  let input: unknown;
+  const out = new Output(io);
+  let bytes: Buffer | undefined;
   try {
-    input = JSON.parse(text);
+    bytes = await readBytes(input, MAX_INPUT_BYTES);
+  } catch (err) {
+    io.stderr.write(`rhosigma compute: cannot read ${file ?? 'standard input'}: ${(err as NodeJS.ErrnoException).code ?? String(err)}\n`);
+    return 2;
+  }
+  if (bytes === undefined) {
+    const a = failureAnswer('too-large', `The input is longer than ${MAX_INPUT_BYTES} bytes, the limit for one JSON document; give one request per line with --lines (each line may hold ${MAX_LINE_BYTES} bytes).`);
+    await out.write(`${JSON.stringify(a)}\n`);
+    return out.code(1, 1);
+  }
+  const text = decodeUtf8(bytes);
+  if (text === undefined) {
+    io.stderr.write('rhosigma compute: the input is not valid UTF-8 text (JSON must be UTF-8); nothing was computed.\n');
+    return 2;
+  }
+  let parsed: { value: unknown; duplicates: DuplicateKey[] };
+  try {
+    parsed = parseText(text);
   } catch (err) {
     const hint = text.trim() === '' ? 'the input is empty' : describeJsonError(err, text);
     io.stderr.write(`rhosigma compute: the input is not JSON: ${hint}. (For one request per line, use --lines.)\n`);
     return 2;
   }
-  const answers = Array.isArray(input) ? input.map(safeHandle) : safeHandle(input);
-  io.stdout.write(`${JSON.stringify(answers, null, pretty ? 2 : undefined)}\n`);
-  const list = Array.isArray(answers) ? answers : [answers];
-  return list.every((a) => a.ok) ? 0 : 1;
+  const { value, duplicates } = parsed;
+  bytes = undefined;
+  const answerOf = async (request: unknown, k?: number): Promise<Answer> => {
+    const prefix = k === undefined ? '' : `[${k}]`;
+    const mine = duplicates.filter((d) => (k === undefined ? true : d.path === prefix || d.path.startsWith(`${prefix}.`) || d.path.startsWith(`${prefix}[`)));
+    return mine.length ? duplicateAnswer(request, mine, prefix) : safeHandle(request, deadline);
+  };
+  // Answers are written as they are computed (an array element by element), so that a request that
+  // brings the process down cannot take the answers before it with it.
+  let failed = false;
+  if (!Array.isArray(value)) {
+    const a = await answerOf(value);
+    await out.write(`${JSON.stringify(a, null, pretty ? 2 : undefined)}\n`);
+    await out.finish();
+    return out.code(a.ok ? 0 : 1, 1);
+  }
+  if (value.length === 0) {
+    await out.write('[]\n');
+    return out.code(0, 0);
+  }
+  for (let k = 0; k < value.length; k++) {
+    const a = await answerOf(value[k], k);
+    value[k] = undefined; // the request's memory can go before the next one is computed
+    if (!a.ok) failed = true;
+    const body = pretty ? JSON.stringify(a, null, 2).replace(/\n/g, '\n  ') : JSON.stringify(a);
+    const head = k === 0 ? (pretty ? '[\n  ' : '[') : pretty ? ',\n  ' : ',';
+    const tail = k === value.length - 1 ? (pretty ? '\n]\n' : ']\n') : '';
+    if (!(await out.write(head + body + tail))) break;
+  }
+  await out.finish();
+  return out.code(failed ? 1 : 0, value.length);
 }
 
-/** Writes one line, waiting for the reader when the pipe is full (back-pressure: nothing piles up in memory). */
-async function writeLine(io: Io, text: string): Promise<void> {
-  if (!io.stdout.write(`${text}\n`)) await once(io.stdout, 'drain');
+/** One line of JSON Lines input: its bytes, or how long it was when it was too long to keep. */
+type Line = { number: number; bytes: Buffer } | { number: number; tooLong: number };
+
+/**
+ * The lines of a byte stream, split at "\n" (a "\r" before it is dropped), without ever holding a line
+ * longer than `limit` bytes: such a line is skipped to its end and reported by its length instead.
+ * (readline would throw on a line beyond V8's string limit and decode bytes before we can check them.)
+ */
+async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line> {
+  let parts: Buffer[] = [];
+  let length = 0;
+  let skipping = false;
+  let number = 0;
+  const take = (): Line => {
+    number++;
+    if (skipping) {
+      const line: Line = { number, tooLong: length };
+      skipping = false;
+      length = 0;
+      return line;
+    }
+    let bytes = parts.length === 1 ? parts[0] : Buffer.concat(parts, length);
+    if (bytes.length && bytes[bytes.length - 1] === 13) bytes = bytes.subarray(0, bytes.length - 1);
+    parts = [];
+    length = 0;
+    return { number, bytes };
+  };
+  const add = (piece: Buffer): void => {
+    length += piece.length;
+    if (skipping) return;
+    if (length > limit) {
+      skipping = true;
+      parts = [];
+      return;
+    }
+    if (piece.length) parts.push(piece);
+  };
+  for await (const chunk of stream) {
+    const b = typeof chunk === 'string' ? Buffer.from(chunk) : (chunk as Buffer);
+    let from = 0;
+    for (let nl = b.indexOf(10, from); nl >= 0; nl = b.indexOf(10, from)) {
+      add(b.subarray(from, nl));
+      yield take();
+      from = nl + 1;
+    }
+    if (from < b.length) add(Buffer.from(b.subarray(from)));
+  }
+  if (length > 0 || skipping) yield take();
 }
 
 /**
  * Answers JSON Lines from `stream`: one answer line per non-blank request line, in order, each written as
- * soon as it is computed. Returns what happened, for the exit code.
+ * soon as it is computed, reading the next line only then (so a slow reader slows the reading, and
+ * nothing piles up). Returns what happened, for the exit code.
  */
-async function answerLines(stream: Readable, io: Io): Promise<{ notJson: boolean; failed: boolean }> {
+async function answerLines(stream: Readable, io: Io, deadline: number, out: Output): Promise<{ notJson: boolean; failed: boolean; answers: number }> {
   let notJson = false;
   let failed = false;
-  let lineNumber = 0;
-  const lines = createInterface({ input: stream, crlfDelay: Infinity });
-  for await (const line of lines) {
-    lineNumber++;
-    if (line.trim() === '') continue;
+  let answers = 0;
+  for await (const line of splitLines(stream, MAX_LINE_BYTES)) {
     let answer: Answer;
-    try {
-      answer = safeHandle(JSON.parse(line));
-    } catch (err) {
-      // The line keeps its place in the output, so answers still line up with requests.
-      notJson = true;
-      answer = {
-        ok: false,
-        op: null,
-        error: { code: 'parse-error', message: `Line ${lineNumber} is not JSON: ${describeJsonError(err, line, true)}.` },
-      };
+    if ('tooLong' in line) {
+      answer = failureAnswer('too-large', `Line ${line.number} is ${line.tooLong} bytes long, above the limit of ${MAX_LINE_BYTES} bytes for one request.`);
+    } else {
+      const text = decodeUtf8(line.bytes);
+      if (text === undefined) {
+        notJson = true;
+        answer = failureAnswer('parse-error', `Line ${line.number} is not valid UTF-8 text (JSON must be UTF-8).`);
+      } else if (text.trim() === '') {
+        continue;
+      } else {
+        try {
+          const { value, duplicates } = parseText(text);
+          answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
+        } catch (err) {
+          // The line keeps its place in the output, so answers still line up with requests.
+          notJson = true;
+          answer = failureAnswer('parse-error', `Line ${line.number} is not JSON: ${describeJsonError(err, text, true)}.`);
+        }
+      }
     }
     if (!answer.ok) failed = true;
-    await writeLine(io, JSON.stringify(answer));
-  }
-  return { notJson, failed };
-}
-
-async function computeLines(file: string | undefined, io: Io): Promise<number> {
-  let stream = inputStream(file, io);
-  if (!stream) {
-    try {
-      const { createReadStream } = await import('node:fs');
-      const s = createReadStream(file!, { encoding: 'utf8' });
-      await new Promise<void>((resolve, reject) => {
-        s.once('open', () => resolve());
-        s.once('error', reject);
-      });
-      stream = s;
-    } catch (err) {
-      io.stderr.write(`rhosigma compute: cannot read ${file}: ${(err as NodeJS.ErrnoException).code ?? String(err)}\n`);
-      return 2;
+    answers++;
+    if (!(await out.write(`${JSON.stringify(answer)}\n`))) {
+      (stream as Readable).destroy();
+      break;
     }
   }
-  const { notJson, failed } = await answerLines(stream, io);
-  return notJson ? 2 : failed ? 1 : 0;
+  await out.finish();
+  return { notJson, failed, answers };
+}
+
+async function computeLines(file: string | undefined, deadline: number, io: Io): Promise<number> {
+  const input = await openInput(file, io);
+  if (typeof input === 'string') {
+    io.stderr.write(`rhosigma compute: ${input}\n`);
+    return 2;
+  }
+  const out = new Output(io);
+  const { notJson, failed, answers } = await answerLines(input, io, deadline, out);
+  return out.code(notJson ? 2 : failed ? 1 : 0, answers);
 }
 
 /** The protocol version this engine speaks (docs/protocol.md). */
@@ -164,12 +384,21 @@ export const PROTOCOL_VERSION = '1.1';
  * `rhosigma serve`: the long-lived engine behind the Python bridge. First line out: a ready line
  * {"ready": true, "engine": "rhosigma", "version", "protocol"}, so that a client can tell a started engine
  * from a failed start. Then exactly one answer line per request line, in order. Failed requests do not
- * change the exit status: it is 0 when standard input ends.
+ * change the exit status: it is 0 when standard input ends, 3 when an answer could not be written.
  */
-async function serve(io: Io): Promise<number> {
-  await writeLine(io, JSON.stringify({ ready: true, engine: 'rhosigma', version: version(), protocol: PROTOCOL_VERSION }));
-  await answerLines(io.stdin, io);
-  return 0;
+async function serve(deadline: number, io: Io): Promise<number> {
+  const out = new Output(io);
+  await out.write(`${JSON.stringify({ ready: true, engine: 'rhosigma', version: version(), protocol: PROTOCOL_VERSION })}\n`);
+  const { answers } = await answerLines(io.stdin, io, deadline, out);
+  return out.code(0, answers);
+}
+
+function parseDeadline(value: string): number {
+  const ms = Number(value);
+  if (!Number.isFinite(ms) || ms <= 0 || ms > MAX_DEADLINE_MS) {
+    throw new InvalidArgumentError(`a deadline is a number of milliseconds in (0, ${MAX_DEADLINE_MS}].`);
+  }
+  return ms;
 }
 
 function listing(json: boolean, io: Io): number {
@@ -228,6 +457,7 @@ The requests and answers are described in docs/protocol.md; the JSON Schema is s
     .argument('[file]', 'file of requests; "-" or nothing for standard input')
     .option('--lines', 'read JSON Lines (one request per line) and write one answer per line')
     .option('--pretty', 'indent the JSON output (ignored with --lines)')
+    .option('--deadline <ms>', `deadline of requests that give none, in milliseconds (default ${COMPUTE_DEFAULT_DEADLINE_MS})`, parseDeadline)
     .addHelpText(
       'after',
       `
@@ -235,15 +465,17 @@ Input: one request object, an array of requests, or (with --lines) one request p
 Output: the answers on standard output in the same shape and order; an answer is
   {"ok": true, "op": NAME, "value": ...} or {"ok": false, "op": NAME, "error": {"code", "message", "path"}}.
 Exit code: 0 every answer ok; 1 some answers failed (the others are still answered);
-  2 the input is not JSON (with --lines: some line is not JSON; it is answered with a parse-error),
-  a file cannot be read, or the command line is wrong.
+  2 the input is not JSON or not UTF-8 (with --lines: some line is not; it is answered with a
+  parse-error), a file cannot be read, or the command line is wrong; 3 some answer could not be
+  written (the reader closed the output, or writing failed).
 
 Example:
   $ echo '${EXAMPLE_REQUEST}' | rhosigma compute
   {"ok":true,"op":"spectrum","value":[0.5,1],"hermiticityDefect":0}`,
     )
-    .action(async (file: string | undefined, opts: { lines?: boolean; pretty?: boolean }) => {
-      setCode(opts.lines ? await computeLines(file, io) : await computeWhole(file, opts.pretty === true, io));
+    .action(async (file: string | undefined, opts: { lines?: boolean; pretty?: boolean; deadline?: number }) => {
+      const deadline = opts.deadline ?? COMPUTE_DEFAULT_DEADLINE_MS;
+      setCode(opts.lines ? await computeLines(file, deadline, io) : await computeWhole(file, opts.pretty === true, deadline, io));
     });
 
   program
@@ -257,8 +489,9 @@ Then every non-blank line of standard input is answered by one line, in order; a
 JSON is answered with a parse-error. The command ends with exit code 0 when standard input ends.
 This is what the Python package starts once per kernel.`,
     )
-    .action(async () => {
-      setCode(await serve(io));
+    .option('--deadline <ms>', `deadline of requests that give none, in milliseconds (default ${SERVE_DEFAULT_DEADLINE_MS})`, parseDeadline)
+    .action(async (opts: { deadline?: number }) => {
+      setCode(await serve(opts.deadline ?? SERVE_DEFAULT_DEADLINE_MS, io));
     });
 
   program
@@ -278,20 +511,16 @@ This is what the Python package starts once per kernel.`,
       setCode(await runDemo((s) => io.stdout.write(s), { json: opts.json === true }));
     });
 
+  addSweepCommands(program, io, setCode);
+
   return program;
 }
 
-let watchingStdout = false;
-
 /** Run the command with the arguments after the program name; resolves to the exit code. */
 export async function main(argv: string[], io: Io = { stdin: process.stdin, stdout: process.stdout, stderr: process.stderr }): Promise<number> {
-  // A reader that closes the pipe early (`| head`) is not an error worth a stack trace.
-  if (io.stdout === process.stdout && !watchingStdout) {
-    watchingStdout = true;
-    process.stdout.on('error', (err: NodeJS.ErrnoException) => {
-      if (err.code !== 'EPIPE') io.stderr.write(`rhosigma: cannot write the output: ${err.code ?? err.message}\n`);
-    });
-  }
+  // A reader that closes the pipe early (`| head`) must not crash the process with an unhandled 'error'
+  // event; compute and serve watch the output themselves and say so in the exit code (Output).
+  if (io.stdout.listenerCount('error') === 0) io.stdout.on('error', () => undefined);
   let code = 0;
   const program = buildProgram(io, (c) => {
     code = c;

@@ -54,7 +54,7 @@ import {
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
   type SolverCertificate,
-} from '../oneshot/sdp-support.js';
+} from '../sdp/support.js';
 
 /** Largest support of X searched over all orders (6! = 720 orders). */
 export const MAX_SUPPORT = 6;

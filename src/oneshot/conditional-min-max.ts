@@ -42,8 +42,8 @@ import { checkGroups } from '../quantities/conditional.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import {
   acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, multiplierMatrix, symmetrize,
-  type OneShotSdpOptions, type SdpCertificate,
-} from './sdp-support.js';
+  type OneShotSdpOptions, type LegacyCertificate,
+} from '../sdp/support.js';
 
 export interface ConditionalMinEntropyResult {
   /** H_min(A|B) in the chosen base. */
@@ -54,7 +54,7 @@ export interface ConditionalMinEntropyResult {
   /** The optimal X_AB of the dual form (X ⪰ 0, tr_A X = I_B): Tr ρ_AB X = 2^{−H_min}. */
   dualOperator: CMatrix;
   dims: { a: number; b: number };
-  certificate: SdpCertificate;
+  certificate: LegacyCertificate;
   note?: string;
 }
 
@@ -67,7 +67,7 @@ export interface ConditionalMaxEntropyResult {
   /** √F_max = ‖√ρ_AB √(I_A ⊗ σ_B)‖₁ at the optimum. */
   rootFidelity: number;
   dims: { a: number; b: number };
-  certificate: SdpCertificate;
+  certificate: LegacyCertificate;
   note?: string;
 }
 
@@ -108,7 +108,7 @@ export function minEntropyProblem(tau: CMatrix, dA: number, dB: number): SdpProb
  */
 export function solveMinEntropySdp(
   tau: CMatrix, dA: number, dB: number, what: string, options: OneShotSdpOptions = {},
-): { optimum: number; sigma: CMatrix; X: CMatrix; ans: SdpAnswer; note?: string; certificate: SdpCertificate } {
+): { optimum: number; sigma: CMatrix; X: CMatrix; ans: SdpAnswer; note?: string; certificate: LegacyCertificate } {
   const ans = solveSdp(minEntropyProblem(tau, dA, dB), options.solver);
   const note = acceptAnswer(ans, what);
   const optimum = -ans.primalObjective;

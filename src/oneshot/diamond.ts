@@ -40,7 +40,7 @@ import { krausSum, krausToChoi } from '../quantum/channels.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, solverCertificate, type SolverCertificate,
-} from './sdp-support.js';
+} from '../sdp/support.js';
 
 export interface DiamondResult {
   /** ½‖N − M‖_⋄ from the solver's primal objective. */

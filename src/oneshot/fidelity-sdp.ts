@@ -26,7 +26,7 @@ import { RhoError } from '../errors.js';
 import { solveSdp, coordinateEntry, matrixCoordinates, type BlockTerm, type Constraint, type SdpOptions } from '../sdp/index.js';
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, realPartEntries, solverCertificate, type SolverCertificate,
-} from './sdp-support.js';
+} from '../sdp/support.js';
 
 /** Support of a PSD matrix: V (n × r, orthonormal columns) and the kept eigenvalues. */
 export function supportOf(m: CMatrix, tol: number): { basis: CMatrix; values: number[] } {

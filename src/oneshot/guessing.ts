@@ -37,7 +37,7 @@ import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Cons
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, renormalisePovm, solverCertificate,
   type SolverCertificate,
-} from './sdp-support.js';
+} from '../sdp/support.js';
 
 export interface GuessingResult {
   /** p_guess from the solver's primal objective. */

@@ -44,8 +44,8 @@ import { RhoError } from '../errors.js';
 import { solveSdp, partialTraceConstraints, type SdpProblem } from '../sdp/index.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import {
-  acceptAnswer, certificateOf, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type SdpCertificate,
-} from './sdp-support.js';
+  acceptAnswer, certificateOf, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type LegacyCertificate,
+} from '../sdp/support.js';
 
 export const HYPOTHESIS_TESTING_CONVENTION =
   'D_H^ε(ρ‖σ) = −log min{Tr σΛ : 0 ≤ Λ ≤ I, Tr ρΛ ≥ 1−ε} (Wang & Renner, PRL 108, 200501 (2012); not normalised by ε)';
@@ -77,7 +77,7 @@ export interface HypothesisTestingResult {
   method: 'sdp' | 'neyman-pearson' | 'support';
   /** ‖ρσ − σρ‖_F / (‖ρ‖_F ‖σ‖_F). */
   commutator: number;
-  certificate: SdpCertificate;
+  certificate: LegacyCertificate;
   /** Present when the answer needs a caveat (solver status, tiny β, tolerance decisions). */
   note?: string;
   convention: string;

@@ -30,7 +30,7 @@ import { CMatrix, kron, identity, mul, adjoint, scale, zeros, partialTrace, trac
 import { RhoError } from '../errors.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import { bipartiteMarginal, solveMinEntropySdp } from './conditional-min-max.js';
-import { lnBase, symmetrize, type OneShotSdpOptions, type SdpCertificate } from './sdp-support.js';
+import { lnBase, symmetrize, type OneShotSdpOptions, type LegacyCertificate } from '../sdp/support.js';
 
 export interface MaxInformationResult {
   /** I_max(A:B) in the chosen base. */
@@ -43,7 +43,7 @@ export interface MaxInformationResult {
   /** Tr ρ_A (I − Π_A): weight of ρ outside the kept support. */
   droppedWeight: number;
   dims: { a: number; b: number };
-  certificate: SdpCertificate;
+  certificate: LegacyCertificate;
   note?: string;
 }
 

@@ -42,8 +42,8 @@ import {
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import { fidelity } from '../quantities/fidelity.js';
 import {
-  acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type SdpCertificate,
-} from './sdp-support.js';
+  acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type LegacyCertificate,
+} from '../sdp/support.js';
 
 export interface SmoothMaxResult {
   /** D_max^ε(ρ‖σ) in the chosen base; +Infinity when no state of the ball fits under σ. */
@@ -57,7 +57,7 @@ export interface SmoothMaxResult {
   rootFidelity: number;
   /** Tr Π_σ ρ: the largest fidelity any subnormalised state on supp σ can have with ρ. */
   insideSupport: number;
-  certificate: SdpCertificate;
+  certificate: LegacyCertificate;
   note?: string;
 }
 

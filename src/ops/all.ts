@@ -10,3 +10,4 @@ import './guesswork-ops.js';
 import './guessing-ops.js';
 import './recovery-ops.js';
 import './oneshot-ops.js';
+import './random-ops.js';

@@ -33,6 +33,8 @@ import {
   readChannel, readDims, readHermitian, readKet, readMatrix, readSquareMatrix, readState, readSystems, schemas,
   writeChannel, writeMatrix, writeNumber, writeState,
 } from './codec.js';
+import { channelShape, dense, plain, sequence, sideOf, type CostEstimate } from './cost.js';
+import { MAX_CHANNEL_ENTRIES } from '../limits.js';
 
 // ---------------------------------------------------------------------------------------------------
 // Helpers
@@ -138,6 +140,39 @@ const integer = (description: string, minimum = 1) => ({ type: 'integer', minimu
 const num = (description: string) => ({ type: 'number', description });
 const matrixList = (description: string) => ({ type: 'array', minItems: 1, maxItems: 4096, items: schemas.matrix, description });
 
+/** Cost of conversions and checks that work on the Choi matrix (side d_in·d_out). */
+function choiCost(channel: unknown): CostEstimate {
+  const { din, dout } = channelShape(channel);
+  return dense(din * dout, 2, 'eigendecompositions of the Choi matrix');
+}
+
+/** Cost of a preset built from parameters: the user-given matrices' checks, and at most the channel limits. */
+function presetCost(req: Record<string, any>): CostEstimate {
+  const given = ['povm', 'states', 'projectors', 'unitaries'].flatMap((k) => (Array.isArray(req[k]) ? req[k] : []));
+  for (const k of ['unitary', 'basis', 'hamiltonian', 'ket']) if (req[k] !== undefined) given.push(req[k]);
+  const side = Math.max(1, ...given.map((m) => sideOf(m)));
+  return sequence(dense(side, Math.max(1, given.length), 'checks of the given matrices'), plain(1e8, 2 * 16 * MAX_CHANNEL_ENTRIES, 'building the preset'));
+}
+
+/** Cost of composing channels: the products of Kraus operators, reduced through the Choi matrix as they grow. */
+function compositionCost(channels: unknown[]): CostEstimate {
+  const first = channelShape(channels[0]);
+  let count = Math.max(1, first.kraus);
+  let flops = 0;
+  let bytes = 16 * count * first.din * first.dout;
+  let dmid = first.dout;
+  for (const c of channels.slice(1)) {
+    const s = channelShape(c);
+    const products = count * Math.max(1, s.kraus);
+    flops += 8 * products * s.dout * dmid * first.din;
+    bytes = Math.max(bytes, 16 * products * s.dout * first.din);
+    count = Math.min(products, first.din * s.dout);
+    flops += dense(first.din * s.dout, 1).flops;
+    dmid = s.dout;
+  }
+  return { flops, bytes, basis: `composing ${channels.length} channels (${count} Kraus operators at the end)` };
+}
+
 // ---------------------------------------------------------------------------------------------------
 // apply-channel
 
@@ -153,6 +188,13 @@ defineOp({
       on: { ...schemas.systems, description: 'The subsystems the channel acts on, in the order of its input factors (indices or labels); default all.' },
     },
     required: ['channel', 'rho'],
+  },
+  cost: (req) => {
+    const { din, dout, kraus } = channelShape(req.channel);
+    const n = sideOf(req.rho);
+    const rest = n / Math.max(1, din);
+    const r = Math.max(1, kraus);
+    return { flops: 8 * r * dout * din * rest * rest * (din + dout), bytes: 16 * (4 * n * n + 4 * (dout * rest) ** 2 + r * dout * din), basis: `applying ${r} Kraus operators to a ${n}×${n} state` };
   },
   run(req, { tolerance }) {
     const channel = readChannel(req.channel, 'channel', tolerance);
@@ -175,6 +217,7 @@ defineOp({
     properties: { channel: schemas.channel },
     required: ['channel'],
   },
+  cost: (req) => choiCost(req.channel),
   run(req, { tolerance }) {
     let d: ChannelDiagnostics;
     if (hasChoi(req.channel)) {
@@ -207,6 +250,7 @@ defineOp({
     },
     required: ['channel', 'form'],
   },
+  cost: (req) => choiCost(req.channel),
   run(req, { tolerance }) {
     const form = req.form as 'kraus' | 'choi' | 'stinespring';
     const minimal = req.minimal === true && form !== 'choi';
@@ -358,6 +402,7 @@ defineOp({
     },
     required: ['name'],
   },
+  cost: presetCost,
   run(req, { tolerance }) {
     const spec = CHANNEL_PRESETS[req.name as string];
     onlyFields(req, spec.fields, req.name, COMMON);
@@ -380,6 +425,7 @@ defineOp({
     },
     required: ['channels'],
   },
+  cost: (req) => compositionCost(req.channels),
   run(req, { tolerance }) {
     const channels = (req.channels as unknown[]).map((c, k) => readChannel(c, `channels[${k}]`, tolerance));
     return { value: writeChannel(composeSequence(channels, tolerance)) };
@@ -398,6 +444,7 @@ defineOp({
     },
     required: ['channel'],
   },
+  cost: (req) => choiCost(req.channel),
   run(req, { tolerance }) {
     const { channel, rank } = readKrausWithRank(req.channel, 'channel', tolerance, req.minimal !== false);
     const comp = complementaryChannel(channel);
@@ -498,6 +545,7 @@ defineOp({
     },
     required: ['name'],
   },
+  cost: presetCost,
   run(req, { tolerance }) {
     const spec = STATE_PRESETS[req.name as string];
     onlyFields(req, spec.fields, req.name, COMMON);

@@ -25,18 +25,11 @@ import { choiToKraus } from '../quantum/channels.js';
 import { checkDensityMatrix, checkDims, checkHermitian, checkPositive, checkSquareFinite } from '../quantum/validate.js';
 import { readExpression } from './expressions.js';
 
-/** Largest number of rows or columns of any matrix, and largest ket length. */
-export const MAX_DIMENSION = 1024;
-/** Largest number of entries of one matrix (MAX_DIMENSION² — a 1024×1024 complex matrix is 16 MiB). */
-export const MAX_ENTRIES = MAX_DIMENSION * MAX_DIMENSION;
-/** Largest number of Kraus operators of one channel. */
-export const MAX_KRAUS = 1024;
-/** Largest total number of entries over all Kraus operators of one channel (64 MiB as complex doubles). */
-export const MAX_CHANNEL_ENTRIES = 4 * MAX_ENTRIES;
+// The size limits live in src/limits.ts (the quantum layer's presets check them too); re-exported here.
+export { MAX_DIMENSION, MAX_ENTRIES, MAX_KRAUS, MAX_CHANNEL_ENTRIES, MAX_SUBSYSTEMS } from '../limits.js';
+import { MAX_DIMENSION, MAX_ENTRIES, MAX_KRAUS, MAX_CHANNEL_ENTRIES, MAX_SUBSYSTEMS } from '../limits.js';
 /** Largest number of expression strings in one matrix or ket (each costs a parse; numbers are not counted). */
 export const MAX_EXPRESSION_ENTRIES = 65536;
-/** Largest number of subsystems in a `dims` list. */
-export const MAX_SUBSYSTEMS = 64;
 
 export interface NumberRange {
   min?: number;

@@ -29,6 +29,7 @@ import {
   writeMatrix, writeNumber,
 } from './codec.js';
 import { compileRealFunction } from './expressions.js';
+import { channelShape, dense, sequence, sideOf } from './cost.js';
 
 const supportToleranceSchema = supportToleranceProperty();
 
@@ -55,6 +56,7 @@ defineOp({
   name: 'fidelity',
   summary: 'Uhlmann fidelity F(ρ,σ) = ‖√ρ√σ‖₁² (squared), with the root ‖√ρ√σ‖₁, from the singular values of √Λ V*U √M on both supports.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
+  cost: (req) => dense(sideOf(req.rho), 4),
   run(req, { tolerance }) {
     const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
@@ -75,6 +77,7 @@ defineOp({
   name: 'trace-distance',
   summary: 'Trace distance ½‖ρ − σ‖₁, from the eigenvalues of the Hermitian difference.',
   args: { type: 'object', properties: pairArgs, required: ['rho', 'sigma'] },
+  cost: (req) => dense(sideOf(req.rho), 2),
   run(req, { tolerance }) {
     const { rho, sigma } = readStatePair(req, tolerance);
     return { value: traceDistance(rho, sigma) };
@@ -85,6 +88,7 @@ defineOp({
   name: 'bures-distance',
   summary: 'Bures distance √(2(1 − √F)) with F the squared fidelity; also the Bures angle arccos √F and the root fidelity.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
+  cost: (req) => dense(sideOf(req.rho), 6),
   run(req, { tolerance }) {
     const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
@@ -106,6 +110,7 @@ defineOp({
     },
     required: ['rho', 'sigma'],
   },
+  cost: (req) => dense(sideOf(req.rho), 4),
   run(req, { tolerance }) {
     const rho = readOperatorState(req.rho, 'rho', tolerance).matrix;
     const sigma = readOperatorState(req.sigma, 'sigma', tolerance).matrix;
@@ -133,6 +138,8 @@ defineOp({
   summary:
     'Quantum Chernoff exponent ξ = −log min_{0≤s≤1} Tr ρ^s σ^{1−s} (powers on the supports), with the optimal s; Infinity with a reason for orthogonal supports.',
   args: { type: 'object', properties: { ...pairArgs, supportTolerance: supportToleranceSchema }, required: ['rho', 'sigma'] },
+  cost: (req) => dense(sideOf(req.rho), 4),
+  base: true,
   run(req, { tolerance, base }) {
     const { rho, sigma } = readStatePair(req, tolerance);
     const tol = readSupportTolerance(req);
@@ -212,6 +219,7 @@ defineOp({
     },
     required: ['rho', 'x'],
   },
+  cost: (req) => dense(sideOf(req.rho), 3),
   run(req, { tolerance }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
     const x = readTangent(req, 'x', rho, tolerance);
@@ -238,6 +246,7 @@ defineOp({
     },
     required: ['rho', 'derivative'],
   },
+  cost: (req) => dense(sideOf(req.rho), 4),
   run(req, { tolerance }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
     const d = readTangent(req, 'derivative', rho, tolerance);
@@ -279,6 +288,12 @@ defineOp({
     },
     required: ['rho'],
   },
+  cost: (req) => {
+    const n = sideOf(req.rho);
+    const { kraus } = channelShape(req.channel);
+    return sequence(dense(n, 6), { flops: 16 * kraus * n ** 3, bytes: 16 * kraus * n * n, basis: `applying ${kraus} Kraus operators to a ${n}×${n} state` });
+  },
+  base: true,
   run(req, { tolerance, base }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
     const tol = readSupportTolerance(req);

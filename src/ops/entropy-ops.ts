@@ -27,6 +27,7 @@ import { defineOp, OpContext, OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeMatrix,
 } from './codec.js';
+import { dense, sdp, sideOf } from './cost.js';
 
 const supportToleranceSchema = supportToleranceProperty(
   'Relative tolerance below which an eigenvalue counts as zero, and the largest weight of ρ outside supp σ still taken as zero (default 1e-12); separate from "tolerance", which validates inputs.',
@@ -40,6 +41,25 @@ const orderSchema = (description: string) => ({
 function readOrder(value: unknown, path: string): number {
   if (value === 'Infinity') return Infinity;
   return readNumber(value, path, { min: 0 });
+}
+
+/**
+ * Iterations an iterative method is assumed to take in a cost estimate (the measured relative entropy's
+ * ascent, the optimised sandwiched conditional entropy); more are stopped by the deadline.
+ */
+const TYPICAL_ITERATIONS = 100;
+
+/** The cost of a divergence request: dense steps for the closed forms, an ascent for measured, an SDP for D_H. */
+function divergenceCost(req: Record<string, any>) {
+  const n = sideOf(req.rho);
+  if (req.family === 'measured') {
+    const steps = Math.min(req.maxIterations ?? 3000, TYPICAL_ITERATIONS);
+    return dense(n, 4 * steps, `${steps} ascent steps of four dense steps`);
+  }
+  if (req.family === 'hypothesis-testing') {
+    return sdp({ blocks: [{ size: n, hermitian: true }, { size: n, hermitian: true }, { size: 1, vector: true }], constraints: n * n + 1 }, dense(n, 4));
+  }
+  return dense(n, 8);
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -90,6 +110,8 @@ defineOp({
     },
     required: ['rho'],
   },
+  base: true,
+  cost: (req) => dense(sideOf(req.rho), 1, 'one eigendecomposition'),
   run(req, { tolerance, base }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
     const alpha = req.alpha === undefined ? 1 : readOrder(req.alpha, 'alpha');
@@ -117,6 +139,8 @@ defineOp({
     },
     required: ['family', 'rho', 'sigma'],
   },
+  base: true,
+  cost: divergenceCost,
   run(req, context) {
     const family = String(req.family);
     const extra = extraDivergenceFamilies.get(family);
@@ -162,6 +186,8 @@ defineOp({
     properties: { rho: multipartite, a: groupSchema('A'), b: groupSchema('B (may be empty)'), supportTolerance: supportToleranceSchema },
     required: ['rho', 'a', 'b'],
   },
+  base: true,
+  cost: (req) => dense(sideOf(req.rho), 4, 'eigendecompositions of the state and its marginals'),
   run(req, { tolerance, base }) {
     const { state, groups: [a, b] } = readGroups(req, ['a', 'b'], tolerance, ['a']);
     const r = conditionalEntropy(state.matrix, state.dims, a, b, { base, tol: readSupportTolerance(req) });
@@ -177,6 +203,8 @@ defineOp({
     properties: { rho: multipartite, a: groupSchema('A'), b: groupSchema('B'), supportTolerance: supportToleranceSchema },
     required: ['rho', 'a', 'b'],
   },
+  base: true,
+  cost: (req) => dense(sideOf(req.rho), 4, 'eigendecompositions of the state and its marginals'),
   run(req, { tolerance, base }) {
     const { state, groups: [a, b] } = readGroups(req, ['a', 'b'], tolerance, ['a', 'b']);
     const r = mutualInformation(state.matrix, state.dims, a, b, { base, tol: readSupportTolerance(req) });
@@ -194,6 +222,8 @@ defineOp({
     },
     required: ['rho', 'a', 'b', 'c'],
   },
+  base: true,
+  cost: (req) => dense(sideOf(req.rho), 4, 'eigendecompositions of the state and its marginals'),
   run(req, { tolerance, base }) {
     const { state, groups: [a, b, c] } = readGroups(req, ['a', 'b', 'c'], tolerance, ['a', 'c']);
     const r = conditionalMutualInformation(state.matrix, state.dims, a, b, c, { base, tol: readSupportTolerance(req) });
@@ -218,6 +248,11 @@ defineOp({
       supportTolerance: supportToleranceSchema,
     },
     required: ['rho', 'a', 'b', 'family', 'alpha'],
+  },
+  base: true,
+  cost: (req) => {
+    const iterations = req.optimized === true && req.family === 'sandwiched' ? Math.min(req.maxIterations ?? 500, TYPICAL_ITERATIONS) : 1;
+    return dense(sideOf(req.rho), 6 * iterations, iterations > 1 ? `${iterations} iterations of six dense steps` : 'six dense steps');
   },
   run(req, { tolerance, base }) {
     const { state, groups: [a, b] } = readGroups(req, ['a', 'b'], tolerance, ['a']);

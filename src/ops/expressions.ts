@@ -15,11 +15,9 @@
  *
  * Deliberately not supported: variables, assignment, user functions, units, matrices, strings, booleans,
  * comparisons, factorial, modulo. Every refusal is a RhoError 'parse-error' naming the entry's path.
- * Cost: linear in the length of the string, which is capped at MAX_EXPRESSION_LENGTH characters.
+ * Cost: linear in the length of the string, which is capped at MAX_EXPRESSION_LENGTH characters (about
+ * 10 µs per character through mathjs's parser); the first use loads mathjs (about 100 ms).
  */
-// mathjs's single-file bundle (an export listed in its package.json) loads several times faster than its
-// ESM tree of modules, which matters for a command started once per batch; it is the same parser.
-import mathjs from 'mathjs/lib/browser/math.js';
 import { RhoError } from '../errors.js';
 
 /** The part of complex.js's interface used here (mathjs exports the class at run time; its typings do not). */
@@ -47,8 +45,56 @@ interface C {
   conjugate(): C;
   abs(): number;
 }
-const Complex = mathjs.Complex as new (re: number, im: number) => C;
-const parse = mathjs.parse as (text: string) => unknown;
+// mathjs is loaded on first need, not at import: it is most of the engine's start-up time (about 80 ms
+// of a cold command's 400), and most requests hold no expression string. Its single-file bundle (an
+// export listed in its package.json) loads several times faster than its ESM tree; it is the same parser.
+const MATHJS_BUNDLE = 'mathjs/lib/browser/math.js';
+let Complex: new (re: number, im: number) => C;
+let parse: ((text: string) => unknown) | undefined;
+
+function adopt(module: unknown): void {
+  const lib = ((module as { default?: unknown }).default ?? module) as { Complex: typeof Complex; parse: (text: string) => unknown };
+  Complex = lib.Complex;
+  parse = lib.parse;
+}
+
+/** Whether the expression reader is loaded (it loads on first use in Node, or by loadExpressionReader()). */
+export function expressionReaderLoaded(): boolean {
+  return parse !== undefined;
+}
+
+/**
+ * Loads the expression reader ahead of need. In Node the reader also loads by itself on first use
+ * (synchronously); in a browser or worker, call this (or the engine's warmUp) before `handle` meets an
+ * expression string, or answer through `handleAsync`, which does it when a request needs it.
+ */
+export async function loadExpressionReader(): Promise<void> {
+  if (parse) return;
+  // webpackMode eager: a webpack build (the wheel's engine, browser workers) keeps mathjs in its one
+  // file instead of a chunk beside it; esbuild's command bundle leaves it outside (a real import).
+  adopt(await import(/* webpackMode: "eager" */ 'mathjs/lib/browser/math.js'));
+}
+
+function reader(): (text: string) => unknown {
+  if (parse) return parse;
+  // Node: load it synchronously through a CommonJS require (the bundle is UMD). process.getBuiltinModule
+  // is a property lookup, not an import, so browser bundles carry no Node built-in for it.
+  const nodeModule = (globalThis as { process?: { getBuiltinModule?: (id: string) => unknown } }).process?.getBuiltinModule?.('node:module') as
+    | { createRequire(from: string): (id: string) => unknown }
+    | undefined;
+  if (nodeModule) {
+    try {
+      adopt(nodeModule.createRequire(import.meta.url)(MATHJS_BUNDLE));
+      return parse!;
+    } catch {
+      // Not beside us (a bundle run outside the checkout): only loadExpressionReader can load it.
+    }
+  }
+  throw new RhoError(
+    'internal-error',
+    'The expression reader is not loaded here; the engine must call loadExpressionReader() (or warmUp(), or answer through handleAsync) before reading expression strings.',
+  );
+}
 
 /** Longest expression string accepted. */
 export const MAX_EXPRESSION_LENGTH = 500;
@@ -221,7 +267,7 @@ export function readExpression(text: unknown, path: string): { re: number; im: n
   if (text.trim() === '') throw new RhoError('parse-error', 'The expression is empty.', path);
   let tree: Node;
   try {
-    tree = parse(text) as unknown as Node;
+    tree = reader()(text) as unknown as Node;
   } catch (err) {
     const why = err instanceof Error ? err.message : String(err);
     throw new RhoError('parse-error', `Cannot read the expression "${clip(text)}": ${clip(why)}.`, path);
@@ -259,7 +305,7 @@ export function compileRealFunction(text: unknown, variable: string, path: strin
   if (Object.hasOwn(SYMBOLS, variable)) throw new Error(`compileRealFunction: "${variable}" is a reserved symbol`);
   let tree: Node;
   try {
-    tree = parse(text) as unknown as Node;
+    tree = reader()(text) as unknown as Node;
   } catch (err) {
     const why = err instanceof Error ? err.message : String(err);
     throw new RhoError('parse-error', `Cannot read the expression "${clip(text)}": ${clip(why)}.`, path);

@@ -17,6 +17,7 @@ import { diamondDistance } from '../oneshot/diamond.js';
 import { fidelitySdp } from '../oneshot/fidelity-sdp.js';
 import { defineOp } from './registry.js';
 import { readChannel, readState, readSupportTolerance, schemas, supportToleranceProperty, writeCertificate, writeMatrix } from './codec.js';
+import { channelShape, dense, sdp, sideOf } from './cost.js';
 
 const MAX_STATES = 256;
 
@@ -64,6 +65,11 @@ defineOp({
     },
     required: ['probabilities', 'states'],
   },
+  cost: (req) => {
+    const d = sideOf(req.states[0]);
+    const count = req.states.length;
+    return sdp({ blocks: Array.from({ length: count }, () => ({ size: d, hermitian: true })), constraints: d * d }, dense(d, 2 * count));
+  },
   run(req, { tolerance }) {
     const probabilities = req.probabilities as number[];
     const list = req.states as unknown[];
@@ -91,6 +97,11 @@ defineOp({
       b: { ...schemas.channel, description: 'The second channel, same input and output dimensions.' },
     },
     required: ['a', 'b'],
+  },
+  cost: (req) => {
+    const { din, dout } = channelShape(req.a);
+    const n = din * dout;
+    return sdp({ blocks: [{ size: n, hermitian: true }, { size: din, hermitian: true }, { size: n, hermitian: true }], constraints: n * n + 1 }, dense(n, 4));
   },
   run(req, { tolerance }) {
     const a = readChannel(req.a, 'a', tolerance);
@@ -120,6 +131,10 @@ defineOp({
       ),
     },
     required: ['rho', 'sigma'],
+  },
+  cost: (req) => {
+    const n = sideOf(req.rho);
+    return sdp({ blocks: [{ size: 2 * n, hermitian: true }], constraints: 2 * n * n }, dense(n, 4));
   },
   run(req, { tolerance }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;

@@ -15,6 +15,7 @@ import {
 } from '../guessing/guesswork.js';
 import { defineOp } from './registry.js';
 import { readNumber, readState, schemas, writeCertificate, writeComplexMatrix, writeNumber } from './codec.js';
+import { dense, plain, sdp, sideOf } from './cost.js';
 
 /** Largest alphabet accepted in the request (the closed form is cheap; the SDP checks its own limit). */
 const MAX_ALPHABET = 1 << 16;
@@ -56,6 +57,15 @@ defineOp({
       },
     },
     required: ['probabilities'],
+  },
+  cost: (req) => {
+    const n = req.probabilities.length;
+    if (req.states === undefined) return plain(64 * n * Math.log2(n + 1), 64 * n, `sorting ${n} probabilities`);
+    const d = sideOf(req.states[0]);
+    // The SDP has one block per guessing order of the support (at most MAX_SUPPORT symbols, else refused).
+    let orders = 1;
+    for (let k = 2; k <= Math.min(n, 6); k++) orders *= k;
+    return sdp({ blocks: Array.from({ length: orders }, () => ({ size: d, hermitian: true })), constraints: d * d }, dense(d, 2 * n));
   },
   run(req, { tolerance }) {
     const p = readProbabilities(req.probabilities);

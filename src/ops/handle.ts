@@ -2,26 +2,32 @@
  * `handle(request)`: one plain-data request in, one plain-data answer out (PROTOCOL.md, "Requests and
  * answers"). Every surface (command, worker, embed, kernel bridge, sweeps) calls this and nothing else.
  *
- * Steps: check the request is an object with a known "op"; validate it with ajv against the op's argument
- * schema plus the common fields ("tolerance", "base", "id"); run the op; turn a RhoError into a failure
- * answer and any other exception into 'internal-error' (a short message, never a stack trace); walk the
- * result so that ±Infinity becomes "Infinity"/"-Infinity", typed arrays become lists, and a NaN anywhere
- * turns the whole answer into 'internal-error' (NaN must never reach a user). "id" is echoed back so batch
- * users can match answers to requests.
+ * Steps: check the request is an object with a known "op"; check the sizes of every matrix, ket and
+ * the request's expression strings against the limits (sizes.ts: the same 'too-large' in every form);
+ * validate it with ajv against the op's argument schema plus the common fields; estimate the op's cost
+ * from the request's sizes (the op's `cost`, src/ops/cost.ts) and refuse it with 'too-large' above the
+ * limits of src/limits.ts; run the op within its deadline (the request's "deadline" in milliseconds, or
+ * the caller's default; src/deadline.ts); turn a RhoError into a failure answer and any other exception
+ * into 'internal-error' (a short message, never a stack trace); walk the result so that ±Infinity
+ * becomes "Infinity"/"-Infinity", typed arrays become lists, and a NaN anywhere turns the whole answer
+ * into 'internal-error' (NaN must never reach a user). "id" is echoed back so batch users can match
+ * answers to requests.
  *
  * Deliberately not here: numerics (ops do that), JSON text (callers parse and print), and any I/O.
  * Cost: schema compilation once per op (cached), then validation linear in the size of the request.
  */
-import Ajv2020Module from 'ajv/dist/2020.js';
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import { RhoError, type ErrorCode } from '../errors.js';
 import { EigenSolverError } from '../linalg/eigh.js';
 import { DEFAULT_TOLERANCE } from '../quantum/validate.js';
+import { withDeadline } from '../deadline.js';
+import { overLimits, type CostEstimate } from '../limits.js';
 import { getOp, listOps, type OpContext, type OpDefinition } from './registry.js';
 import { writeMatrix } from './codec.js';
-
-// ajv is CommonJS; under NodeNext its default export arrives as the module object.
-const Ajv2020 = ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
+import { checkRequestSizes, type RequestSizes } from './sizes.js';
+import { dense } from './cost.js';
+import { validators as precompiled } from './validators.generated.js';
+import { expressionReaderLoaded, loadExpressionReader } from './expressions.js';
 
 /** Every error code an answer can carry (kept equal to ErrorCode in src/errors.ts by the type check below). */
 export const ERROR_CODES = [
@@ -35,6 +41,17 @@ void _allCodesListed;
 
 /** Default logarithm base (bits). */
 export const DEFAULT_BASE = 2;
+
+/** Deadline of a request that gives none and whose caller sets no other default, in milliseconds. */
+export const DEFAULT_DEADLINE_MS = 60_000;
+/** Largest deadline a request may ask for (one day), in milliseconds. */
+export const MAX_DEADLINE_MS = 86_400_000;
+
+/** What a caller of `handle` may set for the requests it passes on. */
+export interface HandleOptions {
+  /** Deadline in milliseconds for requests without a "deadline" field (default DEFAULT_DEADLINE_MS). */
+  defaultDeadline?: number;
+}
 
 export interface ErrorInfo {
   code: ErrorCode;
@@ -63,9 +80,21 @@ export const COMMON_FIELDS = {
     description: 'Any string or number; echoed back in the answer so batch users can match answers to requests.',
     type: ['string', 'number'],
   },
+  deadline: {
+    description: `Milliseconds the op may run; past it the op stops with 'deadline-exceeded' (iterative methods and the SDP solver say how far they got). Default ${DEFAULT_DEADLINE_MS} for the command and the engine, at most ${MAX_DEADLINE_MS}.`,
+    type: 'number',
+    exclusiveMinimum: 0,
+    maximum: MAX_DEADLINE_MS,
+  },
 } as const;
 
-/** The full JSON Schema of a request for one op: its arguments, "op" and the common fields. */
+/** The common fields an op accepts: "tolerance" unless it validates nothing, "base" only when it uses logarithms. */
+export function commonFieldsOf(def: OpDefinition): Partial<typeof COMMON_FIELDS> {
+  const { tolerance, base, ...always } = COMMON_FIELDS;
+  return { ...(def.tolerance === false ? {} : { tolerance }), ...(def.base === true ? { base } : {}), ...always };
+}
+
+/** The full JSON Schema of a request for one op: its arguments, "op" and the common fields it accepts. */
 export function requestSchema(def: OpDefinition): Record<string, unknown> {
   const { type: _type, properties, required, additionalProperties, ...rest } = def.args;
   return {
@@ -73,30 +102,57 @@ export function requestSchema(def: OpDefinition): Record<string, unknown> {
     description: def.summary,
     ...rest,
     type: 'object',
-    properties: { op: { const: def.name }, ...properties, ...COMMON_FIELDS },
+    properties: { op: { const: def.name }, ...properties, ...commonFieldsOf(def) },
     required: ['op', ...(required ?? [])],
     additionalProperties: additionalProperties ?? false,
   };
 }
 
-let ajv: InstanceType<typeof Ajv2020> | undefined;
-const validators = new Map<string, ValidateFunction>();
+/**
+ * ajv's options, for the precompiled validators (scripts/write-schema.ts) and the fallback compiler alike.
+ * strict: unknown keywords in an op's schema are a programming error caught at generation (and by the
+ * schema test); logger off so nothing is ever printed to the console.
+ */
+export const AJV_OPTIONS = {
+  allErrors: false, strict: true, strictTypes: false, strictTuples: false, strictRequired: false, logger: false,
+} as const;
 
+const validators = new Map<string, ValidateFunction>();
+let fallback: { compile(schema: object): ValidateFunction } | undefined;
+
+/**
+ * The validator of an op's requests: the precompiled one (src/ops/validators.generated.ts, written by
+ * `npm run schema`), or, for an op registered after the file was generated (tests, an op not yet in the
+ * file), one compiled by ajv, which is loaded only then and only in Node (ajv compiles with
+ * `new Function`, which browsers under a strict CSP refuse; there every op is precompiled).
+ */
 function validatorFor(def: OpDefinition): ValidateFunction {
   let v = validators.get(def.name);
-  if (!v) {
-    // strict: unknown keywords in an op's schema are a programming error caught at first use (and by the
-    // schema test, which compiles every op); logger off so nothing is ever printed to the console.
-    ajv ??= new Ajv2020({ allErrors: false, verbose: true, strict: true, strictTypes: false, strictTuples: false, strictRequired: false, logger: false });
-    v = ajv.compile(requestSchema(def));
-    validators.set(def.name, v);
+  if (v) return v;
+  const ready = (precompiled as unknown as Record<string, ValidateFunction | undefined>)[def.name];
+  if (ready) v = ready;
+  else {
+    fallback ??= loadAjv();
+    v = fallback.compile(requestSchema(def));
   }
+  validators.set(def.name, v);
   return v;
 }
 
-/** Compile every registered op's schema (throws on an invalid schema); for tests and the schema script. */
+function loadAjv(): { compile(schema: object): ValidateFunction } {
+  const nodeModule = (globalThis as { process?: { getBuiltinModule?: (id: string) => unknown } }).process?.getBuiltinModule?.('node:module') as
+    | { createRequire(from: string): (id: string) => unknown }
+    | undefined;
+  if (!nodeModule) throw new Error('no precompiled validator for this op, and ajv cannot be loaded here; run `npm run schema`');
+  const mod = nodeModule.createRequire(import.meta.url)('ajv/dist/2020.js') as { default?: unknown };
+  const Ajv = (mod.default ?? mod) as new (options: object) => { compile(schema: object): ValidateFunction };
+  return new Ajv(AJV_OPTIONS);
+}
+
+/** Compile every registered op's schema with ajv (throws on an invalid schema); for tests and the schema script. */
 export function compileAll(): void {
-  for (const def of listOps()) validatorFor(def);
+  fallback ??= loadAjv();
+  for (const def of listOps()) fallback.compile(requestSchema(def));
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -126,7 +182,7 @@ function typeWords(t: unknown): string {
   return list.map((x) => words[String(x)] ?? String(x)).join(' or ');
 }
 
-function schemaError(errors: ErrorObject[], def: OpDefinition): RhoError {
+function schemaError(errors: ErrorObject[], def: OpDefinition, request: unknown): RhoError {
   // Within anyOf, ajv reports every branch's failure; the deepest one is nearly always the one meant.
   let best = errors[0];
   for (const e of errors) if (e.instancePath.split('/').length > best.instancePath.split('/').length) best = e;
@@ -136,9 +192,9 @@ function schemaError(errors: ErrorObject[], def: OpDefinition): RhoError {
   // When no branch of an anyOf got deeper than the anyOf itself, its description says best what is wanted.
   // (ajv reports an enclosing anyOf after the ones nested in it, so the last one is the outermost.)
   const alternatives = [...errors].reverse().find((e) => (e.keyword === 'anyOf' || e.keyword === 'oneOf') && e.instancePath === best.instancePath);
-  const wanted = (alternatives?.parentSchema as { description?: string } | undefined)?.description;
+  const wanted = alternatives ? descriptionAt(requestSchema(def), request, best.instancePath) : undefined;
   if (alternatives && wanted && best.keyword !== 'required' && best.keyword !== 'additionalProperties' && best.keyword !== 'maxItems') {
-    const data = alternatives.data;
+    const data = dataAt(request, best.instancePath);
     const got = data === null ? 'null' : Array.isArray(data) ? 'a list' : typeof data === 'object' ? 'an object' : `the ${typeof data} ${clip(JSON.stringify(data), 40)}`;
     return new RhoError('invalid-argument', `${where} is not valid (it is ${got}). Expected: ${wanted}`, at);
   }
@@ -148,9 +204,16 @@ function schemaError(errors: ErrorObject[], def: OpDefinition): RhoError {
       return new RhoError('missing-argument', `The field ${path} is required${at === '' ? ` by the op ${def.name}` : ''}.`, path);
     }
     case 'additionalProperties': {
-      const path = join(at, String(p.additionalProperty));
-      const known = at === '' ? [...Object.keys(def.args.properties), ...Object.keys(COMMON_FIELDS)] : [];
+      const field = String(p.additionalProperty);
+      const path = join(at, field);
+      const known = at === '' ? [...Object.keys(def.args.properties), ...Object.keys(commonFieldsOf(def))] : [];
       const hint = known.length ? ` The op ${def.name} takes: ${known.join(', ')}.` : '';
+      if (at === '' && field === 'base' && def.base !== true) {
+        return new RhoError('invalid-argument', `The op ${def.name} does not use "base": its answer has no logarithm.${hint}`, path);
+      }
+      if (at === '' && field === 'tolerance' && def.tolerance === false) {
+        return new RhoError('invalid-argument', `The op ${def.name} does not use "tolerance": it validates no state or channel.${hint}`, path);
+      }
       return new RhoError('invalid-argument', `Unknown field ${path}.${hint}`, path);
     }
     case 'maxItems':
@@ -168,6 +231,40 @@ function schemaError(errors: ErrorObject[], def: OpDefinition): RhoError {
     default:
       return new RhoError('invalid-argument', `${where} ${best.message ?? 'is not valid'}.`, at);
   }
+}
+
+function segments(pointer: string): string[] {
+  return pointer === '' ? [] : pointer.slice(1).split('/').map((seg) => seg.replace(/~1/g, '/').replace(/~0/g, '~'));
+}
+
+/** The value at a JSON pointer of the request (undefined when there is none). */
+function dataAt(request: unknown, pointer: string): unknown {
+  let v: unknown = request;
+  for (const seg of segments(pointer)) v = typeof v === 'object' && v !== null ? (v as Record<string, unknown>)[seg] : undefined;
+  return v;
+}
+
+/**
+ * The description of the alternatives (anyOf) that the schema offers at a JSON pointer of the request,
+ * found by walking the op's schema along the request (the precompiled validators carry no schemas): at
+ * each anyOf, the branch that fits the data's kind (list or object) and has the next segment is taken.
+ */
+function descriptionAt(schema: unknown, request: unknown, pointer: string): string | undefined {
+  type Node = { description?: string; anyOf?: Node[]; properties?: Record<string, Node>; items?: Node; type?: unknown };
+  let node = schema as Node | undefined;
+  let data: unknown = request;
+  const fits = (n: Node, seg: string | undefined, v: unknown): boolean => {
+    if (seg === undefined) return true;
+    if (Array.isArray(v)) return n.items !== undefined;
+    return n.properties !== undefined && seg in n.properties;
+  };
+  for (const seg of segments(pointer)) {
+    while (node?.anyOf) node = node.anyOf.find((n) => fits(n, seg, data));
+    if (!node) return undefined;
+    node = Array.isArray(data) ? node.items : node.properties?.[seg];
+    data = typeof data === 'object' && data !== null ? (data as Record<string, unknown>)[seg] : undefined;
+  }
+  return node?.anyOf ? node.description : undefined;
 }
 
 /** Edit distance, for suggesting op names. */
@@ -266,11 +363,21 @@ function clip(s: string, n = 200): string {
   return s.length > n ? `${s.slice(0, n)}…` : s;
 }
 
+/** The estimate of an op without its own `cost`: a few dense steps on its largest matrix. */
+function fallbackCost(sizes: RequestSizes): CostEstimate {
+  return dense(Math.max(1, sizes.largestSide), 4, 'four dense steps (this op declares no cost of its own)');
+}
+
+/** A RangeError from an allocation the estimates did not foresee: the request was too large after all. */
+function isAllocationFailure(err: unknown): boolean {
+  return err instanceof RangeError && /Invalid typed array length|Array buffer allocation failed|Invalid array length|allocation/i.test(err.message);
+}
+
 /**
  * Answer one request. Never throws: every failure, including a bug in an op, becomes a failure answer.
  * The answer is plain data (JSON.stringify-safe, no NaN).
  */
-export function handle(request: unknown): Answer {
+export function handle(request: unknown, options: HandleOptions = {}): Answer {
   if (typeof request !== 'object' || request === null || Array.isArray(request)) {
     return failure(null, undefined, {
       code: 'invalid-argument',
@@ -296,14 +403,19 @@ export function handle(request: unknown): Answer {
     return failure(opName.slice(0, 100), id, { code: 'unknown-op', message: `There is no op "${clip(opName, 100)}". ${hint}`, path: 'op' });
   }
   try {
+    const sizes = checkRequestSizes(req);
     const validate = validatorFor(def);
-    if (!validate(req)) throw schemaError(validate.errors ?? [], def);
+    if (!validate(req)) throw schemaError(validate.errors ?? [], def, req);
     if (req.base === 1) throw new RhoError('invalid-argument', 'The logarithm base must not be 1.', 'base');
+    const estimate = def.cost ? def.cost(req) : fallbackCost(sizes);
+    const refusal = overLimits(estimate);
+    if (refusal) throw refusal;
     const context: OpContext = {
       tolerance: typeof req.tolerance === 'number' ? req.tolerance : DEFAULT_TOLERANCE,
       base: req.base === 'e' ? Math.E : typeof req.base === 'number' ? req.base : DEFAULT_BASE,
     };
-    const result = def.run(req, context);
+    const deadline = typeof req.deadline === 'number' ? req.deadline : (options.defaultDeadline ?? DEFAULT_DEADLINE_MS);
+    const result = withDeadline(deadline, () => def.run(req, context));
     if (typeof result !== 'object' || result === null || !('value' in result)) {
       throw new NotPlain('', 'a result without "value"');
     }
@@ -325,10 +437,47 @@ export function handle(request: unknown): Answer {
     if (err instanceof EigenSolverError) {
       return failure(opName, id, { code: 'solver-failed', message: `The eigensolver failed: ${clip(err.message)}.` });
     }
+    if (isAllocationFailure(err)) {
+      return failure(opName, id, {
+        code: 'too-large',
+        message: `The op ${opName} needed more memory than could be allocated (${clip((err as Error).message)}); the request is too large for this engine, although its estimate was within the limits.`,
+      });
+    }
     const what = err instanceof Error ? `${err.name}: ${clip(err.message)}` : clip(String(err));
     return failure(opName, id, {
       code: 'internal-error',
       message: `The op ${opName} failed unexpectedly (${what}); this is a bug in the engine.`,
     });
   }
+}
+
+/** Whether a request holds a string anywhere but in "op" and "id" (it may need the expression reader). */
+function holdsStrings(v: unknown, depth: number): boolean {
+  if (typeof v === 'string') return true;
+  if (depth > 12 || typeof v !== 'object' || v === null) return false;
+  if (Array.isArray(v)) {
+    for (const x of v) if (holdsStrings(x, depth + 1)) return true;
+    return false;
+  }
+  for (const [k, x] of Object.entries(v)) {
+    if (depth === 0 && (k === 'op' || k === 'id')) continue;
+    if (holdsStrings(x, depth + 1)) return true;
+  }
+  return false;
+}
+
+/**
+ * `handle` for engines where the expression reader cannot load synchronously (browsers, workers): loads
+ * it first when the request holds a string that may be an expression, then answers. In Node `handle`
+ * alone is enough.
+ */
+export async function handleAsync(request: unknown, options: HandleOptions = {}): Promise<Answer> {
+  if (!expressionReaderLoaded() && holdsStrings(request, 0)) {
+    try {
+      await loadExpressionReader();
+    } catch {
+      // handle() then answers with the reader's own error for the expression that needs it.
+    }
+  }
+  return handle(request, options);
 }

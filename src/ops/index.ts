@@ -4,7 +4,9 @@
  */
 import './all.js';
 
-export { handle, requestSchema, COMMON_FIELDS, DEFAULT_BASE, type Answer, type ErrorInfo } from './handle.js';
+export {
+  handle, handleAsync, requestSchema, COMMON_FIELDS, DEFAULT_BASE, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer, type ErrorInfo, type HandleOptions,
+} from './handle.js';
 export { listOps, getOp, defineOp, type OpDefinition, type OpContext, type OpResult } from './registry.js';
 export * as codec from './codec.js';
-export { readExpression, MAX_EXPRESSION_LENGTH } from './expressions.js';
+export { readExpression, MAX_EXPRESSION_LENGTH, loadExpressionReader } from './expressions.js';

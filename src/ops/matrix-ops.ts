@@ -15,6 +15,7 @@ import { defineOp } from './registry.js';
 import {
   readDims, readHermitian, readLabels, readSquareMatrix, readSystems, schemas, writeComplexMatrix, writeMatrix,
 } from './codec.js';
+import { dense, plain, sideOf } from './cost.js';
 
 defineOp({
   name: 'spectrum',
@@ -27,6 +28,7 @@ defineOp({
     },
     required: ['matrix'],
   },
+  cost: (req) => dense(sideOf(req.matrix), 1, 'one eigendecomposition'),
   run(req, { tolerance }) {
     const m = readHermitian(req.matrix, 'matrix', tolerance);
     const wantVectors = req.vectors === true;
@@ -40,6 +42,11 @@ defineOp({
     return out;
   },
 });
+
+/** The cost of reading, rearranging and writing an n×n matrix. */
+function rearrangement(n: number) {
+  return plain(16 * n * n, 64 * n * n, `rearranging a ${n}×${n} matrix`);
+}
 
 /** Matrix, dims and labels of a subsystem op's request. */
 function readLayout(req: Record<string, any>) {
@@ -67,6 +74,8 @@ defineOp({
     },
     required: ['matrix', 'dims'],
   },
+  tolerance: false,
+  cost: (req) => rearrangement(sideOf(req.matrix)),
   run(req) {
     const { matrix, dims, labels } = readLayout(req);
     if ((req.over === undefined) === (req.keep === undefined)) {
@@ -100,6 +109,8 @@ defineOp({
     properties: { ...layoutArgs, on: { ...schemas.systems, description: 'The subsystems transposed.' } },
     required: ['matrix', 'dims', 'on'],
   },
+  tolerance: false,
+  cost: (req) => rearrangement(sideOf(req.matrix)),
   run(req) {
     const { matrix, dims, labels } = readLayout(req);
     const on = readSystems(req.on, 'on', dims.length, { labels });
@@ -120,6 +131,8 @@ defineOp({
     },
     required: ['matrix', 'dims', 'order'],
   },
+  tolerance: false,
+  cost: (req) => rearrangement(sideOf(req.matrix)),
   run(req) {
     const { matrix, dims, labels } = readLayout(req);
     const order = readSystems(req.order, 'order', dims.length, { labels });

@@ -24,13 +24,14 @@ import { hypothesisTestingDivergence } from '../oneshot/hypothesis-testing.js';
 import { smoothMaxRelativeEntropy } from '../oneshot/smooth-max.js';
 import { conditionalMinEntropy, conditionalMaxEntropy } from '../oneshot/conditional-min-max.js';
 import { maxInformation } from '../oneshot/max-information.js';
-import type { SdpCertificate } from '../oneshot/sdp-support.js';
+import type { LegacyCertificate } from '../sdp/support.js';
 import { defineOp, type OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate,
   writeMatrix, writeNumber,
 } from './codec.js';
 import { extraDivergenceFamilies } from './entropy-ops.js';
+import { dense, groupDimension, sdp, sideOf } from './cost.js';
 
 /** Largest matrix side for D_H (d² + 1 constraints). */
 export const MAX_HYPOTHESIS_DIMENSION = 32;
@@ -106,6 +107,11 @@ defineOp({
     },
     required: ['rho', 'sigma', 'epsilon'],
   },
+  base: true,
+  cost: (req) => {
+    const n = sideOf(req.rho);
+    return sdp({ blocks: [{ size: 2 * n, hermitian: true }, { size: n, hermitian: true }, { size: n, hermitian: true }, { size: 3, vector: true }], constraints: 3 * n * n + 2 }, dense(n, 4));
+  },
   run(req, { tolerance, base }) {
     const rho = readState(req.rho, 'rho', tolerance).matrix;
     const sigma = readOperatorState(req.sigma, 'sigma', tolerance).matrix;
@@ -152,7 +158,7 @@ const bipartiteArgs = (bWhat: string) => ({
   required: ['rho', 'a', 'b'],
 });
 
-function sigmaAnswer(value: number, sigma: CMatrix, certificate: SdpCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
+function sigmaAnswer(value: number, sigma: CMatrix, certificate: LegacyCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
   return withNote({ value: writeNumber(value), sigma: writeMatrix(sigma), ...extra, certificate: writeCertificate(certificate), supportTolerance: tol }, note);
 }
 
@@ -161,6 +167,11 @@ defineOp({
   summary:
     'Conditional min-entropy H_min(A|B) = −log min{Tr σ_B : I_A ⊗ σ_B ⪰ ρ_AB} (an SDP), with the optimal σ_B (Tr σ_B = 2^{−H_min}) and the certificate.',
   args: bipartiteArgs('B (may be empty)'),
+  base: true,
+  cost: (req) => {
+    const [dA, dB] = [groupDimension(req.rho, req.a), groupDimension(req.rho, req.b)];
+    return sdp({ blocks: [{ size: dA * dB, hermitian: true }], constraints: dB * dB }, dense(sideOf(req.rho), 4));
+  },
   run(req, { tolerance, base }) {
     const { state, a, b, dA, dB } = readBipartite(req, tolerance, true);
     if (dA * dB > MAX_MIN_ENTROPY_DIMENSION) throw tooLarge('a', 'The dimension of AB', dA * dB, MAX_MIN_ENTROPY_DIMENSION);
@@ -175,6 +186,12 @@ defineOp({
   summary:
     'Conditional max-entropy H_max(A|B) = log max over states σ_B of F(ρ_AB, I_A ⊗ σ_B), F the squared fidelity (an SDP), with the optimal σ_B and the certificate.',
   args: bipartiteArgs('B (may be empty)'),
+  base: true,
+  cost: (req) => {
+    const [dA, dB] = [groupDimension(req.rho, req.a), groupDimension(req.rho, req.b)];
+    const n = dA * dB;
+    return sdp({ blocks: [{ size: 2 * n, hermitian: true }, { size: dB, hermitian: true }], constraints: 2 * n * n + 1 }, dense(sideOf(req.rho), 4));
+  },
   run(req, { tolerance, base }) {
     const { state, a, b, dA, dB } = readBipartite(req, tolerance, true);
     if (dA * dB > MAX_FIDELITY_SDP_DIMENSION) throw tooLarge('a', 'The dimension of AB', dA * dB, MAX_FIDELITY_SDP_DIMENSION);
@@ -189,6 +206,11 @@ defineOp({
   summary:
     'Max-information I_max(A:B) = min over states σ_B of D_max(ρ_AB ‖ ρ_A ⊗ σ_B) (an SDP on the support of ρ_A), with the optimal σ_B and the certificate.',
   args: bipartiteArgs('B'),
+  base: true,
+  cost: (req) => {
+    const [dA, dB] = [groupDimension(req.rho, req.a), groupDimension(req.rho, req.b)];
+    return sdp({ blocks: [{ size: dA * dB, hermitian: true }], constraints: dB * dB }, dense(sideOf(req.rho), 4));
+  },
   run(req, { tolerance, base }) {
     const { state, a, b, dA, dB } = readBipartite(req, tolerance, false);
     if (dA * dB > MAX_MIN_ENTROPY_DIMENSION) throw tooLarge('a', 'The dimension of AB', dA * dB, MAX_MIN_ENTROPY_DIMENSION);

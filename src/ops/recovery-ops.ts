@@ -17,6 +17,7 @@ import {
   readNumber, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate, writeMatrix, writeState,
   writeChannel,
 } from './codec.js';
+import { dense, groupDimension, sdp, sideOf } from './cost.js';
 import { petzRecovery } from '../recovery/petz.js';
 import { fidelityOfRecovery } from '../recovery/fidelity-of-recovery.js';
 import { toOriginalOrder, checkTripartiteGroups } from '../recovery/tripartite.js';
@@ -62,6 +63,7 @@ defineOp({
     },
     required: ['rho', 'a', 'b', 'c'],
   },
+  cost: (req) => dense(sideOf(req.rho), 8),
   run(req, { tolerance }): OpResult {
     const g = readGroupedState(req, tolerance);
     const t = req.t === undefined ? 0 : readNumber(req.t, 't');
@@ -85,6 +87,11 @@ defineOp({
   summary:
     'Fidelity of recovery F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (squared, with the root), by an SDP over the Choi matrix of R; plus the optimal channel, the fidelity it achieves (closed form) and the certificate.',
   args: { type: 'object', properties: { ...groupArgs }, required: ['rho', 'a', 'b', 'c'] },
+  cost: (req) => {
+    const [dA, dB, dC] = [req.a, req.b, req.c].map((g) => groupDimension(req.rho, g));
+    const n = dA * dB * dC;
+    return sdp({ blocks: [{ size: 2 * n, hermitian: true }, { size: dB * dB * dC, hermitian: true }], constraints: 2 * n * n + dB * dB }, dense(sideOf(req.rho), 6));
+  },
   run(req, { tolerance }): OpResult {
     const g = readGroupedState(req, tolerance);
     const f = fidelityOfRecovery(g.state.matrix, g.state.dims, g.a, g.b, g.c, { tol: g.supportTolerance });

@@ -18,6 +18,7 @@
  * Deliberately not here: the optimised sandwiched entropy at α = ∞ (the conditional min-entropy, an
  * SDP). Cost: eigendecompositions of the marginals, O(d^3); the sandwiched iteration a few per step.
  */
+import { checkDeadline } from '../deadline.js';
 import { CMatrix, kron, identity, mul, adjoint, zeros, hermitianPart } from '../linalg/cmatrix.js';
 import { eigh, eigvalsh } from '../linalg/eigh.js';
 import { marginal, partialTrace, product } from '../linalg/subsystems.js';
@@ -324,6 +325,10 @@ function sandwichedOptimised(
   let flat = 0;
   const p = ((alpha - 1) * (alpha - 1)) / (2 * alpha);
   while (iterations < maxIterations) {
+    // The request's deadline (src/deadline.ts): the current σ_B gives a lower bound, within gapBound of the optimum.
+    checkDeadline('the optimised sandwiched conditional Rényi entropy', () => ({
+      iterations, lowerBound: entropyOf(cur.Q) / lb, upperBound: entropyOf(cur.Q) / lb + gapBound,
+    }), () => `after ${iterations} iterations it lay between ${entropyOf(cur.Q) / lb} and ${entropyOf(cur.Q) / lb + gapBound}`);
     if (gapBound <= gapTolerance) {
       stoppingRule = `certified gap bound ${gapBound.toExponential(2)} <= ${gapTolerance}`;
       break;

@@ -49,6 +49,7 @@
  * Cost: O(m³) per function evaluation (m = rank σ), O(m² · memory) per L-BFGS step; a few hundred
  * steps for well-conditioned inputs.
  */
+import { checkDeadline } from '../deadline.js';
 import { CMatrix, zeros, adjoint, mul, hermitianPart } from '../linalg/cmatrix.js';
 import { eigh } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
@@ -216,6 +217,8 @@ function ascend(rhoS: CMatrix, sigmaS: CMatrix, beta: number, unitTrace: boolean
   let finalChange = 0;
   let stall = 0;
   while (iterations < maxIterations) {
+    // The request's deadline (src/deadline.ts), polled once per step.
+    checkDeadline('the ascent of the measured divergence', () => ({ iterations }), () => `it had taken ${iterations} steps`);
     const gnorm = Math.sqrt(dot(cur.grad, cur.grad));
     if (gnorm <= gtol) {
       stoppingRule = `gradient norm ${gnorm.toExponential(2)} <= ${gtol}`;

@@ -17,6 +17,11 @@
  * - group twirl: X ↦ (1/|G|) Σ_g U_g X U_g*; group closure is not checked (the map is a mixed-unitary
  *   channel for any list of unitaries; it is the projection onto the commutant only for a group).
  *
+ * Every preset checks the size of what it would build against the engine's limits (src/limits.ts:
+ * at most 1024 Kraus operators, sides of at most 1024, 4 194 304 Kraus entries) before allocating
+ * anything, with 'too-large' naming the parameter, so that a preset never builds what the engine
+ * would refuse as input.
+ *
  * Deliberately not here: conversions and application (channels.ts), plain-data parsing (ops/).
  * Cost: each preset is O(r · d_in d_out) to build for r Kraus operators, plus the checks of user-given
  * matrices (unitarity O(d³) each, POVM/projector checks one eigendecomposition each).
@@ -30,6 +35,7 @@ import { RhoError } from '../errors.js';
 import type { Channel } from './types.js';
 import { checkDensityMatrix, checkHermitian, checkPositive, DEFAULT_TOLERANCE } from './validate.js';
 import { checkDimList, checkInteger, checkNumber, checkSystemList } from './arguments.js';
+import { checkKrausFamily } from '../limits.js';
 
 /** The Weyl operator W_ab = X^a Z^b on C^d: W_ab|j⟩ = ω^{bj} |j + a mod d⟩, ω = e^{2πi/d}. */
 export function weylOperator(d: number, a: number, b: number): CMatrix {
@@ -48,6 +54,7 @@ export function depolarizing(d: number, p: number): Channel {
   checkInteger(d, 'd');
   const pmax = d === 1 ? 1 : (d * d) / (d * d - 1);
   checkNumber(p, 'p', { min: 0, max: pmax });
+  checkKrausFamily(p > 0 ? d * d : 1, d, d, 'd');
   const kraus: CMatrix[] = [];
   const w0 = Math.max(0, 1 - p + p / (d * d));
   if (w0 > 0) kraus.push(scale(identity(d), Math.sqrt(w0)));
@@ -63,6 +70,7 @@ export function depolarizing(d: number, p: number): Channel {
 export function dephasing(d: number, p: number): Channel {
   checkInteger(d, 'd');
   checkNumber(p, 'p', { min: 0, max: 1 });
+  checkKrausFamily((p < 1 ? 1 : 0) + (p > 0 ? d : 0), d, d, 'd');
   const kraus: CMatrix[] = [];
   if (p < 1) kraus.push(scale(identity(d), Math.sqrt(1 - p)));
   if (p > 0) {
@@ -109,6 +117,7 @@ export function generalizedAmplitudeDamping(gamma: number, N: number): Channel {
 export function erasure(d: number, p: number): Channel {
   checkInteger(d, 'd');
   checkNumber(p, 'p', { min: 0, max: 1 });
+  checkKrausFamily(d + 1, d + 1, d, 'd');
   const kraus: CMatrix[] = [];
   const K0 = zeros(d + 1, d);
   for (let i = 0; i < d; i++) K0.re[i * d + i] = Math.sqrt(1 - p);
@@ -156,6 +165,8 @@ export function partialTraceChannel(dims: readonly number[], traceOut: readonly 
   }
   const out = new Set(traceOut);
   const keep = d.map((_, k) => k).filter((k) => !out.has(k));
+  const traced = product(traceOut.map((k) => d[k]));
+  checkKrausFamily(traced, product(d) / traced, product(d), 'dims');
   const offK = offsets(d, keep);
   const offT = offsets(d, [...traceOut].sort((a, b) => a - b));
   const D = product(d);
@@ -230,10 +241,10 @@ export function measurePrepare(
   const outD = toDims ? checkDimList(toDims, 'toDims') : [dOut];
   if (product(inD) !== dIn) throw new RhoError('dimension-mismatch', `fromDims multiply to ${product(inD)}, the POVM acts on dimension ${dIn}.`, 'fromDims');
   if (product(outD) !== dOut) throw new RhoError('dimension-mismatch', `toDims multiply to ${product(outD)}, the states have dimension ${dOut}.`, 'toDims');
+  const factors = povm.map((M, x) => ({ ms: psdFactors(M, tolerance), ss: psdFactors(states[x], tolerance) }));
+  checkKrausFamily(factors.reduce((s, f) => s + f.ms.length * f.ss.length, 0), dOut, dIn, 'povm');
   const kraus: CMatrix[] = [];
-  povm.forEach((M, x) => {
-    const ms = psdFactors(M, tolerance);
-    const ss = psdFactors(states[x], tolerance);
+  factors.forEach(({ ms, ss }) => {
     for (const m of ms) {
       for (const s of ss) {
         // |s⟩⟨m| with the square-root weights already inside both vectors.
@@ -284,7 +295,8 @@ export function pinchingByProjectors(projectors: readonly CMatrix[], tolerance =
  * dimension `basis` when a number): ρ ↦ Σ_i |u_i⟩⟨u_i| ρ |u_i⟩⟨u_i|.
  */
 export function pinchingInBasis(basis: CMatrix | number, tolerance = DEFAULT_TOLERANCE, dims?: readonly number[]): Channel {
-  const U = typeof basis === 'number' ? identity(checkInteger(basis, 'd')) : basis;
+  if (typeof basis === 'number') checkKrausFamily(checkInteger(basis, 'd'), basis, basis, 'd');
+  const U = typeof basis === 'number' ? identity(basis) : basis;
   checkUnitary(U, tolerance, 'basis');
   const n = U.rows;
   const projectors: CMatrix[] = [];
@@ -322,6 +334,7 @@ export function conditionalExpectation(
     throw new RhoError('dimension-mismatch', `There are ${n.length} block sizes but ${m.length} multiplicities.`, 'multiplicities');
   }
   const D = n.reduce((s, nk, k) => s + nk * m[k], 0);
+  checkKrausFamily(m.reduce((s, mk) => s + mk * mk, 0), D, D, 'blocks');
   if (basis) {
     checkUnitary(basis, tolerance, 'basis');
     if (basis.rows !== D) throw new RhoError('dimension-mismatch', `The basis is ${basis.rows}x${basis.rows}; the blocks need dimension ${D}.`, 'basis');

@@ -27,6 +27,7 @@ import { RhoError } from '../errors.js';
 import type { State } from './types.js';
 import { checkDims, checkHermitian, DEFAULT_TOLERANCE } from './validate.js';
 import { checkDimList, checkInteger, checkNumber, checkProbabilities, checkSystemList } from './arguments.js';
+import { checkSide } from '../limits.js';
 
 function defaultDims(n: number, dims?: readonly number[]): number[] {
   return dims ? [...dims] : [n];
@@ -94,6 +95,7 @@ export function mixture(weights: readonly number[], states: readonly State[], to
 export function maximallyMixed(dims: number | readonly number[]): State {
   const d = typeof dims === 'number' ? [checkInteger(dims, 'd')] : checkDimList(dims, 'dims');
   const n = product(d);
+  checkSide(n, typeof dims === 'number' ? 'd' : 'dims');
   return { matrix: scale(identity(n), 1 / n), dims: d };
 }
 
@@ -107,6 +109,7 @@ export function maximallyEntangledKet(d: number): CMatrix {
 
 /** |Φ⟩⟨Φ| on C^d ⊗ C^d with |Φ⟩ = d^{-1/2} Σ_i |ii⟩. */
 export function maximallyEntangled(d: number): State {
+  checkSide(checkInteger(d, 'd') ** 2, 'd');
   const v = maximallyEntangledKet(d);
   return { matrix: mul(v, adjoint(v)), dims: [d, d] };
 }
@@ -126,6 +129,7 @@ export function swapOperator(d: number): CMatrix {
 export function wernerState(d: number, p: number): State {
   checkInteger(d, 'd', 2);
   checkNumber(p, 'p', { min: 0, max: 1 });
+  checkSide(d * d, 'd');
   const n = d * d;
   const I = identity(n);
   const F = swapOperator(d);
@@ -141,6 +145,7 @@ export function wernerState(d: number, p: number): State {
 export function isotropicState(d: number, fidelity: number): State {
   checkInteger(d, 'd', 2);
   checkNumber(fidelity, 'fidelity', { min: 0, max: 1 });
+  checkSide(d * d, 'd');
   const n = d * d;
   const phi = maximallyEntangled(d).matrix;
   const rest = scale(combine([1, -1], [identity(n), phi]), 1 / (n - 1));
@@ -161,6 +166,7 @@ export function ghzKet(n: number, d = 2): CMatrix {
 }
 
 export function ghzState(n: number, d = 2): State {
+  checkSide(checkInteger(d, 'd', 2) ** checkInteger(n, 'n', 1), 'n');
   const v = ghzKet(n, d);
   return { matrix: mul(v, adjoint(v)), dims: new Array<number>(n).fill(d) };
 }
@@ -176,6 +182,7 @@ export function wKet(n: number): CMatrix {
 }
 
 export function wState(n: number): State {
+  checkSide(2 ** checkInteger(n, 'n', 2), 'n');
   const v = wKet(n);
   return { matrix: mul(v, adjoint(v)), dims: new Array<number>(n).fill(2) };
 }

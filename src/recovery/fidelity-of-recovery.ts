@@ -40,7 +40,7 @@ import {
 } from '../sdp/index.js';
 import {
   ACCEPT_INACCURATE_LOOSE, acceptAnswer, inverseRootOnSupport, realPartEntries, solverCertificate, type SolverCertificate,
-} from '../oneshot/sdp-support.js';
+} from '../sdp/support.js';
 import { supportOf, diagonalBlockConstraints } from '../oneshot/fidelity-sdp.js';
 import { tripartite, type Tripartite } from './tripartite.js';
 import { reduceLast } from './petz.js';

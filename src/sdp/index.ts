@@ -63,6 +63,8 @@
  * Does not: accept inequality rows directly, second-order or exponential cones, warm starts.
  */
 export { solveSdp, DEFAULT_OPTIONS } from './solver.js';
+export * from './support.js';
+export { sdpCost, shapeOf, checkSdpLimits, SDP_TYPICAL_ITERATIONS, type SdpShape } from './cost.js';
 export { compile, GLOBAL_ATOM_THRESHOLD } from './compile.js';
 export { partialTraceConstraints, matrixCoordinates, coordinateEntry, coordinateValue } from './build.js';
 export type { Coordinate, PartialTraceSpec } from './build.js';

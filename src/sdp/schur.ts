@@ -23,29 +23,9 @@
  * it is a plain dense Cholesky of M, still correct).
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
-import { backSolveT1, choleskyInPlaceGuarded, forwardSolve, forwardSolve1 } from './dense.js';
+import { backSolveT1, choleskyInPlaceGuarded, forwardSolve, forwardSolve1 } from '../linalg/dense.js';
+import { cMul } from '../linalg/dense-complex.js';
 import type { Compiled } from './compile.js';
-
-/** (Ur + i Ui) = (Ar + i Ai)(Br + i Bi), n×n row-major; outputs must not alias inputs. */
-function complexMul(ar: Float64Array, ai: Float64Array, br: Float64Array, bi: Float64Array, n: number, ur: Float64Array, ui: Float64Array): void {
-  ur.fill(0, 0, n * n);
-  ui.fill(0, 0, n * n);
-  for (let i = 0; i < n; i++) {
-    const io = i * n;
-    for (let k = 0; k < n; k++) {
-      const xr = ar[io + k];
-      const xi = ai[io + k];
-      if (xr === 0 && xi === 0) continue;
-      const ko = k * n;
-      for (let j = 0; j < n; j++) {
-        const yr = br[ko + j];
-        const yi = bi[ko + j];
-        ur[io + j] += xr * yr - xi * yi;
-        ui[io + j] += xr * yi + xi * yr;
-      }
-    }
-  }
-}
 
 /**
  * A Hermitian block's constraint coefficients, flat: constraint a's entries are ptr[a]..ptr[a+1]−1,
@@ -84,14 +64,10 @@ export class SchurSystem {
   // constraint, and complex scratch for W and W A W (size of the largest Hermitian block).
   private readonly hx: (HermitianEntries | null)[];
   private readonly sRow: Float64Array;
-  private readonly cWr: Float64Array;
-  private readonly cWi: Float64Array;
-  private readonly cTr: Float64Array;
-  private readonly cTi: Float64Array;
-  private readonly cAr: Float64Array;
-  private readonly cAi: Float64Array;
-  private readonly cUr: Float64Array;
-  private readonly cUi: Float64Array;
+  // Complex scratch in dense-complex.ts's layout (real parts, then imaginary parts).
+  private readonly cT: Float64Array;
+  private readonly cA: Float64Array;
+  private readonly cU: Float64Array;
   dependent = 0;
 
   constructor(cp: Compiled) {
@@ -158,14 +134,9 @@ export class SchurSystem {
     });
     const hmax = Math.max(1, ...cp.psd.filter((b) => b.complex).map((b) => b.n / 2));
     const hh = hmax * hmax;
-    this.cWr = new Float64Array(hh);
-    this.cWi = new Float64Array(hh);
-    this.cTr = new Float64Array(hh);
-    this.cTi = new Float64Array(hh);
-    this.cAr = new Float64Array(hh);
-    this.cAi = new Float64Array(hh);
-    this.cUr = new Float64Array(hh);
-    this.cUi = new Float64Array(hh);
+    this.cT = new Float64Array(2 * hh);
+    this.cA = new Float64Array(2 * hh);
+    this.cU = new Float64Array(2 * hh);
   }
 
   /**
@@ -194,18 +165,15 @@ export class SchurSystem {
     const IDX = E.idx;
     const grp = E.group;
     const loc = E.local;
-    const wr = this.cWr;
-    const wi = this.cWi;
-    // W arrives as the complex n×n scaling (complexdense.ts layout: real parts, then imaginary parts).
-    for (let e = 0; e < nn; e++) {
-      wr[e] = w[e];
-      wi[e] = w[nn + e];
-    }
+    // W arrives as the complex n×n scaling (dense-complex.ts layout: real parts, then imaginary parts).
+    const wr = w;
+    const wi = w.subarray(nn, 2 * nn);
     const suffix = this.sSuffix;
     suffix[mk] = 0;
     for (let a = mk - 1; a >= 0; a--) suffix[a] = suffix[a + 1] + ptr[a + 1] - ptr[a];
-    const Tr = this.cTr;
-    const Ti = this.cTi;
+    const T = this.cT;
+    const Tr = T;
+    const Ti = T.subarray(nn, 2 * nn);
     const row = this.sRow;
     for (let a = 0; a < mk; a++) {
       const a0 = ptr[a];
@@ -239,16 +207,14 @@ export class SchurSystem {
             }
           }
         } else {
-          const Ar = this.cAr;
-          const Ai = this.cAi;
-          Ar.fill(0, 0, nn);
-          Ai.fill(0, 0, nn);
+          const A = this.cA;
+          A.fill(0, 0, 2 * nn);
           for (let t = a0; t < a1; t++) {
-            Ar[P[t] * n + Q[t]] += RE[t];
-            Ai[P[t] * n + Q[t]] += IM[t];
+            A[P[t] * n + Q[t]] += RE[t];
+            A[nn + P[t] * n + Q[t]] += IM[t];
           }
-          complexMul(wr, wi, Ar, Ai, n, this.cUr, this.cUi);
-          complexMul(this.cUr, this.cUi, wr, wi, n, Tr, Ti);
+          cMul(w, A, n, this.cU);
+          cMul(this.cU, w, n, T);
         }
         // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r.
         for (let b = a; b < mk; b++) {

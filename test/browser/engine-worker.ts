@@ -10,18 +10,20 @@
  * What it does not do: cancel a batch, report progress, or stand in for the production worker of the
  * widgets; it is the thinnest adapter over `handle` there can be. Cost: that of the requests.
  */
-import { handle } from '../../src/ops/index.js';
+import { handleAsync } from '../../src/ops/index.js';
 import { eighWasmStatus } from '../../src/linalg/eigh-wasm.js';
 
 /** The parts of a dedicated worker's global scope used here (the project's TypeScript lib has no DOM types). */
 interface WorkerScope {
-  onmessage: ((event: { data: { batch: number; requests: unknown[] } }) => void) | null;
+  onmessage: ((event: { data: { batch: number; requests: unknown[] } }) => void | Promise<void>) | null;
   postMessage(message: unknown): void;
 }
 
 const scope = globalThis as unknown as WorkerScope;
-scope.onmessage = (event) => {
+scope.onmessage = async (event) => {
   const { batch, requests } = event.data;
-  const answers = requests.map((r) => handle(r));
+  const answers = [];
+  // handleAsync: in a browser the expression reader (mathjs) loads on first need, asynchronously.
+  for (const r of requests) answers.push(await handleAsync(r));
   scope.postMessage({ batch, answers, eigh: eighWasmStatus() });
 };

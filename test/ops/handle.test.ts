@@ -14,6 +14,7 @@ import { identity } from '../../src/linalg/index.js';
 defineOp({
   name: 'test-echo-context',
   summary: 'Returns its context (test only).',
+  base: true,
   args: { type: 'object', properties: { x: { type: 'number' }, inner: { type: 'object', properties: { y: { type: 'integer' } }, required: ['y'] } } },
   run: (_req, context) => ({ value: context.base, tolerance: context.tolerance }),
 });

@@ -1,7 +1,8 @@
-// The SDP solver's dense kernels (src/sdp/dense.ts) against closed forms and definitions.
+// The real dense kernels of src/linalg (dense.ts, smallest-eigenvalue.ts) against closed forms and definitions.
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { choleskyInPlaceGuarded, minEig } from '../../src/sdp/dense.js';
+import { choleskyInPlaceGuarded } from '../../src/linalg/dense.js';
+import { minEig } from '../../src/linalg/smallest-eigenvalue.js';
 import { rng, gaussian } from '../helpers/random.js';
 
 /** Q T Qᵀ with Q = 1 − 2 u uᵀ/‖u‖² (a Householder reflection: orthogonal, so the spectrum of T is kept). */
@@ -20,7 +21,7 @@ function reflect(t: Float64Array, n: number, u: number[]): Float64Array {
   return out;
 }
 
-describe('SDP dense kernels', () => {
+describe('real dense kernels (src/linalg)', () => {
   it('smallest eigenvalue of the second-difference matrix tridiag(−1, 2, −1) of size n is 2 − 2cos(π/(n+1)), also after an orthogonal change of basis (Strang, Introduction to Applied Mathematics, §1.5; recalled from memory)', () => {
     const r = rng(3);
     for (const n of [3, 5, 8, 16, 32]) {

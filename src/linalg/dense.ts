@@ -1,27 +1,20 @@
 /**
- * Small real dense kernels for the SDP solver's per-block work: products, Cholesky with a
- * dependent-row guard, the smallest eigenvalue (Householder tridiagonalization and bisection, for
- * step lengths), a cyclic Jacobi symmetric eigensolver and a one-sided Jacobi SVD.
+ * Small real dense kernels on row-major n×n Float64Arrays: products, congruences, Cholesky (plain, and
+ * guarded against numerically dependent rows for Schur complements), triangular solves, and a
+ * one-sided Jacobi SVD. The interior-point SDP solver (src/sdp) runs them on every cone block at every
+ * iteration; the smallest eigenvalue it needs for step lengths is in smallest-eigenvalue.ts, the
+ * complex kernels of Hermitian blocks in dense-complex.ts.
  *
- * Why hand-written instead of ml-matrix: the interior-point method does this work on every cone
- * block at every iteration, and the problems of this field have thousands of 2×2 or 4×4 blocks.
- * ml-matrix wraps every matrix in an object of arrays-of-arrays; on a 2×2 block the wrapping costs
- * more than the arithmetic. Measured on the project machine (Node 20, 2 shared cores under load,
- * so absolute numbers are noisy; the ratio is the point): 2×2 Cholesky via
- * `new CholeskyDecomposition(new Matrix(...))` 1.5–2.3 µs, `cholesky()` below on a Float64Array
- * 0.18–0.29 µs; 200×200 Cholesky 21–28 ms (ml-matrix) vs 6–11 ms (`choleskyInPlaceGuarded`).
- * The guarded Cholesky also does what ml-matrix's does not: it treats numerically dependent
- * constraints (see below) instead of failing. ml-matrix's LU is still used for the symmetric
- * indefinite reduced system when there are free variables (schur.ts), where it is adequate.
- * Jacobi methods are chosen for their high relative accuracy on the graded matrices that appear
- * near the optimum (scaled complementarity pairs), not for speed on large blocks.
+ * Why hand-written instead of ml-matrix: the problems of this field have thousands of 2×2 or 4×4
+ * blocks, and ml-matrix wraps every matrix in an object of arrays-of-arrays whose construction costs
+ * more than the arithmetic on such blocks (bench/RESULTS.md, "dense kernels", has the measurement).
+ * The guarded Cholesky also treats numerically dependent constraints instead of failing. Jacobi SVD is
+ * chosen for its high relative accuracy on the graded matrices that appear near an SDP optimum
+ * (scaled complementarity products), not for speed on large blocks.
  *
- * Does not: handle complex matrices (complex Hermitian blocks enter the solver through their real
- * embedding), check arguments, or allocate more than the result.
- *
- * Cost: products O(n^3); Cholesky n^3/3; Jacobi eigen and SVD about 6–10 sweeps of O(n^3) each,
- * fine for the block sizes of this field (n ≤ ~100) and slow beyond a few hundred.
- * All matrices are row-major Float64Arrays of n×n entries.
+ * Does not: handle complex matrices (dense-complex.ts), check arguments, or allocate more than the
+ * result. Cost: products O(n³); Cholesky n³/3; Jacobi SVD about 6–10 sweeps of O(n³) each, fine for
+ * blocks up to about 100 and slow beyond a few hundred.
  */
 
 /** out = A·B (n×n). `out` must not alias A or B. */
@@ -94,13 +87,6 @@ export function symmetrize(a: Float64Array, n: number): void {
   }
 }
 
-/** Frobenius inner product Σ a_ij b_ij. */
-export function dot(a: Float64Array, b: Float64Array): number {
-  let s = 0;
-  for (let k = 0; k < a.length; k++) s += a[k] * b[k];
-  return s;
-}
-
 /**
  * Lower Cholesky factor of a symmetric positive definite matrix, or null when a pivot is not
  * positive (the matrix is not numerically positive definite). Reads only the lower triangle.
@@ -143,8 +129,8 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
   };
   // Two columns at a time, four rows at a time: each pass over k loads four entries of the rows
   // below and two of the pivot rows for eight multiply-adds (the Schur complement's factorization
-  // is the largest dense kernel of an iteration at a few hundred constraints; this register
-  // blocking is about 1.5–2× faster in V8 than one column and four rows per pass).
+  // is the largest dense kernel of an iteration at a few hundred constraints; bench/RESULTS.md
+  // has the measurement that chose this register blocking).
   let j = 0;
   for (; j + 1 < n; j += 2) {
     const jo = j * n;
@@ -274,182 +260,6 @@ export function backSolveT1(l: Float64Array, n: number, b: Float64Array): void {
     b[i] = xi;
     if (xi !== 0) for (let k = 0; k < i; k++) b[k] -= l[io + k] * xi;
   }
-}
-
-/** Solve Lᵀ·x = b in place. */
-export function backSolveT(l: Float64Array, n: number, b: Float64Array, cols = 1): void {
-  for (let i = n - 1; i >= 0; i--) {
-    for (let c = 0; c < cols; c++) {
-      let s = b[i * cols + c];
-      for (let k = i + 1; k < n; k++) s -= l[k * n + i] * b[k * cols + c];
-      b[i * cols + c] = s / l[i * n + i];
-    }
-  }
-}
-
-/**
- * Eigenvalues (and optionally eigenvectors as columns of V) of a symmetric matrix by cyclic
- * Jacobi rotations. Input is not modified.
- */
-export function symEig(a: Float64Array, n: number, wantVectors = false, work?: Float64Array): { values: Float64Array; vectors: Float64Array | null } {
-  const m = work ? work.subarray(0, n * n) : new Float64Array(n * n);
-  m.set(a.subarray(0, n * n));
-  const v = wantVectors ? new Float64Array(n * n) : null;
-  if (v) for (let i = 0; i < n; i++) v[i * n + i] = 1;
-  for (let sweep = 0; sweep < 60; sweep++) {
-    let off = 0;
-    let diag = 0;
-    for (let i = 0; i < n; i++) {
-      diag += m[i * n + i] * m[i * n + i];
-      for (let j = i + 1; j < n; j++) off += m[i * n + j] * m[i * n + j];
-    }
-    if (off <= (4 * n * Number.EPSILON) ** 2 * diag || off === 0) break;
-    for (let p = 0; p < n; p++) {
-      for (let q = p + 1; q < n; q++) {
-        const apq = m[p * n + q];
-        if (apq === 0) continue;
-        const app = m[p * n + p];
-        const aqq = m[q * n + q];
-        if (Math.abs(apq) < 1e-300) {
-          m[p * n + q] = m[q * n + p] = 0;
-          continue;
-        }
-        const theta = (aqq - app) / (2 * apq);
-        const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
-        const c = 1 / Math.sqrt(t * t + 1);
-        const s = t * c;
-        for (let k = 0; k < n; k++) {
-          const mkp = m[k * n + p];
-          const mkq = m[k * n + q];
-          m[k * n + p] = c * mkp - s * mkq;
-          m[k * n + q] = s * mkp + c * mkq;
-        }
-        for (let k = 0; k < n; k++) {
-          const mpk = m[p * n + k];
-          const mqk = m[q * n + k];
-          m[p * n + k] = c * mpk - s * mqk;
-          m[q * n + k] = s * mpk + c * mqk;
-        }
-        m[p * n + q] = m[q * n + p] = 0;
-        if (v) {
-          for (let k = 0; k < n; k++) {
-            const vkp = v[k * n + p];
-            const vkq = v[k * n + q];
-            v[k * n + p] = c * vkp - s * vkq;
-            v[k * n + q] = s * vkp + c * vkq;
-          }
-        }
-      }
-    }
-  }
-  const values = new Float64Array(n);
-  for (let i = 0; i < n; i++) values[i] = m[i * n + i];
-  return { values, vectors: v };
-}
-
-/**
- * Smallest eigenvalue of a symmetric matrix: Householder reduction to tridiagonal form (about
- * 4n³/3 flops, eigenvalues only) and bisection on Sturm counts. Accurate to a few ulps of ‖A‖
- * (absolute, not relative): what a step length to the cone boundary needs. About ten times faster
- * than cyclic Jacobi (symEig) at n = 16–32, measured in bench/sdp.ts's shapes; symEig stays for
- * the cases that need relative accuracy or vectors.
- */
-export function minEig(a: Float64Array, n: number, work?: Float64Array): number {
-  if (n === 1) return a[0];
-  if (n === 2) {
-    const m = 0.5 * (a[0] + a[3]);
-    const d = 0.5 * (a[0] - a[3]);
-    return m - Math.hypot(d, a[1]);
-  }
-  const m = work && work.length >= n * n + 3 * n ? work : new Float64Array(n * n + 3 * n);
-  m.set(a.subarray(0, n * n));
-  const diag = m.subarray(n * n, n * n + n);
-  const off = m.subarray(n * n + n, n * n + 2 * n); // off[i] couples i and i+1
-  const v = m.subarray(n * n + 2 * n, n * n + 3 * n);
-  tridiagonalize(m, n, diag, off, v);
-  return smallestTridiagonal(diag, off, n);
-}
-
-/**
- * Householder reduction of the symmetric matrix in `m` (destroyed; lower triangle used) to a
- * tridiagonal matrix with diagonal `diag` and off-diagonal `off` (off[i] between i and i+1).
- * Eigenvalues only (the reflectors are not kept). `v` is scratch of length n.
- */
-export function tridiagonalize(m: Float64Array, n: number, diag: Float64Array, off: Float64Array, v: Float64Array): void {
-  for (let k = 0; k < n - 2; k++) {
-    // Reflector H = 1 − β u uᵀ on rows/cols k+1..n−1 annihilating m[k+2.., k].
-    let alpha2 = 0;
-    for (let i = k + 1; i < n; i++) alpha2 += m[i * n + k] * m[i * n + k];
-    const x0 = m[(k + 1) * n + k];
-    if (alpha2 === 0 || alpha2 === x0 * x0) {
-      off[k] = x0;
-      continue;
-    }
-    const alpha = x0 >= 0 ? -Math.sqrt(alpha2) : Math.sqrt(alpha2);
-    // u = x − α e1 stored in column k (rows k+1..)
-    m[(k + 1) * n + k] = x0 - alpha;
-    const unorm2 = alpha2 - x0 * x0 + (x0 - alpha) * (x0 - alpha);
-    const beta = 2 / unorm2;
-    off[k] = alpha;
-    // p = β A u (A the trailing block, symmetric; use the lower triangle)
-    for (let i = k + 1; i < n; i++) {
-      let s = 0;
-      const io = i * n;
-      for (let j = k + 1; j <= i; j++) s += m[io + j] * m[j * n + k];
-      for (let j = i + 1; j < n; j++) s += m[j * n + i] * m[j * n + k];
-      v[i] = beta * s;
-    }
-    // w = p − (β/2)(pᵀu) u
-    let pu = 0;
-    for (let i = k + 1; i < n; i++) pu += v[i] * m[i * n + k];
-    const c = 0.5 * beta * pu;
-    for (let i = k + 1; i < n; i++) v[i] -= c * m[i * n + k];
-    // A ← A − u wᵀ − w uᵀ (lower triangle)
-    for (let i = k + 1; i < n; i++) {
-      const ui = m[i * n + k];
-      const wi = v[i];
-      const io = i * n;
-      for (let j = k + 1; j <= i; j++) m[io + j] -= ui * v[j] + wi * m[j * n + k];
-    }
-  }
-  for (let i = 0; i < n; i++) diag[i] = m[i * n + i];
-  if (n >= 2) off[n - 2] = m[(n - 1) * n + n - 2];
-}
-
-/** Number of eigenvalues of the symmetric tridiagonal (diag, off) below x (Sturm count of the LDLᵀ pivots). */
-function sturmCount(diag: Float64Array, off: Float64Array, n: number, x: number, tiny: number): number {
-  let count = 0;
-  let q = diag[0] - x;
-  if (q < 0) count++;
-  for (let i = 1; i < n; i++) {
-    if (q === 0) q = tiny;
-    q = diag[i] - x - (off[i - 1] * off[i - 1]) / q;
-    if (q < 0) count++;
-  }
-  return count;
-}
-
-/** Smallest eigenvalue of a symmetric tridiagonal matrix by bisection inside the Gershgorin interval. */
-export function smallestTridiagonal(diag: Float64Array, off: Float64Array, n: number): number {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const r = (i > 0 ? Math.abs(off[i - 1]) : 0) + (i < n - 1 ? Math.abs(off[i]) : 0);
-    lo = Math.min(lo, diag[i] - r);
-    hi = Math.max(hi, diag[i] + r);
-  }
-  const scale = Math.max(Math.abs(lo), Math.abs(hi), Number.MIN_VALUE);
-  const tiny = Number.EPSILON * scale * 1e-3 + Number.MIN_VALUE;
-  // Invariant: count(lo) = 0, count(hi) ≥ 1.
-  hi = hi + Number.EPSILON * scale;
-  lo = lo - Number.EPSILON * scale;
-  for (let it = 0; it < 200; it++) {
-    const mid = 0.5 * (lo + hi);
-    if (mid <= lo || mid >= hi || hi - lo <= 2 * Number.EPSILON * scale) break;
-    if (sturmCount(diag, off, n, mid, tiny) >= 1) hi = mid;
-    else lo = mid;
-  }
-  return 0.5 * (lo + hi);
 }
 
 /**

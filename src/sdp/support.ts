@@ -1,26 +1,180 @@
 /**
- * Shared plumbing of every quantity solved by rhosigma's SDP solver (src/oneshot, src/guessing,
- * src/recovery): the certificate every answer carries (DESIGN.md: "Every SDP-based answer carries
- * its certificate"), the one rule that turns a solver status into an answer or a RhoError
- * 'solver-failed', the reading of dual multipliers of matrix-equality constraints back into a
- * Hermitian matrix, solver entries for Re Σ c·X_kl, and the repairs applied to an interior-point
- * iterate before its bounds are checked (smallest eigenvalue, POVM renormalisation).
+ * What every quantity solved with rhosigma's SDP solver shares (src/oneshot, src/guessing,
+ * src/recovery): the one certificate shape every answer carries, the rule that turns certified
+ * bounds into an answer or a RhoError 'solver-failed', values clipped to their range, and the
+ * helpers that read an interior-point iterate back (multipliers of matrix equalities as a Hermitian
+ * matrix, solver entries for Re Σ c·X_kl) and repair it into feasible points (smallest eigenvalue,
+ * POVM renormalisation, inverse square roots on a support).
  *
- * Two certificate shapes exist because two answer contracts were published (schema/ pins both):
- *  - SdpCertificate (hypothesis testing, smooth max, conditional min/max-entropy, max-information):
- *    the solver's numbers as it reports them, signed gap, plus `problem`, the primal handed to it;
- *  - SolverCertificate (guessing, diamond, fidelity SDP, fidelity of recovery, guesswork):
- *    objectives in the sign of the quantity, |gap|, and the solver's message when it has one.
- * Both are built from the same SolveNumbers here.
+ * THE CERTIFICATE (SdpCertificate): the primal problem in words and its sense, a primal and a dual
+ * point (plain engine values: numbers, CMatrix, lists of them) made feasible up to rounding, the
+ * objectives of those two points, their gap, and the bracket of the headline value (after its
+ * logarithm, square, ...) that the two points prove, with the accuracy that bracket certifies. The
+ * solver's own numbers of its final iterate (status, iterations, relative residuals) stay beside them.
+ * kernel-bridge/rhosigma/certificates.py recomputes all of it from the request and the answer with
+ * numpy alone, from the published formulations.
  *
- * Deliberately not here: any quantity, and any change to the solver (src/sdp is used only through
- * its public API, src/sdp/index.ts). Cost: O(d²) per multiplier matrix, one d×d eigendecomposition
- * per minEigenvalue or POVM renormalisation; nothing else of note.
+ * THE RULE (certify): an answer is returned when its certified bracket is narrow (relative width at
+ * most `limit`, default 1e-6, or absolute width at most `absolute`, default 1e-9); its value is then
+ * the solver's estimate clamped into the bracket and into the quantity's range (the excess, if any,
+ * stated). A bracket that is wider is refused with 'solver-failed' carrying the bracket, whatever the
+ * solver's status: 'optimal' means that the solver's stopping test passed, the bracket is what the
+ * returned points prove. Both are floating-point evidence: eigenvalues and traces carry rounding of
+ * order 1e-15 times the norms involved, which the brackets are padded by.
+ *
+ * Deliberately not here: any quantity (each computes its own points and bracket). Cost: O(d²) per
+ * multiplier matrix, one d×d eigendecomposition per minEigenvalue or POVM renormalisation.
  */
 import { CMatrix, add, eigh, hermitianPart, mul, zeros } from '../linalg/index.js';
 import { fromSpectrum } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
-import { matrixCoordinates, type Entry, type SdpAnswer, type SdpOptions } from '../sdp/index.js';
+import { matrixCoordinates } from './build.js';
+import type { Entry, SdpAnswer, SdpOptions, SdpStatus } from './types.js';
+
+/** A point of a certificate: named plain engine values (numbers, CMatrix, lists of them). */
+export type CertificatePoint = Record<string, number | CMatrix | readonly CMatrix[] | readonly number[] | readonly unknown[] | Record<string, unknown>>;
+
+/** The one certificate shape of every SDP-based answer (see the header). */
+export interface SdpCertificate {
+  /** The solver's status for its final iterate, or 'exact' when no interior-point solve was needed (closed forms, one-dimensional duals). */
+  status: SdpStatus | 'exact';
+  /** The primal problem in words, in the sense it is optimised, with the dual it is paired with. */
+  problem: string;
+  sense: 'minimize' | 'maximize';
+  /** The primal point (feasible up to rounding) and its objective. */
+  primal: CertificatePoint;
+  primalObjective: number;
+  /** The dual point (feasible up to rounding) and its objective: a bound on the primal optimum by weak duality. */
+  dual: CertificatePoint;
+  dualObjective: number;
+  /** |primalObjective − dualObjective| and that over max(|primal|, |dual|) (0 when both are 0). */
+  gap: number;
+  relativeGap: number;
+  /** The bracket of the headline value proved by the two points (padded for rounding). */
+  bounds: { lower: number; upper: number };
+  /** Its width, absolute and relative to |value|: the accuracy the answer certifies. */
+  accuracy: { absolute: number; relative: number };
+  /** The solver's final iterate: iterations and relative residuals (0 for 'exact'). */
+  iterations: number;
+  primalResidual: number;
+  dualResidual: number;
+  /** The solver's remark, when it has one. */
+  message?: string;
+}
+
+/** Default relative width of the certified bracket up to which an answer is returned. */
+export const ACCEPT_RELATIVE = 1e-6;
+/** Default absolute width (in the value's units) up to which an answer is returned, for values near zero. */
+export const ACCEPT_ABSOLUTE = 1e-9;
+
+/** Rounding allowance for a sum of n products of numbers of size `scale`: 8 n u·scale (u = 2⁻⁵³). */
+export function roundingPad(n: number, scale: number): number {
+  return 8 * Math.max(1, n) * 1.1102230246251565e-16 * Math.abs(scale);
+}
+
+/** What `certify` needs of a quantity. */
+export interface CertifyInput {
+  /** Names the quantity in messages ("the guessing probability"). */
+  what: string;
+  /** The solver's answer (absent for exact methods). */
+  solve?: SdpAnswer;
+  problem: string;
+  sense: 'minimize' | 'maximize';
+  primal: CertificatePoint;
+  primalObjective: number;
+  dual: CertificatePoint;
+  dualObjective: number;
+  /** The certified bracket of the headline value (padded), lower ≤ upper. */
+  bounds: { lower: number; upper: number };
+  /** The solver's estimate of the headline value (default: the middle of the bracket). */
+  estimate?: number;
+  /** The range the headline value lies in by definition (e.g. [0, 1] for a fidelity). */
+  range?: readonly [number, number];
+  /** Acceptance: relative and absolute widths (defaults ACCEPT_RELATIVE, ACCEPT_ABSOLUTE). */
+  limit?: number;
+  absolute?: number;
+}
+
+/** The certified answer: the value, its certificate, and a note when something needs saying. */
+export interface Certified {
+  value: number;
+  certificate: SdpCertificate;
+  note?: string;
+}
+
+function fmt(x: number): string {
+  return Number.isFinite(x) ? x.toPrecision(12) : String(x);
+}
+
+/**
+ * The rule of the header: the value (the estimate clamped into the bracket, then into `range`, with
+ * the excess stated), the certificate, and a note; throws RhoError 'solver-failed' with the bracket
+ * when the bracket is wider than the acceptance allows, or when the solver was cancelled.
+ */
+export function certify(c: CertifyInput): Certified {
+  const s = c.solve;
+  const status: SdpStatus | 'exact' = s ? s.status : 'exact';
+  let lower = Math.min(c.bounds.lower, c.bounds.upper);
+  let upper = Math.max(c.bounds.lower, c.bounds.upper);
+  const notes: string[] = [];
+  if (c.range) {
+    const [lo, hi] = c.range;
+    if (upper > hi || lower < lo) {
+      const excess = Math.max(upper - hi, lo - lower);
+      notes.push(
+        `The certified bracket [${fmt(lower)}, ${fmt(upper)}] reaches ${fmt(excess)} beyond the range [${lo}, ${hi}] of ${c.what} ` +
+          `(rounding and the solver's residuals); it is clipped to the range.`,
+      );
+      lower = Math.min(Math.max(lower, lo), hi);
+      upper = Math.min(Math.max(upper, lo), hi);
+    }
+  }
+  let value = c.estimate ?? 0.5 * (lower + upper);
+  if (!(value >= lower)) value = lower;
+  if (!(value <= upper)) value = upper;
+  const width = upper - lower;
+  const scale = Math.abs(value);
+  const accuracy = { absolute: width, relative: scale > 0 ? width / scale : width === 0 ? 0 : Infinity };
+  const gap = Math.abs(c.primalObjective - c.dualObjective);
+  const big = Math.max(Math.abs(c.primalObjective), Math.abs(c.dualObjective));
+  const certificate: SdpCertificate = {
+    status,
+    problem: c.problem,
+    sense: c.sense,
+    primal: c.primal,
+    primalObjective: c.primalObjective,
+    dual: c.dual,
+    dualObjective: c.dualObjective,
+    gap,
+    relativeGap: big > 0 ? gap / big : 0,
+    bounds: { lower, upper },
+    accuracy,
+    iterations: s ? s.iterations : 0,
+    primalResidual: s ? s.primalResidual : 0,
+    dualResidual: s ? s.dualResidual : 0,
+    ...(s?.message ? { message: s.message } : {}),
+  };
+  const limit = c.limit ?? ACCEPT_RELATIVE;
+  const absolute = c.absolute ?? ACCEPT_ABSOLUTE;
+  const accepted = Number.isFinite(width) && (accuracy.relative <= limit || width <= absolute);
+  if (status === 'cancelled' || !accepted) {
+    throw new RhoError(
+      'solver-failed',
+      `The SDP for ${c.what} did not reach a certified answer: the returned points prove only ${c.what} ∈ [${fmt(lower)}, ${fmt(upper)}] ` +
+        `(width ${width.toExponential(2)}, relative ${accuracy.relative.toExponential(2)}; accepted up to ${limit} relative or ${absolute} absolute); ` +
+        `solver status '${status}'${s?.message ? ` (${s.message})` : ''}.`,
+      undefined,
+      { status, bounds: { lower, upper }, accuracy, iterations: certificate.iterations, primalResidual: certificate.primalResidual, dualResidual: certificate.dualResidual },
+    );
+  }
+  if (s && status !== 'optimal') {
+    notes.push(
+      `The SDP solver stopped with status '${status}'${s.message ? ` (${s.message})` : ''}; the value is certified by the returned points to ` +
+        `${accuracy.absolute.toExponential(2)} (relative ${accuracy.relative.toExponential(2)}).`,
+    );
+  }
+  return { value, certificate, ...(notes.length ? { note: notes.join(' ') } : {}) };
+}
 
 /**
  * The numbers of one solve, in the solver's terms: `gap` = primal − dual objective, `relativeGap` =
@@ -36,7 +190,7 @@ export type SolveNumbers = Pick<
  * `problem`, the primal problem that was handed to it (minimize ... subject to ...), so the signs and
  * roles of the two objectives can be read without guessing.
  */
-export interface SdpCertificate extends SolveNumbers {
+export interface LegacyCertificate extends SolveNumbers {
   /** The primal problem handed to the solver, in words. */
   problem: string;
 }
@@ -64,7 +218,7 @@ function solveNumbers(ans: SdpAnswer, sign: 1 | -1, absoluteGap: boolean): Solve
 }
 
 /** The SdpCertificate of an answer: the solver's numbers unchanged, with the problem in words. */
-export function certificateOf(ans: SdpAnswer, problem: string): SdpCertificate {
+export function certificateOf(ans: SdpAnswer, problem: string): LegacyCertificate {
   return { ...solveNumbers(ans, 1, false), problem };
 }
 

@@ -1,5 +1,5 @@
 /**
- * Small dense complex kernels for the Hermitian blocks of the SDP solver.
+ * Small dense complex kernels, written for the Hermitian blocks of the SDP solver (src/sdp).
  *
  * The solver stores a Hermitian h×h block through its real embedding [[Re, −Im], [Im, Re]]
  * (2h×2h, compile.ts) for the linear maps A(·) and Aᵀ(·), but every O(n³) per-block operation of
@@ -11,6 +11,8 @@
  * Layout: a complex h×h matrix is one Float64Array of at least 2h² numbers, real parts row-major in
  * [0, h²), imaginary parts in [h², 2h²). Outputs must not alias inputs unless a kernel says so.
  * Hand-written (no complex dense library for Node fits these tiny sizes without per-call overhead).
+ *
+ * The smallest eigenvalue of a Hermitian matrix (step lengths) is in smallest-eigenvalue.ts.
  *
  * Does not: pivot, block for cache, or handle sizes beyond what the solver's blocks need (h ≲ 64).
  * Cost: h³-type loops, stated per function.
@@ -290,146 +292,3 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
   }
 }
 
-/**
- * Smallest eigenvalue of a Hermitian h×h matrix (lower triangle read; `a` is destroyed): complex
- * Householder reduction to a Hermitian tridiagonal matrix, whose eigenvalues depend only on the
- * moduli of its off-diagonal, then bisection on Sturm counts. Absolute accuracy a few ulps of ‖A‖,
- * which is what a step length to the cone boundary needs. When every eigenvalue is ≥ `floor`, returns
- * `floor` without bisecting (callers that only need eigenvalues below a threshold). `diag`,
- * `off2`, `w`: scratch of h, h and 2h numbers. About 4h³/3 complex multiply-adds.
- */
-export function cMinEigInPlace(a: Float64Array, h: number, diag: Float64Array, off2: Float64Array, w: Float64Array, floor = -Infinity): number {
-  const hh = h * h;
-  // 1×1: the eigenvalue itself, or `floor` when it is at least floor. (This line once read
-  // max(a₀, floor), which reports floor for an eigenvalue far BELOW it: a step length twice too
-  // long on every 1×1 Hermitian block, the cause of a lost-positive-definiteness failure that was
-  // blamed on last-bit differences.)
-  if (h === 1) return floor > -Infinity && a[0] >= floor ? floor : a[0];
-  for (let k = 0; k < h - 2; k++) {
-    // x = A[k+1.., k]
-    let alpha2 = 0;
-    for (let i = k + 1; i < h; i++) {
-      const r = a[i * h + k];
-      const im = a[hh + i * h + k];
-      alpha2 += r * r + im * im;
-    }
-    const x0r = a[(k + 1) * h + k];
-    const x0i = a[hh + (k + 1) * h + k];
-    const x0abs = Math.hypot(x0r, x0i);
-    if (alpha2 === 0 || alpha2 <= x0abs * x0abs) {
-      off2[k] = x0abs * x0abs;
-      continue;
-    }
-    const nrm = Math.sqrt(alpha2);
-    // α = −e^{iθ}‖x‖ with x0 = |x0| e^{iθ}; u = x − α e1 stored in column k
-    const phr = x0abs === 0 ? 1 : x0r / x0abs;
-    const phi = x0abs === 0 ? 0 : x0i / x0abs;
-    const ur0 = x0r + phr * nrm;
-    const ui0 = x0i + phi * nrm;
-    a[(k + 1) * h + k] = ur0;
-    a[hh + (k + 1) * h + k] = ui0;
-    const unorm2 = alpha2 - x0abs * x0abs + ur0 * ur0 + ui0 * ui0;
-    const beta = 2 / unorm2;
-    off2[k] = alpha2;
-    // p = β A u over the trailing block (Hermitian, lower triangle stored)
-    for (let i = k + 1; i < h; i++) {
-      let sr = 0;
-      let si = 0;
-      const io = i * h;
-      for (let j = k + 1; j <= i; j++) {
-        const ar = a[io + j];
-        const ai = a[hh + io + j];
-        const br = a[j * h + k];
-        const bi = a[hh + j * h + k];
-        sr += ar * br - ai * bi;
-        si += ar * bi + ai * br;
-      }
-      for (let j = i + 1; j < h; j++) {
-        // conj(A_ji) u_j
-        const ar = a[j * h + i];
-        const ai = -a[hh + j * h + i];
-        const br = a[j * h + k];
-        const bi = a[hh + j * h + k];
-        sr += ar * br - ai * bi;
-        si += ar * bi + ai * br;
-      }
-      w[i] = beta * sr;
-      w[h + i] = beta * si;
-    }
-    // K = (β/2) u^H p (real for Hermitian A); w = p − K u
-    let kr = 0;
-    for (let i = k + 1; i < h; i++) kr += a[i * h + k] * w[i] + a[hh + i * h + k] * w[h + i];
-    const K = 0.5 * beta * kr;
-    for (let i = k + 1; i < h; i++) {
-      w[i] -= K * a[i * h + k];
-      w[h + i] -= K * a[hh + i * h + k];
-    }
-    // A ← A − u w^H − w u^H (lower triangle)
-    for (let i = k + 1; i < h; i++) {
-      const uir = a[i * h + k];
-      const uii = a[hh + i * h + k];
-      const wir = w[i];
-      const wii = w[h + i];
-      const io = i * h;
-      for (let j = k + 1; j <= i; j++) {
-        const ujr = a[j * h + k];
-        const uji = a[hh + j * h + k];
-        const wjr = w[j];
-        const wji = w[h + j];
-        // u_i conj(w_j) + w_i conj(u_j)
-        a[io + j] -= uir * wjr + uii * wji + wir * ujr + wii * uji;
-        a[hh + io + j] -= uii * wjr - uir * wji + wii * ujr - wir * uji;
-      }
-    }
-  }
-  for (let i = 0; i < h; i++) diag[i] = a[i * h + i];
-  {
-    const r = a[(h - 1) * h + h - 2];
-    const im = a[hh + (h - 1) * h + h - 2];
-    off2[h - 2] = r * r + im * im;
-  }
-  return smallestTridiagonal2(diag, off2, h, floor);
-}
-
-/** Number of eigenvalues below x of the symmetric tridiagonal (diag, squared off-diagonal off2): Sturm count. */
-function sturm2(diag: Float64Array, off2: Float64Array, n: number, x: number, tiny: number): number {
-  let count = 0;
-  let q = diag[0] - x;
-  if (q < 0) count++;
-  for (let i = 1; i < n; i++) {
-    if (q === 0) q = tiny;
-    q = diag[i] - x - off2[i - 1] / q;
-    if (q < 0) count++;
-  }
-  return count;
-}
-
-/**
- * Smallest eigenvalue of the symmetric tridiagonal with diagonal `diag` and squared off-diagonal
- * `off2`, by bisection; `floor` (when every eigenvalue is at least floor) otherwise.
- */
-export function smallestTridiagonal2(diag: Float64Array, off2: Float64Array, n: number, floor = -Infinity): number {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const r = (i > 0 ? Math.sqrt(off2[i - 1]) : 0) + (i < n - 1 ? Math.sqrt(off2[i]) : 0);
-    lo = Math.min(lo, diag[i] - r);
-    hi = Math.max(hi, diag[i] + r);
-  }
-  const scale = Math.max(Math.abs(lo), Math.abs(hi), Number.MIN_VALUE);
-  const tiny = Number.EPSILON * scale * 1e-3 + Number.MIN_VALUE;
-  hi = hi + Number.EPSILON * scale;
-  lo = lo - Number.EPSILON * scale;
-  if (floor > -Infinity) {
-    if (lo >= floor) return floor;
-    if (hi > floor && sturm2(diag, off2, n, floor, tiny) === 0) return floor;
-    hi = Math.min(hi, floor);
-  }
-  for (let it = 0; it < 200; it++) {
-    const mid = 0.5 * (lo + hi);
-    if (mid <= lo || mid >= hi || hi - lo <= 2 * Number.EPSILON * scale) break;
-    if (sturm2(diag, off2, n, mid, tiny) >= 1) hi = mid;
-    else lo = mid;
-  }
-  return 0.5 * (lo + hi);
-}

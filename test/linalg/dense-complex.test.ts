@@ -1,10 +1,11 @@
-// The SDP solver's complex kernels for Hermitian blocks (src/sdp/complexdense.ts) against closed forms and definitions.
+// The SDP solver's complex kernels for Hermitian blocks (src/linalg/dense-complex.ts, smallest-eigenvalue.ts) against closed forms and definitions.
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { cCholesky, cMinEigInPlace, cMul, cMulH, cSvdJacobi, embedComplex, extractHermitian } from '../../src/sdp/complexdense.js';
+import { cCholesky, cMul, cMulH, cSvdJacobi, embedComplex, extractHermitian } from '../../src/linalg/dense-complex.js';
+import { minEigHermitianInPlace } from '../../src/linalg/smallest-eigenvalue.js';
 import { rng, gaussian } from '../helpers/random.js';
 
-/** A random complex Householder reflection Q = 1 − 2 u u^H/‖u‖² (unitary), complexdense layout. */
+/** A random complex Householder reflection Q = 1 − 2 u u^H/‖u‖² (unitary), dense-complex.ts layout. */
 function reflection(h: number, r: () => number): Float64Array {
   const ur = Array.from({ length: h }, () => gaussian(r));
   const ui = Array.from({ length: h }, () => gaussian(r));
@@ -43,10 +44,10 @@ describe('SDP complex kernels (Hermitian blocks)', () => {
       }
       const expected = 2 - 2 * Math.cos(Math.PI / (h + 1));
       const a = conjugate(reflection(h, r), t, h);
-      const got = cMinEigInPlace(a.slice(), h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
+      const got = minEigHermitianInPlace(a.slice(), h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
       assert.ok(Math.abs(got - expected) < 1e-12, `h = ${h}: ${got} vs ${expected}`);
       for (let i = 0; i < h; i++) a[i * h + i] -= 3; // the step-length case: a negative smallest eigenvalue
-      const shifted = cMinEigInPlace(a, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
+      const shifted = minEigHermitianInPlace(a, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
       assert.ok(Math.abs(shifted - (expected - 3)) < 1e-12);
     }
   });
@@ -64,12 +65,12 @@ describe('SDP complex kernels (Hermitian blocks)', () => {
       for (const target of [-1.1, -0.2]) {
         const a = conjugate(reflection(h, r), t, h);
         for (let i = 0; i < h; i++) a[i * h + i] += target - base;
-        const got = cMinEigInPlace(a, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h), -0.49);
+        const got = minEigHermitianInPlace(a, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h), -0.49);
         const want = target < -0.49 ? target : -0.49;
         assert.ok(Math.abs(got - want) < 1e-12, `h = ${h}, smallest eigenvalue ${target}: got ${got}, want ${want}`);
         const b = conjugate(reflection(h, r), t, h);
         for (let i = 0; i < h; i++) b[i * h + i] += target - base;
-        const plain = cMinEigInPlace(b, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
+        const plain = minEigHermitianInPlace(b, h, new Float64Array(h), new Float64Array(h), new Float64Array(2 * h));
         assert.ok(Math.abs(plain - target) < 1e-12, `h = ${h}, no floor: got ${plain}, want ${target}`);
       }
     }

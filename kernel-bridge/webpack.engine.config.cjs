@@ -1,0 +1,35 @@
+/**
+ * webpack configuration of the engine bundle: the `rhosigma` command (dist/cli/main.js, built by
+ * `npm run build`) and everything it imports in one CommonJS file for Node, written to
+ * kernel-bridge/rhosigma/_bundle/rhosigma.cjs so that the Python wheel can run the engine with `node`
+ * alone, outside the checkout (with a copy of package.json beside it, for the version) (`npm run build:engine-bundle`).
+ *
+ * Not here: the browser bundles (worker, labextension) have configurations of their own. Cost: one
+ * production build (minified), about half a minute on two cores.
+ */
+const path = require('node:path');
+
+module.exports = {
+  mode: 'production',
+  target: 'node20',
+  entry: path.resolve(__dirname, 'engine-bundle.entry.mjs'),
+  output: {
+    path: path.resolve(__dirname, 'rhosigma', '_bundle'),
+    filename: 'rhosigma.cjs',
+    library: { type: 'commonjs2' },
+    clean: true,
+  },
+  module: {
+    rules: [
+      // src/cli/main.ts reads its version from `new URL('../../package.json', import.meta.url)`: webpack
+      // copies that file beside the bundle under its own name, so `rhosigma --version` and the ready
+      // line still tell the version (without it the command works and says "unknown").
+      { test: /package\.json$/, type: 'asset/resource', generator: { filename: 'package.json' } },
+    ],
+  },
+  // One file of code: no split chunks, no separate runtime.
+  optimization: { splitChunks: false, runtimeChunk: false },
+  performance: { hints: false },
+  devtool: false,
+  stats: 'errors-warnings',
+};
