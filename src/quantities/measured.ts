@@ -54,7 +54,7 @@ import { CMatrix, zeros, adjoint, mul, hermitianPart } from '../linalg/cmatrix.j
 import { eigh } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
-import { columns, compress, dividedDifferences, expDivided, hadamardReal } from '../linalg/spectral.js';
+import { columns, compress, doubleOperatorIntegral, expDivided } from '../linalg/spectral.js';
 import { analysePair, logOfBase, logSumExp } from './divergence-kit.js';
 
 export interface MeasuredOptions {
@@ -153,8 +153,9 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number,
   const sigmaY = mul(mul(adjoint(Y), sigmaS), Y);
   let z = 0;
   for (let k = 0; k < m; k++) z += Math.exp(h[k]) * sigmaY.re[k * m + k];
-  const Ks = dividedDifferences(h, Math.exp, Math.exp, expDivided);
-  const Ds = mul(mul(Y, hadamardReal(sigmaY, Ks)), adjoint(Y));
+  // Dexp at the shifted H in the direction σ (Daleckii–Krein with exp's divided differences).
+  const shifted = { values: Float64Array.from(h), vectors: Y };
+  const Ds = doubleOperatorIntegral(expDivided, H, H, sigmaS, shifted, shifted);
   const G = zeros(m, m);
   let first: number;
   if (beta === 0) {
@@ -190,8 +191,7 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number,
     first = lnA / beta;
     // Gradient of (1/β) ln A: Y (exp[βh_k, βh_l] ∘ Y*ρY) Y* / A, with A = Σ w e^{βh}.
     const A = Math.exp(lnA);
-    const Kr = dividedDifferences(bh, Math.exp, Math.exp, expDivided);
-    const Dr = mul(mul(Y, hadamardReal(rhoY, Kr)), adjoint(Y));
+    const Dr = doubleOperatorIntegral((a, b) => expDivided(beta * a, beta * b), H, H, rhoS, shifted, shifted);
     for (let i = 0; i < m * m; i++) {
       G.re[i] = Dr.re[i] / A;
       G.im[i] = Dr.im[i] / A;
