@@ -22,6 +22,8 @@
  */
 import { zeros, type CMatrix } from './cmatrix.js';
 
+import { orthogonalizeColumns } from './graded.js';
+
 /** Complex Hermitian h×h from its real embedding (2h×2h), averaging the two copies. */
 export function extractHermitian(emb: Float64Array, h: number, out: Float64Array): void {
   const n2 = 2 * h;
@@ -227,64 +229,8 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
   for (let e = 0; e < 2 * hh; e++) u[e] = b[e];
   v.fill(0, 0, 2 * hh);
   for (let i = 0; i < h; i++) v[i * h + i] = 1;
-  const tol = 4 * h * Number.EPSILON;
-  for (let sweep = 0; sweep < 60; sweep++) {
-    let rotated = false;
-    for (let p = 0; p < h; p++) {
-      for (let q = p + 1; q < h; q++) {
-        let alpha = 0;
-        let beta = 0;
-        let gr = 0;
-        let gi = 0;
-        for (let k = 0; k < h; k++) {
-          const pr = u[k * h + p];
-          const pi = u[hh + k * h + p];
-          const qr = u[k * h + q];
-          const qi = u[hh + k * h + q];
-          alpha += pr * pr + pi * pi;
-          beta += qr * qr + qi * qi;
-          // conj(u_p) u_q
-          gr += pr * qr + pi * qi;
-          gi += pr * qi - pi * qr;
-        }
-        const g = Math.hypot(gr, gi);
-        if (g === 0 || g <= tol * Math.sqrt(alpha * beta)) continue;
-        rotated = true;
-        // phase e = conj(γ)/|γ|: column q ← e·u_q makes u_p^H u_q = |γ|
-        const er = gr / g;
-        const ei = -gi / g;
-        const zeta = (beta - alpha) / (2 * g);
-        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
-        const c = 1 / Math.sqrt(1 + t * t);
-        const s = c * t;
-        for (let k = 0; k < h; k++) {
-          const ip = k * h + p;
-          const iq = k * h + q;
-          const pr = u[ip];
-          const pi = u[hh + ip];
-          const q0r = u[iq];
-          const q0i = u[hh + iq];
-          const qr = er * q0r - ei * q0i;
-          const qi = er * q0i + ei * q0r;
-          u[ip] = c * pr - s * qr;
-          u[hh + ip] = c * pi - s * qi;
-          u[iq] = s * pr + c * qr;
-          u[hh + iq] = s * pi + c * qi;
-          const vpr = v[ip];
-          const vpi = v[hh + ip];
-          const v0r = v[iq];
-          const v0i = v[hh + iq];
-          const vqr = er * v0r - ei * v0i;
-          const vqi = er * v0i + ei * v0r;
-          v[ip] = c * vpr - s * vqr;
-          v[hh + ip] = c * vpi - s * vqi;
-          v[iq] = s * vpr + c * vqr;
-          v[hh + iq] = s * vpi + c * vqi;
-        }
-      }
-    }
-    if (!rotated) break;
-  }
+  // The one complex Jacobi kernel (graded.ts), on the two halves of this storage.
+  orthogonalizeColumns(u.subarray(0, hh), u.subarray(hh, 2 * hh), h, h, v.subarray(0, hh), v.subarray(hh, 2 * hh), 4 * h * Number.EPSILON, 60);
   for (let j = 0; j < h; j++) {
     let s = 0;
     for (let k = 0; k < h; k++) {
