@@ -135,7 +135,8 @@ function readMatrixList(value: unknown, path: string): CMatrix[] {
   return value.map((m, k) => readMatrix(m, `${path}[${k}]`));
 }
 
-const COMMON = ['op', 'tolerance', 'base', 'id', 'name'] as const;
+// The common request fields (handle.ts COMMON_FIELDS) and the preset's name, which every preset accepts.
+const COMMON = ['op', 'tolerance', 'base', 'id', 'deadline', 'answerMatrices', 'name'] as const;
 const integer = (description: string, minimum = 1) => ({ type: 'integer', minimum, description });
 const num = (description: string) => ({ type: 'number', description });
 const matrixList = (description: string) => ({ type: 'array', minItems: 1, maxItems: 4096, items: schemas.matrix, description });
@@ -253,7 +254,10 @@ defineOp({
   cost: (req) => choiCost(req.channel),
   run(req, { tolerance }) {
     const form = req.form as 'kraus' | 'choi' | 'stinespring';
-    const minimal = req.minimal === true && form !== 'choi';
+    if (req.minimal !== undefined && form === 'choi') {
+      throw new RhoError('invalid-argument', '"minimal" does not apply to the Choi form (a channel has one Choi matrix).', 'minimal');
+    }
+    const minimal = req.minimal === true;
     const { channel, rank } = readKrausWithRank(req.channel, 'channel', tolerance, minimal);
     const dims = { from: [...channel.fromDims], to: [...channel.toDims] };
     const rankInfo = rank ? { droppedEigenvalues: rank.droppedEigenvalues, threshold: rank.threshold, note: rankNote } : {};
@@ -506,8 +510,17 @@ const STATE_PRESETS: Record<string, StateSpec> = {
     build: (r, tol) => {
       const H = readHermitian(need(r, 'hamiltonian', 'thermal'), 'hamiltonian', tol);
       const dims = r.dims === undefined ? undefined : readDims(r.dims, 'dims', H.rows);
-      const { state, logPartition } = thermalStateWithPartition(H, need(r, 'beta', 'thermal') as number, dims, tol);
-      return { state, extra: { logPartition } };
+      const beta = need(r, 'beta', 'thermal') as number;
+      const { state, logPartition } = thermalStateWithPartition(H, beta, dims, tol);
+      if (Number.isFinite(logPartition)) return { state, extra: { logPartition } };
+      // The state is fine (computed from shifted exponents); ln Z = −β λ_min + ln Σ_i e^{−β(λ_i − λ_min)} is not representable.
+      return {
+        state,
+        extra: {
+          logPartition,
+          reason: `ln Z is finite but beyond the largest double: −β·λ_min overflows for β = ${beta}; the state itself is exact (computed from shifted exponents).`,
+        },
+      };
     },
   },
   bloch: {

@@ -16,13 +16,14 @@
  * one Hermitian eigendecomposition, O(n^3), per state (positivity) and per Choi matrix (Kraus form).
  */
 import {
-  CMatrix, adjoint, frobeniusNorm, mul, zeros,
+  CMatrix, adjoint, frobeniusNorm, hermitianPart, hermiticityDefect, mul, scale, trace, zeros,
 } from '../linalg/cmatrix.js';
+import { eigh } from '../linalg/eigh.js';
 import { product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel, State } from '../quantum/types.js';
 import { choiToKraus } from '../quantum/channels.js';
-import { checkDensityMatrix, checkDims, checkHermitian, checkPositive, checkSquareFinite } from '../quantum/validate.js';
+import { checkDensityMatrix, checkDims, checkHermitian, checkPositive } from '../quantum/validate.js';
 import { readExpression } from './expressions.js';
 
 // The size limits live in src/limits.ts (the quantum layer's presets check them too); re-exported here.
@@ -114,27 +115,36 @@ function peekShape(value: unknown, path: string): { rows: number; cols: number }
   return rowsShape(value, path);
 }
 
-/** Fill `target` (re or im storage) from rows, all of length `cols`. */
+/**
+ * Fill `target` (re or im storage) from rows, all of length `cols`, in one pass: finite numbers go
+ * straight in; anything else goes to `other` with its path (built only then: a path string per entry
+ * cost more than the reading itself).
+ */
 function fillRows(
   value: unknown[],
   path: string,
   cols: number,
-  entry: (v: unknown, p: string, k: number) => void,
+  target: Float64Array,
+  other: (v: unknown, p: string, k: number) => void,
 ): void {
   for (let i = 0; i < value.length; i++) {
     const row = value[i];
-    const rowPath = `${path}[${i}]`;
     if (!Array.isArray(row)) {
-      throw new RhoError('invalid-argument', `Each row must be a list of entries, not ${describe(row)}.`, rowPath);
+      throw new RhoError('invalid-argument', `Each row must be a list of entries, not ${describe(row)}.`, `${path}[${i}]`);
     }
     if (row.length !== cols) {
       throw new RhoError(
         'dimension-mismatch',
         `Row ${i} has ${row.length} entries but row 0 has ${cols}; all rows must have the same length.`,
-        rowPath,
+        `${path}[${i}]`,
       );
     }
-    for (let j = 0; j < cols; j++) entry(row[j], `${rowPath}[${j}]`, i * cols + j);
+    const base = i * cols;
+    for (let j = 0; j < cols; j++) {
+      const v = row[j];
+      if (typeof v === 'number' && v - v === 0) target[base + j] = v;
+      else other(v, `${path}[${i}][${j}]`, base + j);
+    }
   }
 }
 
@@ -144,6 +154,10 @@ function fillRows(
 /** The encoding name of the packed matrix form (protocol 1.1). */
 export const PACKED_ENCODING = 'float64-le';
 
+// A search for one bad character (about 1 ms per megabyte); an anchored /^[...]*$/ backtracks ten times slower.
+const NOT_BASE64 = /[^A-Za-z0-9+/=]/;
+const NodeBuffer = (globalThis as { Buffer?: { from(text: string, encoding: 'base64'): Uint8Array } }).Buffer;
+
 /** Bytes of `b64` (standard base64, padded), checked to be exactly `bytes` long before decoding. */
 function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
   if (typeof b64 !== 'string') throw new RhoError('invalid-argument', `Expected a base64 string, not ${describe(b64)}.`, path);
@@ -151,16 +165,29 @@ function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
   if (b64.length !== want) {
     throw new RhoError('dimension-mismatch', `The base64 text has ${b64.length} characters; ${bytes} bytes of float64 need ${want}.`, path);
   }
-  let text: string;
-  try {
-    // atob is standard in Node (>= 16) and in browsers and workers; it rejects characters outside base64.
-    text = atob(b64);
-  } catch {
-    throw new RhoError('parse-error', 'The packed data is not valid base64.', path);
+  const invalid = (): boolean => {
+    const pad = b64.indexOf('=');
+    return NOT_BASE64.test(b64) || (pad >= 0 && b64.slice(pad) !== '=' && b64.slice(pad) !== '==');
+  };
+  // Node's Buffer decodes natively (several times faster than atob and a loop). It skips characters
+  // outside base64 instead of refusing them, which the byte count below then catches; the character
+  // check runs only then, to tell bad base64 from a wrong length. (It also reads the URL-safe alphabet.)
+  // atob elsewhere (browsers, workers), which rejects characters outside base64 itself.
+  let out: Uint8Array;
+  if (NodeBuffer) {
+    out = NodeBuffer.from(b64, 'base64');
+    if (out.length !== bytes && invalid()) throw new RhoError('parse-error', 'The packed data is not valid base64.', path);
+  } else {
+    let text: string;
+    try {
+      text = atob(b64);
+    } catch {
+      throw new RhoError('parse-error', 'The packed data is not valid base64.', path);
+    }
+    out = new Uint8Array(text.length);
+    for (let k = 0; k < text.length; k++) out[k] = text.charCodeAt(k);
   }
-  if (text.length !== bytes) throw new RhoError('dimension-mismatch', `The packed data holds ${text.length} bytes, not ${bytes}.`, path);
-  const out = new Uint8Array(bytes);
-  for (let k = 0; k < bytes; k++) out[k] = text.charCodeAt(k);
+  if (out.length !== bytes) throw new RhoError('dimension-mismatch', `The packed data holds ${out.length} bytes, not ${bytes}.`, path);
   return out;
 }
 
@@ -169,7 +196,8 @@ const LITTLE_ENDIAN = new Uint8Array(new Float64Array([1]).buffer)[7] === 0x3f;
 /** Float64 values from little-endian bytes into `target`; every value must be finite. */
 function fillPacked(bytes: Uint8Array, target: Float64Array, path: string): void {
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  if (LITTLE_ENDIAN) target.set(new Float64Array(bytes.buffer, bytes.byteOffset, target.length));
+  if (LITTLE_ENDIAN && bytes.byteOffset % 8 === 0) target.set(new Float64Array(bytes.buffer, bytes.byteOffset, target.length));
+  else if (LITTLE_ENDIAN) new Uint8Array(target.buffer, target.byteOffset, bytes.length).set(bytes);
   else for (let k = 0; k < target.length; k++) target[k] = view.getFloat64(8 * k, true);
   for (let k = 0; k < target.length; k++) {
     if (!Number.isFinite(target[k])) {
@@ -221,7 +249,7 @@ export function readMatrix(value: unknown, path: string): CMatrix {
     refuseUnknownKeys(value, ['re', 'im'], path, 'a complex matrix');
     const { rows, cols } = rowsShape(value.re, `${path}.re`);
     const m = zeros(rows, cols);
-    fillRows(value.re as unknown[], `${path}.re`, cols, (v, p, k) => {
+    fillRows(value.re as unknown[], `${path}.re`, cols, m.re, (v, p, k) => {
       m.re[k] = realEntry(v, p);
     });
     if (value.im !== undefined) {
@@ -233,7 +261,7 @@ export function readMatrix(value: unknown, path: string): CMatrix {
           `${path}.im`,
         );
       }
-      fillRows(value.im as unknown[], `${path}.im`, cols, (v, p, k) => {
+      fillRows(value.im as unknown[], `${path}.im`, cols, m.im, (v, p, k) => {
         m.im[k] = realEntry(v, p);
       });
     }
@@ -249,7 +277,7 @@ export function readMatrix(value: unknown, path: string): CMatrix {
   const { rows, cols } = rowsShape(value, path);
   const m = zeros(rows, cols);
   let expressions = 0;
-  fillRows(value, path, cols, (v, p, k) => {
+  fillRows(value, path, cols, m.re, (v, p, k) => {
     if (typeof v === 'string' && ++expressions > MAX_EXPRESSION_ENTRIES) {
       throw tooLarge(p, 'The number of expression entries', expressions, MAX_EXPRESSION_ENTRIES);
     }
@@ -260,18 +288,92 @@ export function readMatrix(value: unknown, path: string): CMatrix {
   return m;
 }
 
-/** A square matrix (finite, non-empty). */
+/**
+ * Largest magnitude of a matrix entry: above it the squares that norms and products are made of
+ * overflow double precision (about 1.3e154), and the answers would be NaN instead of numbers.
+ */
+export const MAX_ENTRY_MAGNITUDE = 1e150;
+
+/**
+ * One pass over a square matrix (the checks that used to walk it five times): every entry finite and of
+ * magnitude at most MAX_ENTRY_MAGNITUDE, the Frobenius norm, and the Hermiticity defect
+ * max|M_ij − conj(M_ji)| with its place. Throws for a bad entry, naming it.
+ */
+function squareFacts(m: CMatrix, path: string): { norm: number; defect: { size: number; row: number; col: number } } {
+  const n = m.rows;
+  const re = m.re;
+  const im = m.im;
+  let sum = 0;
+  for (let k = 0; k < n * n; k++) {
+    const x = re[k];
+    const y = im[k];
+    if (!(Math.abs(x) <= MAX_ENTRY_MAGNITUDE && Math.abs(y) <= MAX_ENTRY_MAGNITUDE)) {
+      const [i, j] = [Math.floor(k / n), k % n];
+      if (!Number.isFinite(x) || !Number.isFinite(y)) throw new RhoError('invalid-argument', 'The matrix has a NaN or infinite entry.', `${path}[${i}][${j}]`);
+      throw new RhoError(
+        'invalid-argument',
+        `Entry [${i}][${j}] has magnitude ${Math.max(Math.abs(x), Math.abs(y)).toExponential(3)}, above ${MAX_ENTRY_MAGNITUDE}: its square would overflow double precision. Rescale the matrix (and a parameter it multiplies, such as β).`,
+        `${path}[${i}][${j}]`,
+      );
+    }
+    sum += x * x + y * y;
+  }
+  // The defect compares M_ij with M_ji: in tiles of 32 × 32, so that the transposed reads stay in cache.
+  let worst = 0;
+  let row = 0;
+  let col = 0;
+  const T = 32;
+  for (let ib = 0; ib < n; ib += T) {
+    for (let jb = ib; jb < n; jb += T) {
+      const iEnd = Math.min(ib + T, n);
+      const jEnd = Math.min(jb + T, n);
+      for (let i = ib; i < iEnd; i++) {
+        for (let j = Math.max(jb, i); j < jEnd; j++) {
+          const dr = re[i * n + j] - re[j * n + i];
+          const di = im[i * n + j] + im[j * n + i]; // on the diagonal: 2 Im M_ii
+          const d2 = dr * dr + di * di;
+          if (d2 > worst) {
+            worst = d2;
+            row = j;
+            col = i;
+          }
+        }
+      }
+    }
+  }
+  return { norm: Math.sqrt(sum), defect: { size: Math.sqrt(worst), row, col } };
+}
+
+/** A square matrix (finite, non-empty, entries of magnitude at most MAX_ENTRY_MAGNITUDE). */
 export function readSquareMatrix(value: unknown, path: string): CMatrix {
   const m = readMatrix(value, path);
-  checkSquareFinite(m, path);
+  if (m.rows !== m.cols) throw new RhoError('dimension-mismatch', `The matrix is ${m.rows}x${m.cols}; it must be square.`, path);
+  squareFacts(m, path);
   return m;
+}
+
+/**
+ * A Hermitian matrix within the tolerance (defect relative to its Frobenius norm, as in
+ * quantum/validate.ts), with its Hermiticity defect; read and checked in one pass after decoding.
+ */
+export function readHermitianWithDefect(value: unknown, path: string, tol: number): { matrix: CMatrix; defect: number } {
+  const m = readMatrix(value, path);
+  if (m.rows !== m.cols) throw new RhoError('dimension-mismatch', `The matrix is ${m.rows}x${m.cols}; it must be square.`, path);
+  const { norm, defect } = squareFacts(m, path);
+  if (defect.size > tol * Math.max(norm, 1e-300)) {
+    throw new RhoError(
+      'not-hermitian',
+      `The matrix is not Hermitian: entry [${defect.row}][${defect.col}] differs from the conjugate of [${defect.col}][${defect.row}] by ${defect.size.toExponential(3)}.`,
+      `${path}[${defect.row}][${defect.col}]`,
+      { defect: defect.size },
+    );
+  }
+  return { matrix: m, defect: defect.size };
 }
 
 /** A Hermitian matrix within the tolerance (relative to its Frobenius norm; see quantum/validate.ts). */
 export function readHermitian(value: unknown, path: string, tol: number): CMatrix {
-  const m = readSquareMatrix(value, path);
-  checkHermitian(m, tol, path);
-  return m;
+  return readHermitianWithDefect(value, path, tol).matrix;
 }
 
 /** A ket as an n×1 column: a list of numbers or expression strings, or {"re": list, "im": list}. */
@@ -412,6 +514,92 @@ export function readNumber(value: unknown, path: string, range: NumberRange = {}
 
 const STATE_KEYS = ['matrix', 'ket', 'dims', 'labels'] as const;
 
+/**
+ * How an accepted state was made exact before use, when that changed it by more than rounding (the one
+ * rule for inputs accepted within a loose "tolerance"; docs/protocol.md, "Values"): the Hermitian part,
+ * negative eigenvalues set to zero, and, for density matrices and kets, divided by the trace (norm²).
+ */
+export interface Adjustment {
+  /** The input's place in the request ("rho", "states[2]"). */
+  path: string;
+  /** Its trace (a ket: its squared norm) before the division, when that was not 1 to within 1e-12. */
+  trace?: number;
+  /** Its most negative eigenvalue before it was set to zero, when below −1e-12 · ‖M‖_F. */
+  smallestEigenvalue?: number;
+  /** Its Hermiticity defect max|M_ij − conj(M_ji)|, when above 1e-12 · ‖M‖_F. */
+  hermiticityDefect?: number;
+}
+
+/** What is done to an accepted input, in words (the answer's note beside its list of adjustments). */
+export const ADJUSTMENT_RULE =
+  'Inputs accepted within the tolerance are used made exact: their Hermitian part, negative eigenvalues set to zero, and density matrices (and kets) divided by their trace (squared norm); the inputs listed here changed by more than rounding.';
+
+/** Changes below this (relative to the norm; absolute for traces) count as rounding and are not reported. */
+const ROUNDING = 1e-12;
+
+let adjustments: Adjustment[] | undefined;
+
+/** Runs `f`, collecting the adjustments made to the states it reads (handle reports them in the answer). */
+export function collectingAdjustments<T>(f: () => T): { result: T; adjustments: Adjustment[] } {
+  const saved = adjustments;
+  const mine: Adjustment[] = [];
+  adjustments = mine;
+  try {
+    return { result: f(), adjustments: mine };
+  } finally {
+    adjustments = saved;
+  }
+}
+
+/**
+ * The exact version of an accepted matrix (see Adjustment): Hermitian part, negative eigenvalues (given
+ * ascending in `values`) set to zero, divided by the trace when `normalise`.
+ */
+function madeExact(m: CMatrix, values: Float64Array, normalise: boolean, path: string): CMatrix {
+  const norm = Math.max(frobeniusNorm(m), 1e-300);
+  const note: Adjustment = { path };
+  const defect = hermiticityDefect(m).size;
+  let out = m;
+  if (defect > 0) {
+    out = hermitianPart(m);
+    if (defect > ROUNDING * norm) note.hermiticityDefect = defect;
+  }
+  if (values[0] < 0) {
+    if (values[0] < -ROUNDING * norm) {
+      note.smallestEigenvalue = values[0];
+      const { values: w, vectors } = eigh(out, { vectors: true });
+      const n = out.rows;
+      const clipped = zeros(n, n);
+      for (let k = 0; k < n; k++) {
+        const lam = w[k];
+        if (!(lam > 0)) continue;
+        for (let i = 0; i < n; i++) {
+          const ar = vectors!.re[i * n + k] * lam;
+          const ai = vectors!.im[i * n + k] * lam;
+          for (let j = 0; j < n; j++) {
+            const br = vectors!.re[j * n + k];
+            const bi = vectors!.im[j * n + k];
+            clipped.re[i * n + j] += ar * br + ai * bi;
+            clipped.im[i * n + j] += ai * br - ar * bi;
+          }
+        }
+      }
+      out = hermitianPart(clipped);
+    }
+  }
+  if (normalise) {
+    const tr = trace(out).re;
+    if (tr !== 1 && tr > 0) {
+      if (Math.abs(tr - 1) > ROUNDING) note.trace = trace(m).re;
+      out = scale(out, 1 / tr);
+    }
+  }
+  if (adjustments && (note.trace !== undefined || note.smallestEigenvalue !== undefined || note.hermiticityDefect !== undefined)) {
+    adjustments.push(note);
+  }
+  return out;
+}
+
 function readStateWith(value: unknown, path: string, tol: number, check: 'density' | 'positive'): State {
   // A bare matrix stands for {"matrix": M} (one system).
   const obj: Record<string, unknown> = Array.isArray(value) || (isPlainObject(value) && 're' in value) ? { matrix: value } : (value as Record<string, unknown>);
@@ -444,6 +632,10 @@ function readStateWith(value: unknown, path: string, tol: number, check: 'densit
       );
     }
     matrix = mul(v, adjoint(v));
+    if (norm2 !== 1) {
+      if (Math.abs(norm2 - 1) > ROUNDING && adjustments) adjustments.push({ path: at('ket'), trace: norm2 });
+      matrix = scale(matrix, 1 / norm2);
+    }
   } else {
     matrix = readSquareMatrix(obj.matrix, at('matrix'));
   }
@@ -452,18 +644,21 @@ function readStateWith(value: unknown, path: string, tol: number, check: 'densit
   checkDims(matrix, dims, at('dims'));
   const labels = obj.labels === undefined ? undefined : readLabels(obj.labels, at('labels'), dims.length);
   if (obj.ket === undefined) {
-    if (check === 'density') checkDensityMatrix(matrix, tol, at('matrix'));
-    else checkPositive(matrix, tol, at('matrix'));
+    const values = check === 'density' ? checkDensityMatrix(matrix, tol, at('matrix')) : checkPositive(matrix, tol, at('matrix'));
+    matrix = madeExact(matrix, values, check === 'density', bare ? path : path);
   }
   return labels ? { matrix, dims, labels } : { matrix, dims };
 }
 
-/** A density matrix (Hermitian, positive semidefinite, unit trace within `tol`); dims default [n]. */
+/**
+ * A density matrix (Hermitian, positive semidefinite, unit trace within `tol`); dims default [n]. It is
+ * returned made exact (Hermitian part, negative eigenvalues set to zero, unit trace; see Adjustment).
+ */
 export function readState(value: unknown, path: string, tol: number): State {
   return readStateWith(value, path, tol, 'density');
 }
 
-/** A positive semidefinite operator of any trace (the σ of a divergence), in the state's form. */
+/** A positive semidefinite operator of any trace (the σ of a divergence), in the state's form; made exact but not normalised. */
 export function readOperatorState(value: unknown, path: string, tol: number): State {
   return readStateWith(value, path, tol, 'positive');
 }
@@ -587,7 +782,56 @@ function cleanZero(x: number): number {
   return x === 0 ? 0 : x; // no -0 in answers
 }
 
-/** A matrix as plain data: real rows when every imaginary part is zero, else {re, im}. */
+/** How answers write matrices: as rows (the default) or packed (the request's "answerMatrices"). */
+let answerForm: 'rows' | 'packed' = 'rows';
+
+/** Runs `f` with matrices in answers written in `form` (handle sets this from the request). */
+export function withAnswerMatrices<T>(form: 'rows' | 'packed', f: () => T): T {
+  const saved = answerForm;
+  answerForm = form;
+  try {
+    return f();
+  } finally {
+    answerForm = saved;
+  }
+}
+
+/** A packed matrix in an answer (the protocol's packed form): row-major little-endian float64, base64. */
+export interface PackedMatrix {
+  shape: [number, number];
+  packed: typeof PACKED_ENCODING;
+  re: string;
+  im?: string;
+}
+
+const NodeBufferOut = (globalThis as { Buffer?: { from(b: ArrayBuffer, offset: number, length: number): { toString(e: 'base64'): string } } }).Buffer;
+
+/** Base64 of the little-endian bytes of `values`, with −0 written as 0 (answers carry no signed zeros). */
+function encodeFloat64(values: Float64Array): string {
+  const copy = new Float64Array(values.length);
+  for (let k = 0; k < values.length; k++) copy[k] = values[k] === 0 ? 0 : values[k];
+  if (!LITTLE_ENDIAN) {
+    const view = new DataView(copy.buffer);
+    for (let k = 0; k < copy.length; k++) view.setFloat64(8 * k, values[k] === 0 ? 0 : values[k], true);
+  }
+  if (NodeBufferOut) return NodeBufferOut.from(copy.buffer, 0, copy.byteLength).toString('base64');
+  const bytes = new Uint8Array(copy.buffer);
+  let text = '';
+  for (let k = 0; k < bytes.length; k += 0x8000) text += String.fromCharCode(...bytes.subarray(k, k + 0x8000));
+  return btoa(text);
+}
+
+/** A matrix in the packed form; `im` left out when `withIm` is false. */
+export function writePackedMatrix(m: CMatrix, withIm: boolean): PackedMatrix {
+  const out: PackedMatrix = { shape: [m.rows, m.cols], packed: PACKED_ENCODING, re: encodeFloat64(m.re) };
+  if (withIm) out.im = encodeFloat64(m.im);
+  return out;
+}
+
+/**
+ * A matrix as plain data: real rows when every imaginary part is zero, else {re, im}; in the packed form
+ * (im left out when zero) when the request asked for packed answer matrices.
+ */
 export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: number[][] } {
   let complex = false;
   for (let k = 0; k < m.im.length; k++) {
@@ -596,6 +840,8 @@ export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: numb
       break;
     }
   }
+  // (Typed as rows for the ops that build answers; a packed matrix is plain data as well.)
+  if (answerForm === 'packed') return writePackedMatrix(m, complex) as unknown as number[][];
   const re: number[][] = [];
   const im: number[][] = [];
   for (let i = 0; i < m.rows; i++) {
@@ -613,6 +859,7 @@ export function writeMatrix(m: CMatrix): number[][] | { re: number[][]; im: numb
 
 /** A matrix always as {re, im} (for answers whose shape should not depend on the data). */
 export function writeComplexMatrix(m: CMatrix): { re: number[][]; im: number[][] } {
+  if (answerForm === 'packed') return writePackedMatrix(m, true) as unknown as { re: number[][]; im: number[][] };
   const re: number[][] = [];
   const im: number[][] = [];
   for (let i = 0; i < m.rows; i++) {
@@ -651,13 +898,25 @@ export function readSupportTolerance(req: Record<string, any>): number {
 }
 
 /**
- * An SDP certificate (src/oneshot/sdp-support.ts) as plain data: numbers through writeNumber (an
- * infinite objective becomes "Infinity"), strings copied, key order kept.
+ * An SDP certificate (src/sdp/support.ts) as plain data, recursively: numbers through writeNumber (an
+ * infinite objective becomes "Infinity"), matrices (its primal and dual points) through writeMatrix,
+ * lists and objects element by element, strings copied, key order kept.
  */
 export function writeCertificate(c: object): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(c)) out[k] = typeof v === 'number' ? writeNumber(v) : v;
-  return out;
+  return writePlain(c) as Record<string, unknown>;
+}
+
+function writePlain(v: unknown): unknown {
+  if (typeof v === 'number') return writeNumber(v);
+  if (Array.isArray(v)) return v.map(writePlain);
+  if (v && typeof v === 'object') {
+    const m = v as Partial<CMatrix>;
+    if (m.re instanceof Float64Array && m.im instanceof Float64Array && typeof m.rows === 'number') return writeMatrix(v as CMatrix);
+    const out: Record<string, unknown> = {};
+    for (const [k, x] of Object.entries(v)) out[k] = writePlain(x);
+    return out;
+  }
+  return v;
 }
 
 export function writeState(s: State): { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } {

@@ -27,7 +27,7 @@ import { defineOp, OpContext, OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeMatrix,
 } from './codec.js';
-import { dense, sdp, sideOf } from './cost.js';
+import { dense, sideOf } from './cost.js';
 
 const supportToleranceSchema = supportToleranceProperty(
   'Relative tolerance below which an eigenvalue counts as zero, and the largest weight of ρ outside supp σ still taken as zero (default 1e-12); separate from "tolerance", which validates inputs.',
@@ -57,7 +57,9 @@ function divergenceCost(req: Record<string, any>) {
     return dense(n, 4 * steps, `${steps} ascent steps of four dense steps`);
   }
   if (req.family === 'hypothesis-testing') {
-    return sdp({ blocks: [{ size: n, hermitian: true }, { size: n, hermitian: true }, { size: 1, vector: true }], constraints: n * n + 1 }, dense(n, 4));
+    // The one-dimensional Neyman–Pearson dual (src/oneshot/neyman-pearson.ts): 8–20 steps, each an
+    // eigendecomposition with vectors and the diagonal of V*ρV.
+    return dense(n, 40, 'about 20 steps of the one-dimensional Neyman–Pearson dual, two dense steps each');
   }
   return dense(n, 8);
 }
@@ -81,6 +83,38 @@ export interface ExtraDivergenceInput {
  * schema properties (`epsilon` is there for hypothesis testing).
  */
 export const extraDivergenceFamilies = new Map<string, (input: ExtraDivergenceInput) => OpResult>();
+
+/**
+ * The family-specific fields each divergence family uses; a request giving one its family does not use
+ * is refused naming the field (an "alpha" on umegaki would otherwise be ignored silently). A module that
+ * registers a family in extraDivergenceFamilies sets its fields here too; a family without an entry is
+ * not checked.
+ */
+export const divergenceFamilyFields = new Map<string, readonly string[]>([
+  ['umegaki', []],
+  ['petz', ['alpha']],
+  ['sandwiched', ['alpha']],
+  ['alpha-z', ['alpha', 'z']],
+  ['geometric', ['alpha']],
+  ['max', []],
+  ['min', []],
+  ['measured', ['maxIterations']],
+  ['hypothesis-testing', ['epsilon']],
+]);
+
+const FAMILY_SPECIFIC = ['alpha', 'z', 'epsilon', 'maxIterations'] as const;
+
+/** Refuses a family-specific field that `family` does not use. */
+function refuseUnusedFields(family: string, req: Record<string, unknown>): void {
+  const uses = divergenceFamilyFields.get(family);
+  if (!uses) return;
+  for (const field of FAMILY_SPECIFIC) {
+    if (req[field] !== undefined && !uses.includes(field)) {
+      const takes = uses.length ? `it takes ${uses.map((f) => `"${f}"`).join(', ')}` : 'it takes no parameter';
+      throw new RhoError('invalid-argument', `The ${family} divergence does not use "${field}"; ${takes}.`, field);
+    }
+  }
+}
 
 function knownFamilies(): string[] {
   return [...DIVERGENCE_FAMILIES, ...extraDivergenceFamilies.keys()];
@@ -147,6 +181,7 @@ defineOp({
     if (!extra && !(DIVERGENCE_FAMILIES as readonly string[]).includes(family)) {
       throw new RhoError('unknown-family', `Unknown divergence family "${family}"; known families: ${knownFamilies().join(', ')}.`, 'family');
     }
+    refuseUnusedFields(family, req);
     const rho = readState(req.rho, 'rho', context.tolerance).matrix;
     const sigma = readOperatorState(req.sigma, 'sigma', context.tolerance).matrix;
     if (rho.rows !== sigma.rows) {
@@ -255,6 +290,9 @@ defineOp({
     return dense(sideOf(req.rho), 6 * iterations, iterations > 1 ? `${iterations} iterations of six dense steps` : 'six dense steps');
   },
   run(req, { tolerance, base }) {
+    if (req.maxIterations !== undefined && !(req.family === 'sandwiched' && req.optimized === true)) {
+      throw new RhoError('invalid-argument', '"maxIterations" is used only by the optimised sandwiched entropy (family "sandwiched" with "optimized": true).', 'maxIterations');
+    }
     const { state, groups: [a, b] } = readGroups(req, ['a', 'b'], tolerance, ['a']);
     const r = conditionalRenyiEntropy(state.matrix, state.dims, a, b, {
       family: req.family,

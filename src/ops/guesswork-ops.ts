@@ -20,6 +20,15 @@ import { dense, plain, sdp, sideOf } from './cost.js';
 /** Largest alphabet accepted in the request (the closed form is cheap; the SDP checks its own limit). */
 const MAX_ALPHABET = 1 << 16;
 
+/** log2 Σ_i i^k p_(i) over the guessing order (1-based positions), by log-sum-exp: finite where the sum overflows. */
+function log2Guesswork(p: readonly number[], order: readonly number[], moment: number): number {
+  const terms = order.map((x, i) => (p[x] > 0 ? moment * Math.log(i + 1) + Math.log(p[x]) : -Infinity));
+  const top = Math.max(...terms);
+  let sum = 0;
+  for (const t of terms) sum += Math.exp(t - top);
+  return (top + Math.log(sum)) / Math.LN2;
+}
+
 function readProbabilities(value: unknown): number[] {
   if (!Array.isArray(value) || value.length === 0) {
     throw new RhoError('invalid-argument', 'The probabilities must be a non-empty list of numbers.', 'probabilities');
@@ -71,10 +80,30 @@ defineOp({
     const p = readProbabilities(req.probabilities);
     const moment = req.moment === undefined ? 1 : readNumber(req.moment, 'moment', { min: 0, minExclusive: true });
     if (req.states === undefined) {
+      if (req.weightTolerance !== undefined) {
+        throw new RhoError('invalid-argument', '"weightTolerance" is used only with side information ("states").', 'weightTolerance');
+      }
       const g = guessworkClassical(p, moment, tolerance);
-      return { value: writeNumber(g.value), method: 'closed-form', moment, order: g.order, ties: g.ties };
+      const out: Record<string, unknown> & { value: unknown } = { value: writeNumber(g.value), method: 'closed-form', moment, order: g.order, ties: g.ties };
+      if (!Number.isFinite(g.value)) {
+        // A finite sum that overflowed: say so, with its logarithm (log-sum-exp over the guessing order).
+        const log2 = log2Guesswork(p, g.order, moment);
+        out.log2Value = log2;
+        out.reason = `The value is finite but above the largest double (about 1.8e308): its base-2 logarithm is ${log2}.`;
+      }
+      return out;
     }
     if (!Array.isArray(req.states)) throw new RhoError('invalid-argument', 'The states must be a list, one state per symbol.', 'states');
+    // The SDP's costs are (number of guesses)^moment: they must stay finite, with room for the sums.
+    const largestMoment = Math.log(1e300) / Math.log(Math.max(2, p.length));
+    if (moment > largestMoment) {
+      throw new RhoError(
+        'invalid-argument',
+        `With ${p.length} symbols the costs (number of guesses)^moment reach ${p.length}^${moment}, beyond double precision; the SDP needs finite costs, so the moment must be at most ${largestMoment.toFixed(2)} here.`,
+        'moment',
+        { limit: largestMoment },
+      );
+    }
     const states = req.states.map((s: unknown, x: number) => readState(s, `states[${x}]`, tolerance).matrix);
     const weightTolerance =
       req.weightTolerance === undefined ? DEFAULT_WEIGHT_TOLERANCE : readNumber(req.weightTolerance, 'weightTolerance', { min: 0, max: 1 });

@@ -23,7 +23,7 @@ import { DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import { withDeadline } from '../deadline.js';
 import { overLimits, type CostEstimate } from '../limits.js';
 import { getOp, listOps, type OpContext, type OpDefinition } from './registry.js';
-import { writeMatrix } from './codec.js';
+import { ADJUSTMENT_RULE, collectingAdjustments, withAnswerMatrices, writeMatrix } from './codec.js';
 import { checkRequestSizes, type RequestSizes } from './sizes.js';
 import { dense } from './cost.js';
 import { validators as precompiled } from './validators.generated.js';
@@ -79,6 +79,10 @@ export const COMMON_FIELDS = {
   id: {
     description: 'Any string or number; echoed back in the answer so batch users can match answers to requests.',
     type: ['string', 'number'],
+  },
+  answerMatrices: {
+    description: 'How matrices in the answer are written: "rows" (the default: real rows, or {"re", "im"} rows) or "packed" ({"shape", "packed": "float64-le", "re", "im"?}, base64 of row-major little-endian float64, im left out when zero), for large matrices.',
+    enum: ['rows', 'packed'],
   },
   deadline: {
     description: `Milliseconds the op may run; past it the op stops with 'deadline-exceeded' (iterative methods and the SDP solver say how far they got). Default ${DEFAULT_DEADLINE_MS} for the command and the engine, at most ${MAX_DEADLINE_MS}.`,
@@ -403,7 +407,8 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
     return failure(opName.slice(0, 100), id, { code: 'unknown-op', message: `There is no op "${clip(opName, 100)}". ${hint}`, path: 'op' });
   }
   try {
-    const sizes = checkRequestSizes(req);
+    const sizes = sizesOf(req);
+    lastSizes = undefined; // do not keep the request alive
     const validate = validatorFor(def);
     if (!validate(req)) throw schemaError(validate.errors ?? [], def, req);
     if (req.base === 1) throw new RhoError('invalid-argument', 'The logarithm base must not be 1.', 'base');
@@ -415,16 +420,22 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
       base: req.base === 'e' ? Math.E : typeof req.base === 'number' ? req.base : DEFAULT_BASE,
     };
     const deadline = typeof req.deadline === 'number' ? req.deadline : (options.defaultDeadline ?? DEFAULT_DEADLINE_MS);
-    const result = withDeadline(deadline, () => def.run(req, context));
-    if (typeof result !== 'object' || result === null || !('value' in result)) {
-      throw new NotPlain('', 'a result without "value"');
-    }
-    const plain = toPlain(result, '', 0) as Record<string, unknown>;
+    const form = req.answerMatrices === 'packed' ? 'packed' : 'rows';
+    const { result: plain, adjustments } = collectingAdjustments(() =>
+      withAnswerMatrices(form, () => {
+        const result = withDeadline(deadline, () => def.run(req, context));
+        if (typeof result !== 'object' || result === null || !('value' in result)) {
+          throw new NotPlain('', 'a result without "value"');
+        }
+        return toPlain(result, '', 0) as Record<string, unknown>;
+      }),
+    );
     const { ok: _ok, op: _op, id: _id, value, ...extras } = plain;
     const answer: Record<string, unknown> = { ok: true, op: opName };
     if (id !== undefined) answer.id = id;
     answer.value = value ?? null;
     Object.assign(answer, extras);
+    if (adjustments.length) answer.inputsAdjusted = { note: ADJUSTMENT_RULE, inputs: toPlain(adjustments, 'inputsAdjusted', 0) };
     return answer as Answer;
   } catch (err) {
     if (err instanceof RhoError) return failure(opName, id, fromRhoError(err));
@@ -451,19 +462,33 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
   }
 }
 
-/** Whether a request holds a string anywhere but in "op" and "id" (it may need the expression reader). */
-function holdsStrings(v: unknown, depth: number): boolean {
-  if (typeof v === 'string') return true;
-  if (depth > 12 || typeof v !== 'object' || v === null) return false;
-  if (Array.isArray(v)) {
-    for (const x of v) if (holdsStrings(x, depth + 1)) return true;
-    return false;
+/** The size check of the last request looked at (handleAsync checks first; handle need not walk it again). */
+let lastSizes: { request: object; sizes: RequestSizes } | undefined;
+
+function sizesOf(req: Record<string, unknown>): RequestSizes {
+  if (lastSizes?.request === req) return lastSizes.sizes;
+  const sizes = checkRequestSizes(req);
+  lastSizes = { request: req, sizes };
+  return sizes;
+}
+
+/** Fields whose strings are names or choices, never expressions. */
+const NAME_FIELDS = new Set(['op', 'id', 'name', 'family', 'form']);
+
+/**
+ * Whether a request may need the expression reader: expression strings in its matrices or kets (the
+ * size check counts them; the base64 text of packed matrices is not among them), or a top-level
+ * string field that may hold an expression (such as a metric function).
+ */
+function mayNeedExpressions(request: unknown): boolean {
+  if (typeof request !== 'object' || request === null || Array.isArray(request)) return false;
+  const req = request as Record<string, unknown>;
+  for (const [k, v] of Object.entries(req)) if (typeof v === 'string' && !NAME_FIELDS.has(k)) return true;
+  try {
+    return sizesOf(req).expressions > 0;
+  } catch {
+    return false; // too large: handle() refuses it without reading anything
   }
-  for (const [k, x] of Object.entries(v)) {
-    if (depth === 0 && (k === 'op' || k === 'id')) continue;
-    if (holdsStrings(x, depth + 1)) return true;
-  }
-  return false;
 }
 
 /**
@@ -472,7 +497,7 @@ function holdsStrings(v: unknown, depth: number): boolean {
  * alone is enough.
  */
 export async function handleAsync(request: unknown, options: HandleOptions = {}): Promise<Answer> {
-  if (!expressionReaderLoaded() && holdsStrings(request, 0)) {
+  if (!expressionReaderLoaded() && mayNeedExpressions(request)) {
     try {
       await loadExpressionReader();
     } catch {

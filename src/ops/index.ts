@@ -10,3 +10,4 @@ export {
 export { listOps, getOp, defineOp, type OpDefinition, type OpContext, type OpResult } from './registry.js';
 export * as codec from './codec.js';
 export { readExpression, MAX_EXPRESSION_LENGTH, loadExpressionReader } from './expressions.js';
+export { warmUp, warmUpRequests, type WarmUpOptions, type WarmUpReport } from './warm-up.js';

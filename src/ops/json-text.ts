@@ -31,7 +31,9 @@ export function decodeUtf8(bytes: Uint8Array): string | undefined {
   }
 }
 
-const STRING_OR_KEY = /"(?:[^"\\]|\\.)*"(\s*:)?/g;
+// The unrolled form of "(?:[^"\\]|\\.)*" (one class loop per run of plain characters): twice as fast on
+// long strings (the base64 text of a packed matrix).
+const STRING_OR_KEY = /"[^"\\]*(?:\\.[^"\\]*)*"(\s*:)?/g;
 
 /** Number of object keys written in a valid JSON text. */
 function keysInText(text: string): number {

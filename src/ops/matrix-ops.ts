@@ -8,12 +8,11 @@
  * Cost: spectrum O(n^3) (the project's eigensolver); the subsystem ops O(n^2) after reading the input.
  */
 import { eigh } from '../linalg/eigh.js';
-import { hermiticityDefect } from '../linalg/cmatrix.js';
 import { marginal, partialTrace, partialTranspose, reorderSubsystems } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import { defineOp } from './registry.js';
 import {
-  readDims, readHermitian, readLabels, readSquareMatrix, readSystems, schemas, writeComplexMatrix, writeMatrix,
+  readDims, readHermitianWithDefect, readLabels, readSquareMatrix, readSystems, schemas, writeComplexMatrix, writeMatrix,
 } from './codec.js';
 import { dense, plain, sideOf } from './cost.js';
 
@@ -30,13 +29,13 @@ defineOp({
   },
   cost: (req) => dense(sideOf(req.matrix), 1, 'one eigendecomposition'),
   run(req, { tolerance }) {
-    const m = readHermitian(req.matrix, 'matrix', tolerance);
+    const { matrix: m, defect } = readHermitianWithDefect(req.matrix, 'matrix', tolerance);
     const wantVectors = req.vectors === true;
     const { values, vectors } = eigh(m, { vectors: wantVectors });
     const out: { value: number[]; vectors?: unknown; hermiticityDefect: number } = {
       value: Array.from(values),
       // The largest |M_ij − conj(M_ji)|: the input was taken as Hermitian up to this much.
-      hermiticityDefect: hermiticityDefect(m).size,
+      hermiticityDefect: defect,
     };
     if (wantVectors) out.vectors = writeComplexMatrix(vectors!);
     return out;
