@@ -96,7 +96,7 @@ export const divergenceFamilyFields = new Map<string, readonly string[]>([
   ['geometric', ['alpha']],
   ['max', []],
   ['min', []],
-  ['measured', ['maxIterations']],
+  ['measured', ['alpha', 'maxIterations']],
   ['hypothesis-testing', ['epsilon']],
 ]);
 

@@ -26,9 +26,13 @@ import { MAX_DIMENSION, MAX_KRAUS, MAX_CHANNEL_ENTRIES, readDims, schemas, write
 import type { CMatrix } from '../linalg/cmatrix.js';
 import { dense, plain } from './cost.js';
 
-/** The order of a dims list of a schema-valid request (for cost estimates: nothing is read). */
+/**
+ * The order of a dims list of a schema-valid request, for cost estimates (nothing is read), capped at
+ * MAX_DIMENSION: above it `run` refuses the request itself, naming the field.
+ */
 function orderOf(dims: unknown): number {
-  return Array.isArray(dims) ? dims.reduce((p: number, d) => p * (Number(d) || 1), 1) : 1;
+  const d = Array.isArray(dims) ? dims.reduce((p: number, x) => p * (Number(x) || 1), 1) : 1;
+  return Math.min(d, MAX_DIMENSION);
 }
 
 /** Most normals one draw may consume (a 1024 × 4096 Ginibre matrix): bounds the work of one request. */
@@ -184,7 +188,7 @@ defineOp({
   },
   cost: (req) => {
     const d = orderOf(req.dims);
-    const k = req.ensemble === 'induced' ? Number(req.ancilla) || d : d;
+    const k = req.ensemble === 'induced' ? Math.min(Number(req.ancilla) || d, MAX_DIMENSION) : d;
     return plain(8 * d * d * k, 64 * d * Math.max(d, k), `drawing a ${d}×${d} state`);
   },
   run(req) {
@@ -229,7 +233,7 @@ defineOp({
     properties: { d: { type: 'integer', minimum: 1, description: 'The order of the unitary.' }, ...drawFields },
     required: ['d'],
   },
-  cost: (req) => dense(Number(req.d) || 1, 1, 'a QR factorisation'),
+  cost: (req) => dense(Math.min(Number(req.d) || 1, MAX_DIMENSION), 1, 'a QR factorisation'),
   run(req) {
     const d = positiveInt(req.d, 'd', MAX_DIMENSION);
     const { object, coordinates } = drawWith(req, 2 * d * d, (s) => haarUnitary(d, s));
@@ -256,7 +260,7 @@ defineOp({
   cost: (req) => {
     const din = orderOf(req.from);
     const dout = req.to === undefined ? din : orderOf(req.to);
-    const m = Number(req.environment ?? req.unitaries) || din * dout;
+    const m = Math.min(Number(req.environment ?? req.unitaries) || din * dout, MAX_KRAUS);
     return plain(16 * (m * dout) * din * din, 64 * m * dout * din, `drawing ${m} Kraus operators ${dout}×${din}`);
   },
   run(req) {
@@ -307,7 +311,7 @@ defineOp({
   },
   cost: (req) => {
     const dB = Array.isArray(req.blocks) ? req.blocks.reduce((s: number, b: number[]) => s + (b[0] ?? 1) * (b[1] ?? 1), 0) : 1;
-    return dense((Number(req.a) || 1) * dB * (Number(req.c) || 1), 2, 'drawing and rotating the blocks');
+    return dense(Math.min((Number(req.a) || 1) * dB * (Number(req.c) || 1), MAX_DIMENSION), 2, 'drawing and rotating the blocks');
   },
   run(req) {
     const a = positiveInt(req.a, 'a', MAX_DIMENSION);
