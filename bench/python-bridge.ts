@@ -6,7 +6,8 @@
  *  - Python: kernel-bridge/bench_overhead.py times `rhosigma.compute(request)` (numpy in, Answer out)
  *    against the long-lived `rhosigma serve` process: the conversion to the protocol (large matrices
  *    packed), JSON, the pipe both ways, the engine's line handling and handle(), the JSON answer back
- *    and its conversion. Median of K calls after a warm-up of at least 1 s.
+ *    and its conversion. Median of K calls after a warm-up of at least 1 s. Beside it the package's own
+ *    CPU time per request (encoding and decoding only, process time: steady under other load).
  *  - A Node client of its own: the same request lines written to a fresh `rhosigma serve` from this
  *    process, one at a time, median round trip of K after the warm-up. Python minus this column is
  *    what the Python package adds; this column minus the next is the serve process's transport
@@ -36,6 +37,7 @@ interface PythonCase {
   name: string;
   request: unknown;
   medianMs: number;
+  pythonCpuMs: number;
 }
 
 function pythonRound(): PythonCase[] {
@@ -76,29 +78,31 @@ function engineMedian(request: unknown): number {
 
 export default async function run(flags: string[]): Promise<void> {
   const rounds = flags.includes('--slow') ? 7 : 3;
-  const perCase = new Map<string, { py: number[]; node: number[]; engine: number[] }>();
+  const perCase = new Map<string, { py: number[]; cpu: number[]; node: number[]; engine: number[] }>();
   const f = (x: number) => x.toFixed(3).padStart(8);
-  const header = `  ${'case'.padEnd(36)} ${'python'.padStart(8)} ${'node→serve'.padStart(10)} ${'handle()'.padStart(8)} ${'added'.padStart(8)}`;
+  const header = `  ${'case'.padEnd(36)} ${'python'.padStart(8)} ${'py CPU'.padStart(8)} ${'node→serve'.padStart(10)} ${'handle()'.padStart(8)} ${'added'.padStart(8)}`;
   for (let r = 0; r < rounds; r++) {
     const cases = pythonRound();
     console.log(`round ${r + 1} (ms, medians of ${K}):\n${header}`);
     for (const c of cases) {
       const n = await serveMedian(c.request);
       const e = engineMedian(c.request);
-      const slot = perCase.get(c.name) ?? { py: [], node: [], engine: [] };
+      const slot = perCase.get(c.name) ?? { py: [], cpu: [], node: [], engine: [] };
       slot.py.push(c.medianMs);
+      slot.cpu.push(c.pythonCpuMs);
       slot.node.push(n);
       slot.engine.push(e);
       perCase.set(c.name, slot);
-      console.log(`  ${c.name.padEnd(36)} ${f(c.medianMs)} ${f(n).padStart(10)} ${f(e)} ${f(c.medianMs - e)}`);
+      console.log(`  ${c.name.padEnd(36)} ${f(c.medianMs)} ${f(c.pythonCpuMs)} ${f(n).padStart(10)} ${f(e)} ${f(c.medianMs - e)}`);
     }
   }
   console.log(`\nmedian over ${rounds} rounds; added = python − handle(), goal < ${GOAL_MS} ms; python − node→serve is the Python package's own share:`);
   console.log(`${header}  python/node→serve`);
-  for (const [name, { py, node, engine }] of perCase) {
+  for (const [name, { py, cpu, node, engine }] of perCase) {
     const p = median(py);
+    const c = median(cpu);
     const n = median(node);
     const e = median(engine);
-    console.log(`  ${name.padEnd(36)} ${f(p)} ${f(n).padStart(10)} ${f(e)} ${f(p - e)}  ${(p / n).toFixed(2)}×`);
+    console.log(`  ${name.padEnd(36)} ${f(p)} ${f(c)} ${f(n).padStart(10)} ${f(e)} ${f(p - e)}  ${(p / n).toFixed(2)}×`);
   }
 }

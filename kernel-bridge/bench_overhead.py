@@ -1,8 +1,9 @@
 """Python half of bench/python-bridge.ts: round-trip times of rhosigma.compute after start-up.
 
 Prints one JSON object: for each case, the request exactly as sent (protocol form; large matrices
-packed) and the median wall time of `rhosigma.compute(request)` over K calls, after a warm-up that
-lets the engine's JIT settle. The TypeScript half times the engine's own `handle()` on the same
+packed), the median wall time of `rhosigma.compute(request)` over K calls after a warm-up that lets the
+engine's JIT settle, and the package's own CPU time per request (encoding the request, decoding the
+answer: process time, so other load on the machine hardly moves it). The TypeScript half times the engine's own `handle()` on the same
 requests in the same run, so that the difference is what the Python path adds. Not a test.
 
 Usage: .venv/bin/python kernel-bridge/bench_overhead.py [K]
@@ -17,7 +18,9 @@ import time
 import numpy as np
 
 import rhosigma
+from rhosigma.answer import Answer
 from rhosigma.convert import to_protocol
+from rhosigma.engine import _Prepared
 
 
 def density(d: int, rng: np.random.Generator) -> np.ndarray:
@@ -57,7 +60,13 @@ def main() -> None:
             t0 = time.perf_counter()
             rhosigma.compute(request)
             times.append((time.perf_counter() - t0) * 1e3)
-        out.append({"name": name, "request": to_protocol(request), "medianMs": statistics.median(times)})
+        line = json.dumps(engine.compute_raw([request])[0]).encode("utf-8")
+        t0 = time.process_time()
+        for _ in range(k):
+            _Prepared(request)
+            Answer.from_protocol(json.loads(line.decode("utf-8")), request)
+        cpu = (time.process_time() - t0) / k * 1e3
+        out.append({"name": name, "request": to_protocol(request), "medianMs": statistics.median(times), "pythonCpuMs": cpu})
     print(json.dumps({"cases": out}))
 
 

@@ -8,6 +8,7 @@
  * production build (minified), about half a minute on two cores.
  */
 const path = require('node:path');
+const webpack = require('webpack');
 
 module.exports = {
   mode: 'production',
@@ -27,8 +28,10 @@ module.exports = {
       { test: /package\.json$/, type: 'asset/resource', generator: { filename: 'package.json' } },
     ],
   },
-  // One file of code: no split chunks, no separate runtime.
+  // One file of code: no split chunks, no separate runtime, and modules the command loads on first need
+  // (`import()`) inlined rather than emitted as chunks beside it.
   optimization: { splitChunks: false, runtimeChunk: false },
+  plugins: [new webpack.optimize.LimitChunkCountPlugin({ maxChunks: 1 })],
   performance: { hints: false },
   devtool: false,
   stats: 'errors-warnings',

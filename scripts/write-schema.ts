@@ -19,6 +19,7 @@ import { listOps } from '../src/ops/registry.js';
 import { AJV_OPTIONS, COMMON_FIELDS, ERROR_CODES, requestSchema } from '../src/ops/handle.js';
 import { schemas } from '../src/ops/codec.js';
 import { specSchemaText } from '../src/sweep/spec.js';
+import '../src/sweep/op.js';
 
 export const SCHEMA_FILE = fileURLToPath(new URL('../schema/protocol.schema.json', import.meta.url));
 export const DOC_FILE = fileURLToPath(new URL('../docs/protocol.md', import.meta.url));

@@ -15,7 +15,7 @@ from ._version import __version__
 from .answer import Answer
 from .convert import from_protocol, to_numpy, to_protocol
 from .display import ANSWER_MIME, load_ipython_extension, unload_ipython_extension
-from .engine import Engine, compute, compute_batch, default_engine, engine_command, shutdown
+from .engine import Engine, compute, compute_async, compute_batch, default_engine, engine_command, shutdown
 from .errors import ComputeError, EngineError, EngineNotFound, EngineStartError, RhosigmaError
 from .functions import (
     apply_channel,
@@ -56,16 +56,17 @@ from .functions import (
     trace_distance,
 )
 from .objects import Channel, State
+from .sweeps import sweep
 
 __all__ = [
     "__version__", "ANSWER_MIME", "Answer", "Channel", "ComputeError", "Engine", "EngineError", "EngineNotFound",
     "EngineStartError", "RhosigmaError", "State", "apply_channel", "bures_distance", "call", "channel_check",
     "channel_convert", "channel_preset", "chernoff_exponent", "complementary_channel", "compose_channels", "compute",
-    "compute_batch", "conditional_entropy", "conditional_max_entropy", "conditional_min_entropy",
+    "compute_async", "compute_batch", "conditional_entropy", "conditional_max_entropy", "conditional_min_entropy",
     "conditional_mutual_information", "conditional_renyi_entropy", "default_engine", "diamond_distance", "divergence",
     "engine_command", "entropy", "expectation_divergence", "fidelity", "fidelity_of_recovery", "fidelity_sdp",
     "fisher_information", "from_protocol", "guessing_probability", "guesswork", "load_ipython_extension",
     "max_information", "monotone_metric", "mutual_information", "partial_trace", "partial_transpose", "petz_recovery",
     "purified_distance", "reorder_subsystems", "shutdown", "smooth_max_divergence", "spectrum", "state_preset",
-    "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
+    "sweep", "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
 ]

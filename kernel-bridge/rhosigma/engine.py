@@ -25,7 +25,9 @@ JSON encode and decode plus one pipe round trip (bench: kernel-bridge/bench_over
 """
 from __future__ import annotations
 
+import asyncio
 import atexit
+import functools
 import json
 import os
 import select
@@ -44,7 +46,7 @@ from .answer import Answer
 from .convert import Refusal, dumps_line, to_protocol
 from .errors import EngineNotFound, EngineStartError
 
-__all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "shutdown", "compute", "compute_batch"]
+__all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "shutdown", "compute", "compute_batch", "compute_async"]
 
 _PACKAGE_DIR = Path(__file__).resolve().parent
 #: The engine bundle shipped inside the wheel (built by `npm run build:engine-bundle`).
@@ -495,3 +497,12 @@ def compute(request: Any, *, timeout: float | None = None) -> Any:
 def compute_batch(requests: Iterable[Any], *, timeout: float | None = None) -> list[Answer]:
     """Answers to many requests through the kernel's engine, in order (see `compute`)."""
     return default_engine().compute_batch(requests, timeout=timeout)
+
+
+async def compute_async(request: Any, *, timeout: float | None = None, engine: Engine | None = None) -> Any:
+    """`compute` without blocking an asyncio loop (a kernel's message loop, a widget's callback): the
+    exchange runs in a worker thread of the loop's default executor; the engine's lock keeps order."""
+    target = engine or default_engine()
+    call = target.compute_batch if isinstance(request, (list, tuple)) else target.compute
+    loop = asyncio.get_running_loop()
+    return await loop.run_in_executor(None, functools.partial(call, request, timeout=timeout))

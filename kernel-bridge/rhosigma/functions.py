@@ -9,8 +9,9 @@ reasons). A refusal raises `ComputeError` with the protocol's code, message and 
 Arguments: states are numpy arrays (a 2-D density matrix, or a 1-D ket), `State` objects, or the
 protocol's dicts; `dims=` and `labels=` describe the subsystems of an array (a `State` brings its own).
 Channels are `Channel` objects or protocol dicts. Subsystems are indices from 0 or labels. Keyword names
-are the protocol's in snake_case (`support_tolerance` for "supportTolerance"); `tolerance`, `base`
-(2 = bits by default, "e" = nats) and `timeout` (seconds) are accepted by every function.
+are the protocol's in snake_case (`support_tolerance` for "supportTolerance"); `timeout` (seconds) is
+accepted by every function; `tolerance` by every op that validates its inputs and `base` (2 = bits by
+default, "e" = nats) by every op whose value carries a logarithm, as the op's schema says.
 Ops without a function here (new ones) are reached with `call("op-name", field=value, ...)`.
 
 Deliberately not here: any numerics. Cost: one engine request per call (rhosigma.engine).
@@ -163,29 +164,29 @@ def expectation_divergence(rho, *, channel=None, blocks=None, multiplicities=Non
     return _plain_out(_ask("expectation-divergence", dict(rho=_state(rho, dims), channel=channel, blocks=blocks, multiplicities=multiplicities, support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
 
 
-def fidelity(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def fidelity(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """Uhlmann fidelity F = ‖√ρ√σ‖₁² (squared; `details=True` for the root) (op fidelity)."""
-    return _plain_out(_ask("fidelity", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("fidelity", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
-def fidelity_sdp(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def fidelity_sdp(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """Fidelity (squared) by Watrous's SDP, with its certificate under `details=True` (op fidelity-sdp)."""
-    return _plain_out(_ask("fidelity-sdp", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("fidelity-sdp", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
-def trace_distance(rho, sigma, *, dims=None, tolerance=None, base=None, details=False, timeout=None):
+def trace_distance(rho, sigma, *, dims=None, tolerance=None, details=False, timeout=None):
     """½‖ρ − σ‖₁ (op trace-distance)."""
-    return _plain_out(_ask("trace-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("trace-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), tolerance=tolerance), timeout=timeout), details)
 
 
-def bures_distance(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def bures_distance(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """√(2(1 − √F)) (op bures-distance)."""
-    return _plain_out(_ask("bures-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("bures-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
-def purified_distance(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def purified_distance(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """√(1 − F̄) with the generalized fidelity; subnormalised states allowed (op purified-distance)."""
-    return _plain_out(_ask("purified-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("purified-distance", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
 def chernoff_exponent(rho, sigma, *, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
@@ -193,38 +194,38 @@ def chernoff_exponent(rho, sigma, *, dims=None, support_tolerance=None, toleranc
     return _plain_out(_ask("chernoff-exponent", dict(rho=_state(rho, dims), sigma=_state(sigma, dims), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
 
 
-def monotone_metric(rho, x, y=None, *, metric=None, restrict_to_support=None, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def monotone_metric(rho, x, y=None, *, metric=None, restrict_to_support=None, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """Monotone metric γ_ρ^f(X, Y) for Hermitian tangent vectors (op monotone-metric)."""
-    return _plain_out(_ask("monotone-metric", dict(rho=_state(rho, dims), x=x, y=y, metric=metric, restrict_to_support=restrict_to_support, support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("monotone-metric", dict(rho=_state(rho, dims), x=x, y=y, metric=metric, restrict_to_support=restrict_to_support, support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
-def fisher_information(rho, derivative, *, metric=None, sld=None, dims=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def fisher_information(rho, derivative, *, metric=None, sld=None, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """Quantum Fisher information of a one-parameter family at ρ with derivative ∂ρ (op fisher-information)."""
-    return _plain_out(_ask("fisher-information", dict(rho=_state(rho, dims), derivative=derivative, metric=metric, sld=sld, support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("fisher-information", dict(rho=_state(rho, dims), derivative=derivative, metric=metric, sld=sld, support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
 # -- recoverability ---------------------------------------------------------------------------------
 
-def petz_recovery(rho, a, b, c, *, t=None, dims=None, labels=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def petz_recovery(rho, a, b, c, *, t=None, dims=None, labels=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """Fidelity (squared) of the Petz-recovered state; `details=True` for the state and the map (op petz-recovery)."""
-    return _plain_out(_ask("petz-recovery", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), t=t, support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("petz-recovery", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), t=t, support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
-def fidelity_of_recovery(rho, a, b, c, *, dims=None, labels=None, support_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def fidelity_of_recovery(rho, a, b, c, *, dims=None, labels=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
     """F(A;C|B) by an SDP, with the optimal channel and certificate under `details=True` (op fidelity-of-recovery)."""
-    return _plain_out(_ask("fidelity-of-recovery", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("fidelity-of-recovery", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
 # -- guessing ---------------------------------------------------------------------------------------
 
-def guessing_probability(probabilities, states, *, tolerance=None, base=None, details=False, timeout=None):
+def guessing_probability(probabilities, states, *, tolerance=None, details=False, timeout=None):
     """Optimal probability of guessing x from ρ_x drawn with p_x (an SDP) (op guessing-probability)."""
-    return _plain_out(_ask("guessing-probability", dict(probabilities=probabilities, states=[_state(s) for s in states], tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("guessing-probability", dict(probabilities=probabilities, states=[_state(s) for s in states], tolerance=tolerance), timeout=timeout), details)
 
 
-def guesswork(probabilities, states=None, *, moment=None, weight_tolerance=None, tolerance=None, base=None, details=False, timeout=None):
+def guesswork(probabilities, states=None, *, moment=None, weight_tolerance=None, tolerance=None, details=False, timeout=None):
     """Least expected number of guesses (to the `moment`), with quantum side information when `states` are given (op guesswork)."""
-    return _plain_out(_ask("guesswork", dict(probabilities=probabilities, states=[_state(s) for s in states] if states is not None else None, moment=moment, weight_tolerance=weight_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+    return _plain_out(_ask("guesswork", dict(probabilities=probabilities, states=[_state(s) for s in states] if states is not None else None, moment=moment, weight_tolerance=weight_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
 # -- matrices, states and channels ------------------------------------------------------------------
@@ -238,19 +239,19 @@ def spectrum(matrix, *, vectors=False, tolerance=None, details=False, timeout=No
     return (values, to_numpy(answer["vectors"])) if vectors else values
 
 
-def partial_trace(matrix, dims, *, over=None, keep=None, labels=None, tolerance=None, details=False, timeout=None):
+def partial_trace(matrix, dims, *, over=None, keep=None, labels=None, details=False, timeout=None):
     """Tr over some subsystems (`over`), or onto those kept (`keep`, in that order) (op partial-trace)."""
-    return _plain_out(_ask("partial-trace", dict(matrix=matrix, dims=list(dims), labels=labels, over=_systems(over), keep=_systems(keep), tolerance=tolerance), timeout=timeout), details)
+    return _plain_out(_ask("partial-trace", dict(matrix=matrix, dims=list(dims), labels=labels, over=_systems(over), keep=_systems(keep)), timeout=timeout), details)
 
 
-def partial_transpose(matrix, dims, on, *, labels=None, tolerance=None, details=False, timeout=None):
+def partial_transpose(matrix, dims, on, *, labels=None, details=False, timeout=None):
     """Partial transpose on the listed subsystems (computational basis) (op partial-transpose)."""
-    return _plain_out(_ask("partial-transpose", dict(matrix=matrix, dims=list(dims), labels=labels, on=_systems(on), tolerance=tolerance), timeout=timeout), details)
+    return _plain_out(_ask("partial-transpose", dict(matrix=matrix, dims=list(dims), labels=labels, on=_systems(on)), timeout=timeout), details)
 
 
-def reorder_subsystems(matrix, dims, order, *, labels=None, tolerance=None, details=False, timeout=None):
+def reorder_subsystems(matrix, dims, order, *, labels=None, details=False, timeout=None):
     """Reorder tensor factors: subsystem k of the result is subsystem order[k] of the input (op reorder-subsystems)."""
-    return _plain_out(_ask("reorder-subsystems", dict(matrix=matrix, dims=list(dims), labels=labels, order=list(order), tolerance=tolerance), timeout=timeout), details)
+    return _plain_out(_ask("reorder-subsystems", dict(matrix=matrix, dims=list(dims), labels=labels, order=list(order)), timeout=timeout), details)
 
 
 def state_preset(name, *, tolerance=None, details=False, timeout=None, **params):

@@ -316,3 +316,26 @@ def test_answers_made_in_python_follow_the_answer_schema(engine):
     assert codes == ["invalid-argument", "deadline-exceeded", "invalid-argument", "internal-error"]
     for a in made:
         jsonschema.validate(a, failure, cls=jsonschema.Draft202012Validator)
+
+
+def test_compute_async_leaves_the_event_loop_free():
+    """While an answer is computed the loop keeps running other tasks (asyncio, standard library)."""
+    import asyncio
+
+    async def main():
+        ticks = 0
+
+        async def ticker():
+            nonlocal ticks
+            while True:
+                ticks += 1
+                await asyncio.sleep(0.01)
+
+        t = asyncio.create_task(ticker())
+        answers = await rhosigma.compute_async([slow_request(id="s"), {"op": "entropy", "rho": np.eye(2) / 2}])
+        t.cancel()
+        return answers, ticks
+
+    answers, ticks = asyncio.run(main())
+    assert answers[0]["ok"] and answers[0]["id"] == "s" and answers[1]["value"] == 1
+    assert ticks >= 20        # the SDP takes well over 0.2 s; the loop ticked all along

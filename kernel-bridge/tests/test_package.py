@@ -63,3 +63,10 @@ def test_the_wheel_runs_its_own_engine_outside_the_checkout(tmp_path):
     assert got["file"].startswith(str(tmp_path / "site"))
     assert got["command"][-1] == str(tmp_path / "site" / "rhosigma" / "_bundle" / "rhosigma.cjs")
     assert np.allclose(got["value"], np.linalg.eigvalsh(h), atol=1e-12)   # numpy.linalg.eigvalsh
+
+
+def test_the_public_names_are_all_importable_and_listed_once():
+    """`from rhosigma import *` gives exactly __all__, each name once (explicit imports in __init__.py)."""
+    assert len(rhosigma.__all__) == len(set(rhosigma.__all__))
+    for name in rhosigma.__all__:
+        assert hasattr(rhosigma, name), name

@@ -25,6 +25,7 @@ import { summarize, formatSummary } from '../sweep/summary.js';
 import { plotSvg } from '../sweep/plot.js';
 import { readSweepFile, type Shard } from '../sweep/file.js';
 import { evaluatePoint } from '../sweep/point.js';
+import '../sweep/op.js';
 import type { Io } from './main.js';
 
 function fail(io: Io, err: unknown): number {

@@ -16,7 +16,13 @@
  *
  * Does not: pivot, block for cache, or handle sizes beyond what the solver's blocks need (h ≲ 64).
  * Cost: h³-type loops, stated per function.
+ *
+ * Two column kernels at the end work on CMatrix (cmatrix.ts's split storage) instead: the diagonal of
+ * V* A V, and weighted sums of projectors onto columns.
  */
+import { zeros, type CMatrix } from './cmatrix.js';
+
+import { orthogonalizeColumns } from './graded.js';
 
 /** Complex Hermitian h×h from its real embedding (2h×2h), averaging the two copies. */
 export function extractHermitian(emb: Float64Array, h: number, out: Float64Array): void {
@@ -223,64 +229,8 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
   for (let e = 0; e < 2 * hh; e++) u[e] = b[e];
   v.fill(0, 0, 2 * hh);
   for (let i = 0; i < h; i++) v[i * h + i] = 1;
-  const tol = 4 * h * Number.EPSILON;
-  for (let sweep = 0; sweep < 60; sweep++) {
-    let rotated = false;
-    for (let p = 0; p < h; p++) {
-      for (let q = p + 1; q < h; q++) {
-        let alpha = 0;
-        let beta = 0;
-        let gr = 0;
-        let gi = 0;
-        for (let k = 0; k < h; k++) {
-          const pr = u[k * h + p];
-          const pi = u[hh + k * h + p];
-          const qr = u[k * h + q];
-          const qi = u[hh + k * h + q];
-          alpha += pr * pr + pi * pi;
-          beta += qr * qr + qi * qi;
-          // conj(u_p) u_q
-          gr += pr * qr + pi * qi;
-          gi += pr * qi - pi * qr;
-        }
-        const g = Math.hypot(gr, gi);
-        if (g === 0 || g <= tol * Math.sqrt(alpha * beta)) continue;
-        rotated = true;
-        // phase e = conj(γ)/|γ|: column q ← e·u_q makes u_p^H u_q = |γ|
-        const er = gr / g;
-        const ei = -gi / g;
-        const zeta = (beta - alpha) / (2 * g);
-        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
-        const c = 1 / Math.sqrt(1 + t * t);
-        const s = c * t;
-        for (let k = 0; k < h; k++) {
-          const ip = k * h + p;
-          const iq = k * h + q;
-          const pr = u[ip];
-          const pi = u[hh + ip];
-          const q0r = u[iq];
-          const q0i = u[hh + iq];
-          const qr = er * q0r - ei * q0i;
-          const qi = er * q0i + ei * q0r;
-          u[ip] = c * pr - s * qr;
-          u[hh + ip] = c * pi - s * qi;
-          u[iq] = s * pr + c * qr;
-          u[hh + iq] = s * pi + c * qi;
-          const vpr = v[ip];
-          const vpi = v[hh + ip];
-          const v0r = v[iq];
-          const v0i = v[hh + iq];
-          const vqr = er * v0r - ei * v0i;
-          const vqi = er * v0i + ei * v0r;
-          v[ip] = c * vpr - s * vqr;
-          v[hh + ip] = c * vpi - s * vqi;
-          v[iq] = s * vpr + c * vqr;
-          v[hh + iq] = s * vpi + c * vqi;
-        }
-      }
-    }
-    if (!rotated) break;
-  }
+  // The one complex Jacobi kernel (graded.ts), on the two halves of this storage.
+  orthogonalizeColumns(u.subarray(0, hh), u.subarray(hh, 2 * hh), h, h, v.subarray(0, hh), v.subarray(hh, 2 * hh), 4 * h * Number.EPSILON, 60);
   for (let j = 0; j < h; j++) {
     let s = 0;
     for (let k = 0; k < h; k++) {
@@ -292,3 +242,143 @@ export function cSvdJacobi(b: Float64Array, h: number, v: Float64Array, sigma: F
   }
 }
 
+
+// ---------------------------------------------------------------------------------------------------
+// Column kernels on CMatrix (split real/imaginary row-major storage, src/linalg/cmatrix.ts).
+
+/**
+ * out[i] = Re v_i* A v_i for every column v_i of V (n×n), A Hermitian n×n (its upper triangle read):
+ * the diagonal of V* A V without forming the product. Σ_r A_rr |v_r|² + 2 Re Σ_{r<c} conj(v_r) A_rc v_c,
+ * two columns per pass over A. n³/2 complex multiply-adds. Hand-written because the full product
+ * V* A V (mul twice) costs four times as much and only its diagonal is wanted.
+ */
+export function columnQuadraticForms(a: CMatrix, v: CMatrix, out: Float64Array = new Float64Array(v.cols)): Float64Array {
+  const n = a.rows;
+  const m = v.cols;
+  const ar = a.re;
+  const ai = a.im;
+  const xr = new Float64Array(n);
+  const xi = new Float64Array(n);
+  const yr = new Float64Array(n);
+  const yi = new Float64Array(n);
+  let i = 0;
+  for (; i + 1 < m; i += 2) {
+    for (let r = 0; r < n; r++) {
+      xr[r] = v.re[r * m + i];
+      xi[r] = v.im[r * m + i];
+      yr[r] = v.re[r * m + i + 1];
+      yi[r] = v.im[r * m + i + 1];
+    }
+    let s0 = 0;
+    let s1 = 0;
+    for (let r = 0; r < n; r++) {
+      const ro = r * n;
+      // t = Σ_{c>r} A_rc v_c for both columns
+      let t0r = 0;
+      let t0i = 0;
+      let t1r = 0;
+      let t1i = 0;
+      for (let c = r + 1; c < n; c++) {
+        const pr = ar[ro + c];
+        const pi = ai[ro + c];
+        const ur = xr[c];
+        const ui = xi[c];
+        const wr = yr[c];
+        const wi = yi[c];
+        t0r += pr * ur - pi * ui;
+        t0i += pr * ui + pi * ur;
+        t1r += pr * wr - pi * wi;
+        t1i += pr * wi + pi * wr;
+      }
+      const d = ar[ro + r];
+      // Re conj(v_r) t = v_r.re t.re + v_r.im t.im
+      s0 += d * (xr[r] * xr[r] + xi[r] * xi[r]) + 2 * (xr[r] * t0r + xi[r] * t0i);
+      s1 += d * (yr[r] * yr[r] + yi[r] * yi[r]) + 2 * (yr[r] * t1r + yi[r] * t1i);
+    }
+    out[i] = s0;
+    out[i + 1] = s1;
+  }
+  if (i < m) {
+    for (let r = 0; r < n; r++) {
+      xr[r] = v.re[r * m + i];
+      xi[r] = v.im[r * m + i];
+    }
+    let s0 = 0;
+    for (let r = 0; r < n; r++) {
+      const ro = r * n;
+      let t0r = 0;
+      let t0i = 0;
+      for (let c = r + 1; c < n; c++) {
+        const pr = ar[ro + c];
+        const pi = ai[ro + c];
+        t0r += pr * xr[c] - pi * xi[c];
+        t0i += pr * xi[c] + pi * xr[c];
+      }
+      s0 += ar[ro + r] * (xr[r] * xr[r] + xi[r] * xi[r]) + 2 * (xr[r] * t0r + xi[r] * t0i);
+    }
+    out[i] = s0;
+  }
+  return out;
+}
+
+/**
+ * Σ_k w_k v_{c_k} v_{c_k}* for columns c_k of V (n×m) and real weights w_k: a Hermitian n×n CMatrix
+ * (upper triangle computed, mirrored). n²·k/2 complex multiply-adds.
+ */
+export function weightedColumnGram(v: CMatrix, cols: readonly number[], weights: readonly number[]): CMatrix {
+  const n = v.rows;
+  const m = v.cols;
+  const out = zeros(n, n);
+  const k = cols.length;
+  // Gather the selected columns scaled by their weights (rows of U: u_r = (w_k v_{r, c_k})_k).
+  const ur = new Float64Array(n * k);
+  const ui = new Float64Array(n * k);
+  for (let r = 0; r < n; r++) {
+    for (let q = 0; q < k; q++) {
+      ur[r * k + q] = v.re[r * m + cols[q]];
+      ui[r * k + q] = v.im[r * m + cols[q]];
+    }
+  }
+  for (let r = 0; r < n; r++) {
+    const ro = r * k;
+    for (let c = r; c < n; c++) {
+      const co = c * k;
+      let sr = 0;
+      let si = 0;
+      for (let q = 0; q < k; q++) {
+        // w v_r conj(v_c)
+        const w = weights[q];
+        const ar = ur[ro + q];
+        const ai = ui[ro + q];
+        const br = ur[co + q];
+        const bi = ui[co + q];
+        sr += w * (ar * br + ai * bi);
+        si += w * (ai * br - ar * bi);
+      }
+      out.re[r * n + c] = sr;
+      out.im[r * n + c] = si;
+      out.re[c * n + r] = sr;
+      out.im[c * n + r] = -si;
+    }
+    out.im[r * n + r] = 0;
+  }
+  return out;
+}
+
+/**
+ * Whether A + t·B − s·I (Hermitian CMatrix, n×n) is numerically positive definite: its Cholesky
+ * factorization succeeds in floating point (so it is positive definite up to the factorization's
+ * backward error, about n·u·‖A + tB‖; a margin s > 0 asks for λ_min(A + tB) > s). n³/3 complex
+ * multiply-adds.
+ */
+export function isPositiveDefiniteCombination(a: CMatrix, b: CMatrix, t: number, s = 0): boolean {
+  const n = a.rows;
+  const nn = n * n;
+  const m = new Float64Array(2 * nn);
+  for (let k = 0; k < nn; k++) {
+    m[k] = a.re[k] + t * b.re[k];
+    m[nn + k] = a.im[k] + t * b.im[k];
+  }
+  for (let i = 0; i < n; i++) m[i * n + i] -= s;
+  return cCholesky(m, n, new Float64Array(2 * nn));
+}

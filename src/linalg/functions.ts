@@ -2,6 +2,8 @@
  * Functions of Hermitian matrices through the spectral decomposition, f(H) = V f(Λ) V*,
  * and the notions of support and numerical rank they need.
  *
+ * Also the complex powers H^{p(1+it)} of the rotated Petz maps.
+ *
  * Support convention: an eigenvalue counts as zero when |λ| <= tol · ‖H‖ (operator norm), with
  * `tol` an explicit argument (default DEFAULT_SUPPORT_TOLERANCE). Powers with negative exponents and
  * the logarithm are taken on the support only (negative powers are pseudo-inverse powers; log is 0
@@ -14,8 +16,11 @@ import { eigh, EighResult } from './eigh.js';
 /** Default relative tolerance below which an eigenvalue is taken to be zero. */
 export const DEFAULT_SUPPORT_TOLERANCE = 1e-12;
 
-/** V diag(f) V* from an eigendecomposition. */
-export function fromSpectrum(vectors: CMatrix, f: ArrayLike<number>): CMatrix {
+/**
+ * V diag(f) V* from an eigendecomposition; with `fi`, V diag(f + i·fi) V* for a complex function of
+ * the eigenvalues (a normal, in general not Hermitian, matrix).
+ */
+export function fromSpectrum(vectors: CMatrix, f: ArrayLike<number>, fi?: ArrayLike<number>): CMatrix {
   const n = vectors.rows;
   const m = vectors.cols;
   const out = zeros(n, n);
@@ -26,10 +31,14 @@ export function fromSpectrum(vectors: CMatrix, f: ArrayLike<number>): CMatrix {
   const ui = new Float64Array(m);
   for (let i = 0; i < n; i++) {
     for (let k = 0; k < m; k++) {
-      ur[k] = f[k] * Vr[i * m + k];
-      ui[k] = f[k] * Vi[i * m + k];
+      const a = Vr[i * m + k];
+      const b = Vi[i * m + k];
+      const g = fi ? fi[k] : 0;
+      ur[k] = f[k] * a - g * b;
+      ui[k] = f[k] * b + g * a;
     }
-    for (let j = i; j < n; j++) {
+    // Real f: the result is Hermitian, so only j ≥ i is computed.
+    for (let j = fi ? 0 : i; j < n; j++) {
       let sr = 0;
       let si = 0;
       for (let k = 0; k < m; k++) {
@@ -40,10 +49,12 @@ export function fromSpectrum(vectors: CMatrix, f: ArrayLike<number>): CMatrix {
       }
       out.re[i * n + j] = sr;
       out.im[i * n + j] = si;
-      out.re[j * n + i] = sr;
-      out.im[j * n + i] = -si;
+      if (!fi) {
+        out.re[j * n + i] = sr;
+        out.im[j * n + i] = -si;
+      }
     }
-    out.im[i * n + i] = 0;
+    if (!fi) out.im[i * n + i] = 0;
   }
   return out;
 }
@@ -119,4 +130,29 @@ export function numericalRank(h: CMatrix, tol = DEFAULT_SUPPORT_TOLERANCE): numb
   let r = 0;
   for (let i = 0; i < values.length; i++) if (Math.abs(values[i]) > thr) r++;
   return r;
+}
+
+/**
+ * H^{p(1+it)} on the support of a positive semidefinite H (eigenvalues above tol·max|λ|), 0 on the
+ * kernel: λ^p (cos(pt ln λ) + i sin(pt ln λ)) per eigenvalue. Returns the matrix, the rank and the
+ * smallest kept eigenvalue. (t = 0: the ordinary power on the support.)
+ */
+export function complexPower(eig: EighResult, p: number, t: number, tol = DEFAULT_SUPPORT_TOLERANCE): { matrix: CMatrix; rank: number; smallest: number } {
+  const { values, vectors } = eig;
+  const thr = zeroThreshold(values, tol);
+  const fr = new Float64Array(values.length);
+  const fi = new Float64Array(values.length);
+  let rank = 0;
+  let smallest = Infinity;
+  values.forEach((v, k) => {
+    if (v > thr && v > 0) {
+      rank++;
+      smallest = Math.min(smallest, v);
+      const mag = Math.pow(v, p);
+      const ph = p * t * Math.log(v);
+      fr[k] = mag * Math.cos(ph);
+      fi[k] = mag * Math.sin(ph);
+    }
+  });
+  return { matrix: fromSpectrum(vectors!, fr, fi), rank, smallest: rank > 0 ? smallest : 0 };
 }

@@ -159,7 +159,7 @@ export function gradedSvd(b: CMatrix, options: { right?: boolean; left?: boolean
   const wr = wantLeft ? new Float64Array(k * k) : null;
   const wi = wantLeft ? new Float64Array(k * k) : null;
   if (wr) for (let i = 0; i < k; i++) wr[i * k + i] = 1;
-  hestenes(gr, gi, k, k, wr, wi);
+  orthogonalizeColumns(gr, gi, k, k, wr, wi);
   const sigma = new Float64Array(k);
   for (let j = 0; j < k; j++) sigma[j] = columnNorm(gr, gi, k, j, 0, k);
   const order = Array.from({ length: k }, (_, j) => j).sort((x, y) => sigma[y] - sigma[x]);
@@ -225,53 +225,90 @@ export function gradedSvd(b: CMatrix, options: { right?: boolean; left?: boolean
   return out;
 }
 
+/** Column sums of squares outside [TINY2, HUGE2] are recomputed scaled (no underflow or overflow). */
+const TINY2 = 1e-290;
+const HUGE2 = 1e290;
+
 /**
- * One-sided Jacobi on the columns of the rows × cols matrix (gr, gi): rotations until every pair of
- * columns is orthogonal to rounding relative to their norms (|g_p* g_q| ≤ cols·ε‖g_p‖‖g_q‖), the
- * rotations accumulated into (wr, wi) when given.
+ * One-sided (Hestenes) Jacobi on the columns of the complex rows × cols matrix (gr, gi), split real
+ * and imaginary parts, row-major: for each pair (p, q) a phase on column q makes g_p* g_q real, then a
+ * real rotation makes it 0, until every pair is orthogonal to `tol` relative to the column norms
+ * (|g_p* g_q| ≤ tol ‖g_p‖‖g_q‖, default cols·ε) or `maxSweeps` sweeps have run. The rotations are
+ * accumulated into (wr, wi) (cols × cols) when given. On return the columns of G are σ_j u_j; their
+ * norms are the singular values of the original G (high relative accuracy for column-graded G,
+ * Demmel & Veselić 1992). Column sums of squares beyond 1e±290 are recomputed from the columns scaled by
+ * their largest entries, so entries down to 1e-300 keep their relative accuracy; otherwise the
+ * arithmetic is the plain textbook one. This is the one Jacobi SVD kernel for complex matrices (the SDP
+ * solver's cSvdJacobi in dense-complex.ts calls it on its own storage).
  */
-function hestenes(gr: Float64Array, gi: Float64Array, rows: number, cols: number, wr: Float64Array | null, wi: Float64Array | null): void {
-  const tol = cols * EPS;
-  for (let sweep = 0; sweep < 80; sweep++) {
+export function orthogonalizeColumns(
+  gr: Float64Array, gi: Float64Array, rows: number, cols: number,
+  wr: Float64Array | null = null, wi: Float64Array | null = null, tol = cols * EPS, maxSweeps = 80,
+): void {
+  for (let sweep = 0; sweep < maxSweeps; sweep++) {
     let rotated = false;
     for (let p = 0; p < cols - 1; p++) {
       for (let q = p + 1; q < cols; q++) {
-        // Sums of the columns scaled by their largest moduli (so that squares of entries of 1e-200
-        // neither underflow nor lose digits): alpha, beta, gamma = ‖g_p‖², ‖g_q‖², g_p* g_q divided by
-        // mp², mq², mp·mq.
-        let mp = 0;
-        let mq = 0;
-        for (let i = 0; i < rows; i++) {
-          mp = Math.max(mp, Math.abs(gr[i * cols + p]), Math.abs(gi[i * cols + p]));
-          mq = Math.max(mq, Math.abs(gr[i * cols + q]), Math.abs(gi[i * cols + q]));
-        }
-        if (mp === 0 || mq === 0) continue;
-        const fp = inverseScale(mp);
-        const fq = inverseScale(mq);
         let alpha = 0;
         let beta = 0;
         let cr = 0;
         let ci = 0;
         for (let i = 0; i < rows; i++) {
-          const pr = gr[i * cols + p] * fp;
-          const pi = gi[i * cols + p] * fp;
-          const qr = gr[i * cols + q] * fq;
-          const qi = gi[i * cols + q] * fq;
+          const pr = gr[i * cols + p];
+          const pi = gi[i * cols + p];
+          const qr = gr[i * cols + q];
+          const qi = gi[i * cols + q];
           alpha += pr * pr + pi * pi;
           beta += qr * qr + qi * qi;
           cr += pr * qr + pi * qi;
           ci += pr * qi - pi * qr;
         }
-        const g = Math.hypot(cr, ci);
-        if (g === 0 || g <= tol * Math.sqrt(alpha) * Math.sqrt(beta)) continue;
+        let zeta: number;
+        let er: number;
+        let ei: number;
+        if (alpha >= TINY2 && beta >= TINY2 && alpha <= HUGE2 && beta <= HUGE2) {
+          const g = Math.hypot(cr, ci);
+          if (g === 0 || g <= tol * Math.sqrt(alpha * beta)) continue;
+          er = cr / g;
+          ei = -ci / g;
+          zeta = (beta - alpha) / (2 * g);
+        } else {
+          // The same sums for the columns scaled by their largest moduli mp, mq: alpha, beta, gamma
+          // then stand for ‖g_p‖²/mp², ‖g_q‖²/mq², g_p* g_q/(mp mq).
+          let mp = 0;
+          let mq = 0;
+          for (let i = 0; i < rows; i++) {
+            mp = Math.max(mp, Math.abs(gr[i * cols + p]), Math.abs(gi[i * cols + p]));
+            mq = Math.max(mq, Math.abs(gr[i * cols + q]), Math.abs(gi[i * cols + q]));
+          }
+          if (mp === 0 || mq === 0) continue;
+          const fp = inverseScale(mp);
+          const fq = inverseScale(mq);
+          alpha = 0;
+          beta = 0;
+          cr = 0;
+          ci = 0;
+          for (let i = 0; i < rows; i++) {
+            const pr = gr[i * cols + p] * fp;
+            const pi = gi[i * cols + p] * fp;
+            const qr = gr[i * cols + q] * fq;
+            const qi = gi[i * cols + q] * fq;
+            alpha += pr * pr + pi * pi;
+            beta += qr * qr + qi * qi;
+            cr += pr * qr + pi * qi;
+            ci += pr * qi - pi * qr;
+          }
+          const g = Math.hypot(cr, ci);
+          if (g === 0 || g <= tol * Math.sqrt(alpha) * Math.sqrt(beta)) continue;
+          er = cr / g;
+          ei = -ci / g;
+          const ratio = fp / fq; // mq/mp
+          zeta = (ratio * beta - alpha / ratio) / (2 * g);
+        }
         rotated = true;
         // Column q times conj(γ)/|γ| makes g_p* g_q real; then the real rotation of the pair, from
-        // ζ = (‖g_q‖² − ‖g_p‖²)/(2|γ|) in the scaled sums.
-        const er = cr / g;
-        const ei = -ci / g;
-        const ratio = fp / fq;
-        const zeta = (ratio * beta - alpha / ratio) / (2 * g);
-        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.hypot(1, zeta));
+        // ζ = (‖g_q‖² − ‖g_p‖²)/(2|γ|).
+        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
         const c = 1 / Math.sqrt(1 + t * t);
         const s = c * t;
         rotatePair(gr, gi, rows, cols, p, q, er, ei, c, s);

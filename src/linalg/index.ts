@@ -4,3 +4,5 @@ export * from './subsystems.js';
 export * from './eigh.js';
 export * from './functions.js';
 export * from './norms.js';
+export * from './spectral.js';
+export * from './graded.js';

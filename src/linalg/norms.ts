@@ -1,11 +1,14 @@
 /**
  * Unitarily invariant norms: trace norm (sum of singular values) and operator norm (largest
- * singular value). Singular values come from the eigenvalues of A*A (or of A itself when A is
- * Hermitian, which is exact and cheaper); this squares the condition number, which matters only
- * for singular values far below ‖A‖, irrelevant to the sums and maxima taken here.
+ * singular value). A numerically Hermitian A gives its singular values as |eigenvalues| (exact and
+ * cheaper); any other A goes through the relative-accuracy SVD of graded.ts (never through A*A,
+ * which would square the condition number and turn singular values below √ε‖A‖ into noise).
+ * Deliberately not here: other norms (Schatten p, Ky Fan). Cost: one eigendecomposition or one SVD,
+ * O(n³).
  */
-import { adjoint, CMatrix, hermiticityDefect, maxAbs, mul } from './cmatrix.js';
+import { CMatrix, hermiticityDefect, maxAbs } from './cmatrix.js';
 import { eigvalsh } from './eigh.js';
+import { gradedSvd } from './graded.js';
 
 function isNumericallyHermitian(a: CMatrix): boolean {
   if (a.rows !== a.cols) return false;
@@ -15,14 +18,8 @@ function isNumericallyHermitian(a: CMatrix): boolean {
 
 /** Singular values in descending order. */
 export function singularValues(a: CMatrix): Float64Array {
-  let values: Float64Array;
-  if (isNumericallyHermitian(a)) {
-    values = eigvalsh(a).map(Math.abs);
-  } else {
-    const g = a.rows >= a.cols ? mul(adjoint(a), a) : mul(a, adjoint(a));
-    values = eigvalsh(g).map((x) => Math.sqrt(Math.max(x, 0)));
-  }
-  return values.sort().reverse();
+  if (isNumericallyHermitian(a)) return eigvalsh(a).map(Math.abs).sort().reverse();
+  return gradedSvd(a).values;
 }
 
 export function traceNorm(a: CMatrix): number {

@@ -31,7 +31,7 @@
  * complement, O(m² n²) to form and O(m³) to factor.
  */
 import {
-  CMatrix, marginal, partialTrace, product, scale, trace, identity, mul, adjoint,
+  CMatrix, marginal, partialTrace, product, scale, trace, identity, mul, adjoint, kron, traceOfProductRe, hermitianPart, eigh, fromSpectrum,
 } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import {
@@ -41,9 +41,12 @@ import {
 import { checkGroups } from '../quantities/conditional.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import {
-  acceptAnswer, certificateOf, coordinateMatrix, lnBase, matrixBlock, multiplierMatrix, symmetrize,
-  type OneShotSdpOptions, type LegacyCertificate,
+  assess, certifyRefined, clipPsd, coordinateMatrix, inverseRootOnSupport, lnBase, matrixBlock, maxEigenvalueUpper, multiplierMatrix, psdShift,
+  roundingPad, symmetrize, type Assessed, type OneShotSdpOptions, type SdpCertificate,
 } from '../sdp/support.js';
+import type { SdpOptions } from '../sdp/index.js';
+import { fidelity } from '../quantities/fidelity.js';
+import { positiveDefinite } from './fidelity-sdp.js';
 
 export interface ConditionalMinEntropyResult {
   /** H_min(A|B) in the chosen base. */
@@ -54,7 +57,7 @@ export interface ConditionalMinEntropyResult {
   /** The optimal X_AB of the dual form (X ⪰ 0, tr_A X = I_B): Tr ρ_AB X = 2^{−H_min}. */
   dualOperator: CMatrix;
   dims: { a: number; b: number };
-  certificate: LegacyCertificate;
+  certificate: SdpCertificate;
   note?: string;
 }
 
@@ -67,7 +70,7 @@ export interface ConditionalMaxEntropyResult {
   /** √F_max = ‖√ρ_AB √(I_A ⊗ σ_B)‖₁ at the optimum. */
   rootFidelity: number;
   dims: { a: number; b: number };
-  certificate: LegacyCertificate;
+  certificate: SdpCertificate;
   note?: string;
 }
 
@@ -101,39 +104,71 @@ export function minEntropyProblem(tau: CMatrix, dA: number, dB: number): SdpProb
   };
 }
 
-/**
- * Solve max { Tr τX : tr_A X = I_B, X ⪰ 0 } = min { Tr σ : I_A ⊗ σ ⪰ τ } for any τ ⪰ 0 (not
- * necessarily normalised). Shared with max-information.ts. Returns the optimal value, both optimisers,
- * the raw answer and the note of the acceptance rule.
- */
-export function solveMinEntropySdp(
-  tau: CMatrix, dA: number, dB: number, what: string, options: OneShotSdpOptions = {},
-): { optimum: number; sigma: CMatrix; X: CMatrix; ans: SdpAnswer; note?: string; certificate: LegacyCertificate } {
-  const ans = solveSdp(minEntropyProblem(tau, dA, dB), options.solver);
-  const note = acceptAnswer(ans, what);
-  const optimum = -ans.primalObjective;
-  if (!(optimum > 0)) {
-    throw new RhoError('solver-failed', `The SDP for ${what} returned a non-positive optimum ${optimum}.`, undefined, { status: ans.status });
-  }
-  const sigma = symmetrize(scale(multiplierMatrix(ans.y, 0, dB), -1));
-  return { optimum, sigma, X: symmetrize(matrixBlock(ans, 0)), ans, note, certificate: certificateOf(ans, MIN_PROBLEM) };
+/** One solve of the H_min SDP for τ with its certified bracket of the optimum min{Tr σ : I_A ⊗ σ ⪰ τ}. */
+export interface MinEntropySolve {
+  /** The solver's estimate of the optimum, and the certified bracket [lower, upper] (padded). */
+  optimum: number;
+  lower: number;
+  upper: number;
+  /** The repaired primal point σ (+ s·I: I_A ⊗ σ ⪰ τ) and dual point X (X ⪰ 0, tr_A X = I_B). */
+  sigma: CMatrix;
+  X: CMatrix;
+  ans: SdpAnswer;
 }
 
-/** H_min(A|B)_ρ (KRS 2009), with the optimal σ_B and the certificate. */
+/**
+ * Solve max { Tr τX : tr_A X = I_B, X ⪰ 0 } = min { Tr σ : I_A ⊗ σ ⪰ τ } for any τ ⪰ 0 (not
+ * necessarily normalised), and bracket the optimum by the repaired points: σ from the multipliers,
+ * shifted by s·I until I_A ⊗ σ ⪰ τ (upper: Tr σ); X from the solver, its negative eigenvalues clipped
+ * and renormalised X' = (I ⊗ G^{−1/2}) X (I ⊗ G^{−1/2}), G = tr_A X, so that tr_A X' = I_B (lower:
+ * Tr τX'). Shared with max-information.ts.
+ */
+export function solveMinEntropySdp(tau: CMatrix, dA: number, dB: number, solver?: SdpOptions): MinEntropySolve {
+  const ans = solveSdp(minEntropyProblem(tau, dA, dB), solver);
+  const raw = symmetrize(scale(multiplierMatrix(ans.y, 0, dB), -1));
+  const shift = psdShift(kron(identity(dA), raw), tau);
+  const sigma = hermitianPart(raw);
+  for (let i = 0; i < dB; i++) sigma.re[i * dB + i] += shift;
+  const upper = trace(sigma).re;
+  const Xc = clipPsd(symmetrize(matrixBlock(ans, 0)));
+  const g = partialTrace(Xc, [dA, dB], [0]);
+  const k = kron(identity(dA), inverseRootOnSupport(g));
+  const X = hermitianPart(mul(mul(k, Xc), k));
+  const lower = traceOfProductRe(tau, X);
+  const pad = roundingPad(dA * dA * dB * dB, Math.max(Math.abs(upper), Math.abs(lower)));
+  return { optimum: -ans.primalObjective, lower: lower - pad, upper: upper + pad, sigma, X, ans };
+}
+
+const MIN_ENTROPY_PROBLEM =
+  '2^{−H_min} = minimize Tr σ_B s.t. I_A ⊗ σ_B ⪰ ρ_AB (ρ divided by its trace; the marginal on A ∪ B, A first); ' +
+  'dual: maximize Tr ρ_AB X s.t. tr_A X = I_B, X ⪰ 0';
+
+/** H_min(A|B)_ρ (KRS 2009), with the optimal σ_B, the dual operator and the certificate. */
 export function conditionalMinEntropy(
   rho: CMatrix, dims: readonly number[], a: readonly number[], b: readonly number[], options: OneShotSdpOptions = {},
 ): ConditionalMinEntropyResult {
   const lb = lnBase(options.base);
   const { rhoAB, dA, dB } = bipartiteMarginal(rho, dims, a, b);
-  const r = solveMinEntropySdp(rhoAB, dA, dB, 'the conditional min-entropy', options);
+  const attempt = (solver: SdpOptions | undefined): Assessed => {
+    const r = solveMinEntropySdp(rhoAB, dA, dB, solver);
+    const h = (x: number) => (x > 0 ? -Math.log(x) / lb : Infinity);
+    return assess({
+      what: 'the conditional min-entropy', solve: r.ans, problem: MIN_ENTROPY_PROBLEM, sense: 'minimize',
+      primal: { sigma: r.sigma }, primalObjective: trace(r.sigma).re,
+      dual: { X: r.X }, dualObjective: traceOfProductRe(rhoAB, r.X),
+      bounds: { lower: h(r.upper), upper: h(r.lower) },
+      estimate: h(r.optimum),
+    });
+  };
+  const c = certifyRefined(attempt, options.solver);
   return {
-    value: -Math.log(r.optimum) / lb,
+    value: c.value,
     base: options.base ?? 2,
-    sigma: r.sigma,
-    dualOperator: r.X,
+    sigma: c.certificate.primal.sigma as CMatrix,
+    dualOperator: c.certificate.dual.X as CMatrix,
     dims: { a: dA, b: dB },
-    certificate: r.certificate,
-    ...(r.note ? { note: r.note } : {}),
+    certificate: c.certificate,
+    ...(c.note ? { note: c.note } : {}),
   };
 }
 
@@ -182,25 +217,80 @@ export function maxEntropyProblem(rhoAB: CMatrix, dA: number, dB: number, tol = 
   };
 }
 
-/** H_max(A|B)_ρ (KRS 2009) through the fidelity SDP, with the optimal σ_B and the certificate. */
+/**
+ * A state rounded onto the span of its eigenvalues above t·λ_max (renormalised), for t = 1e-4, 1e-7,
+ * 1e-10: candidates for the optimal face of an interior-point iterate.
+ */
+export function faceRoundings(state: CMatrix): CMatrix[] {
+  const { values, vectors } = eigh(hermitianPart(state), { vectors: true });
+  const top = values[values.length - 1];
+  const out: CMatrix[] = [];
+  for (const t of [1e-4, 1e-7, 1e-10]) {
+    const kept = Array.from(values, (v) => (v > t * top ? v : 0));
+    if (kept.every((v, i) => v === Math.max(0, values[i]))) continue;
+    const m = fromSpectrum(vectors!, kept);
+    out.push(scale(m, 1 / trace(m).re));
+  }
+  return out;
+}
+
+const MAX_ENTROPY_PROBLEM =
+  '2^{H_max} = maximize F(ρ_AB, I_A ⊗ σ_B) over states σ_B (F the squared fidelity; ρ divided by its trace, A first); ' +
+  'dual: √F ≤ √(Tr ρ_AB Y · λ_max(tr_A Y⁺)) for Y ⪰ 0 positive definite on supp ρ_AB (Y⁺ its inverse there; the support ' +
+  'decided with the support tolerance), from the fidelity SDP of Watrous (2018, Thm 3.17)';
+
+/** H_max(A|B)_ρ (KRS 2009) through the fidelity SDP, with the optimal σ_B, a dual point and the certificate. */
 export function conditionalMaxEntropy(
   rho: CMatrix, dims: readonly number[], a: readonly number[], b: readonly number[], options: OneShotSdpOptions = {},
 ): ConditionalMaxEntropyResult {
   const lb = lnBase(options.base);
+  const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
   const { rhoAB, dA, dB } = bipartiteMarginal(rho, dims, a, b);
-  const ans = solveSdp(maxEntropyProblem(rhoAB, dA, dB, options.tol), options.solver);
-  const note = acceptAnswer(ans, 'the conditional max-entropy');
-  const root = -ans.primalObjective;
-  if (!(root > 0)) {
-    throw new RhoError('solver-failed', `The fidelity SDP returned a non-positive optimum ${root}.`, undefined, { status: ans.status });
-  }
+  const S = spectral(rhoAB, tol);
+  const r = S.support.length;
+  const V = columns(S.vectors, S.support);
+  const D = S.support.map((k) => S.values[k]);
+  const problem = maxEntropyProblem(rhoAB, dA, dB, tol);
+  const attempt = (solver: SdpOptions | undefined): Assessed => {
+    const ans = solveSdp(problem, solver);
+    // Primal: σ_B clipped and normalised; its fidelity recomputed in closed form.
+    // (An interior-point σ_B is full rank; when the optimum is on a face of the state space, rounding
+    // σ_B onto its dominant eigenspace gains the O(barrier) part lost, so the best candidate is kept.)
+    const sc = clipPsd(symmetrize(matrixBlock(ans, 1)));
+    let sigma = scale(sc, 1 / trace(sc).re);
+    let f = fidelity(rhoAB, kron(identity(dA), sigma), tol);
+    for (const cand of faceRoundings(sigma)) {
+      const fc = fidelity(rhoAB, kron(identity(dA), cand), tol);
+      if (fc.value > f.value) {
+        f = fc;
+        sigma = cand;
+      }
+    }
+    // Dual: P = −2·(multipliers of the Z₁₁ = D rows) in ρ_AB's eigenbasis, made positive definite.
+    const { pd, inverse } = positiveDefinite(scale(multiplierMatrix(ans.y, 0, r), -2));
+    let trDP = 0;
+    for (let i = 0; i < r; i++) trDP += D[i] * pd.re[i * r + i];
+    const lam = maxEigenvalueUpper(partialTrace(mul(mul(V, inverse), adjoint(V)), [dA, dB], [0]));
+    const rootUpper = Math.sqrt(Math.max(0, trDP) * Math.max(0, lam)) * (1 + 1e-14);
+    const pad = roundingPad(r * r, 1);
+    const h = (x: number) => (x > 0 ? Math.log(x) / lb : -Infinity);
+    return assess({
+      what: 'the conditional max-entropy', solve: ans, problem: MAX_ENTROPY_PROBLEM, sense: 'maximize',
+      primal: { sigma }, primalObjective: f.value,
+      dual: { Y: mul(mul(V, pd), adjoint(V)) }, dualObjective: rootUpper * rootUpper,
+      bounds: { lower: h(f.value * (1 - 4e-15) - pad), upper: h((rootUpper + pad) ** 2) },
+      estimate: -ans.primalObjective > 0 ? (2 * Math.log(-ans.primalObjective)) / lb : undefined,
+    });
+  };
+  const c = certifyRefined(attempt, options.solver);
+  const sigma = c.certificate.primal.sigma as CMatrix;
   return {
-    value: (2 * Math.log(root)) / lb,
+    value: c.value,
     base: options.base ?? 2,
-    sigma: symmetrize(matrixBlock(ans, 1)),
-    rootFidelity: root,
+    sigma,
+    rootFidelity: Math.pow(options.base ?? 2, c.value / 2),
     dims: { a: dA, b: dB },
-    certificate: certificateOf(ans, MAX_PROBLEM),
-    ...(note ? { note } : {}),
+    certificate: c.certificate,
+    ...(c.note ? { note: c.note } : {}),
   };
 }

@@ -39,7 +39,7 @@ import type { Channel } from '../quantum/types.js';
 import { krausSum, krausToChoi } from '../quantum/channels.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type Constraint, type Entry, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, solverCertificate, type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, certify, eigenvalueAllowance, frobenius, maxEigenvalueUpper, multiplierMatrix, psdShift, type SdpCertificate,
 } from '../sdp/support.js';
 
 export interface DiamondResult {
@@ -49,8 +49,8 @@ export interface DiamondResult {
   input: CMatrix;
   /** An optimal input purified: |ψ⟩ = Σ_i |i⟩ ⊗ √σ|i⟩, channel input first, reference (d_in) second. */
   purification: CMatrix;
-  certificate: SolverCertificate;
-  /** `lower` achieved by `purification` (recomputed by the definition), `upper` from the repaired dual point. */
+  certificate: SdpCertificate;
+  /** `lower` achieved by `purification` (recomputed by the definition), `upper` from the repaired dual point (= certificate.bounds). */
   bounds: { lower: number; upper: number };
   diagnostics: {
     /** ‖Σ K*K − 1‖ (operator norm) of each channel: the trace-preservation defect accepted. */
@@ -132,7 +132,6 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
   const J = hermitianPart(sub(krausToChoi(a), krausToChoi(b)));
 
   const answer = solveSdp(diamondProblem(J, din, dout), options.sdp);
-  const warning = acceptAnswer(answer, 'the diamond distance', ACCEPT_INACCURATE_LOOSE);
 
   // The optimal input: σ normalised to unit trace (it has unit trace up to the residual).
   let sigma = hermitianPart(answer.x[1] as CMatrix);
@@ -150,26 +149,40 @@ export function diamondDistance(a: Channel, b: Channel, options: DiamondOptions 
   const outputs = zeros(n, n);
   addOutputOnFirst(outputs, a, psi, din, din, 1);
   addOutputOnFirst(outputs, b, psi, din, din, -1);
-  const lower = 0.5 * traceNorm(outputs);
+  const achieved = 0.5 * traceNorm(outputs);
+  const lower = achieved - 0.5 * n * eigenvalueAllowance(n, frobenius(outputs));
 
-  // The dual point: S_T = −Zc, S_W = −J − Zc with Zc = Σ_c y_c A_c; Z = −Zc. Z (multiplierMatrix,
-  // negated) and J (hermitianPart) are exactly Hermitian, so their Hermitian parts need no copy.
+  // The dual point: S_T = −Zc, S_W = −J − Zc with Zc = Σ_c y_c A_c; Z = −Zc, shifted by ε·1 so that
+  // Z ⪰ 0 and Z ⪰ J hold; the upper bound is ‖Tr_out Z‖_∞.
   const Z = scale(multiplierMatrix(answer.y, 0, n), -1);
-  const dualViolation = Math.max(0, -eigh(Z, { vectors: false }).values[0], -minEigenvalueOfDifference(Z, J));
-  const zr = Z;
+  const dualViolation = Math.max(psdShift(Z), psdShift(Z, J));
+  const zr = scale(Z, 1);
   for (let i = 0; i < n; i++) zr.re[i * n + i] += dualViolation;
-  const reduced = eigh(hermitianPart(partialTrace(zr, [din, dout], [1])), { vectors: false }).values;
-  const upper = reduced[reduced.length - 1];
+  const reduced = partialTrace(zr, [din, dout], [1]);
+  const upper = maxEigenvalueUpper(reduced);
+  const c = certify({
+    what: 'the diamond distance', solve: answer,
+    problem:
+      'maximize ⟨J, W⟩ s.t. 0 ⪯ W ⪯ σ ⊗ I_out, σ ⪰ 0, Tr σ = 1 (J = J(N) − J(M), input factor first); primal point: the optimal input purified, ' +
+      '|ψ⟩ = Σ_i |i⟩ ⊗ √σ|i⟩, whose value ½‖((N − M) ⊗ id)(ψψ*)‖₁ is recomputed; dual: minimize ‖Tr_out Z‖_∞ s.t. Z ⪰ 0, Z ⪰ J',
+    sense: 'maximize',
+    primal: { purification: psi }, primalObjective: achieved,
+    dual: { Z }, dualObjective: maxEigenvalueUpper(partialTrace(Z, [din, dout], [1])),
+    bounds: { lower, upper },
+    estimate: -answer.primalObjective,
+    range: [0, 1],
+    limit: ACCEPT_INACCURATE_LOOSE,
+  });
 
   const result: DiamondResult = {
-    value: -answer.primalObjective,
+    value: c.value,
     input: hermitianPart(transpose(sigma)),
     purification: psi,
-    certificate: solverCertificate(answer, true),
-    bounds: { lower, upper },
+    certificate: c.certificate,
+    bounds: c.certificate.bounds,
     diagnostics: { traceDefects: defects, dualViolation },
   };
-  if (warning) result.warning = warning;
+  if (c.note) result.warning = c.note;
   return result;
 }
 

@@ -20,12 +20,12 @@
  * the Schur complement, so meant for small matrices (tests, the recovery SDP), not as the default
  * way to compute a fidelity.
  */
-import { CMatrix, adjoint, eigh, hermitianPart, mul, zeros } from '../linalg/index.js';
+import { CMatrix, adjoint, eigh, hermitianPart, mul, zeros, operatorNorm, traceOfProductRe, fromSpectrum } from '../linalg/index.js';
 import { zeroThreshold, DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
 import { solveSdp, coordinateEntry, matrixCoordinates, type BlockTerm, type Constraint, type SdpOptions } from '../sdp/index.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, realPartEntries, solverCertificate, type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, certify, multiplierMatrix, realPartEntries, roundingPad, type SdpCertificate,
 } from '../sdp/support.js';
 
 /** Support of a PSD matrix: V (n × r, orthonormal columns) and the kept eigenvalues. */
@@ -67,8 +67,8 @@ export interface FidelitySdpResult {
   root: number;
   /** The optimal X (n × n) with [[ρ, X], [X*, σ]] ⪰ 0; Re Tr X = root. */
   offDiagonal: CMatrix;
-  /** Certificate; objectives are those of the root fidelity. */
-  certificate: SolverCertificate;
+  /** Certificate: objectives of the root fidelity √F, bounds of F. */
+  certificate: SdpCertificate;
   rankRho: number;
   rankSigma: number;
   warning?: string;
@@ -92,7 +92,9 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
       root: 0,
       offDiagonal: zeros(n, n),
       certificate: {
-        status: 'optimal', primalObjective: 0, dualObjective: 0, gap: 0, relativeGap: 0, primalResidual: 0, dualResidual: 0, iterations: 0,
+        status: 'exact', problem: FIDELITY_PROBLEM, sense: 'maximize', primal: { offDiagonal: zeros(n, n) }, primalObjective: 0,
+        dual: { Y: zeros(n, n) }, dualObjective: 0, gap: 0, relativeGap: 0, bounds: { lower: 0, upper: 0 }, accuracy: { absolute: 0, relative: 0 },
+        iterations: 0, primalResidual: 0, dualResidual: 0, message: 'ρ or σ is zero on the support decided with the tolerance: F = 0',
       },
       rankRho: r,
       rankSigma: s,
@@ -110,7 +112,6 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
     ...diagonalBlockConstraints(0, r, b.values, 'σ block'),
   ];
   const answer = solveSdp({ cones: [{ kind: 'hermitian', size: r + s }], objective, constraints }, options.sdp);
-  const warning = acceptAnswer(answer, 'the fidelity', ACCEPT_INACCURATE_LOOSE);
   const Z = answer.x[0] as CMatrix;
   const Xp = zeros(r, s);
   for (let i = 0; i < r; i++) {
@@ -119,15 +120,72 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
       Xp.im[i * s + j] = Z.im[i * (r + s) + r + j];
     }
   }
-  const root = -answer.primalObjective;
+  const offDiagonal = mul(mul(a.basis, Xp), adjoint(b.basis));
+  // Primal: X′ = Λ^½ K M^½ with ‖K‖ ≤ 1 is feasible; shrink by t = min(1, 1/‖Λ^(−½) X′ M^(−½)‖).
+  const K = zeros(r, s);
+  for (let i = 0; i < r; i++) {
+    for (let j = 0; j < s; j++) {
+      const f = 1 / Math.sqrt(a.values[i] * b.values[j]);
+      K.re[i * s + j] = Xp.re[i * s + j] * f;
+      K.im[i * s + j] = Xp.im[i * s + j] * f;
+    }
+  }
+  const t = Math.min(1, 1 / (operatorNorm(K) * (1 + 1e-14)));
+  let reTr = 0;
+  for (let i = 0; i < r; i++) for (let j = 0; j < s; j++) reTr += Xp.re[i * s + j] * C.re[j * r + i] - Xp.im[i * s + j] * C.im[j * r + i];
+  const lowerRoot = Math.max(0, t * reTr - roundingPad(r * s, 1));
+  // Dual: P = −2·(multipliers of the ρ block) in ρ's eigenbasis; √F ≤ √(Tr ΛP · Tr (V*σV) P⁻¹) for P ≻ 0.
+  const P = scale2(multiplierMatrix(answer.y, 0, r), -2);
+  const { pd, inverse } = positiveDefinite(P);
+  const sigmaC = mul(mul(adjoint(a.basis), sigma), a.basis);
+  let trLP = 0;
+  for (let i = 0; i < r; i++) trLP += a.values[i] * pd.re[i * r + i];
+  const trSP = traceOfProductRe(hermitianPart(sigmaC), inverse);
+  const upperRoot = Math.sqrt(Math.max(0, trLP) * Math.max(0, trSP)) * (1 + 1e-14) + roundingPad(r * r, 1);
+  const Y = mul(mul(a.basis, pd), adjoint(a.basis));
+  const c = certify({
+    what: 'the fidelity', solve: answer, problem: FIDELITY_PROBLEM, sense: 'maximize',
+    primal: { offDiagonal }, primalObjective: t * reTr,
+    dual: { Y }, dualObjective: Math.sqrt(Math.max(0, trLP) * Math.max(0, trSP)),
+    bounds: { lower: lowerRoot * lowerRoot, upper: upperRoot * upperRoot },
+    estimate: answer.primalObjective < 0 ? answer.primalObjective ** 2 : undefined,
+    range: [0, 1],
+    limit: ACCEPT_INACCURATE_LOOSE,
+  });
+  const root = Math.sqrt(c.value);
   const out: FidelitySdpResult = {
-    value: root * root,
+    value: c.value,
     root,
-    offDiagonal: mul(mul(a.basis, Xp), adjoint(b.basis)),
-    certificate: solverCertificate(answer, true),
+    offDiagonal,
+    certificate: c.certificate,
     rankRho: r,
     rankSigma: s,
   };
-  if (warning) out.warning = warning;
+  if (c.note) out.warning = c.note;
   return out;
+}
+
+export const FIDELITY_PROBLEM =
+  '√F = maximize Re Tr X s.t. [[ρ, X], [X*, σ]] ⪰ 0 (Watrous); bounds are of F = (√F)². Dual: √F ≤ √(Tr ρY · Tr σY⁺) for Y ⪰ 0 ' +
+  'positive definite on supp ρ (Y⁺ its inverse there; the supports decided with the support tolerance)';
+
+function scale2(m: CMatrix, f: number): CMatrix {
+  const out = zeros(m.rows, m.cols);
+  for (let k = 0; k < m.re.length; k++) {
+    out.re[k] = f * m.re[k];
+    out.im[k] = f * m.im[k];
+  }
+  return out;
+}
+
+/**
+ * A Hermitian P made positive definite (eigenvalues raised to at least 1e-14 of the largest) and its
+ * inverse: any such P is a dual point of the fidelity SDP.
+ */
+export function positiveDefinite(p: CMatrix): { pd: CMatrix; inverse: CMatrix } {
+  const { values, vectors } = eigh(hermitianPart(p), { vectors: true });
+  const top = Math.max(...values, 0);
+  const floor = top > 0 ? 1e-14 * top : 1;
+  const lifted = Array.from(values, (v) => Math.max(v, floor));
+  return { pd: fromSpectrum(vectors!, lifted), inverse: fromSpectrum(vectors!, lifted.map((v) => 1 / v)) };
 }

@@ -17,10 +17,11 @@
  *          POVM up to rounding, and Σ_x p_x Tr M'_x ρ_x is a value that measurement achieves;
  *   upper: with ε = max_x max(0, −λ_min(Y − p_x ρ_x)), Y + ε·1 is dual feasible, so
  *          p_guess ≤ Tr Y + d·ε (weak duality).
- * Both are floating-point evidence, not proofs (eigenvalues carry rounding of order 1e-15·‖Y‖).
+ * Both are floating-point evidence, not proofs (eigenvalues carry rounding of order 1e-15·‖Y‖; the
+ * bracket is padded by the allowances of src/sdp/support.ts).
  *
- * The certificate, the acceptance rule and the dual/POVM repairs are shared with the other SDP-based
- * quantities (sdp-support.ts).
+ * The certificate (primal point: the measurement; dual point: Y), the acceptance rule and the repairs
+ * are shared with the other SDP-based quantities (src/sdp/support.ts).
  *
  * Deliberately not here: the closed form for two states (Helstrom) — the tests compare against it —,
  * guesswork, and input validation beyond shapes and probabilities (the ops layer validates states).
@@ -35,8 +36,7 @@ import { RhoError } from '../errors.js';
 import { checkProbabilities } from '../quantum/arguments.js';
 import { solveSdp, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions, type SdpProblem } from '../sdp/index.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalueOfDifference, multiplierMatrix, renormalisePovm, solverCertificate,
-  type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, certify, frobenius, multiplierMatrix, psdShift, repairPovm, roundingPad, type SdpCertificate,
 } from '../sdp/support.js';
 
 export interface GuessingResult {
@@ -46,8 +46,8 @@ export interface GuessingResult {
   measurement: CMatrix[];
   /** The dual operator Y (Y ⪰ p_x ρ_x up to `dualViolation`; Tr Y = the dual objective). */
   dual: CMatrix;
-  certificate: SolverCertificate;
-  /** Checkable bracket: `lower` achieved by `measurement`, `upper` = Tr Y + d·dualViolation. */
+  certificate: SdpCertificate;
+  /** Checkable bracket: `lower` achieved by `measurement`, `upper` = Tr Y + d·dualViolation (padded; = certificate.bounds). */
   bounds: { lower: number; upper: number };
   diagnostics: {
     /** ‖Σ_x M_x − 1‖_F of the solver's measurement before renormalisation. */
@@ -123,35 +123,43 @@ export function guessingProbability(
   const n = states.length;
   const weighted = states.map((s, x) => hermitianPart(scale(s, Math.max(probabilities[x], 0))));
   const answer = solveSdp(guessingProblem(weighted), options.sdp);
-  const warning = acceptAnswer(answer, 'the guessing probability', ACCEPT_INACCURATE_LOOSE);
 
   const raw = answer.x.map((m) => hermitianPart(m as CMatrix));
   let sum = raw[0];
   for (let x = 1; x < n; x++) sum = add(sum, raw[x]);
   const defect = sub(sum, identity(d));
-  let povmDefect = 0;
-  for (let k = 0; k < defect.re.length; k++) povmDefect += defect.re[k] ** 2 + defect.im[k] ** 2;
-  povmDefect = Math.sqrt(povmDefect);
-  const measurement = renormalisePovm(raw, sum);
+  const povmDefect = frobenius(defect);
+  const measurement = repairPovm(raw);
 
   // The dual: S_x = −p_x ρ_x − Z with Z = Σ_i y_i A_i, so Y = −Z satisfies Y − p_x ρ_x = S_x ⪰ 0.
   const dual = scale(multiplierMatrix(answer.y, 0, d), -1);
   let dualViolation = 0;
-  // dual (multiplierMatrix, negated) and w (hermitianPart) are exactly Hermitian: no copy needed.
-  for (const w of weighted) dualViolation = Math.max(dualViolation, -minEigenvalueOfDifference(dual, w));
-  let lower = 0;
-  for (let x = 0; x < n; x++) lower += traceOfProductRe(measurement[x], weighted[x]);
-  const upper = trace(dual).re + d * dualViolation;
-
+  for (const w of weighted) dualViolation = Math.max(dualViolation, psdShift(dual, w));
+  let achieved = 0;
+  for (let x = 0; x < n; x++) achieved += traceOfProductRe(measurement[x], weighted[x]);
+  const trY = trace(dual).re;
+  const upper = trY + d * dualViolation;
+  const pad = roundingPad(n * d * d, 1);
+  const c = certify({
+    what: 'the guessing probability', solve: answer,
+    problem: 'maximize Σ_x p_x Tr M_x ρ_x s.t. M_x ⪰ 0, Σ_x M_x = I; dual: minimize Tr Y s.t. Y ⪰ p_x ρ_x for every x (Y + s·I with s the largest violation is feasible)',
+    sense: 'maximize',
+    primal: { measurement }, primalObjective: achieved,
+    dual: { Y: dual }, dualObjective: trY,
+    bounds: { lower: achieved - pad, upper: upper + pad },
+    estimate: -answer.primalObjective,
+    range: [0, 1],
+    limit: ACCEPT_INACCURATE_LOOSE,
+  });
   const result: GuessingResult = {
-    value: -answer.primalObjective,
+    value: c.value,
     measurement,
     dual,
-    certificate: solverCertificate(answer, true),
-    bounds: { lower, upper },
+    certificate: c.certificate,
+    bounds: c.certificate.bounds,
     diagnostics: { povmDefect, dualViolation },
   };
-  if (warning) result.warning = warning;
+  if (c.note) result.warning = c.note;
   return result;
 }
 

@@ -1,10 +1,11 @@
 /**
- * Hypothesis-testing relative entropy, as a semidefinite program with its certificate, and in closed
- * form (Neyman–Pearson) when ρ and σ commute.
+ * Hypothesis-testing relative entropy with an explicit optimal test, an explicit dual point and a
+ * certified bracket, through the one-dimensional quantum Neyman–Pearson dual (neyman-pearson.ts); the
+ * generic SDP stays available (method "sdp") as a cross-check.
  *
  * CONVENTION (stated because the literature has two). We use the un-normalised form
  *
- *     D_H^ε(ρ‖σ) = −log β_ε(ρ‖σ),   β_ε(ρ‖σ) = min { Tr σΛ : 0 ⪯ Λ ⪯ I, Tr ρΛ ≥ 1 − ε },   ε ∈ (0, 1),
+ *     D_H^ε(ρ‖σ) = −log β_ε(ρ‖σ),   β_ε(ρ‖σ) = min { Tr σΛ : 0 ⪯ Λ ⪯ I, Tr ρΛ ≥ 1 − ε },   ε ∈ [0, 1],
  *
  * as in L. Wang and R. Renner, "One-shot classical-quantum capacity and hypothesis testing",
  * Phys. Rev. Lett. 108, 200501 (2012): ε bounds the type-I error Tr ρ(I − Λ), β is the type-II error.
@@ -15,50 +16,48 @@
  * D_H^ε(ρ‖σ) ≤ (D(ρ‖σ) + h(ε)) / (1 − ε), h the binary entropy (test/oneshot checks it).
  *
  * METHODS.
+ *  - 'neyman-pearson-dual' (0 < ε < 1): β = max_{μ≥0} μ(1 − ε) − Tr(μρ − σ)₊; the optimal test is the
+ *    positive part of μ*ρ − σ plus a fraction of its boundary eigenvectors. The answer is carried by
+ *    the smaller of β and Tr σ − β (ε → 0: D_H ≈ (Tr σ − β)/Tr σ/ln 2 is computed from the small part,
+ *    the rejection M = I − Λ, so that it keeps its relative accuracy).
  *  - 'support': β = 0 exactly when the kernel of σ carries enough of ρ, Tr ρ(I − Π_σ) ≥ 1 − ε; then
  *    D_H^ε = +∞ and Λ = (1 − ε) Π_ker σ / Tr ρ Π_ker σ. Decided with the support tolerance: a
  *    numerical decision, reported in `reason`.
- *  - 'neyman-pearson': when ‖[ρ, σ]‖_F ≤ commuteTol · ‖ρ‖_F ‖σ‖_F the two are diagonal in one basis
- *    (found from σ's eigenvectors, ρ diagonalised inside each eigenspace of σ) and the problem is the
- *    classical Neyman–Pearson problem: take eigenvectors in increasing order of the likelihood ratio
- *    q_i/p_i until the acceptance 1 − ε is reached, randomising on the boundary one. Exact up to
- *    rounding; its certificate is the closed-form LP dual (μ = the boundary ratio,
- *    y_i = max(0, μ p_i − q_i)), whose value equals β.
- *  - 'sdp': our interior-point solver on
+ *  - 'closed-form': ε = 1 (Λ = 0, β = 0, D_H = +∞) and ε = 0 (Λ = Π_ρ, β = Tr σΠ_ρ, D_H^0 = D_min,
+ *    with the support of ρ decided by the tolerance).
+ *  - 'sdp' (on request only): our interior-point solver on
  *        minimize ⟨σ/Tr σ, Λ⟩  s.t.  Λ + W = I,  ⟨ρ, Λ⟩ − t = 1 − ε,  Λ, W ⪰ 0 (Hermitian),  t ≥ 0,
- *    with σ scaled to unit trace for conditioning (log Tr σ added back). Its dual is
- *    max (1 − ε)μ − Tr Y s.t. σ/Tr σ − μρ + Y ⪰ 0, Y ⪰ 0, μ ≥ 0.
+ *    whose test (repaired into [0, I] and onto the acceptance) and multiplier μ of the acceptance row
+ *    are certified like those of the dual.
  *
- * Accuracy: the solver's accuracy is absolute in β (relative gap ~1e-8 of O(1) objectives), so when
- * β is very small, −log β carries a relative error of about gap/β; a `note` says so below β = 1e-6.
+ * CERTIFICATE (src/sdp/support.ts): primal point the test Λ (or the rejection M = I − Λ when the
+ * answer is carried by the complement), dual point μ; the bracket of D_H follows from g(μ) ≤ β ≤ Tr σΛ
+ * (or Tr σM ≤ Tr σ − β ≤ με + Tr(σ − μρ)₊), with rounding allowances (eigenvalueAllowance).
  *
  * Deliberately not here: validation that ρ is a density matrix (the ops layer does it; ρ is divided by
  * its trace), asymptotic expansions, the normalised convention (use the identity above).
- * Cost: one eigendecomposition of σ (and of ρ in the commuting case), O(d³); the SDP has 2 Hermitian
- * d×d blocks and d² + 1 constraints, each interior-point iteration O(d⁶) for the Schur complement.
+ * Cost: one eigendecomposition of σ (support) and the one-dimensional search, each step one
+ * eigendecomposition of μρ − σ and the diagonal of V*ρV (O(d³)), typically 8–15 steps; "sdp": d² + 1
+ * constraints, O(d⁶) per interior-point iteration.
  */
-import {
-  CMatrix, zeros, mul, adjoint, sub, frobeniusNorm, identity, traceOfProductRe, trace, scale, eigh,
-} from '../linalg/index.js';
+import { CMatrix, zeros, mul, adjoint, identity, traceOfProductRe, trace, scale, eigh, hermitianPart } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
-import { solveSdp, partialTraceConstraints, type SdpProblem } from '../sdp/index.js';
-import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import {
-  acceptAnswer, certificateOf, lnBase, matrixBlock, symmetrize, type OneShotSdpOptions, type LegacyCertificate,
-} from '../sdp/support.js';
+  solveSdp, partialTraceConstraints, certify, lnBase, matrixBlock, symmetrize, roundingPad,
+  type SdpProblem, type SdpCertificate, type OneShotSdpOptions,
+} from '../sdp/index.js';
+import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
+import { dualBounds, evaluateDual, neymanPearsonDual } from './neyman-pearson.js';
 
 export const HYPOTHESIS_TESTING_CONVENTION =
   'D_H^ε(ρ‖σ) = −log min{Tr σΛ : 0 ≤ Λ ≤ I, Tr ρΛ ≥ 1−ε} (Wang & Renner, PRL 108, 200501 (2012); not normalised by ε)';
 
-/** Default relative commutator size below which ρ and σ count as commuting (Neyman–Pearson path). */
-export const DEFAULT_COMMUTE_TOLERANCE = 1e-10;
-
 export interface HypothesisTestingOptions extends OneShotSdpOptions {
-  /** 'auto' (default): closed form when ρ and σ commute, else the SDP. */
-  method?: 'auto' | 'sdp' | 'neyman-pearson';
-  /** Relative commutator size counted as commuting (default 1e-10). */
-  commuteTol?: number;
+  /** 'auto' (default): the one-dimensional dual; 'sdp': the generic SDP (a cross-check). */
+  method?: 'auto' | 'sdp';
 }
+
+export type HypothesisTestingMethod = 'neyman-pearson-dual' | 'support' | 'closed-form' | 'sdp';
 
 export interface HypothesisTestingResult {
   /** D_H^ε(ρ‖σ) in the chosen base; +Infinity when β = 0. */
@@ -71,21 +70,20 @@ export interface HypothesisTestingResult {
   beta: number;
   /** The optimal test Λ (0 ⪯ Λ ⪯ I). */
   test: CMatrix;
-  /** Tr ρΛ of the returned test (≥ 1 − ε up to the solver's residuals). */
+  /** Its complement M = I − Λ, when the answer is carried by it (β close to Tr σ). */
+  rejection?: CMatrix;
+  /** Tr ρΛ of the returned test (≥ 1 − ε). */
   acceptance: number;
-  /** How the value was found. */
-  method: 'sdp' | 'neyman-pearson' | 'support';
-  /** ‖ρσ − σρ‖_F / (‖ρ‖_F ‖σ‖_F). */
-  commutator: number;
-  certificate: LegacyCertificate;
-  /** Present when the answer needs a caveat (solver status, tiny β, tolerance decisions). */
+  method: HypothesisTestingMethod;
+  certificate: SdpCertificate;
+  /** Present when the answer needs a caveat (solver status, tolerance decisions, clipping). */
   note?: string;
   convention: string;
 }
 
 function checkEpsilon(epsilon: number): void {
-  if (typeof epsilon !== 'number' || !(epsilon > 0 && epsilon < 1)) {
-    throw new RhoError('invalid-argument', `ε must lie strictly between 0 and 1 (got ${epsilon}).`, 'epsilon');
+  if (typeof epsilon !== 'number' || !(epsilon >= 0 && epsilon <= 1)) {
+    throw new RhoError('invalid-argument', `ε must lie in [0, 1] (got ${epsilon}).`, 'epsilon');
   }
 }
 
@@ -112,7 +110,8 @@ export interface NeymanPearsonSolution {
 /**
  * The classical Neyman–Pearson problem min{Σ q_i t_i : Σ p_i t_i ≥ 1 − ε, 0 ≤ t_i ≤ 1} for a
  * probability vector p and nonnegative weights q: outcomes in increasing order of q_i/p_i (outcomes
- * with p_i = 0 never enter), the boundary one randomised (Neyman & Pearson 1933).
+ * with p_i = 0 never enter), the boundary one randomised (Neyman & Pearson 1933). An independent
+ * reference for commuting inputs in the tests.
  */
 export function neymanPearson(p: readonly number[], q: readonly number[], epsilon: number): NeymanPearsonSolution {
   checkEpsilon(epsilon);
@@ -139,76 +138,6 @@ export function neymanPearson(p: readonly number[], q: readonly number[], epsilo
   return { beta, t, mu, dual };
 }
 
-/** Relative commutator ‖ρσ − σρ‖_F / (‖ρ‖_F ‖σ‖_F). */
-export function relativeCommutator(rho: CMatrix, sigma: CMatrix): number {
-  const c = sub(mul(rho, sigma), mul(sigma, rho));
-  const scaleBy = frobeniusNorm(rho) * frobeniusNorm(sigma);
-  return scaleBy > 0 ? frobeniusNorm(c) / scaleBy : 0;
-}
-
-/**
- * An orthonormal basis (columns) diagonalising both σ and a ρ that commutes with it: σ's eigenvectors,
- * with ρ diagonalised inside each cluster of (relatively) equal eigenvalues of σ.
- */
-export function commonEigenbasis(rho: CMatrix, sigma: CMatrix, clusterTol = 1e-9): CMatrix {
-  const { values, vectors } = eigh(sigma, { vectors: true });
-  const V = vectors!;
-  const n = values.length;
-  const spread = Math.max(Math.abs(values[0]), Math.abs(values[n - 1]), Number.MIN_VALUE);
-  const W = zeros(n, n);
-  let start = 0;
-  while (start < n) {
-    let end = start + 1;
-    while (end < n && values[end] - values[end - 1] <= clusterTol * spread) end++;
-    const cols = [...Array(end - start).keys()].map((k) => start + k);
-    const Vc = columns(V, cols);
-    let basis = Vc;
-    if (cols.length > 1) {
-      const block = mul(mul(adjoint(Vc), rho), Vc);
-      basis = mul(Vc, eigh(symmetrize(block), { vectors: true }).vectors!);
-    }
-    for (let i = 0; i < n; i++) {
-      for (let k = 0; k < cols.length; k++) {
-        W.re[i * n + start + k] = basis.re[i * cols.length + k];
-        W.im[i * n + start + k] = basis.im[i * cols.length + k];
-      }
-    }
-    start = end;
-  }
-  return W;
-}
-
-function diagonalIn(W: CMatrix, m: CMatrix): number[] {
-  const d = mul(mul(adjoint(W), m), W);
-  const out: number[] = [];
-  for (let i = 0; i < d.rows; i++) out.push(d.re[i * d.cols + i]);
-  return out;
-}
-
-function fromColumns(W: CMatrix, weights: readonly number[]): CMatrix {
-  const n = W.rows;
-  const out = zeros(n, n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < weights.length; k++) {
-        const w = weights[k];
-        if (w === 0) continue;
-        const ar = W.re[i * n + k];
-        const ai = W.im[i * n + k];
-        const br = W.re[j * n + k];
-        const bi = -W.im[j * n + k];
-        re += w * (ar * br - ai * bi);
-        im += w * (ar * bi + ai * br);
-      }
-      out.re[i * n + j] = re;
-      out.im[i * n + j] = im;
-    }
-  }
-  return out;
-}
-
 /** The SDP for β_ε with σ of unit trace (see the header). Exported for tests and benchmarks. */
 export function hypothesisTestingProblem(rho: CMatrix, sigmaUnit: CMatrix, epsilon: number): SdpProblem {
   const d = rho.rows;
@@ -226,11 +155,67 @@ export function hypothesisTestingProblem(rho: CMatrix, sigmaUnit: CMatrix, epsil
   };
 }
 
-const SDP_PROBLEM = 'minimize Tr (σ/Tr σ)Λ s.t. Λ + W = I, Tr ρΛ − t = 1 − ε; Λ, W ⪰ 0 (Hermitian), t ≥ 0';
+export const HYPOTHESIS_TESTING_PROBLEM =
+  'minimize Tr σΛ s.t. 0 ⪯ Λ ⪯ I, Tr ρΛ ≥ 1 − ε (ρ divided by its trace); dual: maximize μ(1 − ε) − Tr(μρ − σ)₊ over μ ≥ 0. ' +
+  'The primal point is the test Λ, or the rejection M = I − Λ when the answer is carried by Tr σ − β: ' +
+  'then Tr σM ≤ Tr σ − β ≤ με + Tr(σ − μρ)₊';
 
 /**
- * D_H^ε(ρ‖σ) (see the header for the convention, the methods and their caveats). ρ: density matrix
- * (divided by its trace); σ: positive semidefinite, any trace; ε ∈ (0, 1).
+ * A test repaired into feasibility: eigenvalues clipped to [0, 1], then mixed with I just enough to
+ * reach the acceptance 1 − ε. Returns the repaired test and Tr σΛ' (an upper bound on β).
+ */
+export function repairTest(test: CMatrix, rho: CMatrix, sigma: CMatrix, epsilon: number): { test: CMatrix; bound: number } {
+  const d = test.rows;
+  const { values, vectors } = eigh(hermitianPart(test), { vectors: true });
+  const v = vectors!;
+  const clipped = zeros(d, d);
+  for (let k = 0; k < d; k++) {
+    const w = Math.min(1, Math.max(0, values[k]));
+    if (w === 0) continue;
+    for (let i = 0; i < d; i++) {
+      for (let j = 0; j < d; j++) {
+        // w v_k v_k*
+        const ar = v.re[i * d + k];
+        const ai = v.im[i * d + k];
+        const br = v.re[j * d + k];
+        const bi = v.im[j * d + k];
+        clipped.re[i * d + j] += w * (ar * br + ai * bi);
+        clipped.im[i * d + j] += w * (ai * br - ar * bi);
+      }
+    }
+  }
+  const a = traceOfProductRe(rho, clipped);
+  let out = clipped;
+  let bound = traceOfProductRe(sigma, clipped);
+  if (a < 1 - epsilon) {
+    const t = (1 - epsilon - a) / (1 - a);
+    out = zeros(d, d);
+    for (let k = 0; k < d * d; k++) {
+      out.re[k] = (1 - t) * clipped.re[k];
+      out.im[k] = (1 - t) * clipped.im[k];
+    }
+    for (let i = 0; i < d; i++) out.re[i * d + i] += t;
+    bound = (1 - t) * bound + t * trace(sigma).re;
+  }
+  return { test: out, bound };
+}
+
+/** Tr M by compensated (Neumaier) summation of the diagonal: correct to about one ulp. */
+function exactTrace(m: CMatrix): number {
+  let sum = 0;
+  let comp = 0;
+  for (let i = 0; i < m.rows; i++) {
+    const x = m.re[i * m.cols + i];
+    const t = sum + x;
+    comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
+    sum = t;
+  }
+  return sum + comp;
+}
+
+/**
+ * D_H^ε(ρ‖σ) (see the header for the convention, the methods and the certificate). ρ: density matrix
+ * (divided by its trace); σ: positive semidefinite, any trace; ε ∈ [0, 1].
  */
 export function hypothesisTestingDivergence(
   rho: CMatrix, sigma: CMatrix, epsilon: number, options: HypothesisTestingOptions = {},
@@ -240,14 +225,31 @@ export function hypothesisTestingDivergence(
   const lb = lnBase(options.base);
   const base = options.base ?? 2;
   const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
-  const method = options.method ?? 'auto';
   const d = rho.rows;
   const trRho = trace(rho).re;
   if (!(trRho > 0)) throw new RhoError('invalid-argument', 'ρ has zero trace.', 'rho');
   const rhoN = scale(rho, 1 / trRho);
-  const trSigma = trace(sigma).re;
-  const commutator = relativeCommutator(rhoN, sigma);
-  const common = { epsilon, base, commutator, convention: HYPOTHESIS_TESTING_CONVENTION };
+  const trSigma = exactTrace(sigma);
+  const common = { epsilon, base, convention: HYPOTHESIS_TESTING_CONVENTION };
+  const infinite = (test: CMatrix, reason: string, method: HypothesisTestingMethod, dualNote: string): HypothesisTestingResult => ({
+    ...common,
+    value: Infinity,
+    reason,
+    beta: 0,
+    test,
+    acceptance: traceOfProductRe(rhoN, test),
+    method,
+    certificate: {
+      status: 'exact', problem: HYPOTHESIS_TESTING_PROBLEM, sense: 'minimize',
+      primal: { test }, primalObjective: traceOfProductRe(sigma, test), dual: { mu: 0 }, dualObjective: 0, gap: 0, relativeGap: 0,
+      bounds: { lower: Infinity, upper: Infinity }, accuracy: { absolute: 0, relative: 0 }, iterations: 0, primalResidual: 0, dualResidual: 0,
+      message: dualNote,
+    },
+  });
+
+  if (epsilon === 1) {
+    return infinite(zeros(d, d), 'With ε = 1 the test Λ = 0 is allowed (no acceptance required), so β = 0.', 'closed-form', 'Λ = 0 has Tr σΛ = 0; μ = 0 gives the dual value 0.');
+  }
 
   // β = 0 when the kernel of σ carries at least 1 − ε of ρ.
   const S = spectral(sigma, tol);
@@ -261,97 +263,126 @@ export function hypothesisTestingDivergence(
   }
   if (!(trSigma > 0) || outside >= 1 - epsilon) {
     const test = kernelProjector ? scale(kernelProjector, (1 - epsilon) / outside) : identity(d);
-    return {
-      ...common,
-      value: Infinity,
-      reason:
-        `The kernel of σ carries Tr ρ(I − Π_σ) = ${outside.toPrecision(6)} ≥ 1 − ε = ${(1 - epsilon).toPrecision(6)} of ρ, ` +
+    return infinite(
+      test,
+      `The kernel of σ carries Tr ρ(I − Π_σ) = ${outside.toPrecision(6)} ≥ 1 − ε = ${(1 - epsilon).toPrecision(6)} of ρ, ` +
         `so a test accepting ρ with probability 1 − ε never accepts σ (β = 0). The kernel of σ was decided with the ` +
         `relative support tolerance ${tol}: eigenvalues of σ at or below ${S.threshold.toExponential(3)} counted as zero.`,
-      beta: 0,
-      test,
-      acceptance: traceOfProductRe(rhoN, test),
-      method: 'support',
-      certificate: {
-        status: 'optimal', primalObjective: 0, dualObjective: 0, gap: 0, relativeGap: 0,
-        primalResidual: 0, dualResidual: 0, iterations: 0,
-        problem: 'closed form: Λ ∝ projector onto ker σ (primal value 0); dual point μ = 0, Y = 0 (value 0)',
-      },
-    };
-  }
-
-  const commuting = commutator <= (options.commuteTol ?? DEFAULT_COMMUTE_TOLERANCE);
-  if (method === 'neyman-pearson' && !commuting) {
-    throw new RhoError(
-      'invalid-argument',
-      `The Neyman–Pearson closed form needs commuting ρ and σ, but ‖[ρ, σ]‖_F/(‖ρ‖_F‖σ‖_F) = ${commutator.toExponential(2)}; use the SDP.`,
-      'method',
+      'support',
+      'closed form: Λ ∝ projector onto ker σ (Tr σΛ = 0 up to the support decision); μ = 0 gives the dual value 0.',
     );
-  }
-  if (method !== 'sdp' && commuting) {
-    const W = commonEigenbasis(rhoN, sigma);
-    const p = diagonalIn(W, rhoN);
-    const q = diagonalIn(W, sigma);
-    const np = neymanPearson(p, q, epsilon);
-    const test = fromColumns(W, np.t);
-    const value = np.beta > 0 ? -Math.log(np.beta) / lb : Infinity;
-    return {
-      ...common,
-      value,
-      ...(np.beta > 0 ? {} : { reason: 'The Neyman–Pearson test reaches acceptance 1 − ε on outcomes σ never produces (β = 0).' }),
-      beta: np.beta,
-      test,
-      acceptance: traceOfProductRe(rhoN, test),
-      method: 'neyman-pearson',
-      certificate: {
-        status: 'optimal',
-        primalObjective: np.beta,
-        dualObjective: np.dual,
-        gap: np.beta - np.dual,
-        relativeGap: Math.abs(np.beta - np.dual) / (1 + Math.abs(np.beta) + Math.abs(np.dual)),
-        primalResidual: 0,
-        dualResidual: 0,
-        iterations: 0,
-        problem:
-          'Neyman–Pearson in the common eigenbasis: minimize Σ q_i t_i s.t. Σ p_i t_i ≥ 1 − ε, 0 ≤ t ≤ 1 ' +
-          '(closed form; dual μ = boundary likelihood ratio, y_i = max(0, μp_i − q_i))',
-      },
-      ...(commutator > 0
-        ? { note: `ρ and σ were treated as commuting (relative commutator ${commutator.toExponential(2)} ≤ ${options.commuteTol ?? DEFAULT_COMMUTE_TOLERANCE}); the closed form neglects it.` }
-        : {}),
-    };
   }
 
   const sigmaUnit = scale(sigma, 1 / trSigma);
-  const ans = solveSdp(hypothesisTestingProblem(rhoN, sigmaUnit, epsilon), options.solver);
-  const notes: string[] = [];
-  const statusNote = acceptAnswer(ans, 'the hypothesis-testing relative entropy');
-  if (statusNote) notes.push(statusNote);
-  const betaUnit = ans.primalObjective;
-  if (!(betaUnit > 0)) {
-    throw new RhoError(
-      'solver-failed',
-      `The optimal type-II error is below the solver's accuracy (primal objective ${betaUnit.toExponential(3)}, ` +
-        `dual ${ans.dualObjective.toExponential(3)}); D_H^ε is too large to resolve.`,
-      undefined,
-      { status: ans.status },
-    );
+  const trUnit = exactTrace(sigmaUnit);
+  const what = 'the hypothesis-testing relative entropy';
+  // −log β in the chosen base from β = Tr σ·β̂ (or from the complement β̂_c = Tr σ̂ − β̂).
+  // The logarithms and the two traces carry a few ulps of absolute error in nats: `widen` pads the
+  // bracket of D_H by 8u (a D_H of 1e-9 bits is known to about 1e-7 relative, not better).
+  const fromBeta = (betaHat: number): number => (betaHat > 0 ? -(Math.log(trSigma) + Math.log(betaHat)) / lb : Infinity);
+  const fromComplement = (bc: number): number =>
+    bc < trUnit ? -(Math.log(trSigma) + Math.log(trUnit) + Math.log1p(-bc / trUnit)) / lb : Infinity;
+  const logPad = (8 * 1.1102230246251565e-16) / lb;
+  const widen = (b: { lower: number; upper: number }) => ({ lower: b.lower - logPad, upper: b.upper + logPad });
+
+  if (epsilon === 0) {
+    // Λ = Π_ρ (Tr ρΛ = 1 forces Λ = I on supp ρ), β = Tr σΠ_ρ; the dual sup is approached as μ → ∞.
+    const R = spectral(rhoN, tol);
+    const P = columns(R.vectors, R.support);
+    const test = mul(P, adjoint(P));
+    const rejection = zeros(d, d);
+    for (let k = 0; k < d * d; k++) {
+      rejection.re[k] = (k % (d + 1) === 0 ? 1 : 0) - test.re[k];
+      rejection.im[k] = -test.im[k];
+    }
+    const betaC = traceOfProductRe(sigmaUnit, rejection);
+    let upperC = Infinity;
+    let muBest = 0;
+    for (const mu of [1e2, 1e4, 1e6, 1e8, 1e10, 1e12]) {
+      const b = dualBounds(evaluateDual(rhoN, sigmaUnit, 0, mu), 0, rhoN, sigmaUnit).upperComplement;
+      if (b < upperC) {
+        upperC = b;
+        muBest = mu;
+      }
+    }
+    const lowerC = Math.max(0, betaC - roundingPad(d * d, betaC));
+    const c = certify({
+      what, problem: HYPOTHESIS_TESTING_PROBLEM, sense: 'minimize',
+      primal: { rejection }, primalObjective: trSigma * (trUnit - betaC),
+      dual: { mu: muBest * trSigma }, dualObjective: trSigma * (trUnit - upperC),
+      bounds: widen({ lower: fromComplement(lowerC), upper: fromComplement(Math.min(upperC, trUnit)) }),
+      estimate: fromComplement(betaC),
+    });
+    const notes = [
+      `ε = 0: the optimal test is the projector onto the support of ρ (rank ${R.support.length} of ${d}, eigenvalues at or below ` +
+        `${R.threshold.toExponential(3)} counted as zero), so D_H^0 = D_min(ρ‖σ).`,
+    ];
+    if (c.note) notes.push(c.note);
+    return {
+      ...common, value: c.value, beta: trSigma * (trUnit - betaC), test, rejection, acceptance: traceOfProductRe(rhoN, test),
+      method: 'closed-form', certificate: c.certificate, note: notes.join(' '),
+    };
   }
-  if (betaUnit < 1e-6) {
-    notes.push(
-      `β/Tr σ = ${betaUnit.toExponential(3)} is small: the solver's accuracy is absolute in β, so −log β carries a ` +
-        `relative error of about |gap|/β = ${(Math.abs(ans.gap) / betaUnit).toExponential(2)}.`,
-    );
-  }
-  const test = symmetrize(matrixBlock(ans, 0));
+
+  if (options.method === 'sdp') return viaSdp(rhoN, sigma, sigmaUnit, epsilon, trSigma, fromBeta, options, common);
+
+  const np = neymanPearsonDual(rhoN, sigmaUnit, epsilon);
+  const value = np.complement ? fromComplement(np.betaComplement) : fromBeta(np.beta);
+  const bounds = np.complement
+    ? { lower: fromComplement(np.bracket.lower), upper: fromComplement(Math.min(np.bracket.upper, trUnit)) }
+    : { lower: fromBeta(np.bracket.upper), upper: fromBeta(np.bracket.lower) };
+  const c = certify({
+    what, problem: HYPOTHESIS_TESTING_PROBLEM, sense: 'minimize',
+    primal: np.complement ? { rejection: np.rejection } : { test: np.test },
+    primalObjective: trSigma * (np.complement ? trUnit - np.betaComplement : np.beta),
+    dual: { mu: np.mu * trSigma },
+    dualObjective: trSigma * (np.complement ? trUnit - np.dualBound : np.dualBound),
+    bounds: widen(bounds),
+    estimate: value,
+  });
+  c.certificate.status = 'optimal';
+  c.certificate.iterations = np.evaluations;
   return {
     ...common,
-    value: -(Math.log(betaUnit) + Math.log(trSigma)) / lb,
-    beta: betaUnit * trSigma,
-    test,
-    acceptance: traceOfProductRe(rhoN, test),
+    value: c.value,
+    beta: trSigma * (np.complement ? trUnit - np.betaComplement : np.beta),
+    test: np.test,
+    ...(np.complement ? { rejection: np.rejection } : {}),
+    acceptance: np.acceptance,
+    method: 'neyman-pearson-dual',
+    certificate: c.certificate,
+    ...(c.note ? { note: c.note } : {}),
+  };
+}
+
+/** The generic SDP (method "sdp"), certified like the dual: the repaired test and the acceptance row's multiplier μ. */
+function viaSdp(
+  rhoN: CMatrix, sigma: CMatrix, sigmaUnit: CMatrix, epsilon: number, trSigma: number, fromBeta: (b: number) => number,
+  options: HypothesisTestingOptions, common: { epsilon: number; base: number; convention: string },
+): HypothesisTestingResult {
+  const d = rhoN.rows;
+  const ans = solveSdp(hypothesisTestingProblem(rhoN, sigmaUnit, epsilon), options.solver);
+  const raw = symmetrize(matrixBlock(ans, 0));
+  const repaired = repairTest(raw, rhoN, sigmaUnit, epsilon);
+  // The acceptance row is the last constraint; its multiplier is μ (the solver's dual maximises b·y).
+  const mu = Math.max(0, ans.y[ans.y.length - 1]);
+  const lower = dualBounds(evaluateDual(rhoN, sigmaUnit, epsilon, mu), epsilon, rhoN, sigmaUnit).lowerBeta;
+  const upper = repaired.bound + roundingPad(d * d, repaired.bound);
+  const c = certify({
+    what: 'the hypothesis-testing relative entropy', solve: ans, problem: HYPOTHESIS_TESTING_PROBLEM, sense: 'minimize',
+    primal: { test: repaired.test }, primalObjective: trSigma * repaired.bound,
+    dual: { mu: mu * trSigma }, dualObjective: trSigma * lower,
+    bounds: { lower: fromBeta(upper) - 8e-16, upper: fromBeta(lower) + 8e-16 },
+    estimate: ans.primalObjective > 0 ? fromBeta(ans.primalObjective) : undefined,
+  });
+  return {
+    ...common,
+    value: c.value,
+    beta: trSigma * repaired.bound,
+    test: repaired.test,
+    acceptance: traceOfProductRe(rhoN, repaired.test),
     method: 'sdp',
-    certificate: certificateOf(ans, SDP_PROBLEM),
-    ...(notes.length ? { note: notes.join(' ') } : {}),
+    certificate: c.certificate,
+    ...(c.note ? { note: c.note } : {}),
   };
 }

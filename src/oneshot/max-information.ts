@@ -30,7 +30,8 @@ import { CMatrix, kron, identity, mul, adjoint, scale, zeros, partialTrace, trac
 import { RhoError } from '../errors.js';
 import { spectral, columns, DEFAULT_SUPPORT_TOLERANCE } from '../quantities/divergence-kit.js';
 import { bipartiteMarginal, solveMinEntropySdp } from './conditional-min-max.js';
-import { lnBase, symmetrize, type OneShotSdpOptions, type LegacyCertificate } from '../sdp/support.js';
+import { assess, certifyRefined, lnBase, symmetrize, type Assessed, type OneShotSdpOptions, type SdpCertificate } from '../sdp/support.js';
+import type { SdpOptions } from '../sdp/index.js';
 
 export interface MaxInformationResult {
   /** I_max(A:B) in the chosen base. */
@@ -43,7 +44,7 @@ export interface MaxInformationResult {
   /** Tr ρ_A (I − Π_A): weight of ρ outside the kept support. */
   droppedWeight: number;
   dims: { a: number; b: number };
-  certificate: LegacyCertificate;
+  certificate: SdpCertificate;
   note?: string;
 }
 
@@ -73,28 +74,44 @@ export function maxInformation(
   });
   const K = kron(left, identity(dB));
   const tau = symmetrize(mul(mul(K, rhoAB), adjoint(K)));
-  const res = solveMinEntropySdp(tau, r, dB, 'the max-information', options);
-  const notes: string[] = [];
-  if (res.note) notes.push(res.note);
   const smallest = Math.min(...S.support.map((k) => S.values[k]));
+  // Back to the original coordinates: Z = (V D^{−1/2} ⊗ I) X (D^{−1/2} V* ⊗ I) is the dual point of
+  // min{Tr σ' : ρ_A ⊗ σ' ⪰ ρ_AB}: Z ⪰ 0, tr_A((ρ_A ⊗ I) Z) = I_B, Tr ρ_AB Z = Tr τX.
+  const back = adjoint(K);
+  const attempt = (solver: SdpOptions | undefined): Assessed => {
+    const res = solveMinEntropySdp(tau, r, dB, solver);
+    const h = (x: number) => (x > 0 ? Math.log(x) / lb : -Infinity);
+    const sigma = scale(res.sigma, 1 / trace(res.sigma).re);
+    return assess({
+      what: 'the max-information', solve: res.ans, problem: MAX_INFORMATION_PROBLEM, sense: 'minimize',
+      primal: { sigma }, primalObjective: trace(res.sigma).re,
+      dual: { Z: symmetrize(mul(mul(back, res.X), K)) }, dualObjective: res.lower,
+      bounds: { lower: h(res.lower), upper: h(res.upper) },
+      estimate: h(res.optimum),
+    });
+  };
+  const c = certifyRefined(attempt, options.solver);
+  const notes: string[] = [];
+  if (c.note) notes.push(c.note);
   if (r > 0 && smallest < 1e-6 * S.max) {
     notes.push(
       `ρ_A has an eigenvalue ${smallest.toExponential(2)} (relative ${(smallest / S.max).toExponential(2)}) kept in its support and inverted; ` +
         `the value is sensitive to the support tolerance ${tol}.`,
     );
   }
-  const certificate = {
-    ...res.certificate,
-    problem: `${res.certificate.problem}, with τ = (D^{−1/2}V* ⊗ I) ρ_AB (V D^{−1/2} ⊗ I), ρ_A = V D V* on its support; optimal value −2^{I_max}`,
-  };
   return {
-    value: Math.log(res.optimum) / lb,
+    value: c.value,
     base: options.base ?? 2,
-    sigma: scale(res.sigma, 1 / trace(res.sigma).re),
+    sigma: c.certificate.primal.sigma as CMatrix,
     rankA: r,
     droppedWeight: dropped,
     dims: { a: dA, b: dB },
-    certificate,
+    certificate: c.certificate,
     ...(notes.length ? { note: notes.join(' ') } : {}),
   };
 }
+
+const MAX_INFORMATION_PROBLEM =
+  '2^{I_max} = minimize Tr σ′ s.t. ρ_A ⊗ σ′ ⪰ ρ_AB (primal point: σ_B = σ′/Tr σ′, for which the least λ with ρ_AB ⪯ λ ρ_A ⊗ σ_B ' +
+  'bounds 2^{I_max}; ρ_A inverted on its support, decided with the support tolerance); dual: maximize Tr ρ_AB Z s.t. Z ⪰ 0, ' +
+  'tr_A((ρ_A ⊗ I_B) Z) = I_B';

@@ -898,13 +898,25 @@ export function readSupportTolerance(req: Record<string, any>): number {
 }
 
 /**
- * An SDP certificate (src/oneshot/sdp-support.ts) as plain data: numbers through writeNumber (an
- * infinite objective becomes "Infinity"), strings copied, key order kept.
+ * An SDP certificate (src/sdp/support.ts) as plain data, recursively: numbers through writeNumber (an
+ * infinite objective becomes "Infinity"), matrices (its primal and dual points) through writeMatrix,
+ * lists and objects element by element, strings copied, key order kept.
  */
 export function writeCertificate(c: object): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(c)) out[k] = typeof v === 'number' ? writeNumber(v) : v;
-  return out;
+  return writePlain(c) as Record<string, unknown>;
+}
+
+function writePlain(v: unknown): unknown {
+  if (typeof v === 'number') return writeNumber(v);
+  if (Array.isArray(v)) return v.map(writePlain);
+  if (v && typeof v === 'object') {
+    const m = v as Partial<CMatrix>;
+    if (m.re instanceof Float64Array && m.im instanceof Float64Array && typeof m.rows === 'number') return writeMatrix(v as CMatrix);
+    const out: Record<string, unknown> = {};
+    for (const [k, x] of Object.entries(v)) out[k] = writePlain(x);
+    return out;
+  }
+  return v;
 }
 
 export function writeState(s: State): { matrix: number[][] | { re: number[][]; im: number[][] }; dims: number[]; labels?: string[] } {

@@ -27,7 +27,7 @@ import { defineOp, OpContext, OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeMatrix,
 } from './codec.js';
-import { dense, sdp, sideOf } from './cost.js';
+import { dense, sideOf } from './cost.js';
 
 const supportToleranceSchema = supportToleranceProperty(
   'Relative tolerance below which an eigenvalue counts as zero, and the largest weight of ρ outside supp σ still taken as zero (default 1e-12); separate from "tolerance", which validates inputs.',
@@ -57,7 +57,9 @@ function divergenceCost(req: Record<string, any>) {
     return dense(n, 4 * steps, `${steps} ascent steps of four dense steps`);
   }
   if (req.family === 'hypothesis-testing') {
-    return sdp({ blocks: [{ size: n, hermitian: true }, { size: n, hermitian: true }, { size: 1, vector: true }], constraints: n * n + 1 }, dense(n, 4));
+    // The one-dimensional Neyman–Pearson dual (src/oneshot/neyman-pearson.ts): 8–20 steps, each an
+    // eigendecomposition with vectors and the diagonal of V*ρV.
+    return dense(n, 40, 'about 20 steps of the one-dimensional Neyman–Pearson dual, two dense steps each');
   }
   return dense(n, 8);
 }

@@ -1,7 +1,7 @@
 /**
  * Ops for the one-shot entropic quantities solved by rhosigma's SDP solver (src/oneshot):
  *  - the `hypothesis-testing` family of the `divergence` op (registered through entropy-ops.ts's
- *    `extraDivergenceFamilies`; `epsilon` required, strictly between 0 and 1),
+ *    `extraDivergenceFamilies`; `epsilon` required, in [0, 1], the range of the divergence schema),
  *  - `smooth-max-divergence` (rho, sigma, epsilon),
  *  - `conditional-min-entropy`, `conditional-max-entropy` (rho with dims, a, b),
  *  - `max-information` (rho with dims, a, b).
@@ -24,7 +24,7 @@ import { hypothesisTestingDivergence } from '../oneshot/hypothesis-testing.js';
 import { smoothMaxRelativeEntropy } from '../oneshot/smooth-max.js';
 import { conditionalMinEntropy, conditionalMaxEntropy } from '../oneshot/conditional-min-max.js';
 import { maxInformation } from '../oneshot/max-information.js';
-import type { LegacyCertificate } from '../sdp/support.js';
+import type { SdpCertificate } from '../sdp/support.js';
 import { defineOp, type OpResult } from './registry.js';
 import {
   readNumber, readOperatorState, readState, readSupportTolerance, readSystems, schemas, supportToleranceProperty, writeCertificate,
@@ -33,8 +33,8 @@ import {
 import { extraDivergenceFamilies } from './entropy-ops.js';
 import { dense, groupDimension, sdp, sideOf } from './cost.js';
 
-/** Largest matrix side for D_H (d² + 1 constraints). */
-export const MAX_HYPOTHESIS_DIMENSION = 32;
+/** Largest matrix side for D_H (the one-dimensional dual: O(d³) per step). */
+export const MAX_HYPOTHESIS_DIMENSION = 1024;
 /** Largest matrix side for the smooth max-relative entropy and the conditional max-entropy (~2n² constraints). */
 export const MAX_FIDELITY_SDP_DIMENSION = 16;
 /** Largest d_A d_B for the conditional min-entropy and the max-information (d_B² constraints, one d_A d_B block). */
@@ -71,7 +71,10 @@ function withNote(out: OpResult, note: string | undefined): OpResult {
 // divergence family: hypothesis-testing
 
 extraDivergenceFamilies.set('hypothesis-testing', ({ rho, sigma, request, context, supportTolerance }) => {
-  const epsilon = readEpsilon(request, 'hypothesis-testing');
+  if (request.epsilon === undefined) {
+    throw new RhoError('missing-argument', 'The hypothesis-testing family needs "epsilon", a number in [0, 1].', 'epsilon');
+  }
+  const epsilon = readNumber(request.epsilon, 'epsilon', { min: 0, max: 1 });
   if (rho.rows > MAX_HYPOTHESIS_DIMENSION) throw tooLarge('rho', 'The matrix side', rho.rows, MAX_HYPOTHESIS_DIMENSION);
   const r = hypothesisTestingDivergence(rho, sigma, epsilon, { base: context.base, tol: supportTolerance });
   const out: OpResult = {
@@ -80,9 +83,9 @@ extraDivergenceFamilies.set('hypothesis-testing', ({ rho, sigma, request, contex
     epsilon,
     beta: r.beta,
     test: writeMatrix(r.test),
+    ...(r.rejection ? { rejection: writeMatrix(r.rejection) } : {}),
     acceptance: r.acceptance,
     method: r.method,
-    commutator: r.commutator,
     convention: r.convention,
     certificate: writeCertificate(r.certificate),
     supportTolerance,
@@ -158,7 +161,7 @@ const bipartiteArgs = (bWhat: string) => ({
   required: ['rho', 'a', 'b'],
 });
 
-function sigmaAnswer(value: number, sigma: CMatrix, certificate: LegacyCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
+function sigmaAnswer(value: number, sigma: CMatrix, certificate: SdpCertificate, tol: number, extra: Record<string, unknown>, note?: string): OpResult {
   return withNote({ value: writeNumber(value), sigma: writeMatrix(sigma), ...extra, certificate: writeCertificate(certificate), supportTolerance: tol }, note);
 }
 

@@ -25,9 +25,9 @@
  * Cost: two eigendecompositions and the r x s overlap matrix, O(n³); then O(r·s) per bisection step
  * (at most 200 steps).
  */
-import { CMatrix } from '../linalg/cmatrix.js';
-import { eigh } from '../linalg/eigh.js';
-import { DEFAULT_SUPPORT_TOLERANCE, zeroThreshold } from '../linalg/functions.js';
+import { CMatrix, adjoint, mul } from '../linalg/cmatrix.js';
+import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
+import { spectral, columns } from '../linalg/spectral.js';
 
 export interface ChernoffOptions {
   /** Logarithm base of the exponent (default 2). */
@@ -51,26 +51,6 @@ export interface ChernoffResult {
   reason?: string;
 }
 
-interface Spectrum {
-  logValues: number[];
-  vectors: CMatrix;
-  index: number[];
-}
-
-function supportSpectrum(m: CMatrix, tol: number): Spectrum {
-  const { values, vectors } = eigh(m, { vectors: true });
-  const thr = zeroThreshold(values, tol);
-  const index: number[] = [];
-  const logValues: number[] = [];
-  for (let k = 0; k < values.length; k++) {
-    if (values[k] > thr) {
-      index.push(k);
-      logValues.push(Math.log(values[k]));
-    }
-  }
-  return { logValues, vectors: vectors!, index };
-}
-
 /** Tr ρ^s σ^{1−s} for one s in [0, 1], on the supports (ρ^0 = Π_ρ). */
 export function chernoffTrace(rho: CMatrix, sigma: CMatrix, s: number, tol = DEFAULT_SUPPORT_TOLERANCE): number {
   const t = overlapTable(rho, sigma, tol);
@@ -87,33 +67,22 @@ interface OverlapTable {
 
 function overlapTable(rho: CMatrix, sigma: CMatrix, tol: number): OverlapTable {
   if (rho.rows !== sigma.rows) throw new RangeError('chernoff: ρ and σ have different sizes');
-  const n = rho.rows;
-  const a = supportSpectrum(rho, tol);
-  const b = supportSpectrum(sigma, tol);
+  const a = spectral(rho, tol);
+  const b = spectral(sigma, tol);
+  const C = mul(adjoint(columns(a.vectors, a.support)), columns(b.vectors, b.support));
+  const m = b.support.length;
   const lnW: number[] = [];
   const lnL: number[] = [];
   const lnM: number[] = [];
   let overlap = 0;
-  for (let p = 0; p < a.index.length; p++) {
-    const i = a.index[p];
-    for (let q = 0; q < b.index.length; q++) {
-      const j = b.index[q];
-      let re = 0;
-      let im = 0;
-      for (let k = 0; k < n; k++) {
-        const xr = a.vectors.re[k * n + i];
-        const xi = -a.vectors.im[k * n + i];
-        const yr = b.vectors.re[k * n + j];
-        const yi = b.vectors.im[k * n + j];
-        re += xr * yr - xi * yi;
-        im += xr * yi + xi * yr;
-      }
-      const w = re * re + im * im;
+  for (let p = 0; p < a.support.length; p++) {
+    for (let q = 0; q < m; q++) {
+      const w = C.re[p * m + q] ** 2 + C.im[p * m + q] ** 2;
       overlap += w;
       if (w > 0) {
         lnW.push(Math.log(w));
-        lnL.push(a.logValues[p]);
-        lnM.push(b.logValues[q]);
+        lnL.push(Math.log(a.values[a.support[p]]));
+        lnM.push(Math.log(b.values[b.support[q]]));
       }
     }
   }

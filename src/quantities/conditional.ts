@@ -26,7 +26,7 @@ import { DEFAULT_SUPPORT_TOLERANCE, fromSpectrum } from '../linalg/functions.js'
 import { RhoError } from '../errors.js';
 import { entropy, EntropyOptions } from './entropy.js';
 import { divergence } from './divergences.js';
-import { columns, dividedDifferences, hadamardReal, powerDivided, spectral } from '../linalg/spectral.js';
+import { columns, doubleOperatorIntegral, powerDivided, spectral } from '../linalg/spectral.js';
 import { logOfBase, checkOrder, logSumExp } from './divergence-kit.js';
 
 /** Check that the groups are disjoint lists of valid subsystem indices. */
@@ -281,9 +281,8 @@ function sandwichedOptimised(
     if (!withGrad) return point;
     const Yp = fromSpectrum(ey.vectors!, Array.from(ey.values, (v) => (v > thr ? Math.pow(v, alpha - 1) : 0)));
     const Z = hermitianPart(partialTrace(mul(mul(R, Yp), R), [dA, m], [0]));
-    const K = dividedDifferences(s, (v) => Math.pow(v, -beta), (v) => -beta * Math.pow(v, -beta - 1), powerDivided(-beta));
-    const Zt = mul(mul(adjoint(W), Z), W);
-    const g = mul(mul(W, hadamardReal(Zt, K)), adjoint(W));
+    // Fréchet derivative of σ ↦ σ^{−β} in the direction Z (Daleckii–Krein).
+    const g = doubleOperatorIntegral(powerDivided(-beta), sigma, sigma, Z, es, es);
     const grad = zeros(m, m);
     for (let k = 0; k < m * m; k++) {
       grad.re[k] = sign * alpha * g.re[k];

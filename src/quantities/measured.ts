@@ -54,7 +54,7 @@ import { CMatrix, zeros, adjoint, mul, hermitianPart } from '../linalg/cmatrix.j
 import { eigh } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
-import { columns, compress, dividedDifferences, expDivided, hadamardReal } from '../linalg/spectral.js';
+import { columns, compress, doubleOperatorIntegral, expDivided } from '../linalg/spectral.js';
 import { analysePair, logOfBase, logSumExp } from './divergence-kit.js';
 
 export interface MeasuredOptions {
@@ -142,7 +142,7 @@ interface Evaluation {
  * f(H) = (1/β) ln Tr ρ e^{βH} − ln Tr σ e^H (β = 0: Tr ρ H − ln Tr σ e^H) and its gradient (as a
  * vector), with the eigenbasis of H. H is shifted by its largest eigenvalue first (f does not change).
  */
-function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number): Evaluation {
+function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number, unitTrace: boolean): Evaluation {
   const m = rhoS.rows;
   const H = fromVector(x, m);
   const { values, vectors } = eigh(H, { vectors: true });
@@ -153,8 +153,9 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number)
   const sigmaY = mul(mul(adjoint(Y), sigmaS), Y);
   let z = 0;
   for (let k = 0; k < m; k++) z += Math.exp(h[k]) * sigmaY.re[k * m + k];
-  const Ks = dividedDifferences(h, Math.exp, Math.exp, expDivided);
-  const Ds = mul(mul(Y, hadamardReal(sigmaY, Ks)), adjoint(Y));
+  // Dexp at the shifted H in the direction σ (Daleckii–Krein with exp's divided differences).
+  const shifted = { values: Float64Array.from(h), vectors: Y };
+  const Ds = doubleOperatorIntegral(expDivided, H, H, sigmaS, shifted, shifted);
   const G = zeros(m, m);
   let first: number;
   if (beta === 0) {
@@ -181,15 +182,16 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number)
         s += w[k] * Math.expm1(bh[k]);
         tw += w[k];
       }
-      lnA = Math.log(tw) + Math.log1p(s / tw);
+      // With Tr ρ_S = 1 by construction (inclusion), ln Tr ρ_S is taken as exactly 0: its rounding
+      // divided by a tiny β would otherwise dominate.
+      lnA = (unitTrace ? 0 : Math.log(tw)) + Math.log1p(s / tw);
     } else {
       lnA = logSumExp(w, bh);
     }
     first = lnA / beta;
     // Gradient of (1/β) ln A: Y (exp[βh_k, βh_l] ∘ Y*ρY) Y* / A, with A = Σ w e^{βh}.
     const A = Math.exp(lnA);
-    const Kr = dividedDifferences(bh, Math.exp, Math.exp, expDivided);
-    const Dr = mul(mul(Y, hadamardReal(rhoY, Kr)), adjoint(Y));
+    const Dr = doubleOperatorIntegral((a, b) => expDivided(beta * a, beta * b), H, H, rhoS, shifted, shifted);
     for (let i = 0; i < m * m; i++) {
       G.re[i] = Dr.re[i] / A;
       G.im[i] = Dr.im[i] / A;
@@ -204,12 +206,12 @@ function evaluate(x: Float64Array, rhoS: CMatrix, sigmaS: CMatrix, beta: number)
 }
 
 /** Maximise f by L-BFGS; returns the final point's evaluation and the run's record. */
-function ascend(rhoS: CMatrix, sigmaS: CMatrix, beta: number, x0: Float64Array, maxIterations: number, gtol: number) {
+function ascend(rhoS: CMatrix, sigmaS: CMatrix, beta: number, unitTrace: boolean, x0: Float64Array, maxIterations: number, gtol: number) {
   const memory = 12;
   const S: Float64Array[] = [];
   const Yd: Float64Array[] = [];
   let x = x0;
-  let cur = evaluate(x, rhoS, sigmaS, beta);
+  let cur = evaluate(x, rhoS, sigmaS, beta, unitTrace);
   let iterations = 0;
   let stoppingRule = `reached the iteration limit ${maxIterations}`;
   let finalChange = 0;
@@ -251,7 +253,7 @@ function ascend(rhoS: CMatrix, sigmaS: CMatrix, beta: number, x0: Float64Array, 
     for (let tries = 0; tries < 60; tries++) {
       xn = Float64Array.from(x, (v, i) => v + step * dir[i]);
       // A step to exponents beyond double range is simply too long.
-      const e = xn.every((v) => Math.abs(v) < 1e300) ? evaluate(xn, rhoS, sigmaS, beta) : undefined;
+      const e = xn.every((v) => Math.abs(v) < 1e300) ? evaluate(xn, rhoS, sigmaS, beta, unitTrace) : undefined;
       if (e && Number.isFinite(e.f) && e.f >= cur.f + 1e-4 * step * slope) {
         next = e;
         break;
@@ -298,7 +300,7 @@ export function measuredRenyiDivergence(rho: CMatrix, sigma: CMatrix, alpha: num
 }
 
 /** Classical Rényi divergence (natural log) of p from q over outcomes with p, q > 0; α = 1: KL. */
-function classicalDivergence(p: number[], q: number[], alpha: number): number {
+function classicalDivergence(p: number[], q: number[], alpha: number, unitTrace: boolean): number {
   const t = alpha - 1;
   if (t === 0) {
     let kl = 0;
@@ -319,7 +321,7 @@ function classicalDivergence(p: number[], q: number[], alpha: number): number {
   if (Math.abs(t) <= 0.5) {
     let s = 0;
     for (let k = 0; k < w.length; k++) s += (w[k] / tw) * Math.expm1(t * L[k]);
-    return (Math.log(tw) + Math.log1p(s)) / t;
+    return ((unitTrace ? 0 : Math.log(tw)) + Math.log1p(s)) / t;
   }
   return logSumExp(w, L.map((x) => t * x)) / t;
 }
@@ -419,7 +421,7 @@ function measuredDivergence(rho: CMatrix, sigma: CMatrix, alpha: number, options
   for (let j = 0; j < m; j++) logRho.re[j * m + j] -= Math.log(p.s[j]);
   const H0 = toVector(hermitianPart(logRho)).map((v) => alpha * v);
   const beta = (alpha - 1) / alpha;
-  const run = ascend(rhoS, sigmaS, beta, H0, maxIterations, gtol);
+  const run = ascend(rhoS, sigmaS, beta, p.included, H0, maxIterations, gtol);
   const basis = mul(V1, run.cur.basis);
   const full = kernel.length ? hstack(basis, columns(p.sigma.vectors, kernel)) : basis;
   const { pr, qr } = probs(full);
@@ -434,7 +436,7 @@ function measuredDivergence(rho: CMatrix, sigma: CMatrix, alpha: number, options
     for (let j = 0; j < m; j++) b += p.s[j] * (run.cur.basis.re[j * m + k] ** 2 + run.cur.basis.im[j * m + k] ** 2);
     qs.push(b);
   }
-  const classical = classicalDivergence(ps, qs, alpha);
+  const classical = classicalDivergence(ps, qs, alpha, p.included);
   const result: MeasuredResult = {
     ...base,
     value: Math.max(classical, run.cur.f) / lb,

@@ -46,10 +46,11 @@
  *
  * Cost: one eigendecomposition of ρ and two basis changes, O(n³); the Löwner test is O(1).
  */
-import { CMatrix, adjoint, mul, zeros, maxAbs } from '../linalg/cmatrix.js';
+import { CMatrix, zeros, maxAbs } from '../linalg/cmatrix.js';
 import { eigh, eigvalsh, EighResult } from '../linalg/eigh.js';
 import { DEFAULT_SUPPORT_TOLERANCE, zeroThreshold } from '../linalg/functions.js';
 import { RhoError } from '../errors.js';
+import { compress } from '../linalg/spectral.js';
 
 /** A symmetric normalised operator monotone function with its mean m(x, y) = y f(x/y). */
 export interface MetricFunction {
@@ -180,75 +181,8 @@ export function metricFromFunction(f: (t: number) => number, name = 'custom', pa
 // ---------------------------------------------------------------------------------------------
 // Double operator integrals
 
-/** U* X V for eigenvector matrices U, V (columns). */
-function toEigenbases(u: CMatrix, x: CMatrix, v: CMatrix): CMatrix {
-  return mul(mul(adjoint(u), x), v);
-}
-
-/**
- * T_φ(X) = Σ_ij φ(λ_i, μ_j) P_i X Q_j for Hermitian A = Σ λ_i P_i, B = Σ μ_j Q_j (square X of
- * matching shape). Eigendecompositions may be passed in to avoid recomputing them. The kernel is
- * evaluated eigenvalue by eigenvalue, which for repeated eigenvalues equals the projector form.
- */
-export function doubleOperatorIntegral(
-  kernel: (x: number, y: number) => number,
-  a: CMatrix,
-  b: CMatrix,
-  x: CMatrix,
-  eigA?: EighResult,
-  eigB?: EighResult,
-): CMatrix {
-  if (x.rows !== a.rows || x.cols !== b.rows) {
-    throw new RangeError(`doubleOperatorIntegral: X is ${x.rows}x${x.cols}, A is ${a.rows}x${a.cols}, B is ${b.rows}x${b.cols}`);
-  }
-  const ea = eigA ?? eigh(a, { vectors: true });
-  const eb = eigB ?? (b === a && !eigB ? ea : eigh(b, { vectors: true }));
-  const U = ea.vectors!;
-  const V = eb.vectors!;
-  const y = toEigenbases(U, x, V);
-  const p = y.rows;
-  const q = y.cols;
-  for (let i = 0; i < p; i++) {
-    for (let j = 0; j < q; j++) {
-      const k = kernel(ea.values[i], eb.values[j]);
-      y.re[i * q + j] *= k;
-      y.im[i * q + j] *= k;
-    }
-  }
-  return mul(mul(U, y), adjoint(V));
-}
-
-/**
- * The first divided difference f^[1](x, y) = (f(x) − f(y))/(x − y), and f'((x+y)/2) when
- * |x − y| ≤ 2e-5 · max(1, |x|, |y|) (there the quotient would lose about half the digits; the
- * midpoint derivative errs by |x − y|²·|f'''|/24). Without `df` the derivative is a central
- * difference with step ε^{1/3} · max(1, |x|) (error about 1e-11 relative for smooth f).
- */
-export function dividedDifference(f: (x: number) => number, df?: (x: number) => number): (x: number, y: number) => number {
-  const deriv =
-    df ??
-    ((x: number) => {
-      const h = 6e-6 * Math.max(1, Math.abs(x));
-      return (f(x + h) - f(x - h)) / (2 * h);
-    });
-  return (x, y) => {
-    const d = x - y;
-    if (Math.abs(d) <= 2e-5 * Math.max(1, Math.abs(x), Math.abs(y))) return deriv(0.5 * (x + y));
-    return (f(x) - f(y)) / d;
-  };
-}
-
-/** Fréchet derivative d/dt f(A + tX)|_{t=0} for Hermitian A and X (Daleckii–Krein). */
-export function frechetDerivative(
-  f: (x: number) => number,
-  a: CMatrix,
-  x: CMatrix,
-  df?: (x: number) => number,
-  eigA?: EighResult,
-): CMatrix {
-  const e = eigA ?? eigh(a, { vectors: true });
-  return doubleOperatorIntegral(dividedDifference(f, df), a, a, x, e, e);
-}
+// doubleOperatorIntegral, dividedDifference and frechetDerivative live in src/linalg/spectral.ts.
+export { doubleOperatorIntegral, dividedDifference, frechetDerivative } from '../linalg/spectral.js';
 
 // ---------------------------------------------------------------------------------------------
 // The metric itself
@@ -308,9 +242,9 @@ export function monotoneMetric(
   const lam = Array.from(e.values, (v) => (v > thr ? v : 0));
   const rank = lam.filter((v) => v > 0).length;
   const V = e.vectors!;
-  const xe = toEigenbases(V, x, V);
+  const xe = compress(x, V);
   const same = x === y;
-  const ye = same ? xe : toEigenbases(V, y, V);
+  const ye = same ? xe : compress(y, V);
   const xThr = vectorTol * maxAbs(xe);
   const yThr = vectorTol * maxAbs(ye);
   let re = 0;

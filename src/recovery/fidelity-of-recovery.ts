@@ -29,7 +29,7 @@
  * and O(N⁶) time per iteration — fine for three qubits (N = 8), slow around N = 27.
  */
 import {
-  CMatrix, eigh, hermitianPart, identity, mul,
+  CMatrix, eigh, hermitianPart, identity, mul, partialTrace,
 } from '../linalg/index.js';
 import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import type { Channel, State } from '../quantum/types.js';
@@ -43,7 +43,6 @@ import {
 } from '../sdp/support.js';
 import { supportOf, diagonalBlockConstraints } from '../oneshot/fidelity-sdp.js';
 import { tripartite, type Tripartite } from './tripartite.js';
-import { reduceLast } from './petz.js';
 
 export interface FidelityOfRecoveryResult {
   /** F(A;C|B) from the SDP (squared). */
@@ -91,7 +90,7 @@ export function fidelityOfRecovery(
   const dO = dB * dC;
   const dJ = dB * dO;
   const rhoABC = hermitianPart(parts.rho);
-  const rhoAB = reduceLast(rhoABC, dA * dB, dC);
+  const rhoAB = hermitianPart(partialTrace(rhoABC, [dA * dB, dC], [1]));
   const sup = supportOf(rhoABC, tol);
   const r = sup.values.length;
   const V = sup.basis; // N × r

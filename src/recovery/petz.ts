@@ -27,65 +27,12 @@
  * and applying them to ρ_AB: O(d_C · d_A² d_B² · d_B d_C) for the recovered state; one fidelity
  * O((d_A d_B d_C)³).
  */
-import {
-  CMatrix, eigh, hermitianPart, zeros, trace, type EighResult,
-} from '../linalg/index.js';
-import { zeroThreshold, DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
+import { CMatrix, columns, eigh, hermitianPart, kron, mul, outer, partialTrace, scale, zeros, trace } from '../linalg/index.js';
+import { complexPower, zeroThreshold, DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
 import type { Channel, State } from '../quantum/types.js';
 import { applyChannel } from '../quantum/channels.js';
 import { fidelity } from '../quantities/fidelity.js';
 import { tripartite, type Tripartite } from './tripartite.js';
-
-/** V diag(f) V* for a complex function f = fr + i·fi of the eigenvalues. */
-export function complexSpectral(vectors: CMatrix, fr: ArrayLike<number>, fi: ArrayLike<number>): CMatrix {
-  const n = vectors.rows;
-  const m = vectors.cols;
-  const out = zeros(n, n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) {
-      let sr = 0;
-      let si = 0;
-      for (let k = 0; k < m; k++) {
-        // V_ik f_k conj(V_jk)
-        const ar = vectors.re[i * m + k];
-        const ai = vectors.im[i * m + k];
-        const br = vectors.re[j * m + k];
-        const bi = -vectors.im[j * m + k];
-        const pr = ar * br - ai * bi;
-        const pi = ar * bi + ai * br;
-        sr += fr[k] * pr - fi[k] * pi;
-        si += fr[k] * pi + fi[k] * pr;
-      }
-      out.re[i * n + j] = sr;
-      out.im[i * n + j] = si;
-    }
-  }
-  return out;
-}
-
-/**
- * ρ^{p(1+it)} on the support (eigenvalues above tol·λ_max), 0 on the kernel: λ^p (cos(pt ln λ) +
- * i sin(pt ln λ)) per eigenvalue. Returns the matrix, the rank and the smallest kept eigenvalue.
- */
-export function complexPower(eig: EighResult, p: number, t: number, tol: number): { matrix: CMatrix; rank: number; smallest: number } {
-  const { values, vectors } = eig;
-  const thr = zeroThreshold(values, tol);
-  const fr = new Float64Array(values.length);
-  const fi = new Float64Array(values.length);
-  let rank = 0;
-  let smallest = Infinity;
-  values.forEach((v, k) => {
-    if (v > thr && v > 0) {
-      rank++;
-      smallest = Math.min(smallest, v);
-      const mag = Math.pow(v, p);
-      const ph = p * t * Math.log(v);
-      fr[k] = mag * Math.cos(ph);
-      fi[k] = mag * Math.sin(ph);
-    }
-  });
-  return { matrix: complexSpectral(vectors!, fr, fi), rank, smallest: rank > 0 ? smallest : 0 };
-}
 
 export interface PetzMapOptions {
   /** Rotation parameter t of R^t (default 0: the Petz map itself). */
@@ -120,23 +67,17 @@ export function petzRecoveryMap(rhoBC: CMatrix, dB: number, dC: number, options:
   const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
   const complete = options.complete ?? true;
   const bc = hermitianPart(rhoBC);
-  const rhoB = reduceLast(bc, dB, dC);
+  const rhoB = hermitianPart(partialTrace(bc, [dB, dC], [1]));
   const eigB = eigh(rhoB, { vectors: true });
   const eigBC = eigh(bc, { vectors: true });
   const left = complexPower(eigBC, 0.5, t, tol); // ρ_BC^{(1+it)/2}
   const inner = complexPower(eigB, -0.5, t, tol); // ρ_B^{−(1+it)/2}
-  const n = dB * dC;
   const kraus: CMatrix[] = [];
   for (let c = 0; c < dC; c++) {
-    // (ρ_B^{−(1+it)/2} ⊗ |c⟩): rows (b, c'), nonzero for c' = c.
-    const lifted = zeros(n, dB);
-    for (let b = 0; b < dB; b++) {
-      for (let j = 0; j < dB; j++) {
-        lifted.re[(b * dC + c) * dB + j] = inner.matrix.re[b * dB + j];
-        lifted.im[(b * dC + c) * dB + j] = inner.matrix.im[b * dB + j];
-      }
-    }
-    kraus.push(mulDense(left.matrix, lifted));
+    // ρ_BC^{(1+it)/2} (ρ_B^{−(1+it)/2} ⊗ |c⟩).
+    const ket = zeros(dC, 1);
+    ket.re[c] = 1;
+    kraus.push(mul(left.matrix, kron(inner.matrix, ket)));
   }
   const kernelDimension = dB - inner.rank;
   if (complete && kernelDimension > 0) {
@@ -150,19 +91,7 @@ export function petzRecoveryMap(rhoBC: CMatrix, dB: number, dC: number, options:
       const s = Math.sqrt(mu);
       eigB.values.forEach((lam, k) => {
         if (lam > thrB && lam > 0) return;
-        const K = zeros(n, dB);
-        for (let r = 0; r < n; r++) {
-          for (let q = 0; q < dB; q++) {
-            // √μ w_j(r) conj(e_k(q))
-            const wr = VBC.re[r * n + j];
-            const wi = VBC.im[r * n + j];
-            const er = VB.re[q * dB + k];
-            const ei = -VB.im[q * dB + k];
-            K.re[r * dB + q] = s * (wr * er - wi * ei);
-            K.im[r * dB + q] = s * (wr * ei + wi * er);
-          }
-        }
-        kraus.push(K);
+        kraus.push(scale(outer(columns(VBC, [j]), columns(VB, [k])), s));
       });
     });
   }
@@ -176,44 +105,6 @@ export function petzRecoveryMap(rhoBC: CMatrix, dB: number, dC: number, options:
       supportTolerance: tol,
     },
   };
-}
-
-/** Tr of the last factor of a matrix on d_R ⊗ d_C. */
-export function reduceLast(bc: CMatrix, dB: number, dC: number): CMatrix {
-  const out = zeros(dB, dB);
-  const n = dB * dC;
-  for (let i = 0; i < dB; i++) {
-    for (let j = 0; j < dB; j++) {
-      let sr = 0;
-      let si = 0;
-      for (let c = 0; c < dC; c++) {
-        const k = (i * dC + c) * n + (j * dC + c);
-        sr += bc.re[k];
-        si += bc.im[k];
-      }
-      out.re[i * dB + j] = sr;
-      out.im[i * dB + j] = si;
-    }
-  }
-  return hermitianPart(out);
-}
-
-function mulDense(a: CMatrix, b: CMatrix): CMatrix {
-  const out = zeros(a.rows, b.cols);
-  for (let i = 0; i < a.rows; i++) {
-    for (let k = 0; k < a.cols; k++) {
-      const ar = a.re[i * a.cols + k];
-      const ai = a.im[i * a.cols + k];
-      if (ar === 0 && ai === 0) continue;
-      for (let j = 0; j < b.cols; j++) {
-        const br = b.re[k * b.cols + j];
-        const bi = b.im[k * b.cols + j];
-        out.re[i * b.cols + j] += ar * br - ai * bi;
-        out.im[i * b.cols + j] += ar * bi + ai * br;
-      }
-    }
-  }
-  return out;
 }
 
 export interface PetzRecoveryResult {
@@ -250,8 +141,8 @@ export function petzRecovery(
 ): PetzRecoveryResult {
   const parts = tripartite(rho, dims, a, b, c);
   const { dA, dB, dC } = parts;
-  const rhoBC = reduceA(parts.rho, dA, dB * dC);
-  const rhoAB = reduceLast(parts.rho, dA * dB, dC);
+  const rhoBC = hermitianPart(partialTrace(parts.rho, [dA, dB * dC], [0]));
+  const rhoAB = hermitianPart(partialTrace(parts.rho, [dA * dB, dC], [1]));
   const map = petzRecoveryMap(rhoBC, dB, dC, options);
   const state: State = { matrix: rhoAB, dims: [dA, dB] };
   const out = applyChannel(map.channel, state, [1]);
@@ -269,24 +160,4 @@ export function petzRecovery(
       fidelityTruncationBound: f.truncationBound,
     },
   };
-}
-
-/** Tr_A of a matrix on d_A ⊗ d_R. */
-export function reduceA(m: CMatrix, dA: number, dR: number): CMatrix {
-  const out = zeros(dR, dR);
-  const n = dA * dR;
-  for (let i = 0; i < dR; i++) {
-    for (let j = 0; j < dR; j++) {
-      let sr = 0;
-      let si = 0;
-      for (let x = 0; x < dA; x++) {
-        const k = (x * dR + i) * n + (x * dR + j);
-        sr += m.re[k];
-        si += m.im[k];
-      }
-      out.re[i * dR + j] = sr;
-      out.im[i * dR + j] = si;
-    }
-  }
-  return hermitianPart(out);
 }

@@ -56,7 +56,8 @@
  * block and factored by groups of constraints sharing blocks (schur.ts), so thousands of 2×2
  * blocks cost time linear in their number. Deterministic: no randomness anywhere.
  *
- * OPTIONS (SdpOptions): gapTolerance 1e-8, feasibilityTolerance 1e-8, maxIterations 100,
+ * OPTIONS (SdpOptions): gapTolerance 1e-8 (relative to the size of the objective), absoluteGapTolerance
+ * 1e-13 (for objectives at zero), feasibilityTolerance 1e-8, maxIterations 100,
  * stepFraction 0.98, onIteration(info) progress callback, shouldStop() and signal (AbortSignal)
  * for cancellation (status 'cancelled' with the last iterate).
  *

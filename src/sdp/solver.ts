@@ -41,7 +41,11 @@
  *  - numerically dependent constraints are dropped by the Schur factorization (dense.ts,
  *    choleskyInPlaceGuarded) and counted in `dependentConstraints`.
  *
- * Does not: presolve, scale the data, exploit low rank of constraint matrices, or warm start.
+ * Termination: the gap is measured relative to the size of the objective, |p − d| ≤ gapTolerance·
+ * max(|p|, |d|) (or absolutely, |p − d| ≤ absoluteGapTolerance, for objectives at zero), so that an
+ * objective of 1e-9 is not "optimal" at 1e-1 relative; the residuals relative to 1 + ‖b‖ and 1 + ‖c‖.
+ *
+ * Does not: presolve, exploit low rank of constraint matrices, or warm start.
  * Numerical answers are evidence: a status 'optimal' means the residuals and the relative gap
  * met the tolerances for this floating-point iterate; check `primalResidual`, `dualResidual` and
  * `relativeGap` on the answer when a decision hangs on a small number.
@@ -75,6 +79,7 @@ import type { Certificate } from './types.js';
 
 export const DEFAULT_OPTIONS = {
   gapTolerance: 1e-8,
+  absoluteGapTolerance: 1e-13,
   feasibilityTolerance: 1e-8,
   maxIterations: 100,
   stepFraction: 0.98,
@@ -138,6 +143,7 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
   const d = solverData(problem);
   const tol: Tolerances = {
     gap: options.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance,
+    absoluteGap: options.absoluteGapTolerance ?? DEFAULT_OPTIONS.absoluteGapTolerance,
     feasibility: options.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance,
   };
   const maxIter = options.maxIterations ?? DEFAULT_OPTIONS.maxIterations;

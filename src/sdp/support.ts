@@ -72,6 +72,16 @@ export function roundingPad(n: number, scale: number): number {
   return 8 * Math.max(1, n) * 1.1102230246251565e-16 * Math.abs(scale);
 }
 
+/**
+ * Rounding allowance of one computed eigenvalue of an n×n Hermitian matrix of Frobenius norm `norm`:
+ * 4√n·u·‖A‖_F, a few times the backward error of a Householder-based eigensolver (the rigorous bound
+ * p(n)·u·‖A‖₂ has a p(n) growing with n that is far from what happens; this is evidence, not proof).
+ * The checker (kernel-bridge/rhosigma/certificates.py) uses the same allowance.
+ */
+export function eigenvalueAllowance(n: number, norm: number): number {
+  return 4 * Math.sqrt(Math.max(1, n)) * 1.1102230246251565e-16 * Math.abs(norm);
+}
+
 /** What `certify` needs of a quantity. */
 export interface CertifyInput {
   /** Names the quantity in messages ("the guessing probability"). */
@@ -106,12 +116,18 @@ function fmt(x: number): string {
   return Number.isFinite(x) ? x.toPrecision(12) : String(x);
 }
 
+/** An assessed answer: what certify returns, and whether the rule accepts it (else the error it would throw). */
+export interface Assessed extends Certified {
+  accepted: boolean;
+  failure?: RhoError;
+}
+
 /**
- * The rule of the header: the value (the estimate clamped into the bracket, then into `range`, with
- * the excess stated), the certificate, and a note; throws RhoError 'solver-failed' with the bracket
- * when the bracket is wider than the acceptance allows, or when the solver was cancelled.
+ * The rule of the header without throwing: the value (the estimate clamped into the bracket, then
+ * into `range`, with the excess stated), the certificate, a note, and whether the bracket is narrow
+ * enough (`failure`: the RhoError 'solver-failed' with the bracket that certify would throw).
  */
-export function certify(c: CertifyInput): Certified {
+export function assess(c: CertifyInput): Assessed {
   const s = c.solve;
   const status: SdpStatus | 'exact' = s ? s.status : 'exact';
   let lower = Math.min(c.bounds.lower, c.bounds.upper);
@@ -156,9 +172,9 @@ export function certify(c: CertifyInput): Certified {
   };
   const limit = c.limit ?? ACCEPT_RELATIVE;
   const absolute = c.absolute ?? ACCEPT_ABSOLUTE;
-  const accepted = Number.isFinite(width) && (accuracy.relative <= limit || width <= absolute);
-  if (status === 'cancelled' || !accepted) {
-    throw new RhoError(
+  const accepted = status !== 'cancelled' && Number.isFinite(width) && (accuracy.relative <= limit || width <= absolute);
+  if (!accepted) {
+    const failure = new RhoError(
       'solver-failed',
       `The SDP for ${c.what} did not reach a certified answer: the returned points prove only ${c.what} ∈ [${fmt(lower)}, ${fmt(upper)}] ` +
         `(width ${width.toExponential(2)}, relative ${accuracy.relative.toExponential(2)}; accepted up to ${limit} relative or ${absolute} absolute); ` +
@@ -166,6 +182,7 @@ export function certify(c: CertifyInput): Certified {
       undefined,
       { status, bounds: { lower, upper }, accuracy, iterations: certificate.iterations, primalResidual: certificate.primalResidual, dualResidual: certificate.dualResidual },
     );
+    return { value, certificate, accepted, failure };
   }
   if (s && status !== 'optimal') {
     notes.push(
@@ -173,7 +190,37 @@ export function certify(c: CertifyInput): Certified {
         `${accuracy.absolute.toExponential(2)} (relative ${accuracy.relative.toExponential(2)}).`,
     );
   }
-  return { value, certificate, ...(notes.length ? { note: notes.join(' ') } : {}) };
+  return { value, certificate, accepted, ...(notes.length ? { note: notes.join(' ') } : {}) };
+}
+
+/** assess, throwing its failure (RhoError 'solver-failed' with the bracket) when the rule refuses the answer. */
+export function certify(c: CertifyInput): Certified {
+  const a = assess(c);
+  if (!a.accepted) throw a.failure!;
+  return { value: a.value, certificate: a.certificate, ...(a.note ? { note: a.note } : {}) };
+}
+
+/** Solver options for a second, tighter solve when the first bracket does not reach ACCEPT_RELATIVE. */
+export const TIGHT_SOLVE = { gapTolerance: 1e-13, feasibilityTolerance: 1e-13, absoluteGapTolerance: 1e-16, maxIterations: 150 } as const;
+
+/**
+ * Assess an attempt, and when the caller gave no solver options and the bracket is wider than
+ * ACCEPT_RELATIVE relative to the value (values near zero, 1 − small, ...), assess a second attempt with
+ * TIGHT_SOLVE and keep the narrower bracket; then the rule (throws 'solver-failed' when refused).
+ */
+export function certifyRefined(attempt: (solver: SdpOptions | undefined) => Assessed, solver: SdpOptions | undefined): Certified {
+  let a = attempt(solver);
+  if (solver === undefined && !(a.certificate.accuracy.relative <= ACCEPT_RELATIVE)) {
+    let b: Assessed | undefined;
+    try {
+      b = attempt({ ...TIGHT_SOLVE });
+    } catch (e) {
+      if (!(e instanceof RhoError) || e.code !== 'solver-failed') throw e;
+    }
+    if (b && (!a.accepted || b.certificate.accuracy.absolute < a.certificate.accuracy.absolute)) a = b;
+  }
+  if (!a.accepted) throw a.failure!;
+  return { value: a.value, certificate: a.certificate, ...(a.note ? { note: a.note } : {}) };
 }
 
 /**
@@ -427,4 +474,52 @@ export function renormalisePovm(elements: readonly CMatrix[], sum?: CMatrix): CM
   }
   const root = inverseRootOnSupport(g);
   return elements.map((m) => hermitianPart(mul(mul(root, m), root)));
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Repairs of points into feasibility, shared by the quantities (and mirrored in the numpy checker).
+
+/** ‖M‖_F. */
+export function frobenius(m: CMatrix): number {
+  let s = 0;
+  for (let k = 0; k < m.re.length; k++) s += m.re[k] * m.re[k] + m.im[k] * m.im[k];
+  return Math.sqrt(s);
+}
+
+/** The positive semidefinite part of a Hermitian matrix: negative eigenvalues set to zero. */
+export function clipPsd(m: CMatrix): CMatrix {
+  const { values, vectors } = eigh(hermitianPart(m), { vectors: true });
+  if (values[0] >= 0) return hermitianPart(m);
+  return fromSpectrum(vectors!, Array.from(values, (v) => Math.max(0, v)));
+}
+
+/**
+ * The shift s ≥ 0 that makes A − B + s·I positive semidefinite for Hermitian A, B, with the rounding
+ * allowance of the computed smallest eigenvalue: max(0, −λ_min(A − B) + allowance).
+ */
+export function psdShift(a: CMatrix, b?: CMatrix): number {
+  const n = a.rows;
+  const d = zeros(n, n);
+  for (let k = 0; k < n * n; k++) {
+    d.re[k] = a.re[k] - (b ? b.re[k] : 0);
+    d.im[k] = a.im[k] - (b ? b.im[k] : 0);
+  }
+  const h = hermitianPart(d);
+  const lmin = eigh(h, { vectors: false }).values[0];
+  return Math.max(0, -lmin + eigenvalueAllowance(n, frobenius(h)));
+}
+
+/** Largest eigenvalue of a Hermitian matrix, raised by its rounding allowance (an upper bound up to rounding). */
+export function maxEigenvalueUpper(m: CMatrix): number {
+  const h = hermitianPart(m);
+  const v = eigh(h, { vectors: false }).values;
+  return v[v.length - 1] + eigenvalueAllowance(m.rows, frobenius(h));
+}
+
+/**
+ * A list of positive semidefinite elements made into a POVM: negative eigenvalues clipped, then
+ * G^{−1/2} M G^{−1/2} with G = Σ M (renormalisePovm).
+ */
+export function repairPovm(elements: readonly CMatrix[]): CMatrix[] {
+  return renormalisePovm(elements.map(clipPsd));
 }

@@ -12,10 +12,21 @@ import type { Compiled } from './compile.js';
 import { Iterate, norm2, type Direction, type SolverData, type Workspace } from './iterate.js';
 import type { BlockValue, Certificate, IterationInfo, SdpStatus } from './types.js';
 
-/** Stopping tolerances of one solve. */
+/**
+ * Stopping tolerances of one solve: `gap` relative to the size of the objective, |p − d| ≤ gap·max(|p|, |d|);
+ * `absoluteGap`, |p − d| ≤ absoluteGap, for objectives at or near zero, where no relative test can pass;
+ * `feasibility` for the relative residuals.
+ */
 export interface Tolerances {
   gap: number;
+  absoluteGap: number;
   feasibility: number;
+}
+
+/** |p − d| / max(|p|, |d|): the gap relative to the size of the objective (0 when both are 0). */
+export function relativeGapOf(p: number, d: number): number {
+  const big = Math.max(Math.abs(p), Math.abs(d));
+  return big > 0 ? Math.abs(p - d) / big : 0;
 }
 
 /** The numbers of the current iterate in the solver's (equilibrated) scale. `step`, `sigma`: of the last iteration. */
@@ -29,7 +40,7 @@ export function iterationInfo(d: SolverData, it: Iterate, ws: Workspace, iterati
     primalObjective: pobj,
     dualObjective: dobj,
     gap: r.xs / (tau * tau),
-    relativeGap: Math.abs(pobj - dobj) / (1 + Math.abs(pobj) + Math.abs(dobj)),
+    relativeGap: relativeGapOf(pobj, dobj),
     primalResidual: norm2(r.rp) / tau / (1 + d.bNorm),
     dualResidual: r.rdNorm / tau / (1 + d.cNorm),
     tau,
@@ -54,19 +65,24 @@ export function userInfo(d: SolverData, it: Iterate, ws: Workspace, info: Iterat
     primalObjective: pobj,
     dualObjective: dobj,
     gap: info.gap * f,
-    relativeGap: Math.abs(pobj - dobj) / (1 + Math.abs(pobj) + Math.abs(dobj)),
+    relativeGap: relativeGapOf(pobj, dobj),
     primalResidual: Math.sqrt(r2) / it.tau / (1 + d.bNormUser),
     dualResidual: (sc.c * ws.res.rdNorm) / it.tau / (1 + d.cNormUser),
   };
 }
 
-export function meetsTolerances(info: IterationInfo, tol: Tolerances): boolean {
-  return info.primalResidual <= tol.feasibility && info.dualResidual <= tol.feasibility && info.relativeGap <= tol.gap;
+/** How far the gap is from passing: the better of its relative and its absolute test. */
+function gapMerit(info: IterationInfo, tol: Tolerances): number {
+  return Math.min(info.relativeGap / tol.gap, Math.abs(info.primalObjective - info.dualObjective) / tol.absoluteGap);
 }
 
-/** max(residuals / feasibility tolerance, relative gap / gap tolerance); Infinity for NaN. */
+export function meetsTolerances(info: IterationInfo, tol: Tolerances): boolean {
+  return info.primalResidual <= tol.feasibility && info.dualResidual <= tol.feasibility && gapMerit(info, tol) <= 1;
+}
+
+/** max(residuals / feasibility tolerance, gap against its tolerance); Infinity for NaN. */
 export function merit(info: IterationInfo, tol: Tolerances): number {
-  const v = Math.max(info.primalResidual / tol.feasibility, info.dualResidual / tol.feasibility, info.relativeGap / tol.gap);
+  const v = Math.max(info.primalResidual / tol.feasibility, info.dualResidual / tol.feasibility, gapMerit(info, tol));
   return v === v ? v : Infinity;
 }
 

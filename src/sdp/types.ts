@@ -81,8 +81,17 @@ export interface IterationInfo {
 }
 
 export interface SdpOptions {
-  /** Relative duality gap |p − d| / (1 + |p| + |d|) required for 'optimal'. Default 1e-8. */
+  /**
+   * Duality gap relative to the size of the objective, |p − d| / max(|p|, |d|), required for 'optimal'
+   * (unless the absolute test below passes). Default 1e-8.
+   */
   gapTolerance?: number;
+  /**
+   * Absolute duality gap |p − d| that also counts as converged, for objectives at or near zero (in the
+   * user's scale). Default 1e-13: an objective of 1e-9 is then resolved to about 1e-4 relative at worst,
+   * which is why the quantities scale their objectives to order one where they can.
+   */
+  absoluteGapTolerance?: number;
   /** Relative primal and dual residuals required for 'optimal', and the accuracy of certificates. Default 1e-8. */
   feasibilityTolerance?: number;
   /** Default 100. */
@@ -128,7 +137,7 @@ export interface SdpAnswer {
   dualObjective: number;
   /** primalObjective − dualObjective (≥ 0 up to residuals by weak duality). */
   gap: number;
-  /** |gap| / (1 + |primal| + |dual|). */
+  /** |gap| / max(|primal|, |dual|): relative to the size of the objective. */
   relativeGap: number;
   /** ‖A(X) − b‖ / (1 + ‖b‖). */
   primalResidual: number;

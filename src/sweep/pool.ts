@@ -11,7 +11,9 @@
  * Deliberately not here: what a job computes (src/sweep/jobs.ts), files (src/sweep/runner.ts).
  * Cost: one structured-clone message per batch each way.
  */
-import { Worker } from 'node:worker_threads';
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { Worker as ThreadWorker } from 'node:worker_threads';
 import { runJob, type Job, type JobResult } from './jobs.js';
 import type { Spec } from './spec.js';
 
@@ -25,12 +27,21 @@ export interface PoolOptions {
 /**
  * A worker thread running worker.js next to this module; from source (tests, under tsx) worker.ts, loaded
  * after registering tsx in the thread (module hooks of the main thread do not reach workers in Node 20).
+ * The paths are built at run time so that bundlers leave them alone (webpack 5 mis-rewrites
+ * `new Worker(new URL(...))` for Node targets); where no worker file exists beside this module (the
+ * single-file engine bundle), undefined: the caller then runs the jobs in its own thread.
  */
-function startWorker(): Worker {
-  if (!import.meta.url.endsWith('.ts')) return new Worker(new URL('./worker.js', import.meta.url));
-  const url = new URL('./worker.ts', import.meta.url).href;
-  const tsx = import.meta.resolve('tsx/esm/api');
-  return new Worker(`import(${JSON.stringify(tsx)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`, { eval: true });
+function workerStarter(): (() => ThreadWorker) | undefined {
+  const here = import.meta.url;
+  if (here.endsWith('.ts')) {
+    const url = here.replace(/pool\.ts$/, 'worker.ts');
+    const tsx = import.meta.resolve(['tsx', 'esm', 'api'].join('/'));
+    const code = `import(${JSON.stringify(tsx)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`;
+    return () => new ThreadWorker(code, { eval: true });
+  }
+  const file = here.startsWith('file:') ? fileURLToPath(here.replace(/pool\.js$/, ['worker', 'js'].join('.'))) : '';
+  if (!file.endsWith('worker.js') || !existsSync(file)) return undefined;
+  return () => new ThreadWorker(file);
 }
 
 /** Runs jobs 0..count−1 (`jobAt` builds each) and hands the results to `consume` in order. */
@@ -41,7 +52,8 @@ export async function runInOrder(
   consume: (result: JobResult, position: number) => boolean,
   options: PoolOptions,
 ): Promise<{ consumed: number; stopped: boolean }> {
-  if (options.workers <= 0) {
+  const start = options.workers > 0 ? workerStarter() : undefined;
+  if (!start) {
     let position = 0;
     let last = performance.now();
     for (; position < count; position++) {
@@ -57,7 +69,7 @@ export async function runInOrder(
   }
   const lookahead = options.lookahead ?? 10000;
   const workers = Array.from({ length: options.workers }, () => {
-    const w = startWorker();
+    const w = start();
     w.postMessage({ spec: spec.source });
     return w;
   });
@@ -67,11 +79,11 @@ export async function runInOrder(
   let msPerJob = 5;
   let batchId = 0;
   let stop = false;
-  const inflight = new Map<Worker, number>();
+  const inflight = new Map<ThreadWorker, number>();
   const batches = new Map<number, number[]>();
   try {
     await new Promise<void>((resolve, reject) => {
-      const dispatch = (w: Worker) => {
+      const dispatch = (w: ThreadWorker) => {
         while (!stop && (inflight.get(w) ?? 0) < 2 && next < count && next < consumed + lookahead) {
           const size = Math.max(1, Math.min(256, Math.round(20 / msPerJob), count - next, consumed + lookahead - next));
           const positions = Array.from({ length: size }, (_, k) => next + k);

@@ -93,6 +93,11 @@ describe('properties of quantum divergences', () => {
       for (const a of [1 - 1e-9, 1 + 1e-9]) {
         assert.ok(Math.abs(divergence('geometric', rho, sigma, { alpha: a }).value - bs) <= 1e-8, `geometric α=${a}`);
       }
+      // The measured divergences are maxima found by an optimiser (to about 1e-10 here).
+      const dm = divergence('measured', rho, sigma).value;
+      for (const a of [1 - 1e-6, 1 + 1e-6, 1 - 1e-12, 1 + 1e-12]) {
+        assert.ok(Math.abs(divergence('measured', rho, sigma, { alpha: a }).value - dm) <= 20 * Math.abs(a - 1) + 1e-9, `measured α=${a}`);
+      }
     }
   });
 
