@@ -330,7 +330,7 @@ async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line
       yield take();
       from = nl + 1;
     }
-    if (from < b.length) add(Buffer.from(b.subarray(from)));
+    if (from < b.length) add(b.subarray(from)); // chunks are not reused by the stream: no copy needed
   }
   if (length > 0 || skipping) yield take();
 }

@@ -180,7 +180,7 @@ function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
   } else {
     let text: string;
     try {
-      text = atob(b64);
+      text = atob(b64.replace(/-/g, '+').replace(/_/g, '/'));
     } catch {
       throw new RhoError('parse-error', 'The packed data is not valid base64.', path);
     }

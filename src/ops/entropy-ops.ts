@@ -98,7 +98,7 @@ export const divergenceFamilyFields = new Map<string, readonly string[]>([
   ['geometric', ['alpha']],
   ['max', []],
   ['min', []],
-  ['measured', ['maxIterations']],
+  ['measured', ['alpha', 'maxIterations']],
   ['hypothesis-testing', ['epsilon']],
 ]);
 
