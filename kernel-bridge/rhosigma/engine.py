@@ -8,9 +8,14 @@ line, in order. `Engine` keeps one such process and:
 - survives a dying process: the request it died on is answered with 'internal-error' (exit status and
   the end of its standard error in `detail`), a new process is started and the rest of the batch is
   sent to it;
-- bounds each request with an optional `timeout` (seconds): on expiry the whole process group is killed
-  (the engine runs in a session of its own, so a wrapper script and the node it started both stop), the
-  request is answered with 'deadline-exceeded', and the engine is restarted for what follows;
+- bounds each request with an optional `timeout` (seconds). The request carries it to the engine as
+  its "deadline" (milliseconds; the protocol's common field), so iterative methods and the SDP solver
+  stop in time with 'deadline-exceeded' and say how far they got. If no answer has come `grace(timeout)`
+  later (work the engine cannot interrupt), the whole process group is killed (the engine runs in a
+  session of its own, so a wrapper script and the node it started both stop), the request is answered
+  with 'deadline-exceeded', and the engine is restarted for what follows. A request's own "deadline"
+  is kept (the engine's business); without a timeout nothing is killed, and without either the
+  engine's default deadline applies;
 - reads and writes UTF-8 bytes itself, whatever the locale;
 - raises the package's own `EngineNotFound` / `EngineStartError` when the command cannot start;
 - answers a request that cannot be sent (a NaN inside a numpy array) alone, with the protocol's
@@ -18,7 +23,7 @@ line, in order. `Engine` keeps one such process and:
 
 The command (`engine_command`): `$RHOSIGMA_COMMAND` when set (split like a POSIX shell, so quoted paths
 with spaces work), else the checkout's `bin/rhosigma.js`, else the single-file bundle shipped in the
-wheel (`rhosigma/_bundle/rhosigma.cjs`), both run with `node` from PATH; `serve` is appended.
+wheel (`rhosigma/_bundle/rhosigma.mjs`), both run with `node` from PATH; `serve` is appended.
 
 Deliberately not here: numerics (the engine computes everything) and widget comms. Cost per request: one
 JSON encode and decode plus one pipe round trip (bench: kernel-bridge/bench_overhead.py).
@@ -50,7 +55,7 @@ __all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "
 
 _PACKAGE_DIR = Path(__file__).resolve().parent
 #: The engine bundle shipped inside the wheel (built by `npm run build:engine-bundle`).
-BUNDLE_PATH = _PACKAGE_DIR / "_bundle" / "rhosigma.cjs"
+BUNDLE_PATH = _PACKAGE_DIR / "_bundle" / "rhosigma.mjs"
 #: The checkout's command (kernel-bridge/rhosigma/ → the repository root).
 CHECKOUT_BIN = _PACKAGE_DIR.parent.parent / "bin" / "rhosigma.js"
 
@@ -100,19 +105,36 @@ def _failure(op: Any, request_id: Any, code: str, message: str, *, path: str | N
     return answer
 
 
+#: The protocol's largest "deadline" (milliseconds).
+MAX_DEADLINE_MS = 86_400_000
+
+
+def grace(timeout: float) -> float:
+    """Seconds allowed past a request's deadline before its engine is killed: a quarter of it, 1–30 s
+    (an SDP stops at its first iteration past the deadline, which on a loaded machine can be late)."""
+    return min(max(1.0, 0.25 * timeout), 30.0)
+
+
 class _Prepared:
     """One request of an exchange: its line to send, or the answer it already has (a local refusal)."""
 
-    __slots__ = ("request", "line", "answer")
+    __slots__ = ("request", "line", "answer", "wait")
 
-    def __init__(self, request: Any):
+    def __init__(self, request: Any, timeout: float | None = None):
         self.request = request
         self.line: bytes | None = None
         self.answer: dict | None = None
+        #: Seconds to wait for the answer before the engine is killed (None: no limit).
+        self.wait: float | None = None
         op = request.get("op") if isinstance(request, dict) else None
         request_id = request.get("id") if isinstance(request, dict) else None
         try:
-            self.line = dumps_line(to_protocol(request))
+            data = to_protocol(request)
+            if timeout is not None:
+                if isinstance(data, dict) and "deadline" not in data:
+                    data["deadline"] = min(max(1, round(timeout * 1000)), MAX_DEADLINE_MS)
+                self.wait = timeout + grace(timeout)
+            self.line = dumps_line(data)
         except Refusal as refusal:
             self.answer = _failure(op, request_id, refusal.code, refusal.message, path=refusal.path)
         except (TypeError, ValueError) as err:
@@ -345,7 +367,7 @@ class Engine:
 
     # -- exchanges ---------------------------------------------------------------------------------
 
-    def _exchange(self, prepared: list[_Prepared], timeout: float | None) -> None:
+    def _exchange(self, prepared: list[_Prepared]) -> None:
         """Fill in `answer` for every prepared request, restarting the engine as often as needed."""
         pending = [p for p in prepared if p.answer is None]
         while pending:
@@ -361,16 +383,16 @@ class Engine:
                     writer = threading.Thread(target=self._write, args=(b"".join(lines),), daemon=True)
                     writer.start()
                 for p in pending:
-                    deadline = time.monotonic() + timeout if timeout is not None else None
+                    deadline = time.monotonic() + p.wait if p.wait is not None else None
                     try:
                         line = self._readline(deadline)
                     except _Timeout:
                         self._kill()
                         p.answer = _failure(
                             _op(p.request), _id(p.request), "deadline-exceeded",
-                            f"No answer within the timeout of {timeout:g} s; the engine process (with its process group) "
-                            "was stopped and is restarted for the next request.",
-                            detail={"timeout": timeout},
+                            f"No answer within {p.wait:.3g} s (the deadline and its grace); the engine process (with its "
+                            "process group) was stopped and is restarted for the next request.",
+                            detail={"waited": p.wait},
                         )
                         done += 1
                         break
@@ -415,18 +437,19 @@ class Engine:
     def compute_batch(self, requests: Iterable[Any], *, timeout: float | None = None) -> list[Answer]:
         """Answers to many requests, in order; each failure is confined to its own answer.
 
-        `timeout` bounds each request separately (seconds from when the engine could start on it).
+        `timeout` bounds each request separately (seconds from when the engine could start on it): it
+        becomes the request's "deadline", and the engine is killed `grace(timeout)` after it.
         """
-        prepared = [_Prepared(r) for r in requests]
+        prepared = [_Prepared(r, timeout) for r in requests]
         with self._lock:
-            self._exchange(prepared, timeout)
+            self._exchange(prepared)
         return [Answer.from_protocol(p.answer, p.request) for p in prepared]
 
     def compute_raw(self, requests: Iterable[Any], *, timeout: float | None = None) -> list[dict]:
         """The answers exactly as the engine wrote them (JSON data, "Infinity" still a string)."""
-        prepared = [_Prepared(r) for r in requests]
+        prepared = [_Prepared(r, timeout) for r in requests]
         with self._lock:
-            self._exchange(prepared, timeout)
+            self._exchange(prepared)
         return [p.answer for p in prepared]  # type: ignore[misc]
 
 

@@ -9,9 +9,9 @@ reasons). A refusal raises `ComputeError` with the protocol's code, message and 
 Arguments: states are numpy arrays (a 2-D density matrix, or a 1-D ket), `State` objects, or the
 protocol's dicts; `dims=` and `labels=` describe the subsystems of an array (a `State` brings its own).
 Channels are `Channel` objects or protocol dicts. Subsystems are indices from 0 or labels. Keyword names
-are the protocol's in snake_case (`support_tolerance` for "supportTolerance"); `timeout` (seconds) is
-accepted by every function; `tolerance` by every op that validates its inputs and `base` (2 = bits by
-default, "e" = nats) by every op whose value carries a logarithm, as the op's schema says.
+are the protocol's in snake_case (`support_tolerance` for "supportTolerance"). Every function takes
+`timeout` (seconds; it becomes the request's "deadline", see rhosigma.engine), those whose op validates
+its inputs `tolerance`, and those of quantities with logarithms `base` (2 = bits by default, "e" = nats).
 Ops without a function here (new ones) are reached with `call("op-name", field=value, ...)`.
 
 Deliberately not here: any numerics. Cost: one engine request per call (rhosigma.engine).

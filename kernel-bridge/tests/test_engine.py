@@ -178,11 +178,13 @@ def test_a_timeout_kills_a_wrapper_started_engine(tmp_path, engine):
         pgid = slow.pid
         members = group_members(pgid)
         assert len(members) >= 2, "the wrapper and its node child"
-        rng = np.random.default_rng(5)
-        answer = slow.compute({"op": "spectrum", "matrix": random_hermitian(1024, rng), "vectors": True, "id": "slow"}, timeout=0.3)
+        # The request's own deadline (60 s) keeps the engine computing past the 0.3 s timeout: the
+        # process group must be killed (after the grace) for the answer to come.
+        answer = slow.compute(slow_request(id="slow", deadline=60000), timeout=0.3)
         assert answer["error"]["code"] == "deadline-exceeded" and answer["id"] == "slow"
-        # SIGKILL went to the whole group; the node grandchild may take a moment to finish dying, but
-        # far less than the ≥ 2.7 s the request needs on an idle machine (it would exit by itself then).
+        assert "stopped" in answer["error"]["message"] and "path" not in answer["error"]
+        # SIGKILL went to the whole group; the node grandchild may take a moment to finish dying (left
+        # alone it would go on with the SDP, then wait for more input).
         deadline = time.monotonic() + 1.5
         while group_members(pgid) and time.monotonic() < deadline:
             time.sleep(0.05)
@@ -339,3 +341,20 @@ def test_compute_async_leaves_the_event_loop_free():
     answers, ticks = asyncio.run(main())
     assert answers[0]["ok"] and answers[0]["id"] == "s" and answers[1]["value"] == 1
     assert ticks >= 20        # the SDP takes well over 0.2 s; the loop ticked all along
+
+
+def test_a_timeout_reaches_the_engine_as_its_deadline(engine):
+    """timeout= becomes the request's "deadline" (milliseconds); an engine at its deadline stops the SDP by
+    itself, says how far it got and lives on (docs/protocol.md, common fields: deadline)."""
+    from rhosigma.engine import _Prepared, grace
+
+    sent = _Prepared({"op": "entropy", "rho": [[1]]}, 0.25)
+    assert json.loads(sent.line)["deadline"] == 250 and sent.wait == 0.25 + grace(0.25)
+    own = _Prepared({"op": "entropy", "rho": [[1]], "deadline": 5000}, 0.25)
+    assert json.loads(own.line)["deadline"] == 5000 and own.wait == 0.25 + grace(0.25)   # kept; the wait is the timeout's
+    assert _Prepared({"op": "entropy", "rho": [[1]], "deadline": 5000}).wait is None       # no timeout: nothing is killed
+    engine.start()
+    answer = engine.compute(slow_request(id="bounded", deadline=500))
+    assert answer["error"]["code"] == "deadline-exceeded" and answer["error"]["path"] == "deadline", answer
+    assert answer["error"]["detail"]["deadline"] == 500 and "iterations" in answer["error"]["detail"]
+    assert engine.starts == 1                                              # stopped by itself, not killed

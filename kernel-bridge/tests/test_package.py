@@ -45,7 +45,7 @@ def test_the_wheel_runs_its_own_engine_outside_the_checkout(tmp_path):
     with zipfile.ZipFile(wheel) as z:
         names = z.namelist()
         z.extractall(tmp_path / "site")
-    assert "rhosigma/_bundle/rhosigma.cjs" in names and "rhosigma/engine.py" in names
+    assert "rhosigma/_bundle/rhosigma.mjs" in names and "rhosigma/engine.py" in names
     assert not any(n.startswith("rhosigma/labextension/") for n in names)     # only under share/
     if with_lab:
         assert f"rhosigma-{rhosigma.__version__}.data/data/share/jupyter/labextensions/rhosigma/package.json" in names
@@ -61,7 +61,7 @@ def test_the_wheel_runs_its_own_engine_outside_the_checkout(tmp_path):
     assert run.returncode == 0, run.stderr.decode("utf-8", "replace")
     got = json.loads(run.stdout)
     assert got["file"].startswith(str(tmp_path / "site"))
-    assert got["command"][-1] == str(tmp_path / "site" / "rhosigma" / "_bundle" / "rhosigma.cjs")
+    assert got["command"][-1] == str(tmp_path / "site" / "rhosigma" / "_bundle" / "rhosigma.mjs")
     assert np.allclose(got["value"], np.linalg.eigvalsh(h), atol=1e-12)   # numpy.linalg.eigvalsh
 
 
