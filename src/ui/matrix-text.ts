@@ -5,7 +5,7 @@
  *
  * Paste understands what people copy: numpy's printed arrays (`array([[1.+0.j, 0.5-0.1j], ...])`,
  * `[[1 0]\n [0 1]]`), spreadsheets (tab-separated rows), CSV, MATLAB-style `[1 2; 3 4]`. numpy's
- * complex suffix `j` becomes the reader's `i`. Hand-written because no library reads this mix of
+ * complex suffix `j` becomes the reader's `*i` (the reader wants multiplication written out). Hand-written because no library reads this mix of
  * formats; the rules are small and tested (test/ui/matrix-text.test.ts).
  *
  * Deliberately not here: evaluation. Nothing is computed; "1/2" stays the string "1/2".
@@ -20,7 +20,8 @@ const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 export function toEntry(text: string): Entry {
   const t = text.trim();
   if (DECIMAL.test(t)) return Number(t);
-  return t.replace(/(\d|\.)j\b/g, '$1i').replace(/\bj\b/g, 'i');
+  // numpy writes "0." and "1.+0.j": a bare trailing point is dropped (the reader would see ".*").
+  return t.replace(/(\d)\.(?!\d)/g, '$1').replace(/(\d)j\b/g, '$1*i').replace(/\bj\b/g, 'i');
 }
 
 /** A protocol entry as text for a cell. */
@@ -39,7 +40,7 @@ export function rowsOfAnswerMatrix(m: unknown): Entry[][] {
     const im = o.im?.[i]?.[j] ?? 0;
     if (im === 0) return re;
     const sign = im < 0 || Object.is(im, -0) ? '-' : '+';
-    return `${re}${sign}${Math.abs(im)}i`;
+    return `${re}${sign}${Math.abs(im)}*i`;
   }));
 }
 
@@ -66,7 +67,16 @@ export function parsePastedMatrix(text: string): { rows: string[][] } | { error:
     .filter((line) => line.length > 0)
     .map((line) => {
       const sep = line.includes('\t') ? /\t/ : line.includes(',') ? /,/ : /\s+/;
-      return line.split(sep).map((s) => s.trim()).filter((s) => s.length > 0).map((s) => String(toEntry(s)));
+      const tokens = line.split(sep).map((s) => s.trim()).filter((s) => s.length > 0);
+      // numpy's str() pads complex entries inside: "0.  -0.25j" is one entry. A signed token ending in j
+      // joins a previous token that has no imaginary part yet.
+      const merged: string[] = [];
+      for (const t of tokens) {
+        const prev = merged[merged.length - 1];
+        if (prev !== undefined && /^[+-]\d*\.?\d*(e[+-]?\d+)?j$/i.test(t) && !/j$/i.test(prev) && sep.source === '\\s+') merged[merged.length - 1] = prev + t;
+        else merged.push(t);
+      }
+      return merged.map((s) => String(toEntry(s)));
     });
   if (rows.length === 0) return { error: 'No entries found in the pasted text.' };
   const width = rows[0].length;
