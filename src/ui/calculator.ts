@@ -50,7 +50,6 @@ export abstract class Calculator<I extends object, V extends object> {
   protected settings: V;
   private seq = 0;
   private abort: AbortController | null = null;
-  private abortLong = false;
   private disposed = false;
   private latest = new Map<string, ResultEvent>();
   /** Resolves when the newest round of requests has been shown (for tests and benchmarks). */
@@ -143,12 +142,12 @@ export abstract class Calculator<I extends object, V extends object> {
       return;
     }
     const long = built.some((r) => r.long);
-    // A long solve for superseded inputs is stopped (the worker restarts); short requests are only
-    // dropped from the queue by their key, since restarting the worker costs more than finishing them.
-    if (this.abortLong) this.abort?.abort();
+    // Superseded requests still queued are dropped by their key; one already running finishes and its
+    // answer is ignored. It is not stopped: stopping means restarting the worker, whose cold start
+    // (load and compile) costs every component on the page more than a small solve does. The Stop
+    // button stops the current round on purpose.
     const abort = new AbortController();
     this.abort = abort;
-    this.abortLong = long;
     this.stopButton.hidden = !long;
     this.status.textContent = long ? 'Computing…' : '';
     const onProgress = (p: Progress) => {

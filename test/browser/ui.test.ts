@@ -11,14 +11,13 @@
 // Screenshots (light and dark) go to <tmpdir>/rhosigma-ui-*.png for a person to look at.
 import { describe, it, beforeAll, afterAll } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { createServer, type Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
-import { extname, join, normalize } from 'node:path';
+import { join } from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { handle } from '../../src/ops/index.js';
+import { serveFolder } from '../helpers/static-server.js';
 
 const require = createRequire(import.meta.url);
 const { bundleUiPage } = require('../../scripts/bundle-ui-page.cjs') as { bundleUiPage: (dir: string) => Promise<string> };
@@ -28,29 +27,6 @@ const CHROMIUM_ARGS = [
   '--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update',
   '--disable-sync', '--no-first-run',
 ];
-const TYPES: Record<string, string> = {
-  '.html': 'text/html; charset=utf-8', '.js': 'text/javascript; charset=utf-8', '.css': 'text/css; charset=utf-8',
-  '.woff2': 'font/woff2', '.woff': 'font/woff', '.ttf': 'font/ttf',
-};
-
-async function serve(dir: string): Promise<{ server: Server; url: string }> {
-  const server = createServer((req, res) => {
-    const name = normalize(decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname)).replace(/^\/+/, '') || 'index.html';
-    const file = join(dir, name);
-    if (name === 'favicon.ico') {
-      res.writeHead(204).end();
-      return;
-    }
-    if (req.method !== 'GET' || name.includes('..') || !TYPES[extname(file)] || !existsSync(file)) {
-      res.writeHead(404).end();
-      return;
-    }
-    res.writeHead(200, { 'content-type': TYPES[extname(file)], 'cache-control': 'no-store' }).end(readFileSync(file));
-  });
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  return { server, url: `http://127.0.0.1:${(server.address() as AddressInfo).port}/` };
-}
-
 /** Numbers equal within 1e-12 relative (the same engine code in two JavaScript engines; see engine.test.ts). */
 function close(a: number, b: number): boolean {
   return a === b || Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
@@ -66,7 +42,7 @@ if (!haveChromium && inCI) {
 } else {
   (haveChromium ? describe : describe.skip)('UI components in Chromium with the real engine worker', () => {
     let workDir = '';
-    let server: Server | undefined;
+    let closeServer: (() => Promise<void>) | undefined;
     let context: BrowserContext | undefined;
     let page: Page;
     const pageErrors: string[] = [];
@@ -88,8 +64,8 @@ if (!haveChromium && inCI) {
     beforeAll(async () => {
       workDir = mkdtempSync(join(tmpdir(), 'rhosigma-ui-test-'));
       const site = await bundleUiPage(join(workDir, 'site'));
-      const served = await serve(site);
-      server = served.server;
+      const served = await serveFolder(site);
+      closeServer = served.close;
       context = await chromium.launchPersistentContext(join(workDir, 'profile'), {
         executablePath: CHROMIUM, headless: true, args: CHROMIUM_ARGS, viewport: { width: 1300, height: 1600 },
       });
@@ -103,7 +79,7 @@ if (!haveChromium && inCI) {
 
     afterAll(async () => {
       await context?.close();
-      await new Promise<void>((resolve) => (server ? server.close(() => resolve()) : resolve()));
+      await closeServer?.();
       if (workDir) rmSync(workDir, { recursive: true, force: true });
     });
 
