@@ -22,7 +22,9 @@ import {
 import { channelShape, dense, groupDimension, plain, sdp, sequence, sideOf } from './cost.js';
 import { petzRecovery } from '../recovery/petz.js';
 import { fidelityOfRecovery } from '../recovery/fidelity-of-recovery.js';
-import { toOriginalOrder, checkTripartiteGroups } from '../recovery/tripartite.js';
+import { toOriginalOrder, checkTripartiteGroups, tripartite } from '../recovery/tripartite.js';
+import { markovStructure } from '../recovery/markov-structure.js';
+import { conditionalMutualInformation } from '../quantities/conditional.js';
 import type { Channel, State } from '../quantum/types.js';
 import { averagedPetzMap, rotatedPetzMap, DEFAULT_QUADRATURE_TOLERANCE } from '../recovery/petz-map.js';
 import { dataProcessing } from '../recovery/data-processing.js';
@@ -274,5 +276,63 @@ defineOp({
       }
     }
     return out;
+  },
+});
+
+// ---------------------------------------------------------------------------------------------------
+// Markov structure
+
+defineOp({
+  name: 'markov-structure',
+  summary:
+    'The structure of a quantum Markov chain A − B − C (Hayden, Jozsa, Petz & Winter 2004): H_B ≅ ⊕_k H_{b_k^L} ⊗ H_{b_k^R} with ρ_ABC = ⊕_k q_k ρ_{A b_k^L} ⊗ ρ_{b_k^R C}, found by block-diagonalizing the *-algebra generated on supp ρ_B by ρ_B^{−1/2} Tr_A[(Y ⊗ 1)ρ_AB] ρ_B^{−1/2}; value: the trace distance from ρ to the state rebuilt from the decomposition (≈ 0 for a Markov chain, otherwise an upper bound on the distance to the Markov chains); plus the weights, factor dimensions and states, and the unitary on B.',
+  args: {
+    type: 'object',
+    properties: {
+      ...groupArgs,
+      algebraTolerance: { type: 'number', exclusiveMinimum: 0, maximum: 0.01, description: 'Relative threshold of the null spaces (commutant, centre) and of eigenvalue clusters (√ of it); default 1e-9.' },
+      markovTolerance: { type: 'number', exclusiveMinimum: 0, maximum: 1, description: 'Largest reconstruction error (trace distance) counted as a Markov chain; default 1e-8.' },
+      seed: { type: 'integer', minimum: 0, maximum: Number.MAX_SAFE_INTEGER, description: 'Seed of the random elements of the algebras (default 1); the answer is reproducible from it.' },
+    },
+    required: ['rho', 'a', 'b', 'c'],
+  },
+  base: true,
+  cost: (req) => {
+    const [dA, dB] = [req.a, req.b].map((g) => groupDimension(req.rho, g));
+    const s = dB * dB;
+    return sequence(
+      plain(8 * (dA * dA + 6) * s * s * s, 16 * (dA * dA + 8) * s * s, `${dA * dA + 3} Gram products of side ${s}`),
+      dense(s, 2, 'the null spaces of side d_B²'),
+      dense(sideOf(req.rho), 8),
+    );
+  },
+  run(req, { tolerance, base }): OpResult {
+    const g = readGroupedState(req, tolerance);
+    const parts = tripartite(g.state.matrix, g.state.dims, g.a, g.b, g.c);
+    const algebraTolerance = req.algebraTolerance === undefined ? undefined : readNumber(req.algebraTolerance, 'algebraTolerance');
+    const markovTolerance = req.markovTolerance === undefined ? 1e-8 : readNumber(req.markovTolerance, 'markovTolerance');
+    const s = markovStructure(parts.rho, parts.dA, parts.dB, parts.dC, { algebraTolerance, tol: g.supportTolerance, seed: req.seed });
+    const cmi = conditionalMutualInformation(g.state.matrix, g.state.dims, g.a, g.b, g.c, { base, tol: g.supportTolerance });
+    const markov = s.reconstructionError <= markovTolerance;
+    return {
+      value: s.reconstructionError,
+      markov,
+      statement: markov
+        ? `A Markov chain within tolerance: the decomposition rebuilds ρ to trace distance ${s.reconstructionError.toExponential(2)} ≤ ${markovTolerance.toExponential(1)}.`
+        : `Not a Markov chain at the tolerance: the nearest state of the decomposed form found is at trace distance ${s.reconstructionError.toExponential(3)} (an upper bound on the distance to the Markov chains A − B − C).`,
+      caveat: 'Numerical evidence, not a proof: the decomposition rests on rank decisions at the stated tolerances.',
+      conditionalMutualInformation: cmi.value,
+      blocks: s.blocks.map((b) => ({
+        weight: b.weight,
+        left: b.left,
+        right: b.right,
+        stateLeft: { matrix: writeMatrix(b.stateLeft), dims: [parts.dA, b.left] },
+        stateRight: { matrix: writeMatrix(b.stateRight), dims: [b.right, parts.dC] },
+      })),
+      unitary: writeMatrix(s.unitary),
+      unitaryDefect: s.unitaryDefect,
+      reconstructed: { matrix: writeMatrix(s.reconstructed), dims: [parts.dA, parts.dB, parts.dC], order: 'A, B, C' },
+      diagnostics: s.diagnostics,
+    };
   },
 });

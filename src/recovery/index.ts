@@ -8,3 +8,4 @@ export * from './petz.js';
 export * from './fidelity-of-recovery.js';
 export * from './petz-map.js';
 export * from './data-processing.js';
+export * from './markov-structure.js';

@@ -24,7 +24,7 @@ function columns(u: CMatrix, from: number, count: number): CMatrix {
  * the columns of a random unitary on B) and ρ_ABC = ⊕_j q_j ρ_{A b_j^L} ⊗ ρ_{b_j^R C}.
  * `blocks` lists [dim b_j^L, dim b_j^R]; d_B is the sum of their products. Order A ⊗ B ⊗ C.
  */
-export function markovChain(dA: number, dC: number, blocks: readonly [number, number][], r: () => number): { rho: CMatrix; dB: number } {
+export function markovChain(dA: number, dC: number, blocks: readonly [number, number][], r: () => number): { rho: CMatrix; dB: number; weights: number[]; unitary: CMatrix } {
   const dB = blocks.reduce((s, [l, rr]) => s + l * rr, 0);
   const u = randomUnitary(dB, r);
   const n = dA * dB * dC;
@@ -45,7 +45,7 @@ export function markovChain(dA: number, dC: number, blocks: readonly [number, nu
     }
   });
   rho = { ...rho };
-  return { rho, dB };
+  return { rho, dB, weights: q.map((x) => x / total), unitary: u };
 }
 
 /** I(A;C|B) = H(AB) + H(BC) − H(B) − H(ABC) in bits, from von Neumann entropies of the marginals. */
