@@ -24,6 +24,7 @@ import { petzRecovery } from '../recovery/petz.js';
 import { fidelityOfRecovery } from '../recovery/fidelity-of-recovery.js';
 import { toOriginalOrder, checkTripartiteGroups, tripartite } from '../recovery/tripartite.js';
 import { markovStructure } from '../recovery/markov-structure.js';
+import { commutingSquare } from '../recovery/commuting-square.js';
 import { conditionalMutualInformation } from '../quantities/conditional.js';
 import type { Channel, State } from '../quantum/types.js';
 import { averagedPetzMap, rotatedPetzMap, DEFAULT_QUADRATURE_TOLERANCE } from '../recovery/petz-map.js';
@@ -333,6 +334,73 @@ defineOp({
       unitaryDefect: s.unitaryDefect,
       reconstructed: { matrix: writeMatrix(s.reconstructed), dims: [parts.dA, parts.dB, parts.dC], order: 'A, B, C' },
       diagnostics: s.diagnostics,
+    };
+  },
+});
+
+// ---------------------------------------------------------------------------------------------------
+// Commuting squares of conditional expectations
+
+defineOp({
+  name: 'commuting-square',
+  summary:
+    'Two trace-preserving conditional expectations E₁, E₂ on M_d (as channels): whether they commute (a commuting square), the conditional expectation E₁₂ onto the intersection (as a channel), the Friedrichs cosine c = ‖E₁E₂ − E₁₂‖ with the measured ‖(E₁E₂)^k − E₁₂‖ beside c^{2k−1}, and for given states D(ρ‖E₁ρ), D(ρ‖E₂ρ), D(ρ‖E₁₂ρ) with the quasi-factorization ratio; value: whether they commute.',
+  args: {
+    type: 'object',
+    properties: {
+      first: { ...schemas.channel, description: 'The conditional expectation E₁ (a channel on M_d, e.g. from channel-preset conditional-expectation or pinching).' },
+      second: { ...schemas.channel, description: 'The conditional expectation E₂ on the same M_d.' },
+      states: { type: 'array', maxItems: 64, items: schemas.state, description: 'States ρ for D(ρ‖E(ρ)) and the quasi-factorization ratio (optional).' },
+      steps: { type: 'integer', minimum: 1, maximum: 50, description: 'How many powers (E₁E₂)^k to measure (default 6).' },
+      commutingTolerance: { type: 'number', exclusiveMinimum: 0, maximum: 0.1, description: 'Largest ‖E₁E₂ − E₂E₁‖ (superoperator norm) counted as commuting; also the rank decision of the intersection (√ of it); default 1e-9.' },
+    },
+    required: ['first', 'second'],
+  },
+  base: true,
+  cost: (req) => {
+    const { din } = channelShape(req.first);
+    const n = din * din;
+    const steps = req.steps ?? 6;
+    const states = Array.isArray(req.states) ? req.states.length : 0;
+    return sequence(
+      plain(8 * (2 * steps + 12) * n * n * n, 16 * 12 * n * n, `${2 * steps + 12} superoperator products of side ${n}`),
+      dense(n, 2 + 2 * steps, 'the intersection and the norms of side d²'),
+      dense(Math.max(1, din), 6 * states, 'three divergences per state'),
+    );
+  },
+  run(req, { tolerance, base }): OpResult {
+    const first = readChannel(req.first, 'first', tolerance);
+    const second = readChannel(req.second, 'second', tolerance);
+    const states = Array.isArray(req.states) ? req.states.map((s: unknown, k: number) => readState(s, `states[${k}]`, tolerance).matrix) : [];
+    states.forEach((s, k) => {
+      if (s.rows !== inputDimension(first)) throw new RhoError('dimension-mismatch', `states[${k}] is ${s.rows}x${s.rows} but the expectations act on dimension ${inputDimension(first)}.`, `states[${k}]`);
+    });
+    const commutingTolerance = req.commutingTolerance === undefined ? undefined : readNumber(req.commutingTolerance, 'commutingTolerance');
+    const r = commutingSquare(first, second, states, { steps: req.steps, tolerance: commutingTolerance });
+    const lb = Math.log(base) / Math.LN2; // the divergences are in bits; convert
+    const notes: string[] = [];
+    for (const [k, d] of r.defects.entries()) {
+      const worst = Math.max(d.idempotence, d.unital, d.tracePreserving, d.selfAdjoint);
+      if (worst > 1e-8) notes.push(`${k === 0 ? 'first' : 'second'} is not a trace-preserving conditional expectation (largest defect ${worst.toExponential(2)}; see defects): the Friedrichs statement does not apply to it.`);
+    }
+    return {
+      value: r.commuting,
+      commutatorNorm: r.commutatorNorm,
+      friedrichsCosine: r.friedrichsCosine,
+      convergence: r.convergence,
+      convergenceStatement: '‖(E₁E₂)^k − E₁₂‖ = c^{2k−1} for HS-orthogonal projections (Kayalar & Weinert 1988; recalled); "predicted" is that value',
+      intersection: { dimension: r.intersection.dimension, ...writeBothForms(r.intersection.channel, r.intersection.choi) },
+      defects: { first: r.defects[0], second: r.defects[1] },
+      states: r.states.map((s) => ({
+        toFirst: writeNumber(s.toFirst / lb),
+        toSecond: writeNumber(s.toSecond / lb),
+        toIntersection: writeNumber(s.toIntersection / lb),
+        ratio: s.ratio,
+      })),
+      quasiFactorizationEstimate: r.quasiFactorizationEstimate,
+      quasiFactorizationNote: 'The largest ratio D(ρ‖E₁₂ρ)/(D(ρ‖E₁ρ) + D(ρ‖E₂ρ)) over the states given: a lower estimate of the best constant, not a bound.',
+      caveat: 'Numerical evidence, not a proof: commuting and the dimension of the intersection are decisions at the stated tolerance.',
+      notes,
     };
   },
 });

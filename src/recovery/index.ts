@@ -9,3 +9,4 @@ export * from './fidelity-of-recovery.js';
 export * from './petz-map.js';
 export * from './data-processing.js';
 export * from './markov-structure.js';
+export * from './commuting-square.js';

@@ -59,6 +59,7 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   'partial-trace': { matrix: packed(1025), dims: [1025], over: [0] },
   'partial-transpose': { matrix: packed(1025), dims: [1025], on: [0] },
   'petz-recovery': { rho: packed(1025), a: [0], b: [], c: [] },
+  'commuting-square': { first: { kraus: [packed(64)] }, second: { kraus: [packed(64)] } },
   'markov-structure': { rho: { matrix: packed(512), dims: [2, 64, 4] }, a: [0], b: [1], c: [2] },
   'petz-map': { sigma: packed(1025), channel: { kraus: [packed(1025)] } },
   'data-processing': { family: 'umegaki', rho: packed(1025), sigma: packed(1025), channel: { kraus: [packed(1025)] } },
