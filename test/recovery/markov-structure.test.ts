@@ -112,5 +112,13 @@ describe('markov-structure: H_B ≅ ⊕_j H_{b_j^L} ⊗ H_{b_j^R}, ρ_ABC = ⊕_
     const td = ask({ op: 'trace-distance', rho: wire(rho), sigma: rec });
     assert.ok(Math.abs(td.value - a.value) <= 1e-12 && a.value > 1e-3);
     assert.match(a.statement, /upper bound/);
+    // The C-side construction is ρ_A ⊗ ρ_BC for a generic state; the bound is the nearer of the two.
+    const rhoA = ask({ op: 'partial-trace', matrix: wire(rho), dims, keep: [0] }).value;
+    const rhoBC = ask({ op: 'partial-trace', matrix: wire(rho), dims, keep: [1, 2] }).value;
+    const toM = (x: any) => (Array.isArray(x) ? { rows: x.length, cols: x.length, re: Float64Array.from(x.flat()), im: new Float64Array(x.length ** 2) } : { rows: x.re.length, cols: x.re.length, re: Float64Array.from(x.re.flat()), im: Float64Array.from(x.im.flat()) });
+    const product = wire(kron(toM(rhoA), toM(rhoBC)));
+    const tdC = ask({ op: 'trace-distance', rho: wire(rho), sigma: product }).value;
+    assert.ok(Math.abs(a.reconstructionErrorFromC - tdC) <= 1e-10, `${a.reconstructionErrorFromC} vs ½‖ρ − ρ_A ⊗ ρ_BC‖₁ = ${tdC}`);
+    assert.ok(Math.abs(a.distanceUpperBound - Math.min(a.value, tdC)) <= 1e-10);
   });
 });
