@@ -114,17 +114,29 @@ def psd_part(m: np.ndarray) -> np.ndarray:
     return (v * np.maximum(w, 0)) @ v.conj().T
 
 
+def made_exact(m: np.ndarray) -> np.ndarray:
+    """The protocol's one rule for inputs (docs/protocol.md): the Hermitian part, and negative eigenvalues set to
+    zero only when one is below −1e-12·‖M‖_F (a rebuilt matrix differs from the input by rounding, which a
+    quantity of size 1e-9 would feel)."""
+    h = hermitian(m)
+    if np.linalg.eigvalsh(h)[0] < -1e-12 * np.linalg.norm(h):
+        return psd_part(h)
+    return h
+
+
 def state(v: Any, where: str) -> tuple[np.ndarray, list[int], list[str] | None]:
-    """A density matrix made exact by the protocol's one rule (Hermitian part, negative eigenvalues to 0, unit trace)."""
-    m = psd_part(matrix(v, where))
-    m = m / np.trace(m).real
+    """A density matrix made exact by the protocol's one rule (made_exact, then divided by its trace unless it is 1)."""
+    m = made_exact(matrix(v, where))
+    tr = np.trace(m).real
+    if tr != 1:
+        m = m / tr
     dims = v.get("dims") if isinstance(v, dict) else None
     labels = v.get("labels") if isinstance(v, dict) else None
     return m, list(dims) if dims else [m.shape[0]], labels
 
 
 def operator(v: Any, where: str) -> np.ndarray:
-    return psd_part(matrix(v, where))
+    return made_exact(matrix(v, where))
 
 
 def allowance(n: int, norm: float) -> float:
