@@ -170,9 +170,20 @@ def sqrtm_psd(m: np.ndarray) -> np.ndarray:
     return (v * np.sqrt(np.maximum(w, 0))) @ v.conj().T
 
 
-def root_fidelity(a: np.ndarray, b: np.ndarray) -> float:
-    """‖√a √b‖₁ (Uhlmann; the root of the squared fidelity), from singular values."""
-    return float(np.sum(np.linalg.svd(sqrtm_psd(a) @ sqrtm_psd(b), compute_uv=False)))
+def root_fidelity(a: np.ndarray, b: np.ndarray, tol: float = DEFAULT_SUPPORT_TOLERANCE) -> float:
+    """‖√a √b‖₁ (Uhlmann; the root of the squared fidelity), from the singular values of (√Λ_a V_a*)(V_b √Λ_b) on
+    the supports (eigenvalues above tol·λ_max): the square roots of rounding-level eigenvalues (1e-17 → 3e-9)
+    would otherwise count, the same support decision as the engine's."""
+
+    def half(m: np.ndarray) -> np.ndarray:
+        w, v = np.linalg.eigh(hermitian(m))
+        keep = (w > tol * max(float(w[-1]), 0.0)) & (w > 0)
+        return v[:, keep] * np.sqrt(w[keep])
+
+    ha, hb = half(a), half(b)
+    if ha.shape[1] == 0 or hb.shape[1] == 0:
+        return 0.0
+    return float(np.sum(np.linalg.svd(ha.conj().T @ hb, compute_uv=False)))
 
 
 def support(m: np.ndarray, tol: float) -> np.ndarray:
@@ -326,7 +337,7 @@ def _smooth_max(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     v.require("ρ̃ ⪰ 0", lo >= -pad, smallest=lo)
     tr = float(np.trace(rt).real)
     v.require("Tr ρ̃ ≤ 1", tr <= 1 + 8 * n * U, trace=tr)
-    f = root_fidelity(rho, rt)
+    f = root_fidelity(rho, rt, tol)
     v.require("ρ̃ in the purified-distance ball: ‖√ρ√ρ̃‖₁ ≥ √(1 − ε²)", f >= math.sqrt(c2) - 32 * n * U, rootFidelity=f)
     lo2, pad2 = min_eig(lam * sigma - rt)
     v.require("λσ − ρ̃ ⪰ 0", lo2 >= -pad2, smallest=lo2)
@@ -380,7 +391,7 @@ def _min_entropy(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     up = float(np.trace(sig).real) + db * s
     X = psd_part(matrix(cert["dual"]["X"], "certificate.dual.X"))
     g = partial_trace(X, [da, db], [1])
-    v.require("tr_A X = I_B (defect at most 1e-9)", float(np.linalg.norm(g - np.eye(db))) <= 1e-9, defect=float(np.linalg.norm(g - np.eye(db))))
+    v.require("tr_A X = I_B (defect at most 1e-9·(1 + ‖X‖_F), then renormalised)", float(np.linalg.norm(g - np.eye(db))) <= 1e-9 * (1 + float(np.linalg.norm(X))), defect=float(np.linalg.norm(g - np.eye(db))))
     k = np.kron(np.eye(da), _inv_sqrt(g))
     low = float(np.trace(rab @ (k @ X @ k)).real)
     pad = 8 * (da * db) ** 2 * U * max(abs(up), abs(low))
@@ -405,7 +416,7 @@ def _max_entropy(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     lo, pad = min_eig(sig)
     tr = float(np.trace(sig).real)
     v.require("σ_B is a state", lo >= -pad and abs(tr - 1) <= 8 * db * U, smallest=lo, trace=tr)
-    f = root_fidelity(rab, np.kron(np.eye(da), psd_part(sig) / tr)) ** 2
+    f = root_fidelity(rab, np.kron(np.eye(da), psd_part(sig) / tr), tol) ** 2
     P = support(rab, tol)
     Y = P.conj().T @ hermitian(matrix(cert["dual"]["Y"], "certificate.dual.Y")) @ P
     yw, yv = np.linalg.eigh(Y)
@@ -443,10 +454,13 @@ def _max_information(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     Z = psd_part(matrix(cert["dual"]["Z"], "certificate.dual.Z"))
     g = partial_trace(np.kron(ra, np.eye(db)) @ Z, [da, db], [1])
     g = hermitian(g)
-    v.require("tr_A((ρ_A ⊗ I)Z) = I_B (defect at most 1e-9)", float(np.linalg.norm(g - np.eye(db))) <= 1e-9, defect=float(np.linalg.norm(g - np.eye(db))))
+    v.require("tr_A((ρ_A ⊗ I)Z) = I_B (defect at most 1e-9·(1 + ‖Z‖_F), then renormalised)", float(np.linalg.norm(g - np.eye(db))) <= 1e-9 * (1 + float(np.linalg.norm(Z))), defect=float(np.linalg.norm(g - np.eye(db))))
     kk = np.kron(np.eye(da), _inv_sqrt(g))
     low = float(np.trace(rab @ (kk @ Z @ kk)).real)
-    pad = 8 * (da * db) ** 2 * U * max(abs(lam), abs(low))
+    # ρ_A is inverted on its support: the rounding of ρ_AB (about n·u) reaches τ magnified by ρ_A's condition
+    # number, and moves the optimum by at most d_B times that (σ' + ‖E‖·I stays feasible) — the engine's pad.
+    cond = float(w[keep][-1] / w[keep][0])
+    pad = 8 * (da * db) ** 2 * U * max(abs(lam), abs(low)) + 4 * da * db * db * U * cond
     h = lambda x: math.log(x) / lb if x > 0 else -math.inf  # noqa: E731
     return h(low - pad), h(lam + pad)
 

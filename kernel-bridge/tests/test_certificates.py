@@ -185,3 +185,35 @@ def test_the_command_prints_one_verdict_per_answer_and_exits_1_on_a_tampered_one
     (tmp_path / "one.json").write_text(json.dumps([a]))
     (tmp_path / "r1.json").write_text(json.dumps([r]))
     assert subprocess.run([sys.executable, str(MODULE), str(tmp_path / "r1.json"), str(tmp_path / "one.json")], capture_output=True).returncode == 0
+
+
+def _haar(d: int, rng) -> np.ndarray:
+    q, r = np.linalg.qr(rng.normal(size=(d, d)) + 1j * rng.normal(size=(d, d)))
+    return q * (np.diag(r) / abs(np.diag(r)))
+
+
+def test_nearly_pure_and_nearly_orthogonal_inputs_match_their_closed_forms_and_are_certified():
+    """Pure ψ_AB with Schmidt coefficients (1 − p, p), p ∈ {1e-8, 1e-6, 1e-3}, under random local unitaries:
+    H_max(A|B) = −H_min(A) = log₂(1 − p) and H_min(A|B) = −2 log₂(√(1−p) + √p) (König, Renner & Schaffner 2009,
+    pure-state duality and the singlet-fraction form); I_max(A:B) = 2 log₂ 2 for Schmidt rank 2 (derived: ψψ* ⪯ λ ρ_A ⊗ σ_B
+    iff λ ≥ Σ_i 1/s_i, least at σ_B uniform). Commuting diag(1 − 2t, t, t), diag(t, t, 1 − 2t): F = (2√((1−2t)t) + t)²
+    (the Bhattacharyya coefficient; Nielsen & Chuang §9.2.2)."""
+    rng = np.random.default_rng(7)
+    reqs, exact = [], []
+    for p in (1e-8, 1e-6, 1e-3):
+        psi = np.kron(_haar(2, rng), _haar(2, rng)) @ np.array([np.sqrt(1 - p), 0, 0, np.sqrt(p)])
+        st = {"matrix": _mat(np.outer(psi, psi.conj())), "dims": [2, 2]}
+        reqs += [{"op": "conditional-max-entropy", "rho": st, "a": [0], "b": [1]},
+                 {"op": "conditional-min-entropy", "rho": st, "a": [0], "b": [1]},
+                 {"op": "max-information", "rho": st, "a": [0], "b": [1]}]
+        exact += [np.log2(1 - p), -2 * np.log2(np.sqrt(1 - p) + np.sqrt(p)), 2.0]
+    for t in (1e-8, 1e-6):
+        reqs.append({"op": "fidelity-sdp", "rho": np.diag([1 - 2 * t, t, t]).tolist(), "sigma": np.diag([t, t, 1 - 2 * t]).tolist()})
+        exact.append((2 * np.sqrt((1 - 2 * t) * t) + t) ** 2)
+    for r, a, e in zip(reqs, cli_compute(reqs), exact):
+        assert a["ok"], (r["op"], a.get("error"))
+        v = C.check(r, a)
+        assert v["certified"], (r["op"], [c for c in v["checks"] if not c["ok"]])
+        b = a["certificate"]["bounds"]
+        assert b["lower"] <= e <= b["upper"], (r["op"], e, b)
+        assert abs(a["value"] - e) <= 1e-6 * abs(e) + 1e-12, (r["op"], a["value"], e)
