@@ -52,7 +52,10 @@ class CheckError(Exception):
 
 
 def matrix(v: Any, where: str = "matrix") -> np.ndarray:
-    """A matrix in any of the protocol's forms: rows, {"re", "im"}, packed float64-le base64, {"matrix"}."""
+    """A matrix in any of the protocol's forms: rows, {"re", "im"}, packed float64-le base64, {"matrix"}; or a numpy
+    array (what rhosigma.compute's answers and numpy-built requests hold)."""
+    if isinstance(v, np.ndarray):
+        return np.array(v, dtype=complex).reshape(v.shape if v.ndim == 2 else (-1, 1))
     if isinstance(v, dict) and "matrix" in v:
         return matrix(v["matrix"], where)
     if isinstance(v, dict) and "ket" in v:
@@ -79,6 +82,8 @@ def matrix(v: Any, where: str = "matrix") -> np.ndarray:
 
 
 def vector(v: Any, where: str) -> np.ndarray:
+    if isinstance(v, np.ndarray):
+        return np.array(v, dtype=complex).reshape(-1)
     if isinstance(v, dict):
         re = np.array(_numbers(v["re"], where), dtype=float)
         im = np.array(_numbers(v.get("im", [0.0] * len(re)), where), dtype=float)
