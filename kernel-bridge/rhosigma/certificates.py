@@ -14,9 +14,10 @@ nothing from the rest of the package and runs no engine code: a referee can read
 
 WHAT IS CHECKED (per op; the formulation and its source in each function's docstring):
   divergence (family hypothesis-testing), smooth-max-divergence, conditional-min-entropy,
-  conditional-max-entropy, max-information, guessing-probability, diamond-distance, fidelity-sdp.
-  Answers whose certificate carries no points (guesswork, fidelity-of-recovery) are reported as
-  "not checkable", never as certified.
+  conditional-max-entropy, max-information, guessing-probability, diamond-distance, fidelity-sdp,
+  guesswork (with side information). Answers whose certificate carries no points (fidelity-of-recovery
+  today, the closed-form guesswork without side information) are reported as "not checkable", never as
+  certified.
 
 THE VERDICT: `certified` is True when every feasibility check passes, the recomputed bracket [lower,
 upper] lies inside the answer's stated bracket (up to a slack of its width again and a few
@@ -33,6 +34,7 @@ import base64
 import json
 import math
 import sys
+from itertools import permutations
 from typing import Any
 
 import numpy as np
@@ -489,6 +491,41 @@ def _guessing(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     return low - pad, up + pad
 
 
+def _guesswork(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
+    """G_k(X|B) = min{Σ_g Tr M_g C_g : M_g ⪰ 0, Σ_g M_g = I} = max{Tr Y : Y ⪯ C_g for every order g}, C_g = Σ_x p_x
+    pos_g(x)^k ρ_x over the orders g of the support (Hanson, Katariya, Leditzky & Wilde, IEEE Trans. Inf. Theory
+    68 (2022) — recalled from memory). Every order of the support is enumerated here for the dual's check."""
+    ps = [max(0.0, float(p)) for p in req["probabilities"]]
+    k = float(req.get("moment", 1))
+    states = [state(s, f"states[{i}]")[0] for i, s in enumerate(req["states"])]
+    d = states[0].shape[0]
+    sup = [x for x, p in enumerate(ps) if p > 0]
+
+    def cost(order: list[int]) -> np.ndarray:
+        c = np.zeros((d, d), dtype=complex)
+        for pos, x in enumerate(order):
+            if ps[x] > 0:
+                c += ps[x] * (pos + 1) ** k * states[x]
+        return c
+
+    cert = ans["certificate"]
+    orders = [list(o) for o in cert["primal"]["orders"]]
+    ms = [hermitian(matrix(m, f"certificate.primal.measurement[{i}]")) for i, m in enumerate(cert["primal"]["measurement"])]
+    v.require("one POVM element per listed order", len(ms) == len(orders), elements=len(ms))
+    v.require("every listed order orders the support first", all(sorted(o[: len(sup)]) == sup for o in orders))
+    neg = sum(max(0.0, -min_eig(m)[0]) for m in ms)
+    defect = float(np.linalg.norm(sum(ms) - np.eye(d), 2))
+    v.require("M_g ⪰ 0 and Σ M_g = I (to 1e-9)", neg <= 1e-9 and defect <= 1e-9, negative=neg, defect=defect)
+    top = max(ps[x] * len(ps) ** k for x in sup)
+    up = sum(float(np.trace(m @ cost(o)).real) for m, o in zip(ms, orders)) + (neg + defect) * d * top * len(sup)
+    Y = hermitian(matrix(cert["dual"]["Y"], "certificate.dual.Y"))
+    zero = [x for x, p in enumerate(ps) if p == 0]
+    s = max(shift_to_psd(cost(list(o) + zero) - Y) for o in permutations(sup))
+    low = float(np.trace(Y).real) - d * s
+    pad = 8 * max(1, len(orders)) * d * d * U * max(abs(up), abs(low))
+    return low - pad, up + pad
+
+
 def _kraus(ch: dict, where: str) -> tuple[list[np.ndarray], int, int]:
     if "kraus" in ch:
         ks = [matrix(k, f"{where}.kraus[{i}]") for i, k in enumerate(ch["kraus"])]
@@ -563,6 +600,7 @@ CHECKERS = {
     "conditional-max-entropy": _max_entropy,
     "max-information": _max_information,
     "guessing-probability": _guessing,
+    "guesswork": _guesswork,
     "diamond-distance": _diamond,
     "fidelity-sdp": _fidelity_sdp,
 }

@@ -63,6 +63,11 @@ def reference_requests() -> list[tuple[dict, float | None, str]]:
         out.append(({"op": "guessing-probability", "probabilities": c["probabilities"], "states": c["states"]}, float(c["value"]), f"{gsrc}: guessing #{i}"))
     for i, c in enumerate(g["diamond"]):
         out.append(({"op": "diamond-distance", "a": c["a"], "b": c["b"]}, float(c["value"]), f"{gsrc}: diamond #{i}"))
+    gw = json.loads((DATA / "guesswork-cases.json").read_text())
+    gwsrc = f"cvxopt {gw['cvxopt']} ({gw['generator']})"
+    for c in gw["cases"]:
+        r = {"op": "guesswork", "probabilities": c["probabilities"], "states": c["states"], "moment": c["moment"]}
+        out.append((r, float(c["value"]), f"{gwsrc}: {c['name']}"))
     h = json.loads((DATA / "hypothesis-closed-forms.json").read_text())
     hsrc = f"mpmath {h['mpmath']}, {h['digits']} digits ({h['generator']})"
     for c in h["cases"]:
@@ -86,7 +91,7 @@ def test_imports_numpy_and_the_standard_library_only():
             names |= {a.name.split(".")[0] for a in node.names}
         elif isinstance(node, ast.ImportFrom):
             names.add((node.module or "").split(".")[0])
-    assert names <= {"__future__", "base64", "json", "math", "sys", "typing", "numpy"}, names
+    assert names <= {"__future__", "base64", "itertools", "json", "math", "sys", "typing", "numpy"}, names
 
 
 def test_certifies_every_reference_answer_and_the_reference_value_lies_in_its_bracket(answered):
@@ -120,7 +125,9 @@ def _tampered(a: dict, rng, which: str) -> dict:
     b = copy.deepcopy(a)
     point = b["certificate"][which]
     for k, x in point.items():
-        if isinstance(x, (int, float)):
+        if k == "orders":  # guesswork's guessing orders: the first one reversed
+            point[k] = [list(reversed(x[0]))] + x[1:]
+        elif isinstance(x, (int, float)):
             point[k] = x * (1 + 1e-3) + 1e-3
         elif _is_matrix(x):
             point[k] = _perturb(x, rng, 1e-3)
@@ -152,9 +159,10 @@ def test_rejects_a_value_moved_out_of_its_bracket_and_a_bracket_claimed_narrower
 
 
 def test_reports_answers_without_points_as_not_checkable_never_as_certified():
-    rng = np.random.default_rng(5)
-    req = {"op": "guesswork", "probabilities": [0.5, 0.5], "states": [_mat(random_density(2, rng)), _mat(random_density(2, rng))]}
+    """Guesswork without side information is a closed form (Massey 1994): no SDP, no points, nothing to check."""
+    req = {"op": "guesswork", "probabilities": [0.5, 0.3, 0.2]}
     (a,) = cli_compute([req])
+    assert a["ok"], a
     v = C.check(req, a)
     assert v["certified"] is False and v.get("checkable") is False
 
