@@ -359,7 +359,7 @@ def _smooth_max(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     v.require("Y ⪰ 0", len(yw) == 0 or yw[0] >= -ypad, smallest=yw[0] if len(yw) else 0.0)
     sig_c = P.conj().T @ sigma @ P
     norm = float(np.trace(sig_c @ Y).real)
-    v.require("Tr σY ≤ 1", norm <= 1 + 8 * n * U, traceSigmaY=norm)
+    v.require("Tr σY ≤ 1 (to 1e-12; Y is divided by it when above)", norm <= 1 + 1e-12, traceSigmaY=norm)
     yl = np.maximum(0, yw - ypad)
     if norm > 1:
         yl = yl / norm
