@@ -68,15 +68,18 @@ function psdPart(m: CMatrix): CMatrix {
   const { values, vectors } = eigh(hermitianPart(m), { vectors: true });
   return fromSpectrum(vectors!, Array.from(values, (v) => Math.max(0, v)));
 }
-/** Columns √λ_k v_k of the eigenvalues above tol·λ_max: m = H H* on its support. */
-function halfOnSupport(m: CMatrix, tol: number): CMatrix {
+/**
+ * Columns v_k of the eigenvectors with eigenvalue above tol·λ_max (an orthonormal basis of the support),
+ * or √λ_k v_k with `half` (then m = H H* on its support).
+ */
+function supportColumns(m: CMatrix, tol: number, half = false): CMatrix {
   const { values, vectors } = eigh(hermitianPart(m), { vectors: true });
   const n = m.rows;
   const top = Math.max(values[n - 1], 0);
   const keep = [...values.keys()].filter((k) => values[k] > tol * top && values[k] > 0);
   const h = zeros(n, keep.length);
   keep.forEach((k, c) => {
-    const r = Math.sqrt(values[k]);
+    const r = half ? Math.sqrt(values[k]) : 1;
     for (let i = 0; i < n; i++) {
       h.re[i * keep.length + c] = vectors!.re[i * n + k] * r;
       h.im[i * keep.length + c] = vectors!.im[i * n + k] * r;
@@ -84,21 +87,8 @@ function halfOnSupport(m: CMatrix, tol: number): CMatrix {
   });
   return h;
 }
-/** Orthonormal basis of the support (eigenvalues above tol·λ_max). */
-function supportBasis(m: CMatrix, tol: number): CMatrix {
-  const { values, vectors } = eigh(hermitianPart(m), { vectors: true });
-  const n = m.rows;
-  const top = Math.max(values[n - 1], 0);
-  const keep = [...values.keys()].filter((k) => values[k] > tol * top && values[k] > 0);
-  const p = zeros(n, keep.length);
-  keep.forEach((k, c) => {
-    for (let i = 0; i < n; i++) {
-      p.re[i * keep.length + c] = vectors!.re[i * n + k];
-      p.im[i * keep.length + c] = vectors!.im[i * n + k];
-    }
-  });
-  return p;
-}
+const supportBasis = (m: CMatrix, tol: number) => supportColumns(m, tol);
+const halfOnSupport = (m: CMatrix, tol: number) => supportColumns(m, tol, true);
 /** ‖√a √b‖₁ on the supports. */
 function rootFidelity(a: CMatrix, b: CMatrix, tol: number): number {
   const ha = halfOnSupport(a, tol);
