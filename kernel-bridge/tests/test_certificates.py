@@ -225,3 +225,16 @@ def test_nearly_pure_and_nearly_orthogonal_inputs_match_their_closed_forms_and_a
         b = a["certificate"]["bounds"]
         assert b["lower"] <= e <= b["upper"], (r["op"], e, b)
         assert abs(a["value"] - e) <= 1e-6 * abs(e) + 1e-12, (r["op"], a["value"], e)
+
+
+def test_the_engines_verify_answer_op_gives_the_same_verdicts_as_numpy(answered):
+    """The op verify-answer (the engine's twin, same rules) and this numpy checker agree on real and tampered answers."""
+    rng = np.random.default_rng(13)
+    pairs = []
+    for r, a, _, _ in answered[::5]:
+        pairs.append((r, a))
+        pairs.append((r, _tampered(a, rng, "dual")))
+    verdicts = cli_compute([{"op": "verify-answer", "request": r, "answer": a} for r, a in pairs])
+    for (r, a), v in zip(pairs, verdicts):
+        assert v["ok"], v
+        assert v["value"] == C.check(r, a)["certified"], (r["op"], v["checks"])
