@@ -122,11 +122,20 @@ function costMatrix(order: readonly number[], f: readonly number[], states: read
   return hermitianPart(combine(w, m));
 }
 
-/** Canonical form of an order: the symbols after the last change of f follow in increasing index. */
+/** Canonical form of an order: within each run of positions of equal cost the symbols are sorted by index (equivalent orders). */
 function canonical(order: number[], f: readonly number[]): number[] {
-  let t = f.length - 1;
-  while (t > 0 && f[t - 1] === f[t]) t--;
-  return [...order.slice(0, t), ...order.slice(t).sort((a, b) => a - b)];
+  const out = order.slice();
+  let start = 0;
+  for (let t = 1; t <= f.length; t++) {
+    if (t === f.length || f[t] !== f[start]) {
+      if (t - start > 1) {
+        const run = out.slice(start, t).sort((a, b) => a - b);
+        for (let i = start; i < t; i++) out[i] = run[i - start];
+      }
+      start = t;
+    }
+  }
+  return out;
 }
 
 function restrictedProblem(costs: readonly CMatrix[], d: number) {
