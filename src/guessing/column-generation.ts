@@ -57,8 +57,10 @@ export interface ColumnGenerationOptions {
   gap?: number;
   /** Orders with Tr M_g / d at or below this are left out of the strategy (default 1e-9). */
   weightTolerance?: number;
-  /** Rounds before giving up on closing the gap (default 200). */
+  /** Rounds before giving up on closing the gap (default MAX_ROUNDS); the bracket reached is answered. */
   maxRounds?: number;
+  /** Largest working set: past it, the orders of least weight outside the strategy are dropped (default 4d² + 2K). */
+  maxWorkingSet?: number;
   /** Nodes one exact pricing pass may visit before closing subtrees by their bounds (default 5e7). */
   nodeBudget?: number;
   /** Options of the restricted SDP solves (default: gap and feasibility 1e-10, falling back to the solver's defaults). */
@@ -108,6 +110,8 @@ export interface ColumnGenerationResult {
 export const RESTRICTED_TOLERANCE = 1e-10;
 export const DEFAULT_GAP = 1e-7;
 export const DEFAULT_NODE_BUDGET = 5e7;
+/** Default number of rounds (restricted solves); the ops' cost estimates take this many of each step. */
+export const MAX_ROUNDS = 20;
 
 function costMatrix(order: readonly number[], f: readonly number[], states: readonly CMatrix[], p: readonly number[]): CMatrix {
   const w: number[] = [];
@@ -165,7 +169,8 @@ export function solveOverOrders(
   const d = states[0].rows;
   const gapTarget = options.gap ?? DEFAULT_GAP;
   const weightTolerance = options.weightTolerance ?? 1e-9;
-  const maxRounds = options.maxRounds ?? 200;
+  const maxRounds = options.maxRounds ?? MAX_ROUNDS;
+  const maxWorkingSet = options.maxWorkingSet ?? 4 * d * d + 2 * K;
   const budget = options.nodeBudget ?? DEFAULT_NODE_BUDGET;
   const stopped = () => options.shouldStop?.() === true || options.signal?.aborted === true;
   const cancelled = () => new RhoError('cancelled', 'The guesswork computation was cancelled.');
@@ -179,6 +184,22 @@ export function solveOverOrders(
   const orders: number[][] = [];
   const costs: CMatrix[] = [];
   const seen = new Set<string>();
+  // Past maxWorkingSet, the orders outside the strategy with the least weight in the last solve leave
+  // the working set (and may come back when priced again): the restricted SDP's size stays bounded.
+  const shrink = (weights: readonly number[], kept: ReadonlySet<number>) => {
+    const excess = orders.length - maxWorkingSet;
+    if (excess <= 0) return;
+    const drop = new Set(
+      weights.map((w, g) => [w, g] as const).filter(([, g]) => !kept.has(g)).sort((a, b) => a[0] - b[0]).slice(0, excess).map(([, g]) => g),
+    );
+    for (let g = orders.length - 1; g >= 0; g--) {
+      if (drop.has(g)) {
+        seen.delete(orders[g].join(','));
+        orders.splice(g, 1);
+        costs.splice(g, 1);
+      }
+    }
+  };
   const add = (o: number[]): boolean => {
     const c = canonical(o, f);
     const key = c.join(',');
@@ -254,9 +275,11 @@ export function solveOverOrders(
     // 2. The upper bound: the kept orders' renormalised POVM.
     const elements = ans.x as CMatrix[];
     const kept: number[] = [];
+    const weights: number[] = [];
     let dropped = 0;
     elements.forEach((m, g) => {
       const w = trace(m).re / d;
+      weights.push(w);
       if (w > weightTolerance) kept.push(g);
       else dropped += Math.max(0, w);
     });
@@ -285,6 +308,7 @@ export function solveOverOrders(
       }
     }
     if (added > 0) {
+      shrink(weights, new Set(kept));
       report();
       continue;
     }
@@ -306,6 +330,7 @@ export function solveOverOrders(
     if (bottom === undefined || lowerHere > bottom.value) bottom = { value: lowerHere, dual: dualPoint, eps, complete: search.complete };
     report();
     if (upperNow() - lowerNow() <= gapTarget * Math.max(1, Math.abs(upperNow()))) break;
+    shrink(weights, new Set(kept));
     let fresh = 0;
     for (const o of search.found) if (add(o.order)) fresh++;
     if (fresh === 0) break; // nothing left to add: the restricted solve's accuracy limits the bracket

@@ -354,13 +354,14 @@ export function renyiBounds(probabilities: readonly number[], moment = 1): Renyi
   const alpha = 1 / (1 + moment);
   let s = 0;
   for (const x of p) s += Math.pow(x, alpha);
-  const power = Math.pow(s, 1 + moment); // 2^{ρ H_α}
+  // In base-2 logarithms, so that large moments overflow to Infinity, never to Infinity/Infinity.
+  const log2Upper = (1 + moment) * Math.log2(s); // ρ H_α
   const renyiEntropy = Math.log2(s) / (1 - alpha);
   const out: RenyiBounds = {
     alpha,
     renyiEntropy,
-    arikanLower: power / Math.pow(1 + Math.log(p.length), moment),
-    arikanUpper: power,
+    arikanLower: Math.pow(2, log2Upper - moment * Math.log2(1 + Math.log(p.length))),
+    arikanUpper: Math.pow(2, log2Upper),
   };
   if (moment === 1) {
     let h = 0;

@@ -23,7 +23,7 @@ import {
   DEFAULT_ORDER_WEIGHT_TOLERANCE, MAX_ORDER_SUPPORT, guessworkWithGivingUp, guessworkWithSideInformation, nodeBudget,
   successWithinGuesses, type OrdersAnswer,
 } from '../guessing/side-information.js';
-import { DEFAULT_GAP } from '../guessing/column-generation.js';
+import { DEFAULT_GAP, MAX_ROUNDS } from '../guessing/column-generation.js';
 import { factorial } from '../guessing/orders.js';
 import { defineOp } from './registry.js';
 import { readNumber, readState, schemas, writeCertificate, writeComplexMatrix, writeNumber } from './codec.js';
@@ -54,13 +54,14 @@ function supportOf(probabilities: unknown): number {
 }
 
 /**
- * The estimate of column generation over orders: ROUNDS restricted SDPs with up to 4d² + 2K orders (the
- * working sets seen stay below that) and PASSES exact pricing passes of at most min(e·K!, budget) nodes
- * of 8d³ + 8d² operations, plus the states' eigendecompositions for the cheap pricing.
+ * The estimate of column generation over orders, an upper bound on what it may do: MAX_ROUNDS restricted
+ * SDPs with at most 4d² + 2K orders (the working set's cap) and as many exact pricing passes of at most
+ * min(e·K!, node budget) nodes of 8d³ + 8d² operations, plus the eigendecompositions of the cheap pricing.
+ * (Typical solves take 1–5 rounds.)
  */
 function ordersCost(K: number, d: number): CostEstimate {
-  const ROUNDS = 10;
-  const PASSES = 4;
+  const ROUNDS = MAX_ROUNDS;
+  const PASSES = MAX_ROUNDS;
   const blocks = Math.max(1, Math.min(factorial(Math.min(K, MAX_ORDER_SUPPORT)), 4 * d * d + 2 * K));
   const solve = sdp({ blocks: Array.from({ length: blocks }, () => ({ size: d, hermitian: true })), constraints: d * d });
   const nodes = Math.min(Math.E * factorial(Math.min(K, MAX_ORDER_SUPPORT)), nodeBudget(d));
