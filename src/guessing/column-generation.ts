@@ -254,7 +254,8 @@ export function solveOverOrders(
   while (rounds < maxRounds) {
     rounds++;
     if (stopped()) throw cancelled();
-    checkDeadline('the guesswork by column generation', progress, () => `bounds [${lowerNow()}, ${upperNow()}] after ${rounds - 1} rounds`);
+    checkDeadline('the guesswork by column generation', progress, () =>
+      top === undefined || bottom === undefined ? `no bracket yet after ${rounds - 1} rounds` : `bracket [${lowerNow()}, ${upperNow()}] after ${rounds - 1} rounds`);
     // 1. The restricted problem.
     const problem = restrictedProblem(costs, d);
     let solverOptions: SdpOptions = options.sdp ?? { gapTolerance: tol, feasibilityTolerance: tol };

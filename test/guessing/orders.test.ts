@@ -408,6 +408,25 @@ describe('the ops over orders', () => {
     assert.ok(b.renyiBounds.arikanLower <= b.value && b.value <= b.renyiBounds.arikanUpper);
   });
 
+  it('twelve symbols (12! orders) are answered certified, and a deadline of 1 ms stops the search with deadline-exceeded (docs/protocol.md, limits and deadlines)', () => {
+    const K = 12;
+    // Pure qubit states at equal angles on a great circle, equal priors (an ensemble of our own).
+    const states = Array.from({ length: K }, (_, x) => {
+      const c = Math.cos((Math.PI * x) / K);
+      const s = Math.sin((Math.PI * x) / K);
+      return [[c * c, c * s], [c * s, s * s]];
+    });
+    const p = Array(K).fill(1 / K);
+    const stopped = handle({ op: 'guesswork', probabilities: p, states, deadline: 1 }) as Record<string, any>;
+    assert.equal(stopped.ok, false);
+    assert.equal(stopped.error.code, 'deadline-exceeded');
+    const a = handle({ op: 'guesswork', probabilities: p, states }) as Record<string, any>;
+    assert.equal(a.ok, true, JSON.stringify(a).slice(0, 300));
+    assert.equal(a.certified, true);
+    assert.equal(a.search.orders, factorial(12));
+    assert.ok(a.value <= a.withoutSideInformation && a.value >= 1);
+  });
+
   it('success-within-guesses answers the probability with its bracket; K = 8 symbols with states are accepted (the six-symbol limit is gone)', () => {
     const r = rng(71);
     const p = randomDistribution(8, r);
