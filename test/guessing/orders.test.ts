@@ -297,6 +297,16 @@ describe('guesswork with side information at sizes the plain SDP cannot reach', 
     assert.ok(g.value <= g.withoutSideInformation + 1e-9, 'side information never hurts');
   });
 
+  it('K = 9, d = 4 (rank-deficient members included) is certified to 1e-7 relative with a complete pricing pass (issue 9)', () => {
+    const r = rng(54);
+    const p = randomDistribution(9, r);
+    const states = Array.from({ length: 9 }, (_, x) => randomDensity(4, r, 1 + (x % 4)));
+    const g = guessworkWithSideInformation(p, states);
+    checkCertificate(g, p, states, position(1), 'K=9, d=4', r, 100);
+    assert.equal(g.search.complete, true);
+    assert.ok(g.search.workingSet <= 4 * 16 + 2 * 9 + 2 * 4 + 4, `working set ${g.search.workingSet}`);
+  });
+
   it('a node budget too small to price every order still answers with a valid bracket, and says that it is wider than asked', () => {
     const r = rng(52);
     const p = randomDistribution(8, r);
@@ -365,6 +375,10 @@ describe('guesswork by column generation against cvxopt.solvers.sdp on the plain
   it('matches the committed random ensembles K = 4, 5, 6 with d = 2, 3, 4 (rank-deficient members included) and the four BB84 states to 1e-6 relative (cvxopt, version and seed in the file)', () => {
     assert.ok(existsSync(committed), 'committed reference missing');
     compareWithCvxopt(JSON.parse(readFileSync(committed, 'utf8')) as ReferenceFile, 'committed');
+  });
+
+  it('matches the committed K = 3 ensembles of the plain SDP with moments 1, 2, 0.5 and 1.5 to 1e-6 relative (cvxopt, version and seed in test/reference/data/guesswork-cases.json)', () => {
+    compareWithCvxopt(JSON.parse(readFileSync(`${root}test/reference/data/guesswork-cases.json`, 'utf8')) as ReferenceFile, 'committed (moments)');
   });
 
   it('matches a fresh batch solved by cvxopt in this run (seed 23: K = 4 with d = 4, K = 5 with d = 2 and 3) to 1e-6 relative', () => {
