@@ -230,6 +230,12 @@ export function solveOverOrders(
 
   const dd = d * d;
   const scratch = new Float64Array(2 * dd + 4 * d);
+  // The pricing's bound needs A_x ⪰ 0; states accepted within the validation tolerance may have
+  // eigenvalues slightly below 0. Then C_g − Y ⪰ B_t − (max f − μ_t)·Σ_x max(0, −λ_min(A_x))·1, so the
+  // lower bound is padded by d·max|f|·that sum (zero for positive semidefinite states).
+  let negativity = 0;
+  for (const a of packed) negativity += Math.max(0, -packedMinEigenvalue(a, d, scratch));
+  const negativityPad = d * scale * negativity;
   const violation = (c: CMatrix, y: CMatrix): number => {
     const m = new Float64Array(2 * dd);
     for (let k = 0; k < dd; k++) {
@@ -327,7 +333,7 @@ export function solveOverOrders(
     const dualPoint = combine([1], [y]);
     for (let i = 0; i < d; i++) dualPoint.re[i * d + i] -= eps;
     // Padding: the trace's rounding and the eigenvalue allowance of d×d matrices of norm ~ scale.
-    const lowerHere = trace(y).re - d * eps - roundingPad(K * dd, scale) - d * 4 * Math.sqrt(d) * 1.1102230246251565e-16 * scale;
+    const lowerHere = trace(y).re - d * eps - roundingPad(K * dd, scale) - d * 4 * Math.sqrt(d) * 1.1102230246251565e-16 * scale - negativityPad;
     if (bottom === undefined || lowerHere > bottom.value) bottom = { value: lowerHere, dual: dualPoint, eps, complete: search.complete };
     report();
     if (upperNow() - lowerNow() <= gapTarget * Math.max(1, Math.abs(upperNow()))) break;
