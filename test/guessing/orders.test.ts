@@ -47,7 +47,8 @@ function minEig(m: CMatrix): number {
 /**
  * The answer as a certificate, from the definition: elements PSD summing to 1, the strategy's cost
  * Σ_g Σ_x p_x f(pos_g(x)) Tr M_g ρ_x equal to the upper bound, the bracket narrow and containing the
- * value, and Y ⪯ C_g (up to 1e-9) on the strategy's orders and on `sampled` further random orders.
+ * value, and Y ⪯ C_g (up to 1e-9) on the strategy's orders and on `sampled` further random orders
+ * (on every order when K ≤ 6: brute force, independent of the engine's pricing).
  */
 function checkCertificate(g: OrdersAnswer, p: readonly number[], states: readonly CMatrix[], f: (pos: number) => number, what: string, r: () => number, sampled = 50, width = 1e-7): void {
   const d = states[0].rows;
@@ -75,7 +76,8 @@ function checkCertificate(g: OrdersAnswer, p: readonly number[], states: readonl
   };
   const orders = g.strategy.map((s) => s.order);
   const n = p.length;
-  for (let t = 0; t < sampled; t++) {
+  if (n <= 6) orders.push(...allOrders(Array.from({ length: n }, (_, i) => i)));
+  for (let t = 0; t < (n <= 6 ? 0 : sampled); t++) {
     const o = Array.from({ length: n }, (_, i) => i);
     for (let i = n - 1; i > 0; i--) {
       const j = Math.floor(r() * (i + 1));
