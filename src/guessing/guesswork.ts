@@ -22,7 +22,8 @@
  * the op uses, to K = 12 symbols), and here the plain SDP over all orders at once, a cross-check for
  * K ≤ 6: the primal is handed to rhosigma's own interior-point solver (src/sdp) with one Hermitian
  * d×d block per order and d² real equality rows for Σ_g M_g = 1. Two checkable bounds are returned
- * beside the solver's objectives:
+ * beside the solver's objectives, as the certificate of src/sdp/support.ts (the answer is refused with
+ * 'solver-failed' when they are more than 1e-5 relative apart):
  *   upper: orders whose element has weight Tr M_g / d above `weightTolerance` are kept, renormalised
  *          (M'_g = G^{−1/2} M_g G^{−1/2}, G = Σ_kept M_g) into a POVM up to rounding; its cost
  *          Σ Tr M'_g C_g is achieved by that (returned) strategy.
@@ -55,9 +56,13 @@ import {
 } from '../sdp/index.js';
 import { factorial } from './orders.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
-  type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, certify, multiplierMatrix, psdShift, renormalisePovm, roundingPad, type SdpCertificate,
 } from '../sdp/support.js';
+
+export const GUESSWORK_PROBLEM =
+  'minimize Σ_g Tr M_g C_g s.t. M_g ⪰ 0, Σ_g M_g = I over guessing orders g of the support of p, C_g = Σ_x p_x pos_g(x)^k ρ_x ' +
+  '(primal point: the kept orders and their POVM elements, the others zero); dual: maximize Tr Y s.t. Y ⪯ C_g for every order g ' +
+  '(Y − s·I with s the largest violation is feasible)';
 
 /** Largest support of X for the plain SDP over all orders at once (6! = 720 blocks). */
 export const MAX_SUPPORT = 6;
@@ -138,10 +143,11 @@ export interface GuessingOrder {
 }
 
 /**
- * The solver's certificate (objectives as the minimisation they are, |gap|; sdp-support.ts) with the
- * two checkable bounds and the stopping tolerances of this solve.
+ * The one certificate shape (src/sdp/support.ts; primal point: the kept orders and their renormalised
+ * POVM elements; dual point: Y) with the two checkable bounds repeated and the stopping tolerances of
+ * this solve.
  */
-export interface GuessworkCertificate extends SolverCertificate {
+export interface GuessworkCertificate extends SdpCertificate {
   /** Tr Y − d·ε for the dual point Y shifted into feasibility (weak duality). */
   lowerBound: number;
   /** Cost of the returned (renormalised) strategy: achieved by it. */
@@ -152,7 +158,7 @@ export interface GuessworkCertificate extends SolverCertificate {
 }
 
 export interface QuantumGuesswork {
-  /** The solver's primal objective (lies between the bounds up to the residuals). */
+  /** The solver's primal objective clamped into the certified bracket and into [1, G_k(X)]. */
   value: number;
   moment: number;
   /** Orders with weight above weightTolerance, largest probability first. */
@@ -274,13 +280,13 @@ export function guessworkAllOrders(
     solverOptions = {};
     answer = solveSdp(problem, solverOptions);
   }
-  const warning = acceptAnswer(answer, 'the guesswork', ACCEPT_INACCURATE_LOOSE);
-
-  // Lower bound from the dual: Y − ε·1 is feasible.
+  // Lower bound from the dual: Y − ε·1 is feasible, ε the largest shift (with its rounding allowance)
+  // that makes every C_g − Y positive semidefinite.
   const y = multiplierMatrix(answer.y, 0, d);
   let eps = 0;
-  for (const c of costs) eps = Math.max(eps, -minEigenvalue(combine([1, -1], [c, y])));
-  const lowerBound = trace(y).re - d * eps;
+  for (const c of costs) eps = Math.max(eps, psdShift(c, y));
+  const trY = trace(y).re;
+  const lowerBound = trY - d * eps;
 
   // The strategy: orders of non-negligible weight, renormalised into a POVM.
   const elements = answer.x as CMatrix[];
@@ -305,17 +311,28 @@ export function guessworkAllOrders(
   });
   strategy.sort((a, b) => b.probability - a.probability);
 
-  const { message, ...numbers } = solverCertificate(answer, false);
+  const classical = guessworkClassical(p, moment, tol).value;
+  const pad = roundingPad(n * d * d, Math.max(Math.abs(upperBound), Math.abs(lowerBound)));
+  const c = certify({
+    what: 'the guesswork', solve: answer, problem: GUESSWORK_PROBLEM, sense: 'minimize',
+    primal: { orders: kept.map((g) => orders[g]), measurement: povm }, primalObjective: upperBound,
+    dual: { Y: y }, dualObjective: trY,
+    bounds: { lower: lowerBound - pad, upper: upperBound + pad },
+    estimate: answer.primalObjective,
+    // G_k(X|B) ≥ Σ_x p_x 1^k = 1 (every symbol costs at least one guess) and ≤ G_k(X) (ignore B).
+    range: [1, classical],
+    limit: ACCEPT_INACCURATE_LOOSE,
+  });
+  const warning = c.note;
   const certificate: GuessworkCertificate = {
-    ...numbers,
-    lowerBound,
-    upperBound,
+    ...c.certificate,
+    lowerBound: c.certificate.bounds.lower,
+    upperBound: c.certificate.bounds.upper,
     gapTolerance: solverOptions.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance,
     feasibilityTolerance: solverOptions.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance,
-    ...(message ? { message } : {}),
   };
   const out: QuantumGuesswork = {
-    value: answer.primalObjective,
+    value: c.value,
     moment,
     strategy,
     certificate,
@@ -324,7 +341,7 @@ export function guessworkAllOrders(
     weightTolerance,
     ordersSearched: n,
     zeroProbabilitySymbols: zeroSymbols,
-    withoutSideInformation: guessworkClassical(p, moment, tol).value,
+    withoutSideInformation: classical,
   };
   if (warning) out.warning = warning;
   return out;

@@ -153,7 +153,7 @@ function overOrders(probabilities: readonly number[], states: readonly CMatrix[]
     solve: r.lastSolve,
     problem: spec.problem,
     sense: 'minimize',
-    primal: { orders: strategy.map((s) => s.order), elements: strategy.map((s) => s.element) },
+    primal: { orders: strategy.map((s) => s.order), measurement: strategy.map((s) => s.element) },
     primalObjective: r.upper,
     dual: { Y: r.dual },
     dualObjective: r.lower,

@@ -66,6 +66,7 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   spectrum: { matrix: packed(1025) },
   'state-preset': { name: 'maximally-mixed', d: 1e9 },
   'trace-distance': { rho: packed(1025), sigma: packed(1025) },
+  'verify-answer': { request: { op: 'fidelity-sdp', rho: packed(1025), sigma: packed(1025) }, answer: { ok: true } },
   'random-state': { ensemble: 'hilbert-schmidt', dims: [2048], seed: 1 },
   'random-unitary': { d: 2048, seed: 1 },
   'random-channel': { kind: 'stinespring', from: [64], to: [64], seed: 1 },
