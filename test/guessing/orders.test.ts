@@ -22,7 +22,7 @@ import { searchOrders, pack, factorial } from '../../src/guessing/orders.js';
 import { guessingProbability } from '../../src/oneshot/guessing.js';
 import { RhoError } from '../../src/errors.js';
 import { handle } from '../../src/ops/handle.js';
-import '../../src/ops/guesswork-ops.js';
+import '../../src/ops/all.js';
 import { rng, randomDensity, randomUnitary } from '../helpers/random.js';
 import { liveReference } from '../helpers/python.js';
 
@@ -441,6 +441,26 @@ describe('the ops over orders', () => {
     assert.equal(a.certified, true);
     assert.equal(a.search.orders, factorial(12));
     assert.ok(a.value <= a.withoutSideInformation && a.value >= 1);
+  });
+
+  it('the engine\'s independent checker (verify-answer: both bounds recomputed from the points, every one of the 7! orders enumerated) certifies a K = 7 answer and rejects it with a narrowed bracket', () => {
+    const r = rng(72);
+    const p = randomDistribution(7, r);
+    const states = Array.from({ length: 7 }, () => {
+      const m = randomDensity(2, r, 1 + Math.floor(r() * 2));
+      return { re: [[m.re[0], m.re[1]], [m.re[2], m.re[3]]], im: [[m.im[0], m.im[1]], [m.im[2], m.im[3]]] };
+    });
+    const request = { op: 'guesswork', probabilities: p, states };
+    const answer = handle(request) as Record<string, any>;
+    assert.equal(answer.ok, true);
+    const v = handle({ op: 'verify-answer', request, answer }) as Record<string, any>;
+    assert.equal(v.ok, true, JSON.stringify(v).slice(0, 300));
+    assert.equal(v.value, true, JSON.stringify(v.checks?.filter((c: any) => !c.ok)));
+    // A bracket claimed far narrower than the points prove, around a moved value, is refused.
+    const moved = JSON.parse(JSON.stringify(answer));
+    moved.value = answer.value - 0.05;
+    moved.certificate.bounds = { lower: moved.value - 1e-12, upper: moved.value + 1e-12 };
+    assert.equal((handle({ op: 'verify-answer', request, answer: moved }) as Record<string, any>).value, false);
   });
 
   it('success-within-guesses answers the probability with its bracket; K = 8 symbols with states are accepted (the six-symbol limit is gone)', () => {
