@@ -461,6 +461,11 @@ describe('the ops over orders', () => {
     moved.value = answer.value - 0.05;
     moved.certificate.bounds = { lower: moved.value - 1e-12, upper: moved.value + 1e-12 };
     assert.equal((handle({ op: 'verify-answer', request, answer: moved }) as Record<string, any>).value, false);
+    // Eleven symbols: the checker's enumeration of 11! orders would not fit in memory; refused before any work.
+    const eleven = { op: 'guesswork', probabilities: Array(11).fill(1 / 11), states: Array(11).fill([[1, 0], [0, 0]]) };
+    const refused = handle({ op: 'verify-answer', request: eleven, answer: { ok: true, value: 6 } }) as Record<string, any>;
+    assert.equal(refused.ok, false);
+    assert.equal(refused.error.code, 'too-large');
   });
 
   it('success-within-guesses answers the probability with its bracket; K = 8 symbols with states are accepted (the six-symbol limit is gone)', () => {
