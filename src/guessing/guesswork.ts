@@ -35,12 +35,15 @@
  *
  * REDUCTION: symbols of probability zero never need to be guessed before the others (moving them to
  * the end shortens every other symbol's position), so only orders of the support are searched, with
- * the zero-probability symbols appended in increasing index. The search is refused ('too-large')
+ * the zero-probability symbols appended in increasing index. The plain SDP is refused ('too-large')
  * when the support has more than 6 symbols (720 orders), the side information is larger than
- * MAX_SIDE_DIMENSION, or (orders × d²) exceeds MAX_SDP_SIZE.
+ * MAX_SIDE_DIMENSION, or (orders × d²) exceeds MAX_SDP_SIZE; column generation goes to 12 symbols.
  *
- * Deliberately not here: reductions by symmetry of the ensemble, the Rényi-entropy bounds on
- * guesswork, parsing (src/ops/guesswork-ops.ts). States are validated here too (density matrices of
+ * Also here: Arikan's and Massey's bounds through Rényi entropies (renyiBounds) and guesswork with
+ * classical side information (guessworkClassicalSide, sorting per y).
+ *
+ * Deliberately not here: reductions by symmetry of the ensemble, column generation
+ * (side-information.ts), parsing (src/ops/guesswork-ops.ts). States are validated here too (density matrices of
  * one size, within the tolerance) because engine callers may bypass the codec.
  *
  * Cost: closed form O(n log n). SDP: N = n_support! blocks of size d (real embedding 2d), d²
