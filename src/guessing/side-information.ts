@@ -12,10 +12,10 @@
  *    instead: positions cost j^k up to stopAfter and giveUpCost after it.
  * All three are the SDP of column-generation.ts with their own cost of positions f.
  *
- * REDUCTION: symbols of probability zero are never guessed before the others (with f nondecreasing,
- * moving them last shortens every other position), so only orders of the support are searched, with
- * the zero-probability symbols appended in increasing index. (For a decreasing f — a give-up cost below
- * stopAfter^k — the same holds: zero-probability symbols cost nothing wherever they stand.)
+ * REDUCTION: symbols of probability zero are never guessed before the others when f is nondecreasing
+ * (moving them last shortens every other position), so only orders of the support are searched, with
+ * the zero-probability symbols appended in increasing index. When f decreases somewhere (a give-up
+ * cost below the cost of the last guess allowed), a wasted guess can pay, and every symbol is searched.
  *
  * THE ANSWER: `value` (the restricted problem's objective clamped into the bracket), `bounds`, the
  * certificate (src/sdp/support.ts's shape: primal point = the strategy, dual point = Y − ε·1, their
@@ -128,6 +128,22 @@ function overOrders(probabilities: readonly number[], states: readonly CMatrix[]
       'probabilities',
       { size: support.length, limit: MAX_ORDER_SUPPORT },
     );
+  }
+  // With a cost of positions that decreases somewhere (giving up cheaper than guessing on), a wasted
+  // guess on a zero-probability symbol can pay: then every symbol is searched.
+  const full = spec.costs(p.length);
+  const monotone = full.every((v, i) => i === 0 || v >= full[i - 1]);
+  if (!monotone && zeroSymbols.length > 0) {
+    if (p.length > MAX_ORDER_SUPPORT) {
+      throw new RhoError(
+        'too-large',
+        `With a cost of positions that decreases (giving up cheaper than guessing on), symbols of probability zero are searched too; X has ${p.length} symbols, above the limit of ${MAX_ORDER_SUPPORT}.`,
+        'probabilities',
+        { size: p.length, limit: MAX_ORDER_SUPPORT },
+      );
+    }
+    support.splice(0, support.length, ...p.map((_, x) => x));
+    zeroSymbols.splice(0, zeroSymbols.length);
   }
   const K = support.length;
   const f = spec.costs(K);

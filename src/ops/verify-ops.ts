@@ -485,6 +485,7 @@ export function verifyAnswer(req: Record<string, any>, ans: Record<string, any>)
   const name = family ? `divergence/${family}` : String(op);
   const notCheckable = (reason: string): OpResult => ({ value: false, checkable: false, checked: name, reason, checks: [] });
   if (ans.ok !== true) return notCheckable('the answer is a failure; nothing to check');
+  if (op === 'guesswork' && req.stopAfter !== undefined) return notCheckable('guesswork with giving up (stopAfter, giveUpCost) has no checker yet');
   const fn = op === 'divergence' && family === 'hypothesis-testing' ? hypothesisTesting : CHECKERS[op];
   if (!fn) return notCheckable('no SDP certificate with points for this op (nothing to check here)');
   const cert = ans.certificate;

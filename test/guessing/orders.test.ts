@@ -282,6 +282,11 @@ describe('guesswork with side information by column generation: properties of th
     const cheap = guessworkWithGivingUp(p, states, { moment: 1, stopAfter: 2, giveUpCost: 2.5 });
     checkCertificate(cheap, p, states, (j) => (j <= 2 ? j : 2.5), 'give up after 2', r);
     assert.ok(cheap.value <= plain.value + 1e-9);
+    // A give-up cheaper than guessing on: two wasted guesses on the zero-probability symbols, then giving
+    // up at 0.1, beats any real guess (hand computation from the definition: cost 0.1 exactly).
+    const waste = guessworkWithGivingUp([0.5, 0, 0.5, 0], [states[0], states[1], states[2], states[3]], { moment: 1, stopAfter: 2, giveUpCost: 0.1 });
+    relClose(waste.value, 0.1, 1e-7, 'wasted guesses');
+    assert.equal(waste.search.orders, 24, 'every symbol searched');
   });
 });
 
@@ -461,6 +466,11 @@ describe('the ops over orders', () => {
     moved.value = answer.value - 0.05;
     moved.certificate.bounds = { lower: moved.value - 1e-12, upper: moved.value + 1e-12 };
     assert.equal((handle({ op: 'verify-answer', request, answer: moved }) as Record<string, any>).value, false);
+    // Giving up is another problem (costs capped at giveUpCost): not checkable, never certified as plain guesswork.
+    const giveUp = { ...request, stopAfter: 3, giveUpCost: 4 };
+    const gv = handle({ op: 'verify-answer', request: giveUp, answer: handle(giveUp) }) as Record<string, any>;
+    assert.equal(gv.checkable, false);
+    assert.equal(gv.value, false);
     // Eleven symbols: the checker's enumeration of 11! orders would not fit in memory; refused before any work.
     const eleven = { op: 'guesswork', probabilities: Array(11).fill(1 / 11), states: Array(11).fill([[1, 0], [0, 0]]) };
     const refused = handle({ op: 'verify-answer', request: eleven, answer: { ok: true, value: 6 } }) as Record<string, any>;
