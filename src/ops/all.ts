@@ -11,4 +11,5 @@ import './guessing-ops.js';
 import './recovery-ops.js';
 import './oneshot-ops.js';
 import './random-ops.js';
+import './state-ops.js';
 import './verify-ops.js';

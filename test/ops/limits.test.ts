@@ -60,6 +60,10 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   'partial-trace': { matrix: packed(1025), dims: [1025], over: [0] },
   'partial-transpose': { matrix: packed(1025), dims: [1025], on: [0] },
   'petz-recovery': { rho: packed(1025), a: [0], b: [], c: [] },
+  'commuting-square': { first: { kraus: [packed(64)] }, second: { kraus: [packed(64)] } },
+  'markov-structure': { rho: { matrix: packed(512), dims: [2, 64, 4] }, a: [0], b: [1], c: [2] },
+  'petz-map': { sigma: packed(1025), channel: { kraus: [packed(1025)] } },
+  'data-processing': { family: 'umegaki', rho: packed(1025), sigma: packed(1025), channel: { kraus: [packed(1025)] } },
   'purified-distance': { rho: packed(1025), sigma: packed(1025) },
   'reorder-subsystems': { matrix: packed(1025), dims: [1025], order: [0] },
   'smooth-max-divergence': { rho: packed(1025), sigma: packed(1025), epsilon: 0.1 },
@@ -73,6 +77,10 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   'random-markov-state': { a: 1024, blocks: [[2, 2]], c: 1, seed: 1 },
   // random-number has no size: its cost is the same for every request.
   'random-number': null,
+  'state-check': { state: { matrix: packed(1025) } },
+  'repair-state': { state: { matrix: packed(1025) }, actions: ['clip'] },
+  // data-processing-region's size is bounded by its schema (at most 4096 sampled points).
+  'data-processing-region': null,
 };
 
 describe('cost declarations', () => {
