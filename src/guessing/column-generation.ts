@@ -323,9 +323,9 @@ export function solveOverOrders(
     // 4. Exact pricing over every order.
     const search = searchOrders({
       weighted: packed, d, positionCosts: f, y: pack(y), keep: Math.max(4, 2 * d), threshold, budget,
-      poll: () => {
+      poll: (nodes) => {
         if (stopped()) throw cancelled();
-        checkDeadline('the guesswork by column generation (pricing every order)', progress);
+        checkDeadline('the guesswork by column generation (pricing every order)', () => ({ ...progress(), pricingNodes: nodes }));
       },
     });
     ordersPriced += search.covered;

@@ -25,6 +25,7 @@ import { handle } from '../../src/ops/handle.js';
 import '../../src/ops/all.js';
 import { rng, randomDensity, randomUnitary } from '../helpers/random.js';
 import { liveReference } from '../helpers/python.js';
+import { withProgress } from '../../src/deadline.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guesswork.py`;
@@ -441,8 +442,11 @@ describe('the ops over orders', () => {
     const stopped = handle({ op: 'guesswork', probabilities: p, states, deadline: 1 }) as Record<string, any>;
     assert.equal(stopped.ok, false);
     assert.equal(stopped.error.code, 'deadline-exceeded');
-    const a = handle({ op: 'guesswork', probabilities: p, states }) as Record<string, any>;
+    // Progress reaches a listener (src/deadline.ts withProgress, as the web worker passes it on).
+    const reports: Record<string, unknown>[] = [];
+    const a = withProgress((q) => reports.push(q), () => handle({ op: 'guesswork', probabilities: p, states })) as Record<string, any>;
     assert.equal(a.ok, true, JSON.stringify(a).slice(0, 300));
+    if (reports.length > 0) assert.match(String(reports[0].what), /guesswork/);
     assert.equal(a.certified, true);
     assert.equal(a.search.orders, factorial(12));
     assert.ok(a.value <= a.withoutSideInformation && a.value >= 1);
