@@ -485,6 +485,7 @@ export function verifyAnswer(req: Record<string, any>, ans: Record<string, any>)
   const name = family ? `divergence/${family}` : String(op);
   const notCheckable = (reason: string): OpResult => ({ value: false, checkable: false, checked: name, reason, checks: [] });
   if (ans.ok !== true) return notCheckable('the answer is a failure; nothing to check');
+  if (op === 'guesswork' && req.stopAfter !== undefined) return notCheckable('guesswork with giving up (stopAfter, giveUpCost) has no checker yet');
   const fn = op === 'divergence' && family === 'hypothesis-testing' ? hypothesisTesting : CHECKERS[op];
   if (!fn) return notCheckable('no SDP certificate with points for this op (nothing to check here)');
   const cert = ans.certificate;
@@ -558,8 +559,13 @@ defineOp({
     const r = (req.request ?? {}) as Record<string, any>;
     const sides = [sideOf(r.rho), sideOf(r.sigma), ...(Array.isArray(r.states) ? r.states.map(sideOf) : [])];
     const n = Math.max(1, ...sides) * 2;
-    const orders = Array.isArray(r.probabilities) ? Math.min(720, [...Array(r.probabilities.length).keys()].reduce((a, k) => a * (k + 1), 1)) : 1;
-    return dense(n, 12 + orders, 'a dozen eigendecompositions (one per guessing order for guesswork)');
+    // Guesswork's dual is checked over every order of the support, all held at once (permutations):
+    // K! eigendecompositions and K!·(K + 4) numbers, so that answers of up to 12 symbols (the op's limit)
+    // are refused here when the check would not fit, instead of running out of memory.
+    const support = Array.isArray(r.probabilities) ? r.probabilities.filter((x: unknown) => x !== 0).length : 0;
+    const orders = Array.isArray(r.probabilities) ? [...Array(support).keys()].reduce((a, k) => a * (k + 1), 1) : 1;
+    const est = dense(n, 12 + orders, 'a dozen eigendecompositions (one per guessing order for guesswork)');
+    return { ...est, bytes: est.bytes + orders * (support + 4) * 8 };
   },
   run(req) {
     const r = req.request as Record<string, any>;

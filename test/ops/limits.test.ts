@@ -53,6 +53,7 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   'fisher-information': { rho: packed(1025), derivative: packed(1025) },
   'guessing-probability': { probabilities: [0.25, 0.25, 0.25, 0.25], states: [packed(128), packed(128), packed(128), packed(128)] },
   guesswork: { probabilities: [0.2, 0.2, 0.2, 0.2, 0.2], states: [packed(128), packed(128), packed(128), packed(128), packed(128)] },
+  'success-within-guesses': { probabilities: [0.2, 0.2, 0.2, 0.2, 0.2], states: [packed(128), packed(128), packed(128), packed(128), packed(128)], guesses: 1 },
   'max-information': { rho: { matrix: packed(128), dims: [1, 128] }, a: [0], b: [1] },
   'monotone-metric': { rho: packed(1025), x: packed(1025) },
   'mutual-information': { rho: packed(1025), a: [0], b: [0] },
