@@ -61,6 +61,7 @@ from .functions import (
     state_check,
     repair_state,
     verify_answer,
+    success_within_guesses,
 )
 from .objects import Channel, State
 from .sweeps import sweep
@@ -77,5 +78,5 @@ __all__ = [
     "purified_distance", "reorder_subsystems", "shutdown", "smooth_max_divergence", "spectrum", "state_preset",
     "sweep", "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
     "petz_map", "data_processing", "markov_structure", "commuting_square", "state_check", "repair_state",
-    "verify_answer",
+    "verify_answer", "success_within_guesses",
 ]

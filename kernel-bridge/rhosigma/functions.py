@@ -36,7 +36,7 @@ __all__ = [
     "partial_transpose", "petz_recovery", "purified_distance", "reorder_subsystems",
     "smooth_max_divergence", "spectrum", "state_preset", "trace_distance",
     "petz_map", "data_processing", "markov_structure", "commuting_square", "state_check", "repair_state",
-    "verify_answer",
+    "verify_answer", "success_within_guesses",
 ]
 
 _SPECIAL_NAMES = {"from_dims": "from", "to_dims": "to", "N": "N"}
@@ -249,9 +249,18 @@ def guessing_probability(probabilities, states, *, tolerance=None, details=False
     return _plain_out(_ask("guessing-probability", dict(probabilities=probabilities, states=[_state(s) for s in states], tolerance=tolerance), timeout=timeout), details)
 
 
-def guesswork(probabilities, states=None, *, moment=None, weight_tolerance=None, tolerance=None, details=False, timeout=None):
-    """Least expected number of guesses (to the `moment`), with quantum side information when `states` are given (op guesswork)."""
-    return _plain_out(_ask("guesswork", dict(probabilities=probabilities, states=[_state(s) for s in states] if states is not None else None, moment=moment, weight_tolerance=weight_tolerance, tolerance=tolerance), timeout=timeout), details)
+def guesswork(probabilities, states=None, *, moment=None, joint=None, stop_after=None, give_up_cost=None, gap=None, weight_tolerance=None, tolerance=None, details=False, timeout=None):
+    """The least expected number of guesses (to the power `moment`), with quantum side information when
+    `states` are given (column generation over guessing orders, a certified bracket of width `gap`), with
+    classical side information as `joint` (rows p(x, y)); `stop_after`/`give_up_cost` for giving up (op guesswork).
+    `details=True` for the strategy, the bracket and whether it is certified."""
+    return _plain_out(_ask("guesswork", dict(probabilities=probabilities, states=[_state(s) for s in states] if states is not None else None, moment=moment, joint=joint, stop_after=stop_after, give_up_cost=give_up_cost, gap=gap, weight_tolerance=weight_tolerance, tolerance=tolerance), timeout=timeout), details)
+
+
+def success_within_guesses(probabilities, states, guesses, *, gap=None, weight_tolerance=None, tolerance=None, details=False, timeout=None):
+    """The largest probability of guessing right within `guesses` tries with the states as side
+    information (guesses = 1 is the guessing probability) (op success-within-guesses)."""
+    return _plain_out(_ask("success-within-guesses", dict(probabilities=probabilities, states=[_state(s) for s in states], guesses=guesses, gap=gap, weight_tolerance=weight_tolerance, tolerance=tolerance), timeout=timeout), details)
 
 
 # -- matrices, states and channels ------------------------------------------------------------------

@@ -210,3 +210,13 @@ def test_recovery_functions_against_numpy():
     assert check["ok"] is True and check["value"] is False and check["positive"]["ok"] is False
     assert abs(check["positive"]["minEigenvalue"] - min(np.linalg.eigvalsh(bad))) < 1e-12
     assert abs(min(np.linalg.eigvalsh(bad)) - min(np.asarray(check["spectrum"], dtype=float))) < 1e-12, check
+
+
+def test_success_within_one_guess_is_the_guessing_probability():
+    """For two states, success within one guess is Helstrom's ½(1 + ‖p₀ρ₀ − p₁ρ₁‖₁) (Helstrom 1976), and
+    within two guesses it is certain; the trace norm from numpy.linalg.eigvalsh."""
+    rng = np.random.default_rng(31)
+    r0, r1 = random_density(3, rng), random_density(3, rng)
+    helstrom = 0.5 * (1 + np.abs(np.linalg.eigvalsh(0.3 * r0 - 0.7 * r1)).sum())
+    assert abs(rs.success_within_guesses([0.3, 0.7], [r0, r1], 1) - helstrom) < 1e-6
+    assert abs(rs.success_within_guesses([0.3, 0.7], [r0, r1], 2) - 1) < 1e-9
