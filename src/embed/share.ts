@@ -33,7 +33,7 @@ function fromBase64Url(text: string): Uint8Array {
 type Streams = { CompressionStream?: new (f: string) => TransformStream; DecompressionStream?: new (f: string) => TransformStream };
 
 async function through(bytes: Uint8Array, stream: TransformStream, limit: number): Promise<Uint8Array> {
-  const out = new Response(new Blob([bytes as BlobPart]).stream().pipeThrough(stream));
+  const out = new Response(new Response(bytes as unknown as ArrayBuffer).body!.pipeThrough(stream));
   const reader = out.body!.getReader();
   const parts: Uint8Array[] = [];
   let total = 0;
