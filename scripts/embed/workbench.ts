@@ -30,7 +30,20 @@ export function escapeHtml(s: string): string {
 
 /** JSON for a `<script type="application/json">` block: `<` written as \u003c, so no `</script>` can close it. */
 export function jsonBlock(value: unknown, indent = '  '): string {
-  return JSON.stringify(value, null, 2).replace(/</g, '\\u003c').split('\n').map((l) => indent + l).join('\n');
+  return readableJson(value, indent).replace(/</g, '\\u003c');
+}
+
+/** JSON indented by object, with arrays of numbers and strings (matrix rows, dims) kept on one line. */
+function readableJson(value: unknown, indent: string): string {
+  if (Array.isArray(value)) {
+    if (value.every((x) => x === null || typeof x !== 'object')) return JSON.stringify(value).replace(/,/g, ', ');
+    return `[\n${value.map((x) => `${indent}  ${readableJson(x, `${indent}  `)}`).join(',\n')}\n${indent}]`;
+  }
+  if (value !== null && typeof value === 'object') {
+    const entries = Object.entries(value).map(([k, v]) => `${indent}  ${JSON.stringify(k)}: ${readableJson(v, `${indent}  `)}`);
+    return `{\n${entries.join(',\n')}\n${indent}}`;
+  }
+  return JSON.stringify(value);
 }
 
 /** The snippet a wiki author pastes: the element with its configuration (the script tag goes once per page). */
@@ -42,6 +55,14 @@ export function elementSnippet(id: string | null, config: unknown): string {
     '</script>',
     '</rhosigma-calculator>',
   ].join('\n');
+}
+
+/**
+ * The same inside a `<div>`: Markdown engines (Python-Markdown in MkDocs, and most others) pass a block
+ * that starts with a known block-level tag through untouched, but wrap an unknown element in `<p>`.
+ */
+export function markdownSnippet(id: string | null, config: unknown): string {
+  return `<div class="rhosigma">\n${elementSnippet(id, config)}\n</div>`;
 }
 
 export function workbenchHtml(prefix = 'rhosigma/'): string {
