@@ -15,6 +15,7 @@ const fs = require('node:fs');
 const path = require('node:path');
 const webpack = require('webpack');
 
+
 const root = __dirname;
 
 /** Emits rhosigma-embed.css: style/*.css in name order, then the frame's own rules. */
@@ -33,43 +34,29 @@ class EmbedStylesheet {
   }
 }
 
+const { browserConfig } = require('./webpack.browser.config.cjs');
+
+const base = browserConfig({ name: 'embed', entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') }, outputPath: path.join(root, 'dist', 'embed') });
+
 module.exports = {
-  mode: 'production',
-  target: ['web', 'es2022'],
-  entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') },
+  ...base,
   output: {
-    path: path.join(root, 'dist', 'embed'),
-    filename: '[name].js',
-    // The worker of `new Worker(new URL('./engine-worker.js', import.meta.url))` in src/worker/client.ts.
+    ...base.output,
+    // The worker of `new Worker(new URL('./engine-worker.js', import.meta.url))` in src/worker/client.ts;
+    // found beside the script that loaded it (publicPath "auto", from document.currentScript).
     chunkFilename: (data) => (String(data.chunk.id).includes('engine-worker') ? 'rhosigma-embed-worker.js' : 'rhosigma-embed-[id].js'),
-    // Files are found beside the script that loaded them (document.currentScript), wherever a wiki puts it.
-    publicPath: 'auto',
     clean: true,
   },
-  resolve: {
-    extensions: ['.ts', '.js'],
-    // Sources import each other as ".js" (NodeNext); the files are ".ts".
-    extensionAlias: { '.js': ['.ts', '.js'] },
-  },
   module: {
-    parser: {
-      javascript: {
-        // The engine loads mathjs with import() on first need: kept inside the worker, not a chunk.
-        dynamicImportMode: 'eager',
-        worker: ['Worker from self', '...'],
-      },
-    },
-    rules: [
-      {
-        test: /\.ts$/,
-        loader: 'ts-loader',
-        options: { configFile: path.join(root, 'tsconfig.dom.json'), transpileOnly: true, compilerOptions: { noEmit: false, declaration: false, sourceMap: false } },
-      },
-    ],
+    ...base.module,
+    // ES modules out of ts-loader (under NodeNext a transpile-only build may write CommonJS `exports.`
+    // references, which a worker script cannot run), so that webpack links them itself.
+    rules: base.module.rules.map((r) => (r.loader === 'ts-loader'
+      ? { ...r, options: { ...r.options, compilerOptions: { ...r.options.compilerOptions, module: 'es2022', moduleResolution: 'bundler' } } }
+      : r)),
+    // The engine loads mathjs with import() on first need: kept inside the worker, not a chunk of its own.
+    parser: { javascript: { dynamicImportMode: 'eager' } },
   },
-  optimization: { splitChunks: false, runtimeChunk: false, chunkIds: 'named' },
+  optimization: { ...base.optimization, runtimeChunk: false, chunkIds: 'named' },
   plugins: [new EmbedStylesheet()],
-  performance: { hints: false },
-  devtool: false,
-  stats: 'errors-warnings',
 };

@@ -93,8 +93,7 @@ export const CONFIG_SCHEMA = {
         a: { $ref: '#/$defs/systems' },
         b: { $ref: '#/$defs/systems' },
         c: { $ref: '#/$defs/systems' },
-        quantity: { description: 'The quantity shown first.', enum: [...QUANTITIES.recoverability] },
-        t: { description: 'The rotation t of the rotated Petz map.', type: 'number', minimum: -1e6, maximum: 1e6 },
+        quantity: { description: 'The headline quantity (the one shared as a request); all three are shown.', enum: [...QUANTITIES.recoverability] },
         base: { $ref: '#/$defs/base' },
       }, ['rho', 'a', 'b', 'c']),
     },
@@ -103,7 +102,7 @@ export const CONFIG_SCHEMA = {
       then: calculator('guessing', {
         probabilities: { description: 'The prior p_x.', type: 'array', minItems: 1, maxItems: 1024, items: { type: 'number', minimum: 0, maximum: 1 } },
         states: { description: 'The states ρ_x of the side information, one per x.', type: 'array', minItems: 1, maxItems: 1024, items: { $ref: '#/$defs/state' } },
-        quantity: { description: 'The quantity shown first.', enum: [...QUANTITIES.guessing] },
+        quantity: { description: 'The headline quantity (the one shared as a request); both are shown.', enum: [...QUANTITIES.guessing] },
         moment: { description: 'The moment of the guesswork.', type: 'number', exclusiveMinimum: 0, maximum: 64 },
       }, ['probabilities']),
     },

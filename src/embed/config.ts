@@ -20,7 +20,7 @@ export type Systems = (number | string)[];
 export type Base = number | 'e';
 
 export interface DivergenceInputs { rho: PlainState; sigma: PlainState; family?: string; alpha?: number; z?: number; base?: Base }
-export interface RecoverabilityInputs { rho: PlainState; a: Systems; b: Systems; c: Systems; quantity?: string; t?: number; base?: Base }
+export interface RecoverabilityInputs { rho: PlainState; a: Systems; b: Systems; c: Systems; quantity?: string; base?: Base }
 export interface GuessingInputs { probabilities: number[]; states?: PlainState[]; quantity?: string; moment?: number }
 export interface OneShotInputs { quantity: string; rho: PlainState; sigma?: PlainState; a?: Systems; b?: Systems; epsilon?: number; base?: Base }
 
@@ -116,7 +116,7 @@ function firstError(errors: AjvError[]): AjvError {
 /** Checks parsed data as a configuration; throws ConfigError naming the field. */
 export function checkConfig(data: unknown): EmbedConfig {
   const bad = forbiddenKey(data, '');
-  if (bad !== null) throw new ConfigError(bad, 'this key is not allowed (it could reach an object prototype)');
+  if (bad !== null) throw new ConfigError(bad, 'is a key that is not allowed (it could reach an object prototype)');
   if (data === null || typeof data !== 'object' || Array.isArray(data)) {
     throw new ConfigError('', 'the configuration must be a JSON object such as {"calculator": "divergence", "inputs": {...}}');
   }

@@ -154,7 +154,11 @@ export class CalculatorElement extends HTMLElement {
       this.showError(frame, err);
       return;
     }
-    this.mounted.onResult(({ request, answer }) => {
+    const mounted = this.mounted;
+    mounted.onResult(({ name, request, answer }) => {
+      // Only the headline result is shared and announced (a calculator also shows neighbours: other
+      // families, other quantities).
+      if (name !== undefined && name !== mounted.headline()) return;
       this.lastRequest = request;
       this.dataset.state = (answer as { ok?: boolean }).ok ? 'ready' : 'error';
       this.dispatchEvent(new CustomEvent('rhosigma-result', { detail: { request, answer } }));

@@ -19,11 +19,15 @@ export interface Component {
   on(event: string, callback: (payload: any) => void): () => void;
   dispose(): void;
 }
-export type ComponentClass = new (host: HTMLElement, options: Record<string, unknown>) => Component;
+/** A calculator of src/ui: inputs from editors (`inputs`), its own settings (`value`). */
+export interface CalculatorComponent extends Component {
+  inputs: Record<string, unknown>;
+}
+export type ComponentClass<C extends Component = Component> = new (host: HTMLElement, options: Record<string, unknown>) => C;
 
 export interface UiKit {
   StateEditor: ComponentClass;
-  calculators: Record<CalculatorName, ComponentClass>;
+  calculators: Record<CalculatorName, ComponentClass<CalculatorComponent>>;
 }
 
 let kit: UiKit | null = null;
@@ -31,24 +35,51 @@ export function setUiKit(k: UiKit): void {
   kit = k;
 }
 
+/** What a calculator's `result` event carries. */
+export interface NamedResult extends ResultEvent {
+  name?: string;
+}
+
 /** What the element holds of a mounted calculator. */
 export interface Mounted {
+  /** The current inputs, in the configuration's form (what a shared link carries). */
   inputs(): Record<string, unknown>;
-  onResult(cb: (e: ResultEvent) => void): () => void;
+  /** The name of the result that answers the calculator's main question (its value is what is shared). */
+  headline(): string;
+  onResult(cb: (e: NamedResult) => void): () => void;
   dispose(): void;
 }
 
-/** The inputs of each calculator edited as states, with the label their editor shows. */
-const STATE_INPUTS: Record<CalculatorName, { field: string; label: string }[]> = {
-  divergence: [{ field: 'rho', label: 'ρ (state)' }, { field: 'sigma', label: 'σ (positive operator)' }],
-  recoverability: [{ field: 'rho', label: 'ρ_ABC (tripartite state)' }],
-  guessing: [],
-  'one-shot': [{ field: 'rho', label: 'ρ (state)' }, { field: 'sigma', label: 'σ (positive operator)' }],
+/**
+ * How a configuration's inputs split between the calculator's `inputs` (states, from editors) and its
+ * `value` (its own settings), per calculator; `states` of the guessing calculator is a list of states.
+ */
+const SPLIT: Record<CalculatorName, { inputs: string[]; settings: string[] }> = {
+  divergence: { inputs: ['rho', 'sigma'], settings: ['family', 'alpha', 'z', 'base'] },
+  recoverability: { inputs: ['rho'], settings: ['a', 'b', 'c', 'base'] },
+  guessing: { inputs: ['states', 'probabilities'], settings: ['moment'] },
+  'one-shot': { inputs: ['rho', 'sigma'], settings: ['quantity', 'epsilon', 'a', 'b', 'base'] },
 };
 
-function region(host: HTMLElement, className: string): HTMLElement {
+/** Labels of the state editors, for screen readers and sight alike. */
+const LABELS: Record<string, string> = {
+  rho: 'ρ, the state',
+  sigma: 'σ, the positive operator',
+};
+
+function pick(from: Record<string, unknown>, keys: string[]): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const k of keys) if (from[k] !== undefined) out[k] = from[k];
+  return out;
+}
+
+function region(host: HTMLElement, className: string, label?: string): HTMLElement {
   const div = document.createElement('div');
   div.className = className;
+  if (label) {
+    div.setAttribute('role', 'group');
+    div.setAttribute('aria-label', label);
+  }
   host.append(div);
   return div;
 }
@@ -56,44 +87,56 @@ function region(host: HTMLElement, className: string): HTMLElement {
 /** Mounts the editors and the calculator of a configuration into host. */
 export function mountCalculator(host: HTMLElement, config: EmbedConfig, controls: Set<ControlName>, engine: EngineLike): Mounted {
   if (!kit) throw new Error('the user-interface components are not loaded');
-  const inputs: Record<string, unknown> = { ...(config.inputs as unknown as Record<string, unknown>) };
+  const all = { ...(config.inputs as unknown as Record<string, unknown>) };
+  const split = SPLIT[config.calculator];
+  const inputs = pick(all, split.inputs);
   const parts: Component[] = [];
   const unsubscribe: (() => void)[] = [];
   host.classList.toggle('rs-embed-no-settings', !controls.has('settings'));
 
-  const calculatorHost = document.createElement('div');
-  calculatorHost.className = 'rs-embed-calculator';
+  const editors = controls.has('editors') ? region(host, 'rs-embed-editors', 'Inputs') : null;
+  const calculatorHost = region(host, 'rs-embed-calculator');
   const calculator = new kit.calculators[config.calculator](calculatorHost, {
     engine,
-    value: inputs,
-    controls: controls.has('settings'),
+    inputs,
+    value: pick(all, split.settings),
+    label: config.title,
   });
   parts.push(calculator);
 
-  if (controls.has('editors')) {
-    const editors = region(host, 'rs-embed-editors');
-    for (const { field, label } of STATE_INPUTS[config.calculator]) {
-      if (inputs[field] === undefined) continue;
+  if (editors) {
+    const edit = (label: string, value: unknown, set: (v: unknown) => void) => {
       const slot = region(editors, 'rs-embed-editor');
-      const editor = new kit.StateEditor(slot, { engine, value: inputs[field], label });
+      const editor = new kit!.StateEditor(slot, { engine, value, label, presets: controls.has('settings') });
       parts.push(editor);
-      unsubscribe.push(
-        editor.on('change', (value: unknown) => {
-          inputs[field] = value;
-          calculator.value = { ...(calculator.value as Record<string, unknown>), [field]: value };
+      unsubscribe.push(editor.on('change', set));
+    };
+    for (const field of ['rho', 'sigma']) {
+      if (inputs[field] === undefined) continue;
+      edit(LABELS[field], inputs[field], (v) => {
+        inputs[field] = v;
+        calculator.inputs = { [field]: v };
+      });
+    }
+    if (Array.isArray(inputs.states)) {
+      const states = [...inputs.states];
+      states.forEach((st, k) =>
+        edit(`ρ_${k}, the state for x = ${k}`, st, (v) => {
+          states[k] = v;
+          inputs.states = [...states];
+          calculator.inputs = { states: [...states] };
         }),
       );
     }
   }
-  host.append(calculatorHost);
-  unsubscribe.push(
-    calculator.on('change', (value: Record<string, unknown>) => {
-      Object.assign(inputs, value);
-    }),
-  );
 
   return {
-    inputs: () => ({ ...inputs, ...(calculator.value as Record<string, unknown>) }),
+    inputs: () => ({ ...all, ...inputs, ...pick(calculator.value as Record<string, unknown>, split.settings) }),
+    headline: () => {
+      if (config.calculator === 'divergence') return 'divergence';
+      if (config.calculator === 'one-shot') return String((calculator.value as { quantity?: unknown }).quantity ?? all.quantity);
+      return String(all.quantity ?? (config.calculator === 'guessing' ? 'guessing-probability' : 'conditional-mutual-information'));
+    },
     onResult: (cb) => calculator.on('result', cb),
     dispose: () => {
       for (const u of unsubscribe) u();
