@@ -161,7 +161,7 @@ export class CalculatorElement extends HTMLElement {
       if (name !== undefined && name !== mounted.headline()) return;
       this.lastRequest = request;
       this.dataset.state = (answer as { ok?: boolean }).ok ? 'ready' : 'error';
-      this.dispatchEvent(new CustomEvent('rhosigma-result', { detail: { request, answer } }));
+      this.dispatchEvent(new CustomEvent('rhosigma-result', { detail: { request, answer }, bubbles: true }));
     });
     if (controls.has('share')) frame.append(this.shareBar(config));
   }

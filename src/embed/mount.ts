@@ -67,6 +67,42 @@ const LABELS: Record<string, string> = {
   sigma: 'σ, the positive operator',
 };
 
+/** One entry of {re, im} rows as an expression string the editors and the engine read ("0.5+0.25*i"). */
+function complexEntry(re: unknown, im: unknown): unknown {
+  if (typeof im !== 'number' || im === 0) return re;
+  return `${re}${im < 0 ? '-' : '+'}${Math.abs(im)}*i`;
+}
+
+function complexRows(m: { re: unknown[][]; im?: unknown[][] }): unknown[][] {
+  return m.re.map((row, i) => row.map((x, j) => complexEntry(x, m.im?.[i]?.[j])));
+}
+
+/**
+ * A state in the editors' form ({matrix: rows} or {ket: list}, entries numbers or expression strings),
+ * or null when it is in a form they do not edit (packed matrices): then it goes to the calculator as it is.
+ * The protocol's other forms are rewritten, not recomputed: a bare matrix M is {matrix: M}, {re, im} rows
+ * become expression strings.
+ */
+export function editableState(state: unknown): unknown {
+  const isRows = (m: unknown): m is unknown[][] => Array.isArray(m) && m.every((r) => Array.isArray(r));
+  const isReIm = (m: unknown): m is { re: unknown[][]; im?: unknown[][] } => m !== null && typeof m === 'object' && isRows((m as { re?: unknown }).re);
+  if (isRows(state)) return { matrix: state };
+  if (isReIm(state)) return { matrix: complexRows(state) };
+  if (state === null || typeof state !== 'object') return null;
+  const s = state as Record<string, unknown>;
+  if ('matrix' in s) {
+    if (isRows(s.matrix)) return s;
+    if (isReIm(s.matrix)) return { ...s, matrix: complexRows(s.matrix) };
+    return null;
+  }
+  if ('ket' in s) {
+    if (Array.isArray(s.ket)) return s;
+    const k = s.ket as { re?: unknown[]; im?: unknown[] };
+    if (Array.isArray(k.re)) return { ...s, ket: k.re.map((x, j) => complexEntry(x, k.im?.[j])) };
+  }
+  return null;
+}
+
 function pick(from: Record<string, unknown>, keys: string[]): Record<string, unknown> {
   const out: Record<string, unknown> = {};
   for (const k of keys) if (from[k] !== undefined) out[k] = from[k];
@@ -90,6 +126,9 @@ export function mountCalculator(host: HTMLElement, config: EmbedConfig, controls
   const all = { ...(config.inputs as unknown as Record<string, unknown>) };
   const split = SPLIT[config.calculator];
   const inputs = pick(all, split.inputs);
+  // The components take states in the editors' form; the same state, rewritten (editableState).
+  for (const f of ['rho', 'sigma']) if (inputs[f] !== undefined) inputs[f] = editableState(inputs[f]) ?? inputs[f];
+  if (Array.isArray(inputs.states)) inputs.states = inputs.states.map((st) => editableState(st) ?? st);
   const parts: Component[] = [];
   const unsubscribe: (() => void)[] = [];
   host.classList.toggle('rs-embed-no-settings', !controls.has('settings'));
@@ -105,7 +144,9 @@ export function mountCalculator(host: HTMLElement, config: EmbedConfig, controls
   parts.push(calculator);
 
   if (editors) {
-    const edit = (label: string, value: unknown, set: (v: unknown) => void) => {
+    const edit = (label: string, given: unknown, set: (v: unknown) => void) => {
+      const value = editableState(given);
+      if (value === null) return;
       const slot = region(editors, 'rs-embed-editor');
       const editor = new kit!.StateEditor(slot, { engine, value, label, presets: controls.has('settings') });
       parts.push(editor);

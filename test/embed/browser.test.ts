@@ -257,7 +257,7 @@ if (!haveChromium && inCI) {
     it('reported no Content-Security-Policy violation and no error on any page, and requested only the site\'s and the embed\'s own files', () => {
       assert.deepEqual(violations, []);
       assert.deepEqual(consoleErrors, []);
-      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker)?\.(js|css)$|^\/favicon\.ico$/;
+      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker)?\.(js|css)$|^\/favicon\.ico$|^\/rhosigma\/favicon\.svg$/;
       const odd = server!.requests.filter((p) => !allowed.test(p));
       assert.deepEqual(odd, []);
     });

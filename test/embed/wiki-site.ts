@@ -31,6 +31,7 @@ const THEME_MAIN = `<!doctype html>
 <meta charset="utf-8">
 <title>{{ page.title }} - {{ config.site_name }}</title>
 <link rel="stylesheet" href="{{ 'site.css' | url }}">
+<link rel="icon" href="{{ 'rhosigma/favicon.svg' | url }}">
 </head>
 <body>
 <nav class="site-nav">{{ config.site_name }}</nav>
