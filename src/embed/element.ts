@@ -142,6 +142,8 @@ export class CalculatorElement extends HTMLElement {
     const label = config.title ?? CALCULATOR_NAMES[config.calculator];
     frame.setAttribute('aria-label', label);
     frame.dataset.theme = config.theme ?? 'auto';
+    // The components' stylesheet (style/) picks its dark palette from these classes.
+    frame.classList.add(`rs-theme-${config.theme ?? 'auto'}`);
     frame.dataset.calculator = config.calculator;
     if (config.title) frame.append(el('h2', 'rs-embed-title', config.title));
     if (config.description) frame.append(el('p', 'rs-embed-description', config.description));

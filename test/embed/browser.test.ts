@@ -134,7 +134,7 @@ if (!haveChromium && inCI) {
           (w.__results[id] ??= []).push((e as CustomEvent).detail);
         });
       });
-    }, 240_000);
+    }, 600_000);
 
     afterAll(async () => {
       await context?.close();
