@@ -70,3 +70,8 @@ __all__ = [
     "purified_distance", "reorder_subsystems", "shutdown", "smooth_max_divergence", "spectrum", "state_preset",
     "sweep", "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
 ]
+
+
+def _jupyter_labextension_paths():
+    """Where JupyterLab finds the prebuilt extension (`jupyter labextension develop` links it)."""
+    return [{"src": "labextension", "dest": "rhosigma"}]
