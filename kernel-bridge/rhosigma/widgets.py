@@ -87,7 +87,7 @@ class StateEditor(_Base):
         else:
             s = None
         if s is not None:
-            data = s.to_protocol()
+            data = to_protocol(s.to_protocol())
             kwargs.setdefault("matrix", data.get("matrix"))
             kwargs.setdefault("ket", data.get("ket"))
             kwargs.setdefault("dims", list(data.get("dims", [s.size])))
@@ -95,10 +95,10 @@ class StateEditor(_Base):
                 kwargs.setdefault("labels", list(data["labels"]))
         super().__init__(**kwargs)
 
-    def set_state(self, matrix: Any = None, *, ket: Any = None, dims: Sequence[int] | None = None, labels: Sequence[str] | None = None) -> None:
+    def replace_state(self, matrix: Any = None, *, ket: Any = None, dims: Sequence[int] | None = None, labels: Sequence[str] | None = None) -> None:
         """Replace the state (numpy in, with dims); every calculator using this editor recomputes."""
         s = matrix if isinstance(matrix, State) else (State(ket=ket, dims=dims, labels=labels) if ket is not None else State(matrix, dims=dims, labels=labels))
-        data = s.to_protocol()
+        data = to_protocol(s.to_protocol())
         with self.hold_sync():
             self.matrix = data.get("matrix")
             self.ket = data.get("ket")
@@ -158,7 +158,7 @@ class ChannelEditor(_Base):
     def __init__(self, kraus: Any = None, *, choi: Any = None, input_dims: Sequence[int] | None = None, output_dims: Sequence[int] | None = None, **kwargs: Any):
         ch = kraus if isinstance(kraus, Channel) else (Channel(kraus, choi=choi, from_dims=input_dims, to_dims=output_dims) if (kraus is not None or choi is not None) else None)
         if ch is not None:
-            data = ch.to_protocol()
+            data = to_protocol(ch.to_protocol())
             kwargs.setdefault("kraus", data.get("kraus"))
             kwargs.setdefault("choi", data.get("choi"))
             kwargs.setdefault("input_dims", list(data["from"]))
