@@ -11,7 +11,8 @@
  * `handle` is synchronous, so at most one deadline is active at a time; nested `withDeadline` calls keep
  * the earlier (tighter) of the two. Outside `withDeadline` (library calls, tests) there is no deadline.
  *
- * Deliberately not here: any numerics, any timer or callback (nothing is interrupted; loops poll).
+ * Deliberately not here: any numerics, any timer (nothing is interrupted; loops poll). The one callback is
+ * the optional progress listener at the end of this file.
  * Cost: one `performance.now()` per poll (tens of nanoseconds).
  */
 import { RhoError } from './errors.js';
@@ -71,5 +72,53 @@ export function deadlineError(what: string, progress: Record<string, unknown> = 
 
 /** Throws deadlineError(what, progress()) once the deadline has passed; `progress` is only called then. */
 export function checkDeadline(what: string, progress?: () => Record<string, unknown>, summary?: () => string): void {
+  reportProgress(what, progress);
   if (deadlinePassed()) throw deadlineError(what, progress?.() ?? {}, summary?.() ?? '');
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Progress of long loops, for engines that can pass it on (the web worker, src/worker/engine-worker.ts).
+// The same polls that check the deadline report progress: `checkDeadline(what, progress)` and the SDP
+// solver's iterations call `reportProgress`, which calls the listener set by `withProgress` at most once
+// per `PROGRESS_INTERVAL_MS` (the first poll after that much time), so a tight loop pays one clock read.
+
+/** What a listener receives: what is running, milliseconds since `withProgress` began, and its numbers. */
+export interface Progress {
+  what: string;
+  elapsedMs: number;
+  [key: string]: unknown;
+}
+
+/** Least time between two reports to the listener, in milliseconds. */
+export const PROGRESS_INTERVAL_MS = 100;
+
+let listener: ((p: Progress) => void) | null = null;
+let progressStarted = 0;
+let lastReport = 0;
+
+/** Run `f` with `onProgress` receiving the progress of its long loops (nested calls: the inner listener wins). */
+export function withProgress<T>(onProgress: ((p: Progress) => void) | undefined, f: () => T): T {
+  if (!onProgress) return f();
+  const saved = { listener, progressStarted, lastReport };
+  listener = onProgress;
+  progressStarted = now();
+  lastReport = progressStarted;
+  try {
+    return f();
+  } finally {
+    ({ listener, progressStarted, lastReport } = saved);
+  }
+}
+
+/** Report progress (`info` is only called when the report is due); a listener's exception is ignored. */
+export function reportProgress(what: string, info?: () => Record<string, unknown>): void {
+  if (listener === null) return;
+  const t = now();
+  if (t - lastReport < PROGRESS_INTERVAL_MS) return;
+  lastReport = t;
+  try {
+    listener({ ...(info?.() ?? {}), what, elapsedMs: Math.round(t - progressStarted) });
+  } catch {
+    // Progress is advisory: a failing listener must not change the answer.
+  }
 }

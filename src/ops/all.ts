@@ -11,3 +11,4 @@ import './guessing-ops.js';
 import './recovery-ops.js';
 import './oneshot-ops.js';
 import './random-ops.js';
+import './state-ops.js';

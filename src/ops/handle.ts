@@ -480,7 +480,7 @@ const NAME_FIELDS = new Set(['op', 'id', 'name', 'family', 'form']);
  * size check counts them; the base64 text of packed matrices is not among them), or a top-level
  * string field that may hold an expression (such as a metric function).
  */
-function mayNeedExpressions(request: unknown): boolean {
+export function mayNeedExpressions(request: unknown): boolean {
   if (typeof request !== 'object' || request === null || Array.isArray(request)) return false;
   const req = request as Record<string, unknown>;
   for (const [k, v] of Object.entries(req)) if (typeof v === 'string' && !NAME_FIELDS.has(k)) return true;

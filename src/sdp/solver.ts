@@ -70,7 +70,7 @@ import { ntScaling } from './nt-scaling.js';
 import { mehrotraCorrector, newtonDirection, prepareDirections } from './direction.js';
 import { SHORTEST_STEP, maxStep, safeguardedStep } from './step.js';
 import { checkSdpLimits } from './cost.js';
-import { deadlineError, deadlinePassed } from '../deadline.js';
+import { deadlineError, deadlinePassed, reportProgress } from '../deadline.js';
 import {
   BestIterate, detectInfeasibility, iterationInfo, meetsTolerances, merit, userBlocks, userInfo, type Tolerances,
 } from './termination.js';
@@ -172,7 +172,12 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
   } else for (;;) {
     const info = iterationInfo(d, it, ws, iter, lastStep, lastSigma);
     const shown = userInfo(d, it, ws, info);
-    if (iter > 0) options.onIteration?.(shown);
+    if (iter > 0) {
+      options.onIteration?.(shown);
+      reportProgress('the SDP solver', () => ({
+        iteration: shown.iteration, primalObjective: shown.primalObjective, dualObjective: shown.dualObjective, relativeGap: shown.relativeGap,
+      }));
+    }
     best.observe(d, it, ws.dir, lastStep, iter, merit(info, tol));
     if (!isFinite(info.primalObjective) || !isFinite(info.dualObjective) || !isFinite(ws.res.mu)) {
       status = 'inaccurate';

@@ -71,6 +71,10 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   'random-markov-state': { a: 1024, blocks: [[2, 2]], c: 1, seed: 1 },
   // random-number has no size: its cost is the same for every request.
   'random-number': null,
+  'state-check': { state: { matrix: packed(1025) } },
+  'repair-state': { state: { matrix: packed(1025) }, actions: ['clip'] },
+  // data-processing-region's size is bounded by its schema (at most 4096 sampled points).
+  'data-processing-region': null,
 };
 
 describe('cost declarations', () => {

@@ -1,0 +1,172 @@
+/**
+ * `EngineClient`: the page's side of the engine worker (docs/surfaces.md, "The engine client"). It
+ * implements `EngineLike`: `compute(request, { onProgress, signal, key })` resolves with the protocol
+ * answer, never rejects. One client (one worker) per page, shared by every component on it.
+ *
+ * Requests go to the worker one at a time, in order, so that the client can keep its own queue:
+ *  - `key`: latest wins. A queued request with the same key as a newer one is dropped and answered
+ *    {ok:false, error:{code:'cancelled'}}; the running one finishes (its answer is still the truth for
+ *    its request; the caller decides whether it is stale).
+ *  - `signal`: abort a queued request → it is dropped; abort the running one → the worker is terminated
+ *    and started again (`handle` is synchronous and cannot be interrupted otherwise); answered 'cancelled'.
+ *  - A worker that dies (an error event, out of memory) answers its running request with
+ *    'internal-error' and is started again; the queue goes on.
+ * Comlink carries the calls and the progress callback (a comlink proxy).
+ *
+ * Deliberately not here: any numerics (the worker's), and any caching of answers.
+ * Cost: one structured clone of each request and answer; a restart costs the worker's load (~100 ms).
+ */
+import { proxy, releaseProxy, wrap, type Remote } from 'comlink';
+import type { Answer, ComputeOptions, EngineLike, Progress, WorkerApi } from './types.js';
+
+export type { Answer, ComputeOptions, EngineLike, Progress };
+
+export interface EngineClientOptions {
+  /** Makes the worker (default: the engine worker module beside this file, which webpack bundles). */
+  createWorker?: () => Worker;
+  /** Or the URL of a prebuilt worker script (npm run build:worker writes dist/browser/engine-worker.js). */
+  url?: string | URL;
+}
+
+interface Job {
+  request: object;
+  options: ComputeOptions;
+  resolve: (a: Answer) => void;
+  done: boolean;
+  unlisten?: () => void;
+}
+
+function opOf(request: object): string | null {
+  const op = (request as { op?: unknown }).op;
+  return typeof op === 'string' ? op : null;
+}
+
+function failure(request: object, code: 'cancelled' | 'internal-error', message: string): Answer {
+  const id = (request as { id?: unknown }).id;
+  const a: Answer = { ok: false, op: opOf(request), error: { code, message } };
+  if (typeof id === 'string' || typeof id === 'number') a.id = id;
+  return a;
+}
+
+export class EngineClient implements EngineLike {
+  private worker!: Worker;
+  private remote!: Remote<WorkerApi>;
+  private queue: Job[] = [];
+  private running: Job | null = null;
+  private generation = 0;
+  private disposed = false;
+  /** Times the worker was started (1 + restarts); for tests and diagnostics. */
+  starts = 0;
+
+  constructor(private readonly options: EngineClientOptions = {}) {
+    this.start();
+  }
+
+  private makeWorker(): Worker {
+    if (this.options.createWorker) return this.options.createWorker();
+    if (this.options.url !== undefined) return new Worker(this.options.url);
+    // webpack recognises this pattern and bundles the worker as its own file.
+    return new Worker(new URL('./engine-worker.js', import.meta.url));
+  }
+
+  private start(): void {
+    this.worker = this.makeWorker();
+    this.remote = wrap<WorkerApi>(this.worker);
+    this.starts++;
+    const gen = ++this.generation;
+    this.worker.addEventListener('error', (e) => {
+      if (gen !== this.generation) return;
+      e.preventDefault?.();
+      const job = this.running;
+      this.restart();
+      if (job) this.finish(job, failure(job.request, 'internal-error', `The engine worker stopped: ${e.message || 'unknown error'}; it has been restarted.`));
+      this.pump();
+    });
+  }
+
+  private restart(): void {
+    this.remote[releaseProxy]?.();
+    this.worker.terminate();
+    this.running = null;
+    if (!this.disposed) this.start();
+  }
+
+  /** Resolves once the worker answers; with the eigensolver's path (WebAssembly kernels or not). */
+  ready(): Promise<{ eigh: { active: boolean; reason: string } }> {
+    return this.remote.ready();
+  }
+
+  compute(request: object, options: ComputeOptions = {}): Promise<Answer> {
+    return new Promise<Answer>((resolve) => {
+      if (this.disposed) return resolve(failure(request, 'cancelled', 'The engine client has been disposed.'));
+      if (options.signal?.aborted) return resolve(failure(request, 'cancelled', 'The request was cancelled before it started.'));
+      const job: Job = { request, options, resolve, done: false };
+      if (options.key !== undefined) {
+        for (const old of this.queue.filter((j) => j.options.key === options.key)) {
+          this.finish(old, failure(old.request, 'cancelled', 'A newer request with the same key replaced this one before it started.'));
+        }
+      }
+      if (options.signal) {
+        const onAbort = () => this.abort(job);
+        options.signal.addEventListener('abort', onAbort, { once: true });
+        job.unlisten = () => options.signal!.removeEventListener('abort', onAbort);
+      }
+      this.queue.push(job);
+      this.pump();
+    });
+  }
+
+  private abort(job: Job): void {
+    if (job.done) return;
+    if (this.running === job) {
+      this.restart();
+      this.finish(job, failure(job.request, 'cancelled', 'The computation was cancelled; the engine worker was restarted.'));
+      this.pump();
+    } else {
+      this.finish(job, failure(job.request, 'cancelled', 'The request was cancelled before it started.'));
+    }
+  }
+
+  private finish(job: Job, answer: Answer): void {
+    if (job.done) return;
+    job.done = true;
+    job.unlisten?.();
+    const k = this.queue.indexOf(job);
+    if (k >= 0) this.queue.splice(k, 1);
+    if (this.running === job) this.running = null;
+    job.resolve(answer);
+  }
+
+  private pump(): void {
+    if (this.running || this.disposed) return;
+    const job = this.queue.shift();
+    if (!job) return;
+    this.running = job;
+    const gen = this.generation;
+    const onProgress = job.options.onProgress;
+    this.remote.compute(job.request, onProgress ? proxy((p: Progress) => onProgress(p)) : undefined).then(
+      (answer) => {
+        if (gen !== this.generation) return;
+        this.finish(job, answer);
+        this.pump();
+      },
+      (err: unknown) => {
+        if (gen !== this.generation) return;
+        // A request that cannot be cloned to the worker (a function, a DOM node inside) lands here.
+        this.finish(job, failure(job.request, 'internal-error', `The request could not reach the engine worker: ${err instanceof Error ? err.message : String(err)}`));
+        this.pump();
+      },
+    );
+  }
+
+  /** Stops the worker; every queued or running request is answered 'cancelled'. */
+  dispose(): void {
+    if (this.disposed) return;
+    this.disposed = true;
+    const pending = [...(this.running ? [this.running] : []), ...this.queue];
+    this.remote[releaseProxy]?.();
+    this.worker.terminate();
+    this.generation++;
+    for (const job of pending) this.finish(job, failure(job.request, 'cancelled', 'The engine client has been disposed.'));
+  }
+}

@@ -1,0 +1,50 @@
+/**
+ * The engine in a web worker (docs/surfaces.md): the ops layer's `handle` answering protocol requests
+ * through comlink, one at a time, so that compute never runs on the page's main thread. Long solves
+ * report progress (src/deadline.ts `withProgress`: the SDP solver's iterations, the measured divergence's
+ * ascent, ...) to the callback the client passes as a comlink proxy. While idle the worker warms the
+ * solver's hot paths (src/ops/warm-up.ts), one small step per macrotask, pausing while a request runs.
+ *
+ * Deliberately not here: queueing, latest-wins and cancellation (client.ts: cancelling a running
+ * request means terminating this worker, since `handle` is synchronous). Cost: that of the requests,
+ * plus a few seconds of warm-up spread over idle time after start.
+ */
+import { expose } from 'comlink';
+import { handle, mayNeedExpressions } from '../ops/handle.js';
+import '../ops/all.js';
+import { expressionReaderLoaded, loadExpressionReader } from '../ops/expressions.js';
+import { warmUp } from '../ops/warm-up.js';
+import { withProgress, type Progress } from '../deadline.js';
+import { eighWasmStatus } from '../linalg/eigh-wasm.js';
+import type { Answer, WorkerApi } from './types.js';
+
+let busy = 0;
+
+const api: WorkerApi = {
+  async compute(request: unknown, onProgress?: (p: Progress) => void): Promise<Answer> {
+    busy++;
+    try {
+      if (!expressionReaderLoaded() && mayNeedExpressions(request)) {
+        try {
+          await loadExpressionReader();
+        } catch {
+          // handle() answers with the reader's own error for the expression that needs it.
+        }
+      }
+      // The progress callback is a comlink proxy: calling it posts a message at once, even mid-solve.
+      return withProgress(onProgress ? (p) => void onProgress(p) : undefined, () => handle(request));
+    } finally {
+      busy--;
+    }
+  },
+  async ready() {
+    return { eigh: eighWasmStatus() };
+  },
+};
+
+expose(api);
+
+// Warm up once the page has had time to send its first requests (those go first: warming waits while busy).
+setTimeout(() => {
+  void warmUp({ busy: () => busy > 0, rounds: 2 });
+}, 200);
