@@ -44,7 +44,7 @@ def typescript_models() -> dict:
     """src/widgets/schema.ts's MODELS and version.ts's constants, as node evaluates them (tsx)."""
     script = (
         "const s = await import('./src/widgets/schema.ts'); const v = await import('./src/widgets/version.ts');"
-        "console.log(JSON.stringify({ models: s.MODELS, name: v.MODULE_NAME, version: v.MODULE_VERSION }));"
+        "console.log(JSON.stringify({ models: s.MODELS, name: v.MODULE_NAME, version: v.MODULE_VERSION, registered: v.PACKAGE_VERSION }));"
     )
     out = subprocess.run(["node", "--import", "tsx", "--input-type=module", "-e", script], cwd=ROOT, capture_output=True, text=True, timeout=120, check=True)
     return json.loads(out.stdout)
@@ -91,6 +91,8 @@ def test_module_name_and_version_are_the_typescript_packages(ts):
     pkg = json.loads((ROOT / "package.json").read_text(encoding="utf-8"))
     assert ts["name"] == pkg["name"] == _frontend.MODULE_NAME
     assert ts["version"] == "^" + pkg["version"] == _frontend.MODULE_VERSION
+    # The plugin registers the exact version, which the models' range must accept.
+    assert ts["registered"] == pkg["version"]
 
 
 def test_comm_open_carries_the_typescript_model_names_module_and_fields(kernel, ts):
