@@ -27,15 +27,21 @@ export function fieldsOf(model: WidgetModel): Fields {
 }
 
 export abstract class CalculatorModel extends DOMWidgetModel {
-  protected abstract readonly modelName: ModelName;
+  // Backbone calls initialize() from its constructor, before subclass field initializers run: so the
+  // model's name is a getter and the fields below are declared (no initializer) and set in initialize().
+  protected abstract get modelName(): ModelName;
   /** The request for the current inputs, or null when an input is missing. */
   protected abstract buildRequest(f: Fields): Request | null;
 
-  private seq = 0;
-  private watched: WidgetModel[] = [];
+  private declare seq: number;
+  private declare watched: WidgetModel[];
+  private declare pending: boolean;
 
   override initialize(attributes: Parameters<DOMWidgetModel['initialize']>[0], options: Parameters<DOMWidgetModel['initialize']>[1]): void {
     super.initialize(attributes, options);
+    this.seq = 0;
+    this.watched = [];
+    this.pending = false;
     this.on('change', () => {
       const changed = Object.keys(this.changedAttributes() || {});
       if (changed.some((k) => !OUTPUT_FIELDS.has(k))) {
@@ -66,7 +72,6 @@ export abstract class CalculatorModel extends DOMWidgetModel {
     }
   }
 
-  private pending = false;
   /** Coalesces the changes of one task (Python sets several fields at once) into one request. */
   private schedule(): void {
     if (this.pending) return;

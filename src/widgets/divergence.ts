@@ -12,7 +12,9 @@ import { stateFieldsOf } from './references.js';
 export const DIVERGENCE_FAMILIES = ['umegaki', 'petz', 'sandwiched', 'alpha-z', 'geometric', 'max', 'min', 'measured'];
 
 export class DivergenceCalculatorModel extends CalculatorModel {
-  protected readonly modelName = 'DivergenceCalculatorModel' as const;
+  protected get modelName() {
+    return 'DivergenceCalculatorModel' as const;
+  }
   override defaults() {
     return defaultsOf('DivergenceCalculatorModel', super.defaults());
   }

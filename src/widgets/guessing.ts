@@ -10,7 +10,9 @@ import { guessingRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
 
 export class GuessingCalculatorModel extends CalculatorModel {
-  protected readonly modelName = 'GuessingCalculatorModel' as const;
+  protected get modelName() {
+    return 'GuessingCalculatorModel' as const;
+  }
   override defaults() {
     return defaultsOf('GuessingCalculatorModel', super.defaults());
   }

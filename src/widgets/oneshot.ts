@@ -13,7 +13,9 @@ import { stateFieldsOf } from './references.js';
 const PAIRWISE = ['hypothesis-testing', 'smooth-max-divergence'];
 
 export class OneShotCalculatorModel extends CalculatorModel {
-  protected readonly modelName = 'OneShotCalculatorModel' as const;
+  protected get modelName() {
+    return 'OneShotCalculatorModel' as const;
+  }
   override defaults() {
     return defaultsOf('OneShotCalculatorModel', super.defaults());
   }

@@ -11,7 +11,9 @@ import { recoverabilityRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
 
 export class RecoverabilityCalculatorModel extends CalculatorModel {
-  protected readonly modelName = 'RecoverabilityCalculatorModel' as const;
+  protected get modelName() {
+    return 'RecoverabilityCalculatorModel' as const;
+  }
   override defaults() {
     return defaultsOf('RecoverabilityCalculatorModel', super.defaults());
   }
