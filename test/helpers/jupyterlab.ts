@@ -120,18 +120,32 @@ export async function startLab(cells: string[], name = 'scenario.ipynb'): Promis
       await page.goto(`${base}/lab/tree/${name}?token=${token}`);
       await page.waitForSelector('.jp-Notebook .jp-Cell', { timeout: 120_000 });
       // The kernel is ready when the toolbar's kernel status says idle.
-      await page.waitForFunction(() => /idle/i.test(document.querySelector('.jp-Notebook-ExecutionIndicator')?.getAttribute('data-status') ?? document.querySelector('.jp-KernelStatus')?.textContent ?? 'idle'), undefined, { timeout: 120_000 }).catch(() => undefined);
+      await page.waitForSelector('.jp-Notebook-ExecutionIndicator[data-status="idle"]', { timeout: 120_000 }).catch(() => undefined);
       await page.waitForTimeout(1500);
     },
     async runCell(index: number) {
       const before = (await cell(index).locator('.jp-InputPrompt').textContent()) ?? '';
-      await cell(index).locator('.jp-InputPrompt').click();
-      await page.keyboard.press('Shift+Enter');
-      await page.waitForFunction(([i, b]) => {
+      const ran = (timeout: number) => page.waitForFunction(([i, b]) => {
         const c = document.querySelectorAll('.jp-Notebook .jp-Cell')[i as number];
         const prompt = c?.querySelector('.jp-InputPrompt')?.textContent ?? '';
         return /\[\d+\]/.test(prompt) && prompt !== b;
-      }, [index, before] as const, { timeout: 120_000 });
+      }, [index, before] as const, { timeout });
+      for (let attempt = 0; ; attempt++) {
+        await cell(index).locator('.jp-InputArea-editor').click();
+        await page.keyboard.press('Shift+Enter');
+        try {
+          await ran(attempt === 0 ? 30_000 : 120_000);
+          return;
+        } catch (e) {
+          // A first run can be swallowed while the kernel connects (the prompt stays empty): once more.
+          const prompt = (await cell(index).locator('.jp-InputPrompt').textContent()) ?? '';
+          if (attempt > 0 || prompt.includes('*')) {
+            if (prompt.includes('*')) await ran(120_000).then(() => undefined);
+            else throw e;
+            return;
+          }
+        }
+      }
     },
     async outputText(index: number) {
       return (await cell(index).locator('.jp-OutputArea-output').last().textContent()) ?? '';
