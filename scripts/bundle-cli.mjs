@@ -6,8 +6,8 @@
  * fraction of that (bench/startup.ts measures it against a bare `node -e 0`).
  *
  * mathjs stays outside the bundle: the expression reader loads it from node_modules on first need
- * (src/ops/expressions.ts), so requests without expression strings never pay for it. Nothing else is left
- * out. What it does not do: minify (stack traces of bugs stay readable) or bundle for browsers
+ * (src/ops/expressions.ts), so requests without expression strings never pay for it. So do vega, vega-lite
+ * (sweep plots) and cli-progress (a terminal's progress bar), loaded by `import()` where they are used. What it does not do: minify (stack traces of bugs stay readable) or bundle for browsers
  * (scripts/bundle-engine.mjs). Cost: well under a second.
  */
 import { build } from 'esbuild';
@@ -24,7 +24,8 @@ export async function bundleCli() {
     platform: 'node',
     format: 'esm',
     target: ['node20'],
-    external: ['mathjs', 'mathjs/*'],
+    // vega, vega-lite and cli-progress too: only `sweep plot` and a terminal's progress bar need them.
+    external: ['mathjs', 'mathjs/*', 'vega', 'vega-lite', 'cli-progress'],
     logLevel: 'warning',
     // CommonJS dependencies bundled into an ES module may call require() for Node built-ins.
     banner: { js: "import { createRequire as __rhosigmaCreateRequire } from 'node:module'; const require = __rhosigmaCreateRequire(import.meta.url);" },

@@ -10,4 +10,4 @@ export * as oneshot from './oneshot/index.js';
 export * as ops from './ops/index.js';
 export { RhoError, type ErrorCode } from './errors.js';
 export * as recovery from './recovery/index.js';
-export * as guessing from './guessing/guesswork.js';
+export * as guessing from './guessing/index.js';

@@ -54,6 +54,13 @@ from .functions import (
     spectrum,
     state_preset,
     trace_distance,
+    petz_map,
+    data_processing,
+    markov_structure,
+    commuting_square,
+    state_check,
+    repair_state,
+    verify_answer,
 )
 from .objects import Channel, State
 from .sweeps import sweep
@@ -69,6 +76,8 @@ __all__ = [
     "max_information", "monotone_metric", "mutual_information", "partial_trace", "partial_transpose", "petz_recovery",
     "purified_distance", "reorder_subsystems", "shutdown", "smooth_max_divergence", "spectrum", "state_preset",
     "sweep", "to_numpy", "to_protocol", "trace_distance", "unload_ipython_extension",
+    "petz_map", "data_processing", "markov_structure", "commuting_square", "state_check", "repair_state",
+    "verify_answer",
 ]
 
 

@@ -35,6 +35,8 @@ __all__ = [
     "guesswork", "max_information", "monotone_metric", "mutual_information", "partial_trace",
     "partial_transpose", "petz_recovery", "purified_distance", "reorder_subsystems",
     "smooth_max_divergence", "spectrum", "state_preset", "trace_distance",
+    "petz_map", "data_processing", "markov_structure", "commuting_square", "state_check", "repair_state",
+    "verify_answer",
 ]
 
 _SPECIAL_NAMES = {"from_dims": "from", "to_dims": "to", "N": "N"}
@@ -215,6 +217,30 @@ def fidelity_of_recovery(rho, a, b, c, *, dims=None, labels=None, support_tolera
     """F(A;C|B) by an SDP, with the optimal channel and certificate under `details=True` (op fidelity-of-recovery)."""
     return _plain_out(_ask("fidelity-of-recovery", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
 
+def petz_map(sigma, channel, *, t=None, averaged=None, quadrature_tolerance=None, dims=None, support_tolerance=None, tolerance=None, details=False, timeout=None):
+    """The Petz recovery map of (σ, N) as a `Channel`: rotated by `t`, or averaged over t (averaged=True);
+    `details=True` for the Choi matrix, the completion outside supp N(σ) and the quadrature's error bound (op petz-map)."""
+    return _plain_out(_ask("petz-map", dict(sigma=_state(sigma, dims), channel=channel, t=t, averaged=averaged, quadrature_tolerance=quadrature_tolerance, support_tolerance=support_tolerance, tolerance=tolerance), timeout=timeout), details)
+
+
+def data_processing(rho, sigma, channel, family="umegaki", *, alpha=None, z=None, epsilon=None, dims=None, max_iterations=None, gap_tolerance=None, recovery_tolerance=None, support_tolerance=None, tolerance=None, base=None, details=True, timeout=None):
+    """Data processing for (ρ, σ, N): both sides, the gap, the Petz-recovered state and a verdict with its
+    evidence; the whole answer by default (details=False gives the gap alone) (op data-processing).
+    A gap near zero is numerical evidence of saturation, not a proof."""
+    return _plain_out(_ask("data-processing", dict(family=family, rho=_state(rho, dims), sigma=_state(sigma, dims), channel=channel, alpha=alpha, z=z, epsilon=epsilon, max_iterations=max_iterations, gap_tolerance=gap_tolerance, recovery_tolerance=recovery_tolerance, support_tolerance=support_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+
+
+def markov_structure(rho, a, b, c, *, dims=None, labels=None, support_tolerance=None, algebra_tolerance=None, markov_tolerance=None, seed=None, tolerance=None, base=None, details=True, timeout=None):
+    """The block structure of a quantum Markov chain A–B–C (weights, factor dimensions, the unitary on B,
+    the rebuild error), or for a state that is not one an upper bound on its distance to that form (op markov-structure)."""
+    return _plain_out(_ask("markov-structure", dict(rho=_state(rho, dims, labels), a=_systems(a), b=_systems(b), c=_systems(c), support_tolerance=support_tolerance, algebra_tolerance=algebra_tolerance, markov_tolerance=markov_tolerance, seed=seed, tolerance=tolerance, base=base), timeout=timeout), details)
+
+
+def commuting_square(first, second, *, states=None, steps=None, commuting_tolerance=None, tolerance=None, base=None, details=True, timeout=None):
+    """Whether two conditional expectations (channels) form a commuting square, the expectation onto their
+    intersection, the Friedrichs cosine and, for given states, the quasi-factorization ratio (op commuting-square)."""
+    return _plain_out(_ask("commuting-square", dict(first=first, second=second, states=[_state(x) for x in states] if states is not None else None, steps=steps, commuting_tolerance=commuting_tolerance, tolerance=tolerance, base=base), timeout=timeout), details)
+
 
 # -- guessing ---------------------------------------------------------------------------------------
 
@@ -303,6 +329,25 @@ def compose_channels(*channels, tolerance=None, details=False, timeout=None):
 def diamond_distance(a, b, *, tolerance=None, details=False, timeout=None):
     """½‖N − M‖_⋄ by Watrous's SDP; `details=True` for the optimal input and the certificate (op diamond-distance)."""
     return _plain_out(_ask("diamond-distance", dict(a=a, b=b, tolerance=tolerance), timeout=timeout), details)
+
+
+def state_check(state, *, dims=None, labels=None, tolerance=None, timeout=None):
+    """Hermiticity (with the worst entry), the spectrum, positivity and the trace of a state, as the engine
+    reports them; never raises for a bad state (op state-check)."""
+    return to_numpy(dict(_ask("state-check", dict(state=_state(state, dims, labels), tolerance=tolerance), timeout=timeout)))
+
+
+def repair_state(state, actions, *, dims=None, labels=None, tolerance=None, details=False, timeout=None):
+    """The state after the chosen repairs only ("hermitian", "clip", "normalize", ... as the op lists them),
+    in order; `details=True` says what each one changed (op repair-state)."""
+    answer = _ask("repair-state", dict(state=_state(state, dims, labels), actions=list(actions), tolerance=tolerance), timeout=timeout)
+    return to_numpy(dict(answer)) if details else _plain_out(answer, False)
+
+
+def verify_answer(request, answer, *, timeout=None):
+    """The engine's own re-check of an SDP answer's certificate from its points (op verify-answer); the
+    independent check is rhosigma.certificates.check, which uses numpy alone."""
+    return to_numpy(dict(_ask("verify-answer", dict(request=request, answer=answer), timeout=timeout)))
 
 
 def _checks_of_state(state: State, tolerance: float | None) -> dict:

@@ -98,6 +98,23 @@ def cpu_seconds(pid: int) -> float:
     return (int(fields[11]) + int(fields[12])) / os.sysconf("SC_CLK_TCK")
 
 
+def wait_until_idle(pid: int, quiet: float = 0.3, limit: float = 30.0) -> None:
+    """Return once `pid` has spent no CPU for `quiet` seconds: `rhosigma serve` warms its solver while idle
+    after start-up, and a test that watches CPU to find the moment a request is in flight must not see
+    that warm-up instead."""
+    import time
+
+    deadline = time.monotonic() + limit
+    last, since = cpu_seconds(pid), time.monotonic()
+    while time.monotonic() < deadline:
+        time.sleep(0.05)
+        now = cpu_seconds(pid)
+        if now != last:
+            last, since = now, time.monotonic()
+        elif time.monotonic() - since >= quiet:
+            return
+
+
 def kill_when_busy(pid: int, cpu: float = 0.3, limit: float = 60.0, action=None) -> "threading.Thread":
     """A started thread that SIGKILLs `pid` (or calls `action()`) once it has spent `cpu` more seconds of
     CPU (it is computing), which on a loaded machine is a surer sign than wall time that a request is

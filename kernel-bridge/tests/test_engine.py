@@ -21,7 +21,7 @@ import rhosigma
 from rhosigma import ComputeError, Engine, EngineNotFound, EngineStartError
 from rhosigma.convert import from_protocol
 
-from conftest import BIN, PYTHON, ROOT, cli_compute, group_members, kill_when_busy, numpy_entropy, random_density, random_hermitian, slow_request
+from conftest import BIN, PYTHON, ROOT, cli_compute, group_members, kill_when_busy, wait_until_idle, numpy_entropy, random_density, random_hermitian, slow_request
 
 
 def parity_batch():
@@ -154,6 +154,7 @@ def test_killing_the_engine_mid_batch_is_survived(engine):
     requests += [{"op": "entropy", "rho": s, "id": k + 4} for k, s in enumerate(states[3:])]
     engine.start()
     first_pid = engine.pid
+    wait_until_idle(first_pid)                  # past the warm-up that `serve` does while idle
     killer = kill_when_busy(first_pid)          # once the engine is busy computing: on the slow request
     answers = engine.compute_batch(requests)
     killer.join()
@@ -269,6 +270,7 @@ def test_answers_name_the_engine_and_close_cleanly():
 def test_an_interrupt_never_misaligns_answers(engine):
     """A KeyboardInterrupt (a kernel interrupt) during a request stops that engine; the next answer is the next request's."""
     engine.start()
+    wait_until_idle(engine.pid)
     main = threading.main_thread().ident
     t = kill_when_busy(engine.pid, action=lambda: signal.pthread_kill(main, signal.SIGINT))
     with pytest.raises(KeyboardInterrupt):
@@ -311,6 +313,7 @@ def test_answers_made_in_python_follow_the_answer_schema(engine):
         engine.compute_raw([{"op": "entropy", "rho": 1j}])[0],
     ]
     engine.start()
+    wait_until_idle(engine.pid)
     killer = kill_when_busy(engine.pid)
     made.append(engine.compute_raw([slow_request()])[0])
     killer.join()

@@ -14,10 +14,17 @@ the POVM elements M_g (in the embedding, halved). Complex blocks go to cvxopt th
 embedding H -> [[Re H, -Im H], [Im H, Re H]], which is PSD exactly when H is (cvxopt has no complex
 cones). The guesswork is minus cvxopt's primal objective.
 
-Random ensembles: |X| = 3, d = 2 or 3, probabilities from a flat Dirichlet distribution, states
-Ginibre density matrices G G*/Tr of random rank (1..d), moments from {1, 2, 0.5, 1.5}.
+Random ensembles: |X| = 3, d = 2 or 3 (or the shapes of --shapes, K symbols by d dimensions),
+probabilities from a flat Dirichlet distribution, states Ginibre density matrices G G*/Tr of random
+rank (1..d, so rank-deficient members occur), moments from {1, 2, 0.5, 1.5}. With --bb84, one more
+case: the four pure qubit states |0>, |1>, |+>, |-> with equal probabilities, moment 1.
 
-Usage: cvxopt_guesswork.py [--seed N] [--count N] [--out PATH|-]
+--time N: solve each case N more times and record the median seconds inside solvers.sdp ("seconds")
+and of the whole call, building the K!-block problem with numpy included ("secondsTotal"), over all
+N + 1 solves (for bench/guesswork.ts). --tolerance T: one cvxopt tolerance instead of the ladder (a
+benchmark must not count failed attempts).
+
+Usage: cvxopt_guesswork.py [--seed N] [--count N] [--shapes 4x2,6x4] [--bb84] [--time N] [--tolerance T] [--out PATH|-]
 Writes JSON {generator, cvxopt, numpy, seed, cases: [{name, probabilities, states: [{re, im}], moment,
 value, dualValue, cvxoptStatus, cvxoptTolerance}]}.
 """
@@ -25,6 +32,7 @@ import argparse
 import itertools
 import json
 import sys
+import time
 
 import numpy as np
 import cvxopt
@@ -34,7 +42,10 @@ from cvxopt_ladder import solve_sdp
 from embedding import embed, hermitian_basis
 
 
-def guesswork(p, rhos, k):
+LADDER = (1e-10, 1e-9, 1e-8)
+
+
+def guesswork(p, rhos, k, clock=None):
     n = len(p)
     d = rhos[0].shape[0]
     basis = hermitian_basis(d)
@@ -47,7 +58,7 @@ def guesswork(p, rhos, k):
         gs.append(matrix(np.array(cols).T))
         hs.append(matrix(embed(cg)))
     # Tightest tolerance first, down the shared ladder (cvxopt_ladder.py); the tolerance used is recorded.
-    sol = solve_sdp(c, ladder=(1e-10, 1e-9, 1e-8), Gs=gs, hs=hs)
+    sol = solve_sdp(c, ladder=LADDER, clock=clock, Gs=gs, hs=hs)
     tol = sol["tolerance"]
     return -sol["primal objective"], -sol["dual objective"], sol["status"], tol
 
@@ -63,18 +74,30 @@ def rows(m):
     return [[float(v) for v in r] for r in m]
 
 
-def make_cases(seed, count):
+def make_cases(seed, count, shapes=None, bb84=False, repeats=0):
     rng = np.random.default_rng(seed)
     moments = [1, 2, 0.5, 1.5]
+    plan = shapes if shapes else [(3, 2 + (t % 2)) for t in range(count)]
     cases = []
-    for t in range(count):
-        d = 2 + (t % 2)
-        k = moments[t % len(moments)]
-        p = rng.dirichlet(np.ones(3))
-        rhos = [random_density(rng, d) for _ in range(3)]
-        value, dual, status, tol = guesswork(p, rhos, k)
-        cases.append({
-            "name": f"case {t}: |X| = 3, d = {d}, moment {k}",
+    for t, (n, d) in enumerate(plan):
+        k = moments[t % len(moments)] if not shapes else 1
+        p = rng.dirichlet(np.ones(n))
+        rhos = [random_density(rng, d) for _ in range(n)]
+        cases.append((f"case {t}: |X| = {n}, d = {d}, moment {k}", p, rhos, k))
+    if bb84:
+        s = 1 / np.sqrt(2)
+        kets = [np.array([1, 0]), np.array([0, 1]), np.array([s, s]), np.array([s, -s])]
+        cases.append(("four pure qubit states |0>, |1>, |+>, |-> with equal probabilities", np.full(4, 0.25), [np.outer(v, v).astype(complex) for v in kets], 1))
+    out = []
+    for name, p, rhos, k in cases:
+        clock = []
+        total = []
+        for _ in range(1 + repeats):
+            t0 = time.perf_counter()
+            value, dual, status, tol = guesswork(p, rhos, k, clock)
+            total.append(time.perf_counter() - t0)
+        entry = {
+            "name": name,
             "probabilities": [float(v) for v in p],
             "states": [{"re": rows(r.real), "im": rows(r.imag)} for r in rhos],
             "moment": k,
@@ -82,22 +105,33 @@ def make_cases(seed, count):
             "dualValue": float(dual),
             "cvxoptStatus": status,
             "cvxoptTolerance": tol,
-        })
-    return cases
+        }
+        if repeats:
+            entry["seconds"] = float(np.median(clock))
+            entry["secondsTotal"] = float(np.median(total))
+        out.append(entry)
+    return out
 
 
 def main():
     ap = argparse.ArgumentParser()
     ap.add_argument("--seed", type=int, default=20240715)
     ap.add_argument("--count", type=int, default=12)
+    ap.add_argument("--shapes", default="")
+    ap.add_argument("--bb84", action="store_true")
+    ap.add_argument("--time", type=int, default=0)
+    ap.add_argument("--tolerance", type=float, default=0)
     ap.add_argument("--out", default="-")
     a = ap.parse_args()
+    global LADDER
+    if a.tolerance:
+        LADDER = (a.tolerance,)
     doc = {
         "generator": "scripts/reference/cvxopt_guesswork.py",
         "cvxopt": cvxopt.__version__,
         "numpy": np.__version__,
         "seed": a.seed,
-        "cases": make_cases(a.seed, a.count),
+        "cases": make_cases(a.seed, a.count, [tuple(int(v) for v in s.split("x")) for s in a.shapes.split(",") if s], a.bb84, a.time),
     }
     text = json.dumps(doc, indent=1)
     if a.out == "-":

@@ -16,13 +16,12 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename, extname, dirname, join } from 'node:path';
 import type { Command } from 'commander';
-import cliProgress from 'cli-progress';
+import type cliProgress from 'cli-progress';
 import { RhoError } from '../errors.js';
 import { readSpec, specSchemaText } from '../sweep/spec.js';
 import { runSweep } from '../sweep/runner.js';
 import { mergeShards } from '../sweep/merge.js';
 import { summarize, formatSummary } from '../sweep/summary.js';
-import { plotSvg } from '../sweep/plot.js';
 import { readSweepFile, type Shard } from '../sweep/file.js';
 import { evaluatePoint } from '../sweep/point.js';
 import '../sweep/op.js';
@@ -87,7 +86,9 @@ async function run(specPath: string, opts: { output?: string; workers?: string; 
   const t0 = performance.now();
   let firstDone = -1;
   if (tty) {
-    bar = new cliProgress.SingleBar(
+    // Loaded on first need: a command that never draws a bar (every engine request) does not pay for it.
+    const { default: progress } = await import('cli-progress');
+    bar = new progress.SingleBar(
       {
         stream: io.stderr as NodeJS.WriteStream,
         format: 'sweep [{bar}] {percentage}% | {value}/{total} | {rate} points/s | ETA {eta_formatted}',
@@ -95,7 +96,7 @@ async function run(specPath: string, opts: { output?: string; workers?: string; 
         clearOnComplete: true,
         fps: 5,
       },
-      cliProgress.Presets.shades_classic,
+      progress.Presets.shades_classic,
     );
   }
   let interrupted = false;
@@ -220,6 +221,8 @@ Examples:
     .action(async (file: string, _opts: unknown, cmd: Command) => {
       const opts = cmd.optsWithGlobals() as { output?: string; x?: string; y?: string; color?: string; vegaLite?: boolean };
       try {
+        // vega and vega-lite are loaded only for a plot (they are most of the command's code by size).
+        const { plotSvg } = await import('../sweep/plot.js');
         const { svg, vegaLite } = await plotSvg(readSweepFile(file), { x: opts.x, y: opts.y, color: opts.color });
         await writeOut(opts.vegaLite ? `${JSON.stringify(vegaLite, null, 2)}\n` : svg, opts.output, io);
         setCode(0);

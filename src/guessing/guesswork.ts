@@ -18,9 +18,12 @@
  * Theory 68 (2022) — formulation recalled from memory.) Both problems are strictly feasible (M_g = 1/N,
  * Y = −c·1), so strong duality holds and the optimum is attained.
  *
- * Method: the primal is handed to rhosigma's own interior-point solver (src/sdp) with one Hermitian
+ * Methods: column generation over orders (side-information.ts, column-generation.ts, orders.ts; the one
+ * the op uses, to K = 12 symbols), and here the plain SDP over all orders at once, a cross-check for
+ * K ≤ 6: the primal is handed to rhosigma's own interior-point solver (src/sdp) with one Hermitian
  * d×d block per order and d² real equality rows for Σ_g M_g = 1. Two checkable bounds are returned
- * beside the solver's objectives:
+ * beside the solver's objectives, as the certificate of src/sdp/support.ts (the answer is refused with
+ * 'solver-failed' when they are more than 1e-5 relative apart):
  *   upper: orders whose element has weight Tr M_g / d above `weightTolerance` are kept, renormalised
  *          (M'_g = G^{−1/2} M_g G^{−1/2}, G = Σ_kept M_g) into a POVM up to rounding; its cost
  *          Σ Tr M'_g C_g is achieved by that (returned) strategy.
@@ -32,12 +35,15 @@
  *
  * REDUCTION: symbols of probability zero never need to be guessed before the others (moving them to
  * the end shortens every other symbol's position), so only orders of the support are searched, with
- * the zero-probability symbols appended in increasing index. The search is refused ('too-large')
+ * the zero-probability symbols appended in increasing index. The plain SDP is refused ('too-large')
  * when the support has more than 6 symbols (720 orders), the side information is larger than
- * MAX_SIDE_DIMENSION, or (orders × d²) exceeds MAX_SDP_SIZE.
+ * MAX_SIDE_DIMENSION, or (orders × d²) exceeds MAX_SDP_SIZE; column generation goes to 12 symbols.
  *
- * Deliberately not here: reductions by symmetry of the ensemble, the Rényi-entropy bounds on
- * guesswork, parsing (src/ops/guesswork-ops.ts). States are validated here too (density matrices of
+ * Also here: Arikan's and Massey's bounds through Rényi entropies (renyiBounds) and guesswork with
+ * classical side information (guessworkClassicalSide, sorting per y).
+ *
+ * Deliberately not here: reductions by symmetry of the ensemble, column generation
+ * (side-information.ts), parsing (src/ops/guesswork-ops.ts). States are validated here too (density matrices of
  * one size, within the tolerance) because engine callers may bypass the codec.
  *
  * Cost: closed form O(n log n). SDP: N = n_support! blocks of size d (real embedding 2d), d²
@@ -51,12 +57,17 @@ import { checkDensityMatrix, DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import {
   solveSdp, DEFAULT_OPTIONS, matrixCoordinates, coordinateEntry, type BlockTerm, type Constraint, type SdpOptions,
 } from '../sdp/index.js';
+import { factorial } from './orders.js';
 import {
-  ACCEPT_INACCURATE_LOOSE, acceptAnswer, minEigenvalue, multiplierMatrix, renormalisePovm, solverCertificate,
-  type SolverCertificate,
+  ACCEPT_INACCURATE_LOOSE, certify, multiplierMatrix, psdShift, renormalisePovm, roundingPad, type SdpCertificate,
 } from '../sdp/support.js';
 
-/** Largest support of X searched over all orders (6! = 720 orders). */
+export const GUESSWORK_PROBLEM =
+  'minimize Σ_g Tr M_g C_g s.t. M_g ⪰ 0, Σ_g M_g = I over guessing orders g of the support of p, C_g = Σ_x p_x pos_g(x)^k ρ_x ' +
+  '(primal point: the kept orders and their POVM elements, the others zero); dual: maximize Tr Y s.t. Y ⪯ C_g for every order g ' +
+  '(Y − s·I with s the largest violation is feasible)';
+
+/** Largest support of X for the plain SDP over all orders at once (6! = 720 blocks). */
 export const MAX_SUPPORT = 6;
 /** Largest dimension of the side information (the SDP has d² constraints and a d²×d² Schur complement). */
 export const MAX_SIDE_DIMENSION = 32;
@@ -100,13 +111,7 @@ export function allOrders<T>(items: readonly T[]): T[][] {
   return out;
 }
 
-function factorial(n: number): number {
-  let f = 1;
-  for (let i = 2; i <= n; i++) f *= i;
-  return f;
-}
-
-function checkMoment(moment: number): number {
+export function checkMoment(moment: number): number {
   return checkNumber(moment, 'moment', { min: 0, minExclusive: true });
 }
 
@@ -141,10 +146,11 @@ export interface GuessingOrder {
 }
 
 /**
- * The solver's certificate (objectives as the minimisation they are, |gap|; sdp-support.ts) with the
- * two checkable bounds and the stopping tolerances of this solve.
+ * The one certificate shape (src/sdp/support.ts; primal point: the kept orders and their renormalised
+ * POVM elements; dual point: Y) with the two checkable bounds repeated and the stopping tolerances of
+ * this solve.
  */
-export interface GuessworkCertificate extends SolverCertificate {
+export interface GuessworkCertificate extends SdpCertificate {
   /** Tr Y − d·ε for the dual point Y shifted into feasibility (weak duality). */
   lowerBound: number;
   /** Cost of the returned (renormalised) strategy: achieved by it. */
@@ -155,7 +161,7 @@ export interface GuessworkCertificate extends SolverCertificate {
 }
 
 export interface QuantumGuesswork {
-  /** The solver's primal objective (lies between the bounds up to the residuals). */
+  /** The solver's primal objective clamped into the certified bracket and into [1, G_k(X)]. */
   value: number;
   moment: number;
   /** Orders with weight above weightTolerance, largest probability first. */
@@ -187,7 +193,7 @@ export interface QuantumGuessworkOptions {
   sdp?: SdpOptions;
 }
 
-function readStates(states: readonly CMatrix[], count: number, tol: number): CMatrix[] {
+export function readStates(states: readonly CMatrix[], count: number, tol: number): CMatrix[] {
   if (states.length !== count) {
     throw new RhoError('dimension-mismatch', `There are ${count} probabilities but ${states.length} states; give one state per symbol.`, 'states');
   }
@@ -205,11 +211,13 @@ function readStates(states: readonly CMatrix[], count: number, tol: number): CMa
 }
 
 /**
- * Guesswork of X given quantum side information B, for the ensemble {p_x, ρ_x}, by the SDP over
- * POVMs indexed by guessing orders (see the module comment). Throws 'too-large' for a support of more
- * than MAX_SUPPORT symbols, 'solver-failed' when the solver does not reach a usable answer.
+ * Guesswork of X given quantum side information B, for the ensemble {p_x, ρ_x}, by the plain SDP over
+ * POVMs indexed by ALL guessing orders at once (see the module comment): the generic method, kept as an
+ * independent cross-check of the column generation (guessworkWithSideInformation, side-information.ts)
+ * on small cases. Throws 'too-large' for a support of more than MAX_SUPPORT symbols, 'solver-failed'
+ * when the solver does not reach a usable answer.
  */
-export function guessworkWithSideInformation(
+export function guessworkAllOrders(
   probabilities: readonly number[],
   states: readonly CMatrix[],
   options: QuantumGuessworkOptions = {},
@@ -275,13 +283,13 @@ export function guessworkWithSideInformation(
     solverOptions = {};
     answer = solveSdp(problem, solverOptions);
   }
-  const warning = acceptAnswer(answer, 'the guesswork', ACCEPT_INACCURATE_LOOSE);
-
-  // Lower bound from the dual: Y − ε·1 is feasible.
+  // Lower bound from the dual: Y − ε·1 is feasible, ε the largest shift (with its rounding allowance)
+  // that makes every C_g − Y positive semidefinite.
   const y = multiplierMatrix(answer.y, 0, d);
   let eps = 0;
-  for (const c of costs) eps = Math.max(eps, -minEigenvalue(combine([1, -1], [c, y])));
-  const lowerBound = trace(y).re - d * eps;
+  for (const c of costs) eps = Math.max(eps, psdShift(c, y));
+  const trY = trace(y).re;
+  const lowerBound = trY - d * eps;
 
   // The strategy: orders of non-negligible weight, renormalised into a POVM.
   const elements = answer.x as CMatrix[];
@@ -306,17 +314,28 @@ export function guessworkWithSideInformation(
   });
   strategy.sort((a, b) => b.probability - a.probability);
 
-  const { message, ...numbers } = solverCertificate(answer, false);
+  const classical = guessworkClassical(p, moment, tol).value;
+  const pad = roundingPad(n * d * d, Math.max(Math.abs(upperBound), Math.abs(lowerBound)));
+  const c = certify({
+    what: 'the guesswork', solve: answer, problem: GUESSWORK_PROBLEM, sense: 'minimize',
+    primal: { orders: kept.map((g) => orders[g]), measurement: povm }, primalObjective: upperBound,
+    dual: { Y: y }, dualObjective: trY,
+    bounds: { lower: lowerBound - pad, upper: upperBound + pad },
+    estimate: answer.primalObjective,
+    // G_k(X|B) ≥ Σ_x p_x 1^k = 1 (every symbol costs at least one guess) and ≤ G_k(X) (ignore B).
+    range: [1, classical],
+    limit: ACCEPT_INACCURATE_LOOSE,
+  });
+  const warning = c.note;
   const certificate: GuessworkCertificate = {
-    ...numbers,
-    lowerBound,
-    upperBound,
+    ...c.certificate,
+    lowerBound: c.certificate.bounds.lower,
+    upperBound: c.certificate.bounds.upper,
     gapTolerance: solverOptions.gapTolerance ?? DEFAULT_OPTIONS.gapTolerance,
     feasibilityTolerance: solverOptions.feasibilityTolerance ?? DEFAULT_OPTIONS.feasibilityTolerance,
-    ...(message ? { message } : {}),
   };
   const out: QuantumGuesswork = {
-    value: answer.primalObjective,
+    value: c.value,
     moment,
     strategy,
     certificate,
@@ -325,8 +344,82 @@ export function guessworkWithSideInformation(
     weightTolerance,
     ordersSearched: n,
     zeroProbabilitySymbols: zeroSymbols,
-    withoutSideInformation: guessworkClassical(p, moment, tol).value,
+    withoutSideInformation: classical,
   };
   if (warning) out.warning = warning;
   return out;
+}
+
+/**
+ * The classical bounds on the optimal moment E[G^ρ] of guessing X without side information, in terms
+ * of the Rényi entropy of order α = 1/(1+ρ) (recalled from memory): Arikan 1996, Theorem 1,
+ *
+ *   (1 + ln n)^{−ρ} · 2^{ρ H_α(X)}  ≤  E[G*^ρ]  ≤  2^{ρ H_α(X)},    2^{ρ H_α} = (Σ_x p_x^{1/(1+ρ)})^{1+ρ},
+ *
+ * for n symbols (of nonzero probability), and Massey 1994 for ρ = 1: E[G*] ≥ 2^{H(X)−2} + 1 when the
+ * Shannon entropy H(X) is at least 2 bits (`massey` is absent otherwise or for ρ ≠ 1).
+ */
+export interface RenyiBounds {
+  alpha: number;
+  /** H_α(X) in bits. */
+  renyiEntropy: number;
+  arikanLower: number;
+  arikanUpper: number;
+  massey?: number;
+}
+
+export function renyiBounds(probabilities: readonly number[], moment = 1): RenyiBounds {
+  checkMoment(moment);
+  const p = probabilities.map((x) => Math.max(0, x)).filter((x) => x > 0);
+  const alpha = 1 / (1 + moment);
+  let s = 0;
+  for (const x of p) s += Math.pow(x, alpha);
+  // In base-2 logarithms, so that large moments overflow to Infinity, never to Infinity/Infinity.
+  const log2Upper = (1 + moment) * Math.log2(s); // ρ H_α
+  const renyiEntropy = Math.log2(s) / (1 - alpha);
+  const out: RenyiBounds = {
+    alpha,
+    renyiEntropy,
+    arikanLower: Math.pow(2, log2Upper - moment * Math.log2(1 + Math.log(p.length))),
+    arikanUpper: Math.pow(2, log2Upper),
+  };
+  if (moment === 1) {
+    let h = 0;
+    for (const x of p) h -= x * Math.log2(x);
+    if (h >= 2) out.massey = Math.pow(2, h - 2) + 1;
+  }
+  return out;
+}
+
+/** Guesswork with classical side information Y: per value y, guess by decreasing p(x, y). */
+export interface ClassicalSideGuesswork {
+  /** Σ_y Σ_i i^k p_(i)(·, y), the sum over y of the sorted columns' costs. */
+  value: number;
+  /** For each y, the optimal order (ties: smaller index first). */
+  orders: number[][];
+  moment: number;
+}
+
+/**
+ * G_k(X|Y) for a joint distribution given as rows x, columns y (nonnegative, summing to 1 within
+ * `tol`): for each y the guesser sees y and guesses by decreasing p(x, y) (Arikan 1996, the conditional
+ * form of the rearrangement argument).
+ */
+export function guessworkClassicalSide(joint: readonly (readonly number[])[], moment = 1, tol = DEFAULT_TOLERANCE): ClassicalSideGuesswork {
+  checkMoment(moment);
+  if (joint.length === 0 || joint[0].length === 0) throw new RhoError('invalid-argument', 'The joint distribution must have at least one row and one column.', 'joint');
+  const cols = joint[0].length;
+  joint.forEach((row, x) => {
+    if (row.length !== cols) throw new RhoError('dimension-mismatch', `Row ${x} of the joint distribution has ${row.length} entries, row 0 has ${cols}.`, `joint[${x}]`);
+  });
+  checkProbabilities(joint.flat(), 'joint', tol);
+  let value = 0;
+  const orders: number[][] = [];
+  for (let y = 0; y < cols; y++) {
+    const q = joint.map((row) => Math.max(0, row[y]));
+    const order = q.map((_, x) => x).sort((a, b) => q[b] - q[a] || a - b);
+    value += orderCost(order, q, moment);
+    orders.push(order);
+  }
+  return { value, orders, moment };
 }

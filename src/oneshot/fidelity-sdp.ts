@@ -120,7 +120,6 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
       Xp.im[i * s + j] = Z.im[i * (r + s) + r + j];
     }
   }
-  const offDiagonal = mul(mul(a.basis, Xp), adjoint(b.basis));
   // Primal: X′ = Λ^½ K M^½ with ‖K‖ ≤ 1 is feasible; shrink by t = min(1, 1/‖Λ^(−½) X′ M^(−½)‖).
   const K = zeros(r, s);
   for (let i = 0; i < r; i++) {
@@ -134,6 +133,8 @@ export function fidelitySdp(rho: CMatrix, sigma: CMatrix, options: { tol?: numbe
   let reTr = 0;
   for (let i = 0; i < r; i++) for (let j = 0; j < s; j++) reTr += Xp.re[i * s + j] * C.re[j * r + i] - Xp.im[i * s + j] * C.im[j * r + i];
   const lowerRoot = Math.max(0, t * reTr - roundingPad(r * s, 1));
+  // The primal point is the shrunk X = t·V X′ W* (feasible up to rounding), the one whose Re Tr is t·reTr.
+  const offDiagonal = mul(mul(a.basis, scale2(Xp, t)), adjoint(b.basis));
   // Dual: P = −2·(multipliers of the ρ block) in ρ's eigenbasis; √F ≤ √(Tr ΛP · Tr (V*σV) P⁻¹) for P ≻ 0.
   const P = scale2(multiplierMatrix(answer.y, 0, r), -2);
   const { pd, inverse } = positiveDefinite(P);

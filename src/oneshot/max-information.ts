@@ -78,6 +78,10 @@ export function maxInformation(
   // Back to the original coordinates: Z = (V D^{−1/2} ⊗ I) X (D^{−1/2} V* ⊗ I) is the dual point of
   // min{Tr σ' : ρ_A ⊗ σ' ⪰ ρ_AB}: Z ⪰ 0, tr_A((ρ_A ⊗ I) Z) = I_B, Tr ρ_AB Z = Tr τX.
   const back = adjoint(K);
+  // ρ_A is inverted on its support: the rounding of ρ_AB (about n·u) reaches τ magnified by the condition
+  // number of ρ_A, and moves the optimum min{Tr σ' : I ⊗ σ' ⪰ τ} by at most d_B times that (σ' + ‖E‖·I stays
+  // feasible). The bracket is padded by it: a 1e-8 eigenvalue of ρ_A costs about 1e-8·d relative accuracy.
+  const conditioning = r > 0 ? 4 * dA * dB * dB * 1.1102230246251565e-16 * (S.max / smallest) : 0;
   const attempt = (solver: SdpOptions | undefined): Assessed => {
     const res = solveMinEntropySdp(tau, r, dB, solver);
     const h = (x: number) => (x > 0 ? Math.log(x) / lb : -Infinity);
@@ -86,7 +90,7 @@ export function maxInformation(
       what: 'the max-information', solve: res.ans, problem: MAX_INFORMATION_PROBLEM, sense: 'minimize',
       primal: { sigma }, primalObjective: trace(res.sigma).re,
       dual: { Z: symmetrize(mul(mul(back, res.X), K)) }, dualObjective: res.lower,
-      bounds: { lower: h(res.lower), upper: h(res.upper) },
+      bounds: { lower: h(res.lower - conditioning), upper: h(res.upper + conditioning) },
       estimate: h(res.optimum),
     });
   };

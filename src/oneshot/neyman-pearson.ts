@@ -127,13 +127,16 @@ export function dualBounds(e: DualEvaluation, epsilon: number, rho: CMatrix, sig
   const d = e.values.length;
   let plus = 0;
   let minus = 0;
+  // Each eigenvalue moved by TWICE its allowance: the bound then holds for any eigensolver whose values are
+  // within one allowance of ours (the numpy checker recomputes it with one).
+  const pad = 2 * e.eigPad;
   for (let i = 0; i < d; i++) {
-    plus += Math.max(0, e.values[i] + e.eigPad);
-    minus += Math.max(0, -e.values[i] + e.eigPad);
+    plus += Math.max(0, e.values[i] + pad);
+    minus += Math.max(0, -e.values[i] + pad);
   }
-  // λ_min(σ − μρ) > the allowance: (μρ − σ)₊ = 0 exactly; likewise for (σ − μρ)₊.
-  if (e.positive === 0 && isPositiveDefiniteCombination(sigma, rho, -e.mu, e.eigPad)) plus = 0;
-  if (e.positive === d && isPositiveDefiniteCombination(rho, sigma, -1 / e.mu, e.eigPad / e.mu)) minus = 0;
+  // λ_min(σ − μρ) > twice the allowance (Cholesky): (μρ − σ)₊ = 0 exactly; likewise for (σ − μρ)₊.
+  if (e.positive === 0 && isPositiveDefiniteCombination(sigma, rho, -e.mu, pad)) plus = 0;
+  if (e.positive === d && isPositiveDefiniteCombination(rho, sigma, -1 / e.mu, pad / e.mu)) minus = 0;
   return { lowerBeta: e.mu * (1 - epsilon) - plus, upperComplement: e.mu * epsilon + minus };
 }
 

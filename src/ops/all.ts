@@ -12,3 +12,4 @@ import './recovery-ops.js';
 import './oneshot-ops.js';
 import './random-ops.js';
 import './state-ops.js';
+import './verify-ops.js';

@@ -176,31 +176,45 @@ defineOp({
   base: true,
   cost: divergenceCost,
   run(req, context) {
-    const family = String(req.family);
-    const extra = extraDivergenceFamilies.get(family);
-    if (!extra && !(DIVERGENCE_FAMILIES as readonly string[]).includes(family)) {
-      throw new RhoError('unknown-family', `Unknown divergence family "${family}"; known families: ${knownFamilies().join(', ')}.`, 'family');
-    }
-    refuseUnusedFields(family, req);
+    const family = checkDivergenceFamily(req);
     const rho = readState(req.rho, 'rho', context.tolerance).matrix;
     const sigma = readOperatorState(req.sigma, 'sigma', context.tolerance).matrix;
     if (rho.rows !== sigma.rows) {
       throw new RhoError('dimension-mismatch', `rho is ${rho.rows}x${rho.rows} but sigma is ${sigma.rows}x${sigma.rows}.`, 'sigma');
     }
-    const supportTolerance = readSupportTolerance(req);
-    if (extra) return extra({ rho, sigma, request: req, context, supportTolerance });
-    const alpha = req.alpha === undefined ? undefined : readOrder(req.alpha, 'alpha');
-    const z = req.z === undefined ? undefined : readNumber(req.z, 'z', { min: 0, minExclusive: true });
-    const d = divergence(family, rho, sigma, {
-      alpha,
-      z,
-      base: context.base,
-      tol: supportTolerance,
-      maxIterations: req.maxIterations,
-    });
-    return writeDivergence(d);
+    return divergenceOfPair(family, rho, sigma, req, context);
   },
 });
+
+/**
+ * The request's divergence family, known (built in or registered) and given only the fields it uses;
+ * for ops that evaluate a divergence of the request's family (divergence, data-processing).
+ */
+export function checkDivergenceFamily(req: Record<string, any>): string {
+  const family = String(req.family);
+  if (!extraDivergenceFamilies.has(family) && !(DIVERGENCE_FAMILIES as readonly string[]).includes(family)) {
+    throw new RhoError('unknown-family', `Unknown divergence family "${family}"; known families: ${knownFamilies().join(', ')}.`, 'family');
+  }
+  refuseUnusedFields(family, req);
+  return family;
+}
+
+/** D(ρ‖σ) of the request's family (its alpha, z, ... fields) as the divergence op answers it. */
+export function divergenceOfPair(family: string, rho: CMatrix, sigma: CMatrix, req: Record<string, any>, context: OpContext): OpResult {
+  const supportTolerance = readSupportTolerance(req);
+  const extra = extraDivergenceFamilies.get(family);
+  if (extra) return extra({ rho, sigma, request: req, context, supportTolerance });
+  const alpha = req.alpha === undefined ? undefined : readOrder(req.alpha, 'alpha');
+  const z = req.z === undefined ? undefined : readNumber(req.z, 'z', { min: 0, minExclusive: true });
+  const d = divergence(family, rho, sigma, {
+    alpha,
+    z,
+    base: context.base,
+    tol: supportTolerance,
+    maxIterations: req.maxIterations,
+  });
+  return writeDivergence(d);
+}
 
 const groupSchema = (what: string) => ({ ...schemas.systems, description: `${what}: subsystem indices (or labels).` });
 const multipartite = { ...schemas.state, description: 'A density matrix with "dims" giving its subsystems.' };

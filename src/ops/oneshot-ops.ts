@@ -6,11 +6,11 @@
  *  - `conditional-min-entropy`, `conditional-max-entropy` (rho with dims, a, b),
  *  - `max-information` (rho with dims, a, b).
  *
- * Every answer carries `certificate` {status, primalObjective, dualObjective, gap, relativeGap,
- * primalResidual, dualResidual, iterations, problem} — `problem` states the primal problem the solver
- * was given, so the objectives' signs can be read — and `note` whenever the solver's status is not
- * 'optimal' or the value needs another caveat (tiny β, a support decision near its threshold).
- * A solve that fails outright is a RhoError 'solver-failed' carrying the status (from src/oneshot).
+ * Every answer carries `certificate` in the one shape of src/sdp/support.ts (SdpCertificate: the problem
+ * in words, primal and dual points, their objectives, the gap, the certified bracket `bounds` and its
+ * `accuracy`), which kernel-bridge/rhosigma/certificates.py re-checks with numpy alone, and `note`
+ * whenever the solver's status is not 'optimal' or the value needs another caveat (tiny β, a support
+ * decision near its threshold). A bracket too wide is a RhoError 'solver-failed' carrying it.
  *
  * Size limits (RhoError 'too-large'): the Schur complement of these SDPs is dense in the number of
  * constraints, so each op caps the dimension where one request would take minutes and gigabytes.
@@ -129,6 +129,7 @@ defineOp({
       value: writeNumber(r.value),
       epsilon,
       smoothed: writeMatrix(r.smoothed),
+      lambda: writeNumber(r.lambda),
       rootFidelity: r.rootFidelity,
       insideSupport: r.insideSupport,
       certificate: writeCertificate(r.certificate),

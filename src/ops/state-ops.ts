@@ -13,6 +13,7 @@
  * eigendecomposition (src/linalg), the α-z divergence itself (src/quantities).
  * Cost: one Hermitian eigendecomposition O(n³) per check or clip; the region op O(points).
  */
+import { alphaZBand } from '../quantities/alpha-z-region.js';
 import { CMatrix, frobeniusNorm, hermitianPart, hermiticityDefect, mul, adjoint, scale, sub, trace } from '../linalg/cmatrix.js';
 import { eigh, eigvalsh } from '../linalg/eigh.js';
 import { fromSpectrum } from '../linalg/functions.js';
@@ -191,14 +192,8 @@ defineOp({
 const REGION_SOURCE =
   'H. Zhang, "From Wigner-Yanase-Dyson conjecture to Carlen-Frank-Lieb conjecture", Adv. Math. 365 (2020) 107053, Theorem 1.2: D_{α,z} satisfies data processing for all states and channels if and only if 0 < α < 1 and z ≥ max(α, 1 − α), or 1 < α ≤ 2 and α/2 ≤ z ≤ α, or 2 ≤ α < ∞ and α − 1 ≤ z ≤ α (the "only if" part with earlier work of Audenaert–Datta and Carlen–Frank–Lieb). α = 1 is the limit, the Umegaki relative entropy, which satisfies it (Lindblad 1975).';
 
-/** The z-interval [low, high] (high = Infinity when unbounded) of the region at α, or null outside α's range. */
-export function regionAt(alpha: number): { low: number; high: number } | null {
-  if (!(alpha > 0)) return null;
-  if (alpha < 1) return { low: Math.max(alpha, 1 - alpha), high: Infinity };
-  if (alpha === 1) return { low: 0, high: Infinity };
-  if (alpha <= 2) return { low: alpha / 2, high: alpha };
-  return { low: alpha - 1, high: alpha };
-}
+/** The z-interval [low, high] of the region at α: the engine's one statement of it (quantities/alpha-z-region.ts). */
+export const regionAt = alphaZBand;
 
 /** The α-intervals where (α, z) lies in the region, for fixed z > 0, clipped to [lo, hi]; merged. */
 function alphaIntervals(z: number, lo: number, hi: number): [number, number][] {

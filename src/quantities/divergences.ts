@@ -63,6 +63,7 @@ import { gradedSvd, scaledEigenDeviations } from '../linalg/graded.js';
 import { RhoError } from '../errors.js';
 import { analysePair, PairAnalysis, logSumExp, logOfBase, checkOrder } from './divergence-kit.js';
 import { measuredRenyiDivergence, MeasuredOptions } from './measured.js';
+import { alphaZDataProcessing } from './alpha-z-region.js';
 
 export type DivergenceFamily = 'umegaki' | 'petz' | 'sandwiched' | 'alpha-z' | 'geometric' | 'max' | 'min' | 'measured';
 
@@ -403,17 +404,8 @@ export function petzRenyiDivergence(rho: CMatrix, sigma: CMatrix, alpha: number,
 // ---------------------------------------------------------------------------------------------
 // Sandwiched and α-z Rényi (sandwiched is α-z with z = α)
 
-/**
- * Whether (α, z) lies in the region where D_{α,z} satisfies the data-processing inequality
- * (Zhang 2020, Theorem 1.2): 0 < α < 1 and z ≥ max(α, 1 − α), or α > 1 and max(α/2, α − 1) ≤ z ≤ α.
- * α = 1 (Umegaki) counts as inside.
- */
-export function alphaZDataProcessing(alpha: number, z: number): boolean {
-  if (alpha === 1) return true;
-  if (alpha > 0 && alpha < 1) return z >= Math.max(alpha, 1 - alpha);
-  if (alpha > 1) return z >= Math.max(alpha / 2, alpha - 1) && z <= alpha;
-  return false;
-}
+// The region where D_{α,z} satisfies data processing: one function, in alpha-z-region.ts.
+export { alphaZDataProcessing };
 
 /** log Q/(α − 1) for Q = Tr (σ^{(1−α)/2z} ρ^{α/z} σ^{(1−α)/2z})^z, with the cases of the header. */
 function alphaZValue(rho: CMatrix, p: PairAnalysis, alpha: number, z: number, r: DivergenceResult, lb: number, what: string): DivergenceResult {

@@ -9,3 +9,4 @@ export * from './metrics.js';
 export * from './fisher.js';
 export * from './expectation.js';
 export * from './conditional.js';
+export { alphaZRegion, alphaZBand, type AlphaZRegion } from './alpha-z-region.js';

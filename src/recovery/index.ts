@@ -6,3 +6,7 @@
 export * from './tripartite.js';
 export * from './petz.js';
 export * from './fidelity-of-recovery.js';
+export * from './petz-map.js';
+export * from './data-processing.js';
+export * from './markov-structure.js';
+export * from './commuting-square.js';

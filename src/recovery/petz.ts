@@ -21,14 +21,17 @@
  * Kraus form: K_c = ρ_BC^{(1+it)/2} (ρ_B^{−(1+it)/2} ⊗ |c⟩), c = 1..d_C, since X ⊗ 1_C =
  * Σ_c (1 ⊗ |c⟩) X (1 ⊗ ⟨c|).
  *
+ * The map itself is the general Petz map of petz-map.ts for σ = ρ_BC and N = Tr_C.
  * Deliberately not here: the fidelity of recovery (an optimisation over all channels;
- * fidelity-of-recovery.ts), the twirled/averaged universal map as one channel.
+ * fidelity-of-recovery.ts), the averaged universal map (petz-map.ts).
  * Cost: two Hermitian eigendecompositions (d_B, d_B d_C), d_C Kraus operators of size d_B d_C × d_B,
  * and applying them to ρ_AB: O(d_C · d_A² d_B² · d_B d_C) for the recovered state; one fidelity
  * O((d_A d_B d_C)³).
  */
-import { CMatrix, columns, eigh, hermitianPart, kron, mul, outer, partialTrace, scale, zeros, trace } from '../linalg/index.js';
-import { complexPower, zeroThreshold, DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
+import { CMatrix, hermitianPart, partialTrace, trace } from '../linalg/index.js';
+import { DEFAULT_SUPPORT_TOLERANCE } from '../linalg/functions.js';
+import { partialTraceChannel } from '../quantum/presets.js';
+import { rotatedPetzMap } from './petz-map.js';
 import type { Channel, State } from '../quantum/types.js';
 import { applyChannel } from '../quantum/channels.js';
 import { fidelity } from '../quantities/fidelity.js';
@@ -63,45 +66,17 @@ export interface PetzMap {
  * as a channel in Kraus form.
  */
 export function petzRecoveryMap(rhoBC: CMatrix, dB: number, dC: number, options: PetzMapOptions = {}): PetzMap {
-  const t = options.t ?? 0;
+  // The general map of petz-map.ts with σ = ρ_BC and N = Tr_C (Kraus 1_B ⊗ ⟨c|): its Kraus operators
+  // are exactly ρ_BC^{(1+it)/2} (ρ_B^{−(1+it)/2} ⊗ |c⟩), and its completion the one described above.
   const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
-  const complete = options.complete ?? true;
-  const bc = hermitianPart(rhoBC);
-  const rhoB = hermitianPart(partialTrace(bc, [dB, dC], [1]));
-  const eigB = eigh(rhoB, { vectors: true });
-  const eigBC = eigh(bc, { vectors: true });
-  const left = complexPower(eigBC, 0.5, t, tol); // ρ_BC^{(1+it)/2}
-  const inner = complexPower(eigB, -0.5, t, tol); // ρ_B^{−(1+it)/2}
-  const kraus: CMatrix[] = [];
-  for (let c = 0; c < dC; c++) {
-    // ρ_BC^{(1+it)/2} (ρ_B^{−(1+it)/2} ⊗ |c⟩).
-    const ket = zeros(dC, 1);
-    ket.re[c] = 1;
-    kraus.push(mul(left.matrix, kron(inner.matrix, ket)));
-  }
-  const kernelDimension = dB - inner.rank;
-  if (complete && kernelDimension > 0) {
-    // X ↦ Tr(Q X) ρ_BC: Kraus √μ_j |w_j⟩⟨e_k| over eigenpairs (μ_j, w_j) of ρ_BC and kernel vectors e_k of ρ_B.
-    const thrB = zeroThreshold(eigB.values, tol);
-    const thrBC = zeroThreshold(eigBC.values, tol);
-    const VB = eigB.vectors!;
-    const VBC = eigBC.vectors!;
-    eigBC.values.forEach((mu, j) => {
-      if (!(mu > thrBC && mu > 0)) return;
-      const s = Math.sqrt(mu);
-      eigB.values.forEach((lam, k) => {
-        if (lam > thrB && lam > 0) return;
-        kraus.push(scale(outer(columns(VBC, [j]), columns(VB, [k])), s));
-      });
-    });
-  }
+  const r = rotatedPetzMap(rhoBC, partialTraceChannel([dB, dC], [1]), options.t ?? 0, { tol, complete: options.complete ?? true });
   return {
-    channel: { kraus, fromDims: [dB], toDims: [dB, dC] },
+    channel: r.channel,
     diagnostics: {
-      rankB: inner.rank,
-      rankBC: left.rank,
-      smallestKeptB: inner.smallest,
-      kernelDimension,
+      rankB: r.diagnostics.rankImage,
+      rankBC: r.diagnostics.rankSigma,
+      smallestKeptB: r.diagnostics.smallestKeptImage,
+      kernelDimension: r.diagnostics.kernelDimension,
       supportTolerance: tol,
     },
   };

@@ -11,7 +11,7 @@ import {
   CMatrix, add, combine, eigh, fromRows, hermitianPart, identity, maxAbs, sub, traceOfProductRe, zeros,
 } from '../../src/linalg/index.js';
 import {
-  allOrders, guessworkClassical, guessworkWithSideInformation, orderCost, type QuantumGuesswork,
+  allOrders, guessworkClassical, guessworkAllOrders, orderCost, type QuantumGuesswork,
 } from '../../src/guessing/guesswork.js';
 import { RhoError } from '../../src/errors.js';
 import { handle } from '../../src/ops/handle.js';
@@ -93,14 +93,14 @@ describe('guesswork without side information', () => {
   });
 });
 
-describe('guesswork with quantum side information', () => {
+describe('guesswork with quantum side information by the plain SDP over all orders (the cross-check of the column generation)', () => {
   it('side information in one state for every symbol is useless: the value equals the guesswork without side information (definition)', () => {
     const r = rng(202);
     for (const [n, d, k] of [[3, 2, 1], [4, 2, 2], [3, 3, 0.5]] as const) {
       const p = randomDistribution(n, r);
       const rho = randomDensity(d, r);
       const states = Array(n).fill(rho);
-      const g = guessworkWithSideInformation(p, states, { moment: k });
+      const g = guessworkAllOrders(p, states, { moment: k });
       checkSolve(g, p, states, `n=${n}, d=${d}, k=${k}`);
       relClose(g.value, guessworkClassical(p, k).value, 1e-7, `n=${n}, d=${d}, k=${k}`);
     }
@@ -123,7 +123,7 @@ describe('guesswork with quantum side information', () => {
     ];
     for (const { p, states } of cases) {
       for (const k of [1, 2]) {
-        const g = guessworkWithSideInformation(p, states, { moment: k });
+        const g = guessworkAllOrders(p, states, { moment: k });
         checkSolve(g, p, states, `|X|=${p.length}, k=${k}`);
         relClose(g.value, 1, 1e-7, `|X|=${p.length}, k=${k}`);
       }
@@ -147,7 +147,7 @@ describe('guesswork with quantum side information', () => {
       const rad = Math.sqrt(((a.re[0] - a.re[3]) / 2) ** 2 + a.re[1] ** 2 + a.im[1] ** 2);
       const pGuess = 0.5 * (1 + Math.abs(half + rad) + Math.abs(half - rad));
       for (const k of [1, 2.5]) {
-        const g = guessworkWithSideInformation(p, states, { moment: k });
+        const g = guessworkAllOrders(p, states, { moment: k });
         checkSolve(g, p, states, `instance ${t}, k=${k}`);
         relClose(g.value, 1 + (2 ** k - 1) * (1 - pGuess), 1e-7, `instance ${t}, k=${k}`);
       }
@@ -159,7 +159,7 @@ describe('guesswork with quantum side information', () => {
     for (let t = 0; t < 3; t++) {
       const p = randomDistribution(3, r);
       const states = [0, 1, 2].map(() => randomDensity(2, r));
-      const g = guessworkWithSideInformation(p, states, { moment: 1 });
+      const g = guessworkAllOrders(p, states, { moment: 1 });
       checkSolve(g, p, states, `instance ${t}`);
       // The dual lower bound is a value no strategy beats; the headline value carries the solver's residuals.
       assert.ok(g.certificate.lowerBound <= g.withoutSideInformation + 1e-12, `instance ${t}: lower bound ${g.certificate.lowerBound} > ${g.withoutSideInformation}`);
@@ -172,11 +172,11 @@ describe('guesswork with quantum side information', () => {
     const p = randomDistribution(3, r);
     const states = [0, 1, 2].map(() => randomDensity(2, r));
     const extra = randomDensity(2, r);
-    const base = guessworkWithSideInformation(p, states);
+    const base = guessworkAllOrders(p, states);
     // Seven symbols, four of probability zero: only 3! orders are searched.
     const p7 = [0, p[0], 0, p[1], 0, p[2], 0];
     const s7 = [extra, states[0], extra, states[1], extra, states[2], extra];
-    const g = guessworkWithSideInformation(p7, s7);
+    const g = guessworkAllOrders(p7, s7);
     checkSolve(g, p7, s7, 'seven symbols');
     assert.equal(g.ordersSearched, 6);
     assert.deepEqual(g.zeroProbabilitySymbols, [0, 2, 4, 6]);
@@ -187,14 +187,14 @@ describe('guesswork with quantum side information', () => {
   it('refuses more than six symbols of nonzero probability (too-large), states of different sizes, non-density matrices, and a count mismatch', () => {
     const code = (c: string) => (e: unknown) => e instanceof RhoError && e.code === c;
     const q = fromRows([[1]]);
-    assert.throws(() => guessworkWithSideInformation(Array(7).fill(1 / 7), Array(7).fill(q)), code('too-large'));
+    assert.throws(() => guessworkAllOrders(Array(7).fill(1 / 7), Array(7).fill(q)), code('too-large'));
     const h = fromRows([[0.5, 0], [0, 0.5]]);
-    assert.throws(() => guessworkWithSideInformation([0.5, 0.5], [h, fromRows([[1, 0, 0], [0, 0, 0], [0, 0, 0]])]), code('dimension-mismatch'));
-    assert.throws(() => guessworkWithSideInformation([0.5, 0.5], [h]), code('dimension-mismatch'));
-    assert.throws(() => guessworkWithSideInformation([0.5, 0.5], [h, fromRows([[1.2, 0], [0, -0.2]])]), code('not-positive'));
-    assert.throws(() => guessworkWithSideInformation([0.5, 0.5], [h, fromRows([[0.6, 0], [0, 0.6]])]), code('trace-not-one'));
-    assert.throws(() => guessworkWithSideInformation([0.7, 0.5], [h, h]), code('invalid-argument'));
-    assert.throws(() => guessworkWithSideInformation([0.5, 0.5], [h, h], { moment: -1 }), code('invalid-argument'));
+    assert.throws(() => guessworkAllOrders([0.5, 0.5], [h, fromRows([[1, 0, 0], [0, 0, 0], [0, 0, 0]])]), code('dimension-mismatch'));
+    assert.throws(() => guessworkAllOrders([0.5, 0.5], [h]), code('dimension-mismatch'));
+    assert.throws(() => guessworkAllOrders([0.5, 0.5], [h, fromRows([[1.2, 0], [0, -0.2]])]), code('not-positive'));
+    assert.throws(() => guessworkAllOrders([0.5, 0.5], [h, fromRows([[0.6, 0], [0, 0.6]])]), code('trace-not-one'));
+    assert.throws(() => guessworkAllOrders([0.7, 0.5], [h, h]), code('invalid-argument'));
+    assert.throws(() => guessworkAllOrders([0.5, 0.5], [h, h], { moment: -1 }), code('invalid-argument'));
   });
 });
 
@@ -220,7 +220,7 @@ function compareWithCvxopt(ref: ReferenceFile, origin: string): void {
     const where = `${origin} ${c.name} (cvxopt ${ref.cvxopt}, numpy ${ref.numpy}, seed ${ref.seed})`;
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const states = c.states.map((s) => fromRows(s.re, s.im));
-    const g = guessworkWithSideInformation(c.probabilities, states, { moment: c.moment });
+    const g = guessworkAllOrders(c.probabilities, states, { moment: c.moment });
     checkSolve(g, c.probabilities, states, where);
     relClose(g.value, c.value, 1e-6, `${where}: against cvxopt's optimal value`);
   }
@@ -248,12 +248,14 @@ describe('the guesswork op', () => {
     assert.equal(a.certificate, undefined);
   });
 
-  it('with states answers the SDP value with the strategy and the certificate; |0⟩ vs |+⟩ at equal priors gives 2 − ½(1 + 1/√2) (Helstrom 1976)', () => {
+  it('with states answers the column-generation value with the strategy and the certificate; |0⟩ vs |+⟩ at equal priors gives 2 − ½(1 + 1/√2) (Helstrom 1976)', () => {
     const a = handle({ op: 'guesswork', probabilities: [0.5, 0.5], states: [[[1, 0], [0, 0]], { ket: ['1/sqrt(2)', '1/sqrt(2)'] }] }) as Record<string, any>;
     assert.equal(a.ok, true, JSON.stringify(a));
-    assert.equal(a.method, 'sdp');
+    assert.equal(a.method, 'column-generation');
+    assert.equal(a.certified, true);
     relClose(a.value, 2 - 0.5 * (1 + Math.SQRT1_2), 1e-7, 'value');
     assert.equal(a.certificate.status, 'optimal');
+    assert.equal(a.dualOperator.re.length, 2);
     for (const key of ['primalObjective', 'dualObjective', 'gap', 'relativeGap', 'primalResidual', 'dualResidual']) {
       assert.equal(typeof a.certificate[key], 'number', key);
     }
@@ -269,6 +271,11 @@ describe('the guesswork op', () => {
     const e1 = err({ probabilities: [0.5, 0.5], states: [[[1, 0], [0, 0]], [[1, 0], [0, 1]]] });
     assert.equal(e1.code, 'trace-not-one');
     assert.equal(e1.path, 'states[1]');
-    assert.equal(err({ probabilities: Array(7).fill(1 / 7), states: Array(7).fill([[1]]) }).code, 'too-large');
+    const big = err({ probabilities: Array(13).fill(1 / 13), states: Array(13).fill([[1]]) });
+    assert.equal(big.code, 'too-large');
+    assert.match(big.message, /limited to 12/);
+    assert.equal(err({ probabilities: [0.5, 0.5], gap: 1e-6 }).code, 'invalid-argument');
+    assert.equal(err({ probabilities: [0.5, 0.5], states: [[[1]], [[1]]], stopAfter: 1 }).code, 'missing-argument');
+    assert.equal(err({ probabilities: [0.5, 0.5], joint: [[0.5], [0.5]] }).code, 'invalid-argument');
   });
 });

@@ -3,7 +3,7 @@
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import {
-  eigvalsh, kron, marginal, mul, sub, trace, identity,
+  adjoint, eigh, eigvalsh, kron, marginal, mul, sub, trace, identity, zeros,
 } from '../../src/linalg/index.js';
 import { RhoError } from '../../src/errors.js';
 import '../../src/ops/all.js';
@@ -109,6 +109,29 @@ describe('conditional max-entropy', () => {
       const hmax = conditionalMaxEntropy(psi, dims, [0], [1]).value;
       const hmin = conditionalMinEntropy(psi, dims, [0], [2]).value;
       assertClose(hmax, -hmin, 1e-6, `dims ${dims}`);
+    }
+  });
+
+  it('satisfies the duality H_max(A|B) = −H_min(A|C) on nearly pure ρ_AB, eigenvalues (1 − 2δ, δ, δ), δ ∈ {1e-8, 1e-6}: the certified brackets overlap (KRS 2009, Theorem 3)', () => {
+    const r = rng(54);
+    for (const delta of [1e-8, 1e-6]) {
+      // ψ_ABC = Σ_k √λ_k |u_k⟩_AB |k⟩_C with orthonormal u_k (eigenvectors of a random state on AB).
+      const u = eigh(randomDensity(4, r), { vectors: true }).vectors!;
+      const lam = [1 - 2 * delta, delta, delta];
+      const psi = zeros(12, 1);
+      for (let k = 0; k < 3; k++) {
+        for (let i = 0; i < 4; i++) {
+          psi.re[i * 3 + k] = Math.sqrt(lam[k]) * u.re[i * 4 + k];
+          psi.im[i * 3 + k] = Math.sqrt(lam[k]) * u.im[i * 4 + k];
+        }
+      }
+      const rho = mul(psi, adjoint(psi));
+      const hmax = conditionalMaxEntropy(rho, [2, 2, 3], [0], [1]);
+      const hmin = conditionalMinEntropy(rho, [2, 2, 3], [0], [2]);
+      const a = hmax.certificate.bounds;
+      const b = hmin.certificate.bounds;
+      assert.ok(a.lower <= -b.lower && -b.upper <= a.upper, `δ=${delta}: H_max ∈ [${a.lower}, ${a.upper}], −H_min ∈ [${-b.upper}, ${-b.lower}]`);
+      assertClose(hmax.value, -hmin.value, 1e-6, `δ=${delta}`);
     }
   });
 

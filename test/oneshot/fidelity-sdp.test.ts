@@ -3,7 +3,7 @@
 // fidelity-sdp op.
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { hermitianPart, eigvalsh, zeros, toRows } from '../../src/linalg/index.js';
+import { hermitianPart, eigvalsh, zeros, toRows, diagonal } from '../../src/linalg/index.js';
 import { fidelity } from '../../src/quantities/fidelity.js';
 import { fidelitySdp } from '../../src/oneshot/fidelity-sdp.js';
 import '../../src/ops/guessing-ops.js';
@@ -43,10 +43,30 @@ describe('fidelity as an SDP: √F = max Re Tr X s.t. [[ρ, X], [X*, σ]] ⪰ 0 
       put(i, n + j, s.offDiagonal.re[i * n + j], s.offDiagonal.im[i * n + j]);
       put(n + j, i, s.offDiagonal.re[i * n + j], -s.offDiagonal.im[i * n + j]);
     }
-    assert.ok(eigvalsh(hermitianPart(big))[0] >= -1e-8);
+    assert.ok(eigvalsh(hermitianPart(big))[0] >= -1e-14, 'the returned X is feasible to rounding (it is the shrunk point)');
     let tr = 0;
     for (let i = 0; i < n; i++) tr += s.offDiagonal.re[i * n + i];
-    assert.ok(Math.abs(tr - s.root) <= 1e-9);
+    // Re Tr X is the certified lower bound of √F: within the certified accuracy of the value.
+    const b = s.certificate.bounds;
+    assert.ok(tr >= Math.sqrt(b.lower) - 1e-15 && tr <= Math.sqrt(b.upper) + 1e-15, `Re Tr X = ${tr}, bracket of √F [${Math.sqrt(b.lower)}, ${Math.sqrt(b.upper)}]`);
+    assert.ok(Math.abs(tr - s.root) <= Math.sqrt(b.upper) - Math.sqrt(b.lower) + 1e-15);
+  });
+
+  it('of commuting nearly orthogonal states is the Bhattacharyya coefficient squared, (Σ √(p_i q_i))², bracketed (Nielsen & Chuang §9.2.2): diag(1 − 2e-8, 1e-8, 1e-8) and diag(1e-8, 1e-8, 1 − 2e-8)', () => {
+    const rho = diagonal([1 - 2e-8, 1e-8, 1e-8]);
+    const sigma = diagonal([1e-8, 1e-8, 1 - 2e-8]);
+    const root = 2 * Math.sqrt((1 - 2e-8) * 1e-8) + 1e-8;
+    const exact = root * root;
+    const s = fidelitySdp(rho, sigma);
+    const b = s.certificate.bounds;
+    assert.ok(b.lower <= exact && exact <= b.upper, `exact ${exact} outside [${b.lower}, ${b.upper}]`);
+    assert.ok(Math.abs(s.value - exact) <= 1e-6 * exact, `${s.value} vs ${exact}`);
+    const X = s.offDiagonal;
+    // |X_ij|² ≤ ρ_ii σ_jj for a positive semidefinite block (2×2 minors).
+    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) {
+      const x2 = X.re[i * 3 + j] ** 2 + X.im[i * 3 + j] ** 2;
+      assert.ok(x2 <= rho.re[i * 4] * sigma.re[j * 4] * (1 + 1e-12), `X_${i}${j} exceeds √(ρ_ii σ_jj)`);
+    }
   });
 
   it('is 0 for states with orthogonal supports (Nielsen & Chuang §9.2.2)', () => {

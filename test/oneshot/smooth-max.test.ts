@@ -17,8 +17,9 @@ function check(ref: OneShotReference, label: string): void {
     const where = origin(ref, c, label);
     assert.equal(c.cvxoptStatus, 'optimal', `${where}: cvxopt status`);
     const ans = smoothMaxRelativeEntropy(matrixOf(c.rho), matrixOf(c.sigma!), c.epsilon!);
-    assert.equal(ans.certificate.status, 'optimal', `${where}: our status`);
-    assert.ok(ans.certificate.relativeGap <= 1e-7, `${where}: duality gap ${ans.certificate.relativeGap}`);
+    const b = ans.certificate.bounds;
+    assert.ok(ans.certificate.accuracy.relative <= 1e-5, `${where}: certified to ${ans.certificate.accuracy.relative}`);
+    assert.ok(b.lower <= c.value + 1e-9 * Math.abs(c.value) + 1e-12 && c.value <= b.upper + 1e-9 * Math.abs(c.value) + 1e-12, `${where}: cvxopt's ${c.value} outside [${b.lower}, ${b.upper}]`);
     assertClose(ans.value, c.value, 1e-6, where);
   }
 }
@@ -67,7 +68,7 @@ describe('smooth max-relative entropy', () => {
       const eps = 0.05 + 0.3 * r();
       const ans = smoothMaxRelativeEntropy(rho, sigma, eps);
       const c = ans.certificate;
-      assert.ok(c.relativeGap <= 1e-7 && c.primalResidual <= 1e-7 && c.dualResidual <= 1e-7, JSON.stringify(c));
+      assert.ok(c.accuracy.relative <= 1e-5, JSON.stringify(c.accuracy));
       assert.ok(trace(ans.smoothed).re <= 1 + 1e-7 && eigvalsh(ans.smoothed)[0] >= -1e-7, 'ρ̃ is subnormalised');
       assert.ok(fidelity(rho, ans.smoothed).root >= Math.sqrt(1 - eps * eps) - 1e-6, 'ρ̃ lies in the purified-distance ball');
       const slack = eigvalsh(sub(scale(sigma, 2 ** ans.value), ans.smoothed));
@@ -84,6 +85,42 @@ describe('smooth max-relative entropy', () => {
     // ρ̃ = p|0⟩⟨0| has ‖√ρ√ρ̃‖₁ = √(p/2) ≥ √(1 − 0.64) = 0.6 iff p ≥ 0.72, and D_max(ρ̃‖σ) = log p.
     const fin = smoothMaxRelativeEntropy(rho, sigma, 0.8);
     assertClose(fin.value, Math.log2(0.72), 1e-6, 'ε = 0.8');
+  });
+
+  it('brackets log(1 − ε²) for ρ = σ at both ends of ε, ε ∈ {1e-9, 1e-6, 1e-3, 0.999, 1 − 1e-6, 1 − 1e-9} (closed form derived above; 1 − ε² as (1 − ε)(1 + ε))', () => {
+    const r = rng(64);
+    for (const d of [2, 4]) {
+      const rho = randomDensity(d, r);
+      for (const eps of [1e-9, 1e-6, 1e-3, 0.999, 1 - 1e-6, 1 - 1e-9]) {
+        const exact = Math.log2((1 - eps) * (1 + eps));
+        const ans = smoothMaxRelativeEntropy(rho, rho, eps);
+        const b = ans.certificate.bounds;
+        assert.ok(b.lower <= exact && exact <= b.upper, `d=${d} ε=${eps}: exact ${exact} outside [${b.lower}, ${b.upper}]`);
+        assert.ok(Math.abs(ans.value - exact) <= 1e-6 * Math.abs(exact) + 1e-9, `d=${d} ε=${eps}: ${ans.value} vs ${exact}`);
+      }
+    }
+  });
+
+  it('returns ρ̃ inside the ball to rounding even for ε = 1e-6 (‖√ρ√ρ̃‖₁ ≥ √(1 − ε²) − 1e-14), and its λ fits: λσ − ρ̃ ⪰ 0 (the definition)', () => {
+    const r = rng(65);
+    for (let k = 0; k < 3; k++) {
+      const rho = randomDensity(3, r);
+      const sigma = randomDensity(3, r);
+      for (const eps of [1e-6, 1e-3, 1 - 1e-6]) {
+        const ans = smoothMaxRelativeEntropy(rho, sigma, eps);
+        assert.ok(fidelity(rho, ans.smoothed).root >= Math.sqrt((1 - eps) * (1 + eps)) - 1e-14, `ε=${eps}: root fidelity ${fidelity(rho, ans.smoothed).root}`);
+        const slack = eigvalsh(sub(scale(sigma, ans.lambda), ans.smoothed));
+        assert.ok(slack[0] >= -1e-14 * ans.lambda, `ε=${eps}: λσ − ρ̃ has eigenvalue ${slack[0]}`);
+        assert.ok(Math.log2(ans.lambda) >= ans.value - 1e-12, 'the value does not exceed what ρ̃ gives');
+      }
+    }
+  });
+
+  it('at the degenerate boundary Tr Π_σ ρ = 1 − ε² takes the single feasible state: ρ = I/2, σ = |0⟩⟨0|, ε = 1/√2 gives 0 (derived: ρ̃ = |0⟩⟨0|)', () => {
+    const ans = smoothMaxRelativeEntropy(diagonal([0.5, 0.5]), diagonal([1, 0]), Math.SQRT1_2);
+    const b = ans.certificate.bounds;
+    assert.ok(b.lower <= 0 && 0 <= b.upper && b.upper - b.lower <= 1e-9, JSON.stringify(b));
+    assert.ok(Math.abs(ans.value) <= 1e-9);
   });
 
   it('refuses ε outside (0, 1)', () => {
