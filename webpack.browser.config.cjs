@@ -35,7 +35,7 @@ function browserConfig(o) {
           test: /\.ts$/,
           loader: 'ts-loader',
           exclude: /node_modules/,
-          options: { transpileOnly: true, configFile: path.resolve(__dirname, 'tsconfig.dom.json'), compilerOptions: { sourceMap: false, declaration: false } },
+          options: { transpileOnly: true, configFile: path.resolve(__dirname, 'tsconfig.dom.json'), compilerOptions: { sourceMap: false, declaration: false, module: 'es2022', moduleResolution: 'bundler' } },
         },
       ],
     },

@@ -1,0 +1,92 @@
+/**
+ * The components in Chromium (issue 8's speed goals), on the test page of test/browser/ui-page with the
+ * real engine worker:
+ *  1. an edit of a two-qubit state (one entry typed, an `input` event) until the divergence calculator
+ *     shows every family's value again (its `computed` promise; the curve is timed apart): median against
+ *     one 16 ms frame, beside the worker's bare round trip for a 2×2 entropy measured in the same run;
+ *  2. during a solve of about ten seconds in the worker (fidelity-of-recovery SDPs one after another),
+ *     with an entry typed every 100 ms, the main thread's long tasks (PerformanceObserver 'longtask',
+ *     over 50 ms): their count and the longest.
+ * Prints medians only; asserts nothing. Needs /usr/bin/chromium. Cost: about a minute (the page's build
+ * is half of it).
+ */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium } from 'playwright-core';
+import { serveFolder } from '../test/helpers/static-server.js';
+
+const require = createRequire(import.meta.url);
+const { bundleUiPage } = require('../scripts/bundle-ui-page.cjs') as { bundleUiPage: (dir: string) => Promise<string> };
+const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
+
+export default async function main(): Promise<void> {
+  const work = mkdtempSync(join(tmpdir(), 'rhosigma-bench-ui-'));
+  const served = await serveFolder(await bundleUiPage(join(work, 'site')));
+  const context = await chromium.launchPersistentContext(join(work, 'profile'), { executablePath: '/usr/bin/chromium', headless: true, args: ARGS });
+  try {
+    const page = context.pages()[0] ?? (await context.newPage());
+    // tsx (esbuild, keepNames) wraps named functions in the callback below with __name: give the page one.
+    await page.addInitScript('window.__name = (f) => f;');
+    await page.goto(served.url);
+    await page.waitForSelector('body[data-ready="true"]');
+    // Let the worker's warm-up finish (it pauses while requests run, so give it idle time).
+    await page.waitForTimeout(8000);
+    const r = await page.evaluate(async () => {
+      const rs = (window as any).rs;
+      const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+      const input = document.querySelector<HTMLInputElement>('#rho input.rs-cell[data-row="0"][data-col="0"]')!;
+      const other = document.querySelector<HTMLInputElement>('#rho input.rs-cell[data-row="1"][data-col="1"]')!;
+      const edit: number[] = [];
+      const curve: number[] = [];
+      const trip: number[] = [];
+      for (let k = 0; k < 30; k++) {
+        const t = performance.now();
+        await rs.engine.compute({ op: 'entropy', rho: { matrix: [[0.5, 0], [0, 0.5]] } });
+        trip.push(performance.now() - t);
+      }
+      for (let k = 0; k < 30; k++) {
+        // Two entries that keep the trace 1: ρ₀₀ = 0.4 ± δ, ρ₁₁ = 0.2 ∓ δ.
+        const d = k % 2 ? 0.01 : 0;
+        input.value = String(0.4 + d);
+        other.value = String(0.2 - d);
+        const t0 = performance.now();
+        other.dispatchEvent(new Event('input'));
+        await rs.divergence.computed;
+        await new Promise(requestAnimationFrame);
+        edit.push(performance.now() - t0);
+        await rs.divergence.drawn;
+        curve.push(performance.now() - t0);
+      }
+      // 2. Long tasks during a ~10 s solve.
+      const long: number[] = [];
+      const obs = new PerformanceObserver((list) => { for (const e of list.getEntries()) long.push(e.duration); });
+      obs.observe({ type: 'longtask', buffered: false });
+      const st = await rs.engine.compute({ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2, 2, 4], seed: 5 });
+      const t0 = performance.now();
+      let solves = 0;
+      const typing = setInterval(() => {
+        input.value = String(0.4 + (Math.random() < 0.5 ? 0.01 : 0));
+        input.dispatchEvent(new Event('input'));
+      }, 100);
+      while (performance.now() - t0 < 10_000) {
+        await rs.engine.compute({ op: 'fidelity-of-recovery', rho: st.value, a: [0], b: [1], c: [2] });
+        solves++;
+      }
+      clearInterval(typing);
+      const span = performance.now() - t0;
+      await new Promise((res) => setTimeout(res, 200));
+      obs.disconnect();
+      return { edit: median(edit), curve: median(curve), trip: median(trip), long, window: span, solves };
+    });
+    console.log(`round trip to the worker (2×2 entropy): median ${r.trip.toFixed(2)} ms`);
+    console.log(`edit of a two-qubit ρ → all 7 divergence families shown: median ${r.edit.toFixed(2)} ms (${(r.edit / 16).toFixed(2)} frames of 16 ms; ${(r.edit / r.trip).toFixed(1)}× the round trip)`);
+    console.log(`edit → the curve over α (20 points) drawn: median ${r.curve.toFixed(2)} ms`);
+    console.log(`during ${(r.window / 1000).toFixed(1)} s of solves (${r.solves} fidelity-of-recovery SDPs) with an entry typed every 100 ms: ${r.long.length} main-thread tasks over 50 ms${r.long.length ? `, longest ${Math.max(...r.long).toFixed(0)} ms` : ''}`);
+  } finally {
+    await context.close();
+    await served.close();
+    rmSync(work, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,183 @@
+/**
+ * DivergenceCalculator: D(ρ‖σ) of a chosen family (Umegaki, Petz, sandwiched, α-z, geometric, max,
+ * min, measured) at α and z, with its defining formula typeset by KaTeX, every family's value at the
+ * same parameters side by side, and the curve of the chosen family over α (Vega-Lite) with the α-interval
+ * where the α-z family is known to satisfy data processing shaded (op `data-processing-region`,
+ * H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
+ *
+ * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
+ * Settings (`value`): { family, alpha, z, base, curve }.
+ *
+ * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
+ * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
+ */
+import katex from 'katex';
+import type { View } from 'vega';
+import type { Answer } from '../worker/types.js';
+import { el, field, formatNumber, setChildren } from './dom.js';
+import { baseText, Calculator, numberControl, resultCard, selectControl, type CalculatorOptions, type NamedRequest } from './calculator.js';
+import { renderChart } from './plot.js';
+import type { StateValue } from './state-editor.js';
+
+export interface DivergenceInputs {
+  rho: StateValue;
+  sigma: StateValue;
+}
+
+export interface DivergenceSettings {
+  family: string;
+  alpha: number;
+  z: number;
+  base: 2 | 'e';
+  /** Draw the curve over α (default true). */
+  curve: boolean;
+}
+
+/** The families, whether they take α (and z), and their defining formulas (standard forms of the literature). */
+export const FAMILIES: { name: string; label: string; alpha: boolean; z?: boolean; tex: string }[] = [
+  { name: 'umegaki', label: 'Umegaki relative entropy', alpha: false, tex: String.raw`D(\rho\|\sigma) = \operatorname{Tr}\rho\,(\log\rho - \log\sigma)` },
+  { name: 'petz', label: 'Petz Rényi', alpha: true, tex: String.raw`\bar D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\rho^\alpha\sigma^{1-\alpha}}{\operatorname{Tr}\rho}` },
+  { name: 'sandwiched', label: 'Sandwiched Rényi', alpha: true, tex: String.raw`\tilde D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2\alpha}}\rho\,\sigma^{\frac{1-\alpha}{2\alpha}}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
+  { name: 'alpha-z', label: 'α-z Rényi', alpha: true, z: true, tex: String.raw`D_{\alpha,z}(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2z}}\rho^{\frac{\alpha}{z}}\sigma^{\frac{1-\alpha}{2z}}\big)^{z}}{\operatorname{Tr}\rho}` },
+  { name: 'geometric', label: 'Geometric Rényi', alpha: true, tex: String.raw`\hat D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\sigma\big(\sigma^{-\frac12}\rho\,\sigma^{-\frac12}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
+  { name: 'max', label: 'Max-relative entropy', alpha: false, tex: String.raw`D_{\max}(\rho\|\sigma) = \log\min\{\lambda : \rho \le \lambda\sigma\}` },
+  { name: 'min', label: 'Min-relative entropy', alpha: false, tex: String.raw`D_{\min}(\rho\|\sigma) = -\log\operatorname{Tr}\Pi_\rho\,\sigma` },
+  { name: 'measured', label: 'Measured relative entropy', alpha: false, tex: String.raw`D^{\mathbb M}(\rho\|\sigma) = \sup_{\{M_x\}} \sum_x \operatorname{Tr}\rho M_x \log\frac{\operatorname{Tr}\rho M_x}{\operatorname{Tr}\sigma M_x}` },
+];
+
+/** Families shown side by side (measured is left out: it is an optimisation, on demand only). */
+const TABLE = ['umegaki', 'petz', 'sandwiched', 'alpha-z', 'geometric', 'max', 'min'];
+
+/** The α of the curve: the parameters asked for (not computed values). */
+const CURVE_ALPHAS = [0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 0.95, 1.05, 1.1, 1.25, 1.5, 1.75, 2, 2.25, 2.5, 2.75, 3];
+
+export class DivergenceCalculator extends Calculator<DivergenceInputs, DivergenceSettings> {
+  private familySelect: HTMLSelectElement;
+  private alphaInput: HTMLInputElement;
+  private zInput: HTMLInputElement;
+  private baseSelect: HTMLSelectElement;
+  private formula: HTMLElement;
+  private chart: HTMLElement;
+  private view: View | null = null;
+  private chartSeq = 0;
+  /** Resolves when the newest chart has been drawn. */
+  drawn: Promise<void> = Promise.resolve();
+
+  constructor(host: HTMLElement, options: CalculatorOptions<DivergenceInputs, DivergenceSettings>) {
+    super(host, options, { family: 'sandwiched', alpha: 2, z: 1, base: 2, curve: true }, 'divergence', 'Divergence');
+    this.familySelect = selectControl(FAMILIES.map((f) => [f.name, f.label]), (v) => this.setSetting('family', v));
+    this.alphaInput = numberControl({ min: 0, step: 0.05 }, (v) => this.setSetting('alpha', v));
+    this.zInput = numberControl({ min: 0, step: 0.05 }, (v) => this.setSetting('z', v));
+    this.baseSelect = selectControl([['2', 'bits (log₂)'], ['e', 'nats (ln)']], (v) => this.setSetting('base', v === 'e' ? 'e' : 2));
+    this.controls.append(field('Family', this.familySelect), field('α', this.alphaInput), field('z', this.zInput), field('Units', this.baseSelect));
+    this.formula = el('div', { class: 'rs-formula', 'aria-label': 'Definition' });
+    this.chart = el('div', { class: 'rs-chart', role: 'img', 'aria-label': 'The divergence over α' });
+    this.element.append(this.formula, this.chart);
+    this.start();
+  }
+
+  protected syncControls(): void {
+    const s = this.settings;
+    this.familySelect.value = s.family;
+    this.alphaInput.value = String(s.alpha);
+    this.zInput.value = String(s.z);
+    this.baseSelect.value = String(s.base);
+    const fam = FAMILIES.find((f) => f.name === s.family);
+    this.alphaInput.disabled = !fam?.alpha;
+    this.zInput.disabled = !fam?.z;
+    if (this.formula) {
+      if (fam) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
+      else setChildren(this.formula, []);
+    }
+  }
+
+  private divergence(family: string, inputs: Partial<DivergenceInputs>, s: DivergenceSettings, alpha = s.alpha): Record<string, unknown> {
+    const fam = FAMILIES.find((f) => f.name === family);
+    const r: Record<string, unknown> = { op: 'divergence', family, rho: inputs.rho, sigma: inputs.sigma, base: s.base };
+    if (fam?.alpha) r.alpha = alpha;
+    if (fam?.z) r.z = s.z;
+    return r;
+  }
+
+  protected requests(inputs: Partial<DivergenceInputs>, s: DivergenceSettings): NamedRequest[] | string {
+    if (!inputs.rho || !inputs.sigma) return 'Give ρ and σ (connect two state editors).';
+    const out: NamedRequest[] = [{ name: 'divergence', request: this.divergence(s.family, inputs, s), long: s.family === 'measured' }];
+    for (const f of TABLE) if (f !== s.family) out.push({ name: `table:${f}`, request: this.divergence(f, inputs, s) });
+    return out;
+  }
+
+  protected render(answers: { req: NamedRequest; answer: Answer }[]): void {
+    const s = this.settings;
+    const [main, ...table] = answers;
+    const fam = FAMILIES.find((f) => f.name === s.family);
+    const conventions = (a: Record<string, any>) => {
+      const c = [baseText(a, s.base)];
+      if (a.alpha !== undefined) c.push(`α = ${a.alpha}`);
+      if (a.z !== undefined) c.push(`z = ${a.z}`);
+      if (a.dataProcessing !== undefined) c.push(a.dataProcessing ? 'data processing holds at (α, z)' : 'data processing not known at (α, z)');
+      c.push('σ of any trace; infinite when the support condition fails');
+      return c;
+    };
+    const value = (a: Record<string, any>) => [formatNumber(a.value, 8)];
+    const rows = table.map(({ req, answer }) => {
+      const f = FAMILIES.find((x) => x.name === (req.request.family as string))!;
+      return el('tr', { 'data-family': f.name }, [
+        el('th', { scope: 'row' }, [f.label]),
+        el('td', { class: 'rs-number', 'data-value': answer.ok ? String((answer as Record<string, any>).value) : '' }, [answer.ok ? formatNumber((answer as Record<string, any>).value, 6) : `${answer.error.code}`]),
+      ]);
+    });
+    setChildren(this.output, [
+      resultCard(fam?.label ?? s.family, main.answer, value, conventions),
+      el('table', { class: 'rs-table', 'aria-label': 'Every family at these parameters' }, [
+        el('caption', {}, [`Other families at α = ${s.alpha}, z = ${s.z} (α-z)`]),
+        el('tbody', {}, rows),
+      ]),
+    ]);
+    if (s.curve && fam?.alpha && main.answer.ok) void this.drawCurve();
+    else {
+      this.view?.finalize();
+      this.view = null;
+      setChildren(this.chart, []);
+    }
+  }
+
+  private drawCurve(): void {
+    const seq = ++this.chartSeq;
+    const s = this.settings;
+    const inputs = this.inputs;
+    const points = CURVE_ALPHAS.map((alpha) =>
+      this.engine.compute(this.divergence(s.family, inputs, s, alpha), { key: `${this.id}:curve:${alpha}` }).then((answer) => ({ alpha, answer })));
+    const z = s.family === 'petz' ? 1 : s.family === 'alpha-z' ? s.z : null;
+    const region = z === null ? Promise.resolve(null) : this.engine.compute({ op: 'data-processing-region', z, alphaMax: 3, points: 2 }, { key: `${this.id}:region` });
+    this.drawn = Promise.all([Promise.all(points), region]).then(async ([pts, reg]) => {
+      if (seq !== this.chartSeq) return;
+      const data = pts.filter((p) => p.answer.ok && typeof (p.answer as Record<string, any>).value === 'number')
+        .map((p) => ({ alpha: p.alpha, value: (p.answer as Record<string, any>).value as number }));
+      const intervals = reg && reg.ok ? ((reg as Record<string, any>).alphaIntervals as [number, number][]).map(([a, b]) => ({ from: a, to: b })) : [];
+      const unit = s.base === 'e' ? 'nats' : 'bits';
+      const layers: object[] = [];
+      if (intervals.length) {
+        layers.push({
+          data: { values: intervals },
+          mark: { type: 'rect', opacity: 0.35, color: 'var(--band)' },
+          encoding: { x: { field: 'from', type: 'quantitative' }, x2: { field: 'to' } },
+        });
+      }
+      layers.push(
+        { data: { values: data }, mark: { type: 'line', point: true }, encoding: { x: { field: 'alpha', type: 'quantitative', title: 'α' }, y: { field: 'value', type: 'quantitative', title: `D (${unit})` } } },
+        { data: { values: [{ alpha: s.alpha }] }, mark: { type: 'rule', strokeDash: [4, 3] }, encoding: { x: { field: 'alpha', type: 'quantitative' } } },
+      );
+      const theme = getComputedStyle(this.chart);
+      const colour = (n: string, f: string) => theme.getPropertyValue(n).trim() || f;
+      for (const l of layers as { mark: { color?: string; type: string } }[]) {
+        l.mark.color = l.mark.type === 'rect' ? colour('--rs-chart-band', '#b7e4c7') : l.mark.type === 'rule' ? colour('--rs-chart-mark', '#c1121f') : colour('--rs-chart-line', '#2a6f97');
+      }
+      this.view = await renderChart(this.chart, {
+        $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+        width: 'container' as unknown as number, height: 180, layer: layers,
+      } as never, this.view);
+      this.chart.setAttribute('aria-label', `${FAMILIES.find((f) => f.name === s.family)?.label} over α from ${CURVE_ALPHAS[0]} to ${CURVE_ALPHAS[CURVE_ALPHAS.length - 1]}${intervals.length ? '; shaded: where data processing is known to hold (Zhang 2020)' : ''}`);
+      if (reg && reg.ok) this.chart.title = String((reg as Record<string, any>).source);
+    });
+  }
+}
