@@ -42,7 +42,12 @@ const staged = {
   dependencies: {},
   jupyterlab: section,
 };
-if (existsSync(path.join(root, 'style', 'index.css'))) staged.style = rel('style/index.css');
+for (const css of ['style/index.css', 'style/rhosigma.css']) {
+  if (existsSync(path.join(root, css))) {
+    staged.style = rel(css);
+    break;
+  }
+}
 mkdirSync(staging, { recursive: true });
 writeFileSync(path.join(staging, 'package.json'), JSON.stringify(staged, null, 2) + '\n');
 
