@@ -1,16 +1,18 @@
 /**
- * ChannelEditorModel / ChannelEditorView: a channel (Kraus operators, a Choi matrix or a preset; schema.ts)
- * as a Jupyter widget. The view shows the channel's form and sizes and the engine's channel-check
- * (complete positivity, trace preservation, unitality with the size of each violation), asked of the
- * page's worker on every change.
+ * ChannelEditorModel / ChannelEditorView: the channel editor of src/ui (Kraus operators, a Choi matrix or
+ * a preset with its parameters on sliders; complete positivity, trace preservation and unitality with the
+ * size of any violation, from the op channel-check) as a Jupyter widget. The model holds the channel in
+ * the protocol's form (schema.ts: `kraus` or `choi`, `input_dims`, `output_dims`); the view writes every
+ * edit into the model and `touch()`es it, re-renders from `change:` events (Python's edits), and keeps the
+ * editor's check in `check`, `valid` and `error`.
  *
- * Deliberately not here: any numerics. Not yet: the interactive editor of src/ui (ChannelEditor) — this
- * view shows the channel and its checks until it is wired in. Cost: one channel-check per change.
+ * Deliberately not here: any numerics (the worker's). Cost: that of the UI component.
  */
 import { DOMWidgetModel, DOMWidgetView } from '@jupyter-widgets/base';
-import { renderAnswerCard, type AnswerData } from './answer-card.js';
+import { ChannelEditor, type ChannelValue } from '../ui/channel-editor.js';
 import { defaultsOf, referenceSerializers } from './base.js';
 import { pageEngine } from './engine.js';
+import { rowsOf } from './matrix-form.js';
 
 export class ChannelEditorModel extends DOMWidgetModel {
   override defaults() {
@@ -19,41 +21,53 @@ export class ChannelEditorModel extends DOMWidgetModel {
   static override serializers = referenceSerializers('ChannelEditorModel');
 }
 
-/** The protocol channel of the model's fields (docs/protocol.md, "channel"). */
-export function channelOf(model: DOMWidgetModel): Record<string, unknown> {
-  const from = model.get('input_dims');
-  const to = model.get('output_dims');
+/** The model's fields as the component's value (the protocol's channel form). */
+export function channelValueOf(model: DOMWidgetModel): ChannelValue {
+  const from = model.get('input_dims') as number[];
+  const to = model.get('output_dims') as number[];
   const choi = model.get('choi');
-  if (choi !== null && choi !== undefined) return { choi, from, to };
-  return { kraus: model.get('kraus'), from, to };
+  if (choi !== null && choi !== undefined) return { choi: rowsOf(choi) ?? [], from, to };
+  const kraus = (model.get('kraus') as unknown[] | null) ?? [];
+  return { kraus: kraus.map((k) => rowsOf(k) ?? []), from, to };
 }
 
 export class ChannelEditorView extends DOMWidgetView {
-  private seq = 0;
+  private editor: ChannelEditor | null = null;
+  private writing = false;
+  private unsubscribe: (() => void)[] = [];
 
   override render(): void {
     this.el.classList.add('rs-widget', 'rs-channel-editor-widget');
-    this.refresh();
-    this.listenTo(this.model, 'change:kraus change:choi change:input_dims change:output_dims change:title', () => this.refresh());
-  }
-
-  private refresh(): void {
-    const seq = ++this.seq;
-    const summary = document.createElement('div');
-    summary.className = 'rs-channel-summary';
-    const kraus = this.model.get('kraus') as unknown[] | null;
-    const title = String(this.model.get('title') ?? '') || 'Channel';
-    summary.textContent = `${title}: ${kraus ? `${kraus.length} Kraus operator(s)` : 'Choi matrix'}, from [${this.model.get('input_dims')}] to [${this.model.get('output_dims')}]`;
-    const card = document.createElement('div');
-    this.el.replaceChildren(summary, card);
-    void pageEngine()
-      .compute({ op: 'channel-check', channel: channelOf(this.model) }, { key: `channel-check:${this.model.model_id}` })
-      .then((answer) => {
-        if (seq !== this.seq) return;
-        renderAnswerCard(card, answer as unknown as AnswerData);
-        const a = answer as { ok: boolean; error?: unknown };
+    const title = String(this.model.get('title') ?? '');
+    this.editor = new ChannelEditor(this.el, { engine: pageEngine(), value: channelValueOf(this.model), label: title || 'Channel' });
+    this.unsubscribe.push(
+      this.editor.on('change', (v) => {
+        this.writing = true;
+        try {
+          const dims = { input_dims: v.from ?? this.model.get('input_dims'), output_dims: v.to ?? this.model.get('output_dims') };
+          if ('choi' in v) this.model.set({ choi: v.choi, kraus: null, ...dims });
+          else this.model.set({ kraus: v.kraus, choi: null, ...dims });
+          this.touch();
+        } finally {
+          this.writing = false;
+        }
+      }),
+      this.editor.on('check', (answer) => {
+        const a = answer as { ok: boolean; error?: { code?: string } };
+        if (a.ok === false && a.error?.code === 'cancelled') return;
         this.model.set({ check: answer, valid: a.ok === true, error: a.ok ? null : a.error ?? null });
         this.touch();
-      });
+      }),
+    );
+    this.listenTo(this.model, 'change:kraus change:choi change:input_dims change:output_dims', () => {
+      if (!this.writing && this.editor) this.editor.value = channelValueOf(this.model);
+    });
+  }
+
+  override remove(): void {
+    for (const u of this.unsubscribe) u();
+    this.editor?.dispose();
+    this.editor = null;
+    super.remove();
   }
 }
