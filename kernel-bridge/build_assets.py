@@ -19,6 +19,7 @@ import json
 import os
 import shutil
 import subprocess
+import sys
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
@@ -32,7 +33,9 @@ def _npm(*args: str) -> None:
     if npm is None:
         raise RuntimeError("npm is needed to build the rhosigma wheel (Node.js 20 or later)")
     print(f"build_assets: npm {' '.join(args)}", flush=True)
-    subprocess.run([npm, *args], cwd=ROOT, check=True)
+    # The labextension's build asks this Python for JupyterLab's core package (scripts/build-labextension.mjs).
+    env = {**os.environ, "RHOSIGMA_PYTHON": os.environ.get("RHOSIGMA_PYTHON", sys.executable)}
+    subprocess.run([npm, *args], cwd=ROOT, check=True, env=env)
 
 
 def _scripts() -> dict:

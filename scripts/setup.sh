@@ -33,6 +33,9 @@ if [ ! -x .venv/bin/python ] || [ "$want" != "$have" ]; then
   .venv/bin/python -m pip install -q --disable-pip-version-check -r requirements.txt
   echo "$want" > .venv/.requirements-sha256
 fi
+# The checkout's package.json says "type": "module"; without this marker Node would read the CommonJS
+# helpers inside .venv (JupyterLab's yarn.js, jupyter_builder's) as ES modules and fail.
+[ -f .venv/package.json ] || echo '{"type": "commonjs"}' > .venv/package.json
 
 if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
   npm ci --no-audit --no-fund
@@ -49,4 +52,16 @@ if [ "$want_py" != "$have_py" ] || [ "$where" != "$PWD/kernel-bridge/rhosigma" ]
   echo "setup: installing the Python package rhosigma (kernel-bridge) into .venv, editable"
   .venv/bin/python -m pip install -q --disable-pip-version-check --no-build-isolation --no-deps -e kernel-bridge
   echo "$want_py" > .venv/.rhosigma-editable-sha256
+fi
+
+# The JupyterLab extension (npm run build:labextension → kernel-bridge/rhosigma/labextension), rebuilt
+# when a front-end source is newer than the build, and linked into .venv so that `jupyter labextension
+# list` shows it enabled (the link follows later rebuilds).
+lab_out=kernel-bridge/rhosigma/labextension/package.json
+if [ ! -f "$lab_out" ] || [ -n "$(find src/lab src/widgets src/ui src/worker style package.json scripts/build-labextension.mjs scripts/labextension.webpack.cjs -newer "$lab_out" -type f 2>/dev/null | head -1)" ]; then
+  echo "setup: building the JupyterLab extension"
+  RHOSIGMA_PYTHON="$py" npm run --silent build:labextension >/dev/null
+fi
+if [ "$(readlink .venv/share/jupyter/labextensions/rhosigma 2>/dev/null)" != "$PWD/kernel-bridge/rhosigma/labextension" ]; then
+  PATH="$PWD/.venv/bin:$PATH" .venv/bin/jupyter labextension develop --overwrite kernel-bridge >/dev/null
 fi

@@ -80,3 +80,8 @@ __all__ = [
     "petz_map", "data_processing", "markov_structure", "commuting_square", "state_check", "repair_state",
     "verify_answer", "success_within_guesses",
 ]
+
+
+def _jupyter_labextension_paths():
+    """Where JupyterLab finds the prebuilt extension (`jupyter labextension develop` links it)."""
+    return [{"src": "labextension", "dest": "rhosigma"}]

@@ -1,0 +1,145 @@
+// The notebook product in a real JupyterLab and a real browser (issue 8, "Tests"): JupyterLab from .venv
+// on 127.0.0.1 with a random token (fresh root, settings and workspaces; stopped by the test), Debian's
+// /usr/bin/chromium driven by playwright-core with a fresh user-data folder (test/helpers/jupyterlab.ts).
+// The test opens a notebook, runs cells that create two state editors and a divergence calculator, types
+// new entries into the grid, runs a cell that prints the calculator's `result` in Python, and checks it
+// against the engine's answer for the same request through `rhosigma.compute` (the headless engine: the
+// same engine in another runtime), and the number against an outside fact: for commuting states the
+// Umegaki relative entropy is the Kullback–Leibler divergence of the spectra (Umegaki 1962; Nielsen &
+// Chuang §11.3). An invalid entry shows an error, keeps the other entries and yields a refusal, never a
+// number. The dark theme renders (light text on a dark page). Screenshots: <tmpdir>/rhosigma-lab-*.png.
+//
+// Needs the labextension built and linked (scripts/setup.sh), .venv with JupyterLab, and Chromium. Under
+// CI=true anything missing fails the file; elsewhere it is skipped with a message. Cost: a minute or two.
+import { describe, it, beforeAll, afterAll } from '@jest/globals';
+import assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { labMissing, PYTHON, startLab, type LabSession } from '../helpers/jupyterlab.js';
+
+// Run inside the page by playwright (this program is type-checked without the DOM library).
+declare const document: any;
+declare function getComputedStyle(e: unknown): { backgroundColor: string; color: string };
+
+const SHOTS = tmpdir();
+const missing = labMissing();
+if (missing.length && process.env.CI === 'true') throw new Error(`JupyterLab browser test: missing ${missing.join(', ')} (run bash scripts/setup.sh)`);
+const maybe = missing.length ? describe.skip : describe;
+if (missing.length) console.warn(`JupyterLab browser test skipped: missing ${missing.join(', ')} (run bash scripts/setup.sh)`);
+
+const CELLS = [
+  'import json, numpy as np\nfrom rhosigma.widgets import StateEditor, DivergenceCalculator\nrho = StateEditor(np.diag([0.7, 0.3]), title="rho")\nrho',
+  'sigma = StateEditor(np.eye(2) / 2, title="sigma")\ncalc = DivergenceCalculator(rho, sigma)\ncalc',
+  'print("RESULT" + json.dumps({"result": calc.result, "request": calc.request, "by": calc.computed_by, "matrix": rho.matrix}))',
+];
+
+interface Printed { result: any; request: any; by: string; matrix: unknown }
+
+function headless(request: unknown): any {
+  const out = spawnSync(PYTHON, ['-c', 'import json, sys, rhosigma; print(json.dumps(rhosigma.compute(json.loads(sys.stdin.read())).to_protocol_data()))'], {
+    input: JSON.stringify(request), encoding: 'utf8', timeout: 120_000,
+  });
+  assert.equal(out.status, 0, out.stderr);
+  return JSON.parse(out.stdout);
+}
+
+maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
+  let lab: LabSession;
+
+  beforeAll(async () => {
+    lab = await startLab(CELLS);
+  }, 240_000);
+
+  afterAll(async () => {
+    await lab?.stop();
+  }, 30_000);
+
+  const grid = () => lab.page.locator('.jp-Notebook .jp-Cell').nth(0).locator('input.rs-cell');
+
+  async function printed(): Promise<Printed> {
+    await lab.runCell(2);
+    const text = await lab.outputText(2);
+    assert.ok(text.includes('RESULT'), text);
+    return JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim());
+  }
+
+  /** Prints the result until the browser's answer for the expected request is there (or a minute passed). */
+  async function browserResult(pred: (r: Printed) => boolean): Promise<Printed> {
+    const deadline = Date.now() + 60_000;
+    for (;;) {
+      const r = await printed();
+      if ((r.by === 'browser' && pred(r)) || Date.now() > deadline) return r;
+      await lab.page.waitForTimeout(300);
+    }
+  }
+
+  async function showWidgets(): Promise<void> {
+    await lab.open();
+    await lab.runCell(0);
+    await lab.runCell(1);
+    await grid().first().waitFor({ timeout: 60_000 }).catch(async (e) => {
+      await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-failure.png'), fullPage: true });
+      throw new Error(`the state editor did not render: ${e}\noutputs: ${await lab.outputText(0)}`);
+    });
+    await lab.page.locator('.rs-calculator-widget .rs-answer-value').first().waitFor({ timeout: 60_000 });
+  }
+
+  it('an edit typed into the grid reaches the kernel as the calculator result, equal to the headless engine for the same request', async () => {
+    await showWidgets();
+    assert.equal(await grid().count(), 4, 'a 2×2 grid');
+    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-light.png'), fullPage: true });
+    // Type 0.9 and 0.1 on the diagonal: ρ = diag(0.9, 0.1).
+    await grid().nth(0).fill('0.9');
+    await grid().nth(3).fill('0.1');
+    const isEdited = (r: Printed) => {
+      const m = JSON.stringify(r.request?.rho?.matrix ?? '');
+      return m.includes('0.9') && m.includes('0.1');
+    };
+    const got = await browserResult(isEdited);
+    assert.equal(got.by, 'browser', 'the browser computed the result');
+    assert.ok(isEdited(got), JSON.stringify(got.request));
+    assert.equal(got.result.ok, true, JSON.stringify(got.result));
+    assert.deepEqual(got.request.rho.matrix.map((r: unknown[]) => r.map(Number)), [[0.9, 0], [0, 0.1]]);
+    const expected = headless(got.request);
+    assert.equal(expected.ok, true);
+    assert.ok(Math.abs(got.result.value - expected.value) <= 1e-12 * Math.abs(expected.value), `${got.result.value} vs ${expected.value}`);
+    const kl = 0.9 * Math.log2(0.9 / 0.5) + 0.1 * Math.log2(0.1 / 0.5);
+    assert.ok(Math.abs(got.result.value - kl) < 1e-12, `${got.result.value} vs KL ${kl}`);
+    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-edited.png'), fullPage: true });
+  }, 400_000);
+
+  it('an invalid entry shows an error, keeps the other entries and yields a refusal, not a number', async () => {
+    await grid().nth(1).fill('0.2+');
+    await lab.page.waitForFunction(() => !!document.querySelector('.jp-Notebook [aria-invalid="true"], .jp-Notebook [role="alert"]'), undefined, { timeout: 60_000 });
+    const got = await browserResult((r) => r.result && r.result.ok === false);
+    assert.equal(got.result.ok, false, 'no number for an unreadable entry');
+    assert.equal(got.result.error.code, 'parse-error');
+    assert.ok(String(got.result.error.path ?? '').includes('rho'), JSON.stringify(got.result.error));
+    assert.deepEqual([got.request.rho.matrix[0][0], got.request.rho.matrix[1][1]].map(Number), [0.9, 0.1], 'the other entries are kept');
+    const expected = headless(got.request);
+    assert.equal(expected.ok, false);
+    assert.equal(expected.error.code, got.result.error.code);
+    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-invalid.png'), fullPage: true });
+  }, 300_000);
+
+  it('the dark theme renders the widgets', async () => {
+    const dir = join(lab.settings, '@jupyterlab', 'apputils-extension');
+    mkdirSync(dir, { recursive: true });
+    writeFileSync(join(dir, 'themes.jupyterlab-settings'), JSON.stringify({ theme: 'JupyterLab Dark' }));
+    await showWidgets();
+    await lab.page.waitForFunction(() => document.body.dataset.jpThemeLight === 'false', undefined, { timeout: 60_000 });
+    const colors = await lab.page.evaluate(() => {
+      const card = document.querySelector('.rs-calculator-widget');
+      return { bg: getComputedStyle(document.querySelector('.jp-Notebook')).backgroundColor, fg: getComputedStyle(card).color, body: getComputedStyle(document.body).backgroundColor };
+    });
+    // Light text on a dark page (WCAG relative luminance; common practice, no published source for the threshold).
+    const lum = (c: string) => {
+      const [r, g, b] = (c.match(/\d+(\.\d+)?/g) ?? ['0', '0', '0']).slice(0, 3).map((x) => Number(x) / 255).map((v) => (v <= 0.03928 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4));
+      return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+    };
+    assert.ok(lum(colors.fg) > lum(colors.body), JSON.stringify(colors));
+    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-dark.png'), fullPage: true });
+  }, 400_000);
+});
