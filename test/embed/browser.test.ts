@@ -182,9 +182,18 @@ if (!haveChromium && inCI) {
       const page = await open(`${server!.url}index.html`);
       await resultOf(page, 'pair');
       const cell = page.locator('#pair .rs-embed-editor').nth(1).locator('input.rs-cell').first();
+      const before = await resultCount(page, 'pair');
       await cell.fill('0.3');
       await cell.press('Tab');
-      await page.waitForTimeout(600);
+      // Wait for the result of the edited request itself (a fixed pause let a loaded machine compare the
+      // copied new request with the value of the old one).
+      let edited = await resultOf(page, 'pair', before);
+      const sigmaTop = (r: typeof edited) => Number((r.request.sigma as { matrix: unknown[][] }).matrix[0][0]);
+      for (let k = 0; k < 100 && sigmaTop(edited) !== 0.3; k++) {
+        await page.waitForTimeout(100);
+        edited = await resultOf(page, 'pair', before);
+      }
+      assert.equal(sigmaTop(edited), 0.3);
       const inputs = await page.evaluate(() => (document.getElementById('pair') as unknown as { inputs: unknown }).inputs);
       await page.locator('#pair button[data-share="link"]').click();
       const shared = page.locator('#pair textarea.rs-embed-shared');
@@ -195,6 +204,7 @@ if (!haveChromium && inCI) {
       await page.waitForFunction(() => (document.querySelector('#pair')?.shadowRoot?.querySelector('textarea.rs-embed-shared') as HTMLTextAreaElement | null)?.dataset.kind === 'Request');
       const requestText = await shared.inputValue();
       const shownValue = (await resultOf(page, 'pair')).answer.value as number;
+      assert.equal(shownValue, edited.answer.value);
       await page.close();
 
       const again = await open(link);
