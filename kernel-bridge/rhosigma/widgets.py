@@ -27,6 +27,8 @@ Deliberately not here: any numerics (the engine's), the request rules' TypeScrip
 from __future__ import annotations
 
 import asyncio
+import base64
+import binascii
 from typing import Any, Sequence
 
 import numpy as np
@@ -51,6 +53,49 @@ __all__ = [
 _ALPHA_FAMILIES = {"petz", "sandwiched", "alpha-z", "geometric"}
 
 
+# Packed matrices over the comm as binary buffers (the twin of src/widgets/buffers.ts): the base64 text
+# of a {"packed": "float64-le"} object's `re`/`im` goes out as bytes (ipywidgets sends bytes and
+# memoryviews nested in a trait's JSON as binary buffers of the message), and bytes that come in become
+# base64 text again, so the traits always hold the protocol's plain-data form.
+def _map_packed(value: Any, part: Any) -> Any:
+    if isinstance(value, list):
+        return [_map_packed(v, part) for v in value]
+    if isinstance(value, dict):
+        out = {k: _map_packed(v, part) for k, v in value.items()}
+        if value.get("packed") == "float64-le":
+            for key in ("re", "im"):
+                if key in value:
+                    out[key] = part(value[key])
+        return out
+    return value
+
+
+def _text_to_bytes(x: Any) -> Any:
+    if not isinstance(x, str):
+        return x
+    try:
+        return memoryview(base64.b64decode(x.replace("-", "+").replace("_", "/"), validate=True))
+    except (binascii.Error, ValueError):
+        return x  # not base64: left as text, for the engine to refuse with its own message
+
+
+def _bytes_to_text(x: Any) -> Any:
+    if isinstance(x, (bytes, bytearray, memoryview)):
+        return base64.b64encode(bytes(x)).decode("ascii")
+    return x
+
+
+def _packed_to_buffers(value: Any, _widget: Any = None) -> Any:
+    return _map_packed(value, _text_to_bytes)
+
+
+def _packed_from_buffers(value: Any, _widget: Any = None) -> Any:
+    return _map_packed(value, _bytes_to_text)
+
+
+_PACKED = {"to_json": _packed_to_buffers, "from_json": _packed_from_buffers}
+
+
 class _Base(DOMWidget):
     _model_module = t.Unicode(MODULE_NAME).tag(sync=True)
     _model_module_version = t.Unicode(MODULE_VERSION).tag(sync=True)
@@ -69,8 +114,8 @@ class StateEditor(_Base):
 
     _model_name = t.Unicode("StateEditorModel").tag(sync=True)
     _view_name = t.Unicode("StateEditorView").tag(sync=True)
-    matrix = t.Any([[0.5, 0], [0, 0.5]], allow_none=True).tag(sync=True)
-    ket = t.Any(None, allow_none=True).tag(sync=True)
+    matrix = t.Any([[0.5, 0], [0, 0.5]], allow_none=True).tag(sync=True, **_PACKED)
+    ket = t.Any(None, allow_none=True).tag(sync=True, **_PACKED)
     dims = t.List(t.Int(), [2]).tag(sync=True)
     labels = t.List(t.Unicode(), default_value=None, allow_none=True).tag(sync=True)
     preset = t.Dict(default_value=None, allow_none=True).tag(sync=True)
@@ -145,8 +190,8 @@ class ChannelEditor(_Base):
 
     _model_name = t.Unicode("ChannelEditorModel").tag(sync=True)
     _view_name = t.Unicode("ChannelEditorView").tag(sync=True)
-    kraus = t.Any([[[1, 0], [0, 1]]], allow_none=True).tag(sync=True)
-    choi = t.Any(None, allow_none=True).tag(sync=True)
+    kraus = t.Any([[[1, 0], [0, 1]]], allow_none=True).tag(sync=True, **_PACKED)
+    choi = t.Any(None, allow_none=True).tag(sync=True, **_PACKED)
     preset = t.Dict(default_value=None, allow_none=True).tag(sync=True)
     input_dims = t.List(t.Int(), [2]).tag(sync=True)
     output_dims = t.List(t.Int(), [2]).tag(sync=True)
@@ -188,8 +233,8 @@ _OUTPUT_TRAITS = {"request", "result", "status", "error", "computed_by"}
 class _Calculator(_Base):
     """What every calculator shares: `request`, `result`, `status`, `error`, `auto`, `computed_by`."""
 
-    request = t.Dict(default_value=None, allow_none=True).tag(sync=True)
-    result = t.Dict(default_value=None, allow_none=True).tag(sync=True)
+    request = t.Dict(default_value=None, allow_none=True).tag(sync=True, **_PACKED)
+    result = t.Dict(default_value=None, allow_none=True).tag(sync=True, **_PACKED)
     status = t.Unicode("idle").tag(sync=True)
     error = t.Dict(default_value=None, allow_none=True).tag(sync=True)
     auto = t.Bool(True).tag(sync=True)

@@ -156,3 +156,37 @@ def test_a_front_ends_result_is_the_calculators_result_seen_by_observe_and_next_
     _, text = run(kernel, "print(json.dumps({'result': calc.result, 'matrix': rho.matrix}))")
     got = json.loads(text)
     assert got["matrix"] == [[0.8, 0], [0, 0.2]] and got["result"] == answer
+
+
+def test_packed_matrices_travel_as_binary_buffers_both_ways(kernel):
+    # A 16×16 state has 256 entries, so convert.py sends it packed (PACK_MIN_ENTRIES); over the comm its
+    # float64 bytes travel as a binary buffer of the message (ipywidgets' buffer_paths), not as base64
+    # text inside the JSON. The reference for the bytes is numpy's own little-endian float64 encoding.
+    rng = np.random.default_rng(5)
+    g = rng.normal(size=(16, 16))
+    m = g @ g.T
+    m /= np.trace(m)
+    msgs, text = run(kernel, (
+        "big = StateEditor(np.array(json.loads(" + repr(json.dumps(m.tolist())) + ")))\n"
+        "print(json.dumps({'big': big.model_id}))"
+    ))
+    ids = json.loads(text)
+    opens = [x for x in msgs if x["msg_type"] == "comm_open" and x["content"]["comm_id"] == ids["big"]]
+    assert len(opens) == 1
+    data = opens[0]["content"]["data"]
+    assert ["matrix", "re"] in data["buffer_paths"], data["buffer_paths"]
+    assert "re" not in data["state"]["matrix"] and data["state"]["matrix"]["packed"] == "float64-le"
+    k = data["buffer_paths"].index(["matrix", "re"])
+    assert bytes(opens[0]["buffers"][k]) == np.ascontiguousarray(m, dtype="<f8").tobytes()
+    # The front end sends an edited matrix the same way: bytes in a buffer, restored into the trait as
+    # the protocol's base64 text, so the Python object reads the exact numbers.
+    m2 = m.copy()
+    m2[0, 0] += 1e-3
+    m2 /= np.trace(m2)
+    state = {"matrix": {"shape": [16, 16], "packed": "float64-le"}}
+    msg = kernel.session.msg("comm_msg", {"comm_id": ids["big"], "data": {"method": "update", "state": state, "buffer_paths": [["matrix", "re"]]}})
+    kernel.session.send(kernel.shell_channel.socket, msg, buffers=[np.ascontiguousarray(m2, dtype="<f8").tobytes()])
+    _, text = run(kernel, "print(json.dumps({'re_is_text': isinstance(big.matrix['re'], str), 'value': big.value.tolist()}))")
+    got = json.loads(text)
+    assert got["re_is_text"] is True
+    assert np.array_equal(np.array(got["value"]), m2)

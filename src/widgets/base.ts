@@ -5,6 +5,7 @@
  * Deliberately not here: views and computing (calculator.ts). Cost: none.
  */
 import { DOMWidgetModel, unpack_models, type ISerializers } from '@jupyter-widgets/base';
+import { packedSerializers } from './buffers.js';
 import { MODELS, type ModelName } from './schema.js';
 import { MODULE_NAME, MODULE_VERSION } from './version.js';
 
@@ -22,9 +23,14 @@ export function defaultsOf(name: ModelName, base: Record<string, unknown>): Reco
   };
 }
 
-/** Serializers for the fields that hold widgets by reference ("IPY_MODEL_<id>" ↔ the model). */
+/** The fields that may hold matrices in the packed form: they travel as binary buffers (buffers.ts). */
+export const PACKED_FIELDS = ['matrix', 'ket', 'kraus', 'choi', 'request', 'result'] as const;
+
+/** Serializers for the fields that hold widgets by reference ("IPY_MODEL_<id>" ↔ the model), and for
+ * the fields whose packed matrices travel as binary buffers. */
 export function referenceSerializers(name: ModelName): ISerializers {
-  const out: ISerializers = { ...DOMWidgetModel.serializers };
+  const own = PACKED_FIELDS.filter((f) => f in MODELS[name].defaults);
+  const out: ISerializers = { ...DOMWidgetModel.serializers, ...packedSerializers(own) };
   for (const field of MODELS[name].references) out[field] = { deserialize: unpack_models as never };
   return out;
 }
