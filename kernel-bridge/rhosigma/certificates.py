@@ -31,6 +31,7 @@ to its absolute accuracy, which the verdict states; read it before quoting digit
 from __future__ import annotations
 
 import base64
+import fractions
 import json
 import math
 import sys
@@ -291,40 +292,73 @@ def _hypothesis_testing(req: dict, ans: dict, v: Verdict) -> tuple[float, float]
     lb = log_base(req)
     cert = ans["certificate"]
     d = rho.shape[0]
-    tr_s = float(np.trace(sigma).real)
+    # Tr σ as hi + lo (exact sum of the diagonal, rounded twice): a D_H of 1e-9 bits needs Tr σ to
+    # better than an ulp.
+    diag = [fractions.Fraction(float(x)) for x in np.diag(sigma).real]
+    exact = sum(diag, fractions.Fraction(0))
+    tr_s = float(exact)
+    tr_s_lo = float(exact - fractions.Fraction(tr_s))
     mu = float(cert["dual"]["mu"])
     v.require("dual point μ ≥ 0", mu >= 0, mu=mu)
+    # A trace over d² products errs by at most γ·Σ|A_jk||B_kj| (Higham, 2nd ed., §3.1); each logarithm
+    # by an ulp or two of its size (relative to D when Tr σ ≈ 1).
+    gamma = (2 * d * d + 8) * U
+
+    def abs_scale(a: np.ndarray, b: np.ndarray) -> float:
+        return float(np.sum(np.abs(a) * np.abs(b).T))
+
+    def pad_log(x: float) -> float:
+        return 16 * U * (abs(x) + abs(math.log(tr_s)) / lb)
+
     prim = cert["primal"]
     if "rejection" in prim:
         m = hermitian(matrix(prim["rejection"], "certificate.primal.rejection"))
         w, pad = eigvals(m)
         v.require("0 ⪯ M ⪯ I", w[0] >= -pad and w[-1] <= 1 + pad, smallest=w[0], largest=w[-1])
         rej = float(np.trace(rho @ m).real)
+        rej_up = rej + gamma * abs_scale(rho, m)
         v.require("Tr ρM ≤ ε (type-I error)", rej <= eps + 8 * d * U, rejection=rej)
-        bc_low = max(0.0, float(np.trace(sigma @ m).real) * (1 - 8 * d * d * U))
         e, pad2 = eigvals(sigma - mu * rho)
         bc_up = mu * eps + float(np.sum(np.maximum(0, e + pad2)))
         bc_up = min(bc_up, tr_s)
+        # M/(1 + pad) lies in [0, I]; a type-I error that may exceed ε is repaired by scaling M by
+        # ε/Tr ρM, or paid at the rate μ* ≤ β^c/ε (weak duality with M = 0), the better kept.
+        bc_raw = max(0.0, (float(np.trace(sigma @ m).real) - gamma * abs_scale(sigma, m)) / (1 + pad))
+        excess = max(0.0, rej_up - eps)
+        bc_low = max(bc_raw * (eps / rej_up), bc_raw - (bc_up / eps) * excess) if excess > 0 else bc_raw
 
         def from_c(bc: float) -> float:
-            return -(math.log(tr_s) + math.log1p(-bc / tr_s)) / lb if bc < tr_s else math.inf
+            return -(math.log(tr_s) + math.log1p((tr_s_lo - bc) / tr_s)) / lb if bc < tr_s else math.inf
 
-        pad_log = 8 * U / lb
-        return from_c(bc_low) - pad_log, from_c(bc_up) + pad_log
+        lo, up = from_c(bc_low), from_c(bc_up)
+        return lo - pad_log(lo), up + pad_log(up)
     t = hermitian(matrix(prim["test"], "certificate.primal.test"))
     w, pad = eigvals(t)
     v.require("0 ⪯ Λ ⪯ I", w[0] >= -pad and w[-1] <= 1 + pad, smallest=w[0], largest=w[-1])
     acc = float(np.trace(rho @ t).real)
+    acc_low = (acc - gamma * abs_scale(rho, t)) / (1 + pad)
     v.require("Tr ρΛ ≥ 1 − ε", acc >= 1 - eps - 8 * d * U, acceptance=acc)
-    b_up = float(np.trace(sigma @ t).real) * (1 + 8 * d * d * U)
     e, pad2 = eigvals(mu * rho - sigma)
     b_low = mu * (1 - eps) - float(np.sum(np.maximum(0, e + pad2)))
+    # Λ/(1 + pad) lies in [0, I]; an acceptance that may fall short of 1 − ε is repaired by mixing Λ
+    # with I, or paid at the rate μ* ≤ (Tr σP − β)/(Tr ρP − (1 − ε)) for P = I and P = Λ/λ_max(Λ)
+    # (weak duality: g(μ) ≤ Tr σP − μ(Tr ρP − (1 − ε))), the better kept.
+    b_raw = float(np.trace(sigma @ t).real) + gamma * abs_scale(sigma, t)
+    short = max(0.0, 1 - eps - acc_low)
+    b_up = b_raw
+    if short > 0:
+        mix = short / (1 - acc_low)
+        mu_bar = (tr_s + tr_s_lo - b_low) / eps
+        top = w[-1] + pad
+        if top > 0 and acc_low / top > 1 - eps:
+            mu_bar = min(mu_bar, (b_raw / top - b_low) / (acc_low / top - (1 - eps)))
+        b_up = min((1 - mix) * b_raw + mix * (tr_s + tr_s_lo), b_raw + max(0.0, mu_bar) * short)
 
     def from_b(b: float) -> float:
         return -math.log(b) / lb if b > 0 else math.inf
 
-    pad_log = 8 * U / lb
-    return from_b(b_up) - pad_log, from_b(b_low) + pad_log
+    lo, up = from_b(b_up), from_b(b_low)
+    return lo - pad_log(lo), up + pad_log(up)
 
 
 def _smooth_max(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:

@@ -91,7 +91,7 @@ def test_imports_numpy_and_the_standard_library_only():
             names |= {a.name.split(".")[0] for a in node.names}
         elif isinstance(node, ast.ImportFrom):
             names.add((node.module or "").split(".")[0])
-    assert names <= {"__future__", "base64", "itertools", "json", "math", "sys", "typing", "numpy"}, names
+    assert names <= {"__future__", "base64", "fractions", "itertools", "json", "math", "sys", "typing", "numpy"}, names
 
 
 def test_certifies_every_reference_answer_and_the_reference_value_lies_in_its_bracket(answered):

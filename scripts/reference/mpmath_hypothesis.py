@@ -93,6 +93,9 @@ def main():
             r = rand_state(rng, d)
             s = rand_state(rng, d)
             rm, sm = to_mp(r), to_mp(s)
+            # The convention of the engine: rho divided by its trace (here exactly, at 50 digits; the
+            # float entries of r sum to 1 only up to rounding, which shifts eps by ~1e-16).
+            rm = rm / mpmath.re(sum(rm[i, i] for i in range(d)))
             for eps in EPSILONS:
                 cf = closed_forms(rm, sm, eps)["low" if eps < 0.5 else "high"]
                 cases.append({

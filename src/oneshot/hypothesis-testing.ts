@@ -200,8 +200,11 @@ export function repairTest(test: CMatrix, rho: CMatrix, sigma: CMatrix, epsilon:
   return { test: out, bound };
 }
 
-/** Tr M by compensated (Neumaier) summation of the diagonal: correct to about one ulp. */
-function exactTrace(m: CMatrix): number {
+/**
+ * Tr M by compensated (Neumaier) summation of the diagonal, as an unevaluated sum hi + lo (hi the
+ * rounded trace, lo what the rounding left out): D_H ~ 1e-9 bits needs Tr σ to better than an ulp.
+ */
+function traceParts(m: CMatrix): { hi: number; lo: number } {
   let sum = 0;
   let comp = 0;
   for (let i = 0; i < m.rows; i++) {
@@ -210,7 +213,13 @@ function exactTrace(m: CMatrix): number {
     comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
     sum = t;
   }
-  return sum + comp;
+  const hi = sum + comp;
+  return { hi, lo: comp - (hi - sum) };
+}
+
+/** Tr M correct to about one ulp (traceParts rounded). */
+function exactTrace(m: CMatrix): number {
+  return traceParts(m).hi;
 }
 
 /**
@@ -226,10 +235,10 @@ export function hypothesisTestingDivergence(
   const base = options.base ?? 2;
   const tol = options.tol ?? DEFAULT_SUPPORT_TOLERANCE;
   const d = rho.rows;
-  const trRho = trace(rho).re;
+  const trRho = exactTrace(rho);
   if (!(trRho > 0)) throw new RhoError('invalid-argument', 'ρ has zero trace.', 'rho');
   const rhoN = scale(rho, 1 / trRho);
-  const trSigma = exactTrace(sigma);
+  const { hi: trSigma, lo: trSigmaLo } = traceParts(sigma);
   const common = { epsilon, base, convention: HYPOTHESIS_TESTING_CONVENTION };
   const infinite = (test: CMatrix, reason: string, method: HypothesisTestingMethod, dualNote: string): HypothesisTestingResult => ({
     ...common,
@@ -274,16 +283,19 @@ export function hypothesisTestingDivergence(
   }
 
   const sigmaUnit = scale(sigma, 1 / trSigma);
-  const trUnit = exactTrace(sigmaUnit);
+  // σ̂ = σ/hi has the exact trace 1 + lo/hi (its rounded entries err relative to themselves, which the
+  // Neyman–Pearson bracket covers); β = hi·β̂ and β̂ = 1 + lo/hi − β̂_c.
+  const trUnit = 1 + trSigmaLo / trSigma;
   const what = 'the hypothesis-testing relative entropy';
-  // −log β in the chosen base from β = Tr σ·β̂ (or from the complement β̂_c = Tr σ̂ − β̂).
-  // The logarithms and the two traces carry a few ulps of absolute error in nats: `widen` pads the
-  // bracket of D_H by 8u (a D_H of 1e-9 bits is known to about 1e-7 relative, not better).
-  const fromBeta = (betaHat: number): number => (betaHat > 0 ? -(Math.log(trSigma) + Math.log(betaHat)) / lb : Infinity);
-  const fromComplement = (bc: number): number =>
-    bc < trUnit ? -(Math.log(trSigma) + Math.log(trUnit) + Math.log1p(-bc / trUnit)) / lb : Infinity;
-  const logPad = (8 * 1.1102230246251565e-16) / lb;
-  const widen = (b: { lower: number; upper: number }) => ({ lower: b.lower - logPad, upper: b.upper + logPad });
+  // −log β in the chosen base from β = Tr σ·β̂ (or from the complement β̂_c), with log1p for the
+  // complement so that a D_H of 1e-9 bits keeps its relative accuracy. Each logarithm carries an ulp or
+  // two of its own size and the sum and the division by log(base) an ulp of the result: `widen` pads
+  // the bracket of D_H by 16u·(|D| + |log Tr σ|/log b), relative to D when Tr σ ≈ 1.
+  const lnHi = Math.log(trSigma);
+  const fromBeta = (betaHat: number): number => (betaHat > 0 ? -(lnHi + Math.log(betaHat)) / lb : Infinity);
+  const fromComplement = (bc: number): number => (bc < trUnit ? -(lnHi + Math.log1p(trSigmaLo / trSigma - bc)) / lb : Infinity);
+  const logPad = (x: number): number => 16 * 1.1102230246251565e-16 * (Math.abs(x) + Math.abs(lnHi) / lb);
+  const widen = (b: { lower: number; upper: number }) => ({ lower: b.lower - logPad(b.lower), upper: b.upper + logPad(b.upper) });
 
   if (epsilon === 0) {
     // Λ = Π_ρ (Tr ρΛ = 1 forces Λ = I on supp ρ), β = Tr σΠ_ρ; the dual sup is approached as μ → ∞.

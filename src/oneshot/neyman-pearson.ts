@@ -213,6 +213,44 @@ function modelRoot(e: DualEvaluation, epsilon: number): number {
   return Infinity;
 }
 
+/** Σ_jk |M_jk|·|v_j|·|v_k| for the column `col` of V: the scale of the rounding of v*Mv. */
+function absoluteForm(m: CMatrix, v: CMatrix, col: number): number {
+  const d = m.rows;
+  const a = new Float64Array(d);
+  for (let j = 0; j < d; j++) a[j] = Math.hypot(v.re[j * d + col], v.im[j * d + col]);
+  let s = 0;
+  for (let j = 0; j < d; j++) {
+    if (a[j] === 0) continue;
+    let row = 0;
+    for (let k = 0; k < d; k++) row += Math.hypot(m.re[j * d + k], m.im[j * d + k]) * a[k];
+    s += a[j] * row;
+  }
+  return s;
+}
+
+/** ‖V_SᴴV_S − I‖_F over the columns S of V (how far the computed eigenvectors are from orthonormal). */
+function orthonormalityDefect(v: CMatrix, cols: number[]): number {
+  const d = v.rows;
+  let f2 = 0;
+  for (const a of cols) {
+    for (const b of cols) {
+      let re = 0;
+      let im = 0;
+      for (let j = 0; j < d; j++) {
+        const ar = v.re[j * d + a];
+        const ai = v.im[j * d + a];
+        const br = v.re[j * d + b];
+        const bi = v.im[j * d + b];
+        re += ar * br + ai * bi;
+        im += ar * bi - ai * br;
+      }
+      if (a === b) re -= 1;
+      f2 += re * re + im * im;
+    }
+  }
+  return Math.sqrt(f2);
+}
+
 /**
  * β_ε(ρ‖σ) by the one-dimensional dual (see the header), for ρ a density matrix and σ ⪰ 0 of unit
  * trace, 0 < ε < 1, and not the β = 0 case (the kernel of σ carries less than 1 − ε of ρ).
@@ -296,8 +334,14 @@ export function neymanPearsonDual(rho: CMatrix, sigma: CMatrix, epsilon: number,
       // zero near c = μ_H − λ_j/w_j (Newton with the Hellmann–Feynman derivative, quadratic): go just
       // above c, and once H sits there, just below it. Otherwise the tangents of g at L and H
       // intersect at the kink (also quadratic, within the rounding of g's values).
+      // Newton from the end nearer its own estimate: an end far from the root (the bracket's first
+      // upper end may sit 10³× above it) linearizes badly, and its estimate could land just beside the
+      // other end again and again, creeping by one jump per evaluation.
       const j = d - H.positive;
-      const c = H.w[j] > 0 ? H.mu - H.values[j] / H.w[j] : NaN;
+      const jl = d - L.positive - 1;
+      const cH = H.w[j] > 0 ? H.mu - H.values[j] / H.w[j] : NaN;
+      const cL = L.w[jl] > 0 ? L.mu - L.values[jl] / L.w[jl] : NaN;
+      const c = Number.isFinite(cL) && (!Number.isFinite(cH) || Math.abs(cL - L.mu) < Math.abs(H.mu - cH)) ? cL : cH;
       if (c > L.mu && c < H.mu) mu = H.mu - c <= 2 * jump * H.mu ? c * (1 - jump) : c * (1 + jump);
       else {
         const gL = L.mu * (1 - epsilon) - L.phiPlus;
@@ -315,7 +359,9 @@ export function neymanPearsonDual(rho: CMatrix, sigma: CMatrix, epsilon: number,
     }
     const width = H.mu - L.mu;
     const singleCrossing = H.positive === L.positive + 1;
-    if (width > 0.5 * lastWidth && !singleCrossing) stalls++;
+    // A single crossing converges quadratically until both ends sit one jump from it; from then on the
+    // width stops halving and the rounding of the eigenvalues decides: halve the bracket.
+    if (width > 0.5 * lastWidth && (!singleCrossing || width <= 4 * jump * H.mu)) stalls++;
     else stalls = 0;
     lastWidth = width;
     // A proposal next to one end (the tangents meet at the crossing once H sits on it; a secant
@@ -398,11 +444,39 @@ export function neymanPearsonDual(rho: CMatrix, sigma: CMatrix, epsilon: number,
   const test = weightedColumnGram(H.vectors, keepCols, keepW);
   const rej = weightedColumnGram(H.vectors, rejectCols, rejectW);
   const complement = betaC < beta;
-  // Rounding allowance of a trace Tr σX over d² products of entries up to ‖σ‖_F·‖X‖_F in total.
-  const pad = roundingPad(d * d, complement ? betaC : beta);
+  // The primal end of the bracket is the value of the returned test, which was computed in floating
+  // point; what it certifies must hold for the exact test. Running error bounds (common practice in
+  // error analysis, Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed., §3.1):
+  //   - a quadratic form v*Mv summed over d² products errs by at most c·u·Σ|M_jk||v_j||v_k| (here c
+  //     also covers the one rounding of the input's normalization); when v*Mv cancels (a test that
+  //     σ nearly misses, β ~ 1e-8) this is far above c·u·|v*Mv|;
+  //   - computed eigenvectors are orthonormal to ‖VᴴV − I‖_F =: η, so the test divided by 1 + η lies
+  //     in [0, I];
+  //   - a test that misses the acceptance by Δ is fixed by moving ε by Δ, which changes the optimum
+  //     by at most μ*·Δ (β_ε is convex in ε with slope −μ*, and μ* ≤ the bracket's upper end).
+  const weights = complement ? rw : kw;
+  const cols = complement ? rejectCols : keepCols;
+  const cu = (2 * d + 8) * U;
+  let errS = 0;
+  let errR = 0;
+  for (const i of cols) {
+    errS += weights[i] * absoluteForm(sigma, H.vectors, i);
+    errR += weights[i] * absoluteForm(rho, H.vectors, i);
+  }
+  errS *= cu;
+  errR *= cu;
+  const eta = orthonormalityDefect(H.vectors, cols) + d * U;
+  const muMax = Math.max(H.mu, best.muLower, best.muUpper);
+  const pad = roundingPad(d * d, complement ? betaC : beta) + errS;
   const bracket = complement
-    ? { lower: Math.max(0, betaC - pad), upper: best.upperComplement }
-    : { lower: Math.max(0, best.lowerBeta), upper: beta + pad };
+    ? {
+      lower: Math.max(0, betaC - pad - eta * betaC - muMax * Math.max(0, rejection + errR - epsilon)),
+      upper: best.upperComplement,
+    }
+    : {
+      lower: Math.max(0, best.lowerBeta),
+      upper: beta + pad + muMax * Math.max(0, 1 - epsilon - (acceptance - errR - eta * acceptance)),
+    };
   return {
     complement,
     beta,

@@ -126,41 +126,95 @@ function supportTolerance(ans: Record<string, any>): number {
   return typeof ans.supportTolerance === 'number' ? ans.supportTolerance : DEFAULT_SUPPORT;
 }
 
+/**
+ * Tr M as an unevaluated sum hi + lo (Neumaier's compensated sum of the diagonal): a D_H of 1e-9 bits
+ * needs Tr σ to better than an ulp.
+ */
+function traceParts(m: CMatrix): { hi: number; lo: number } {
+  let sum = 0;
+  let comp = 0;
+  for (let i = 0; i < m.rows; i++) {
+    const x = m.re[i * m.cols + i];
+    const t = sum + x;
+    comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
+    sum = t;
+  }
+  const hi = sum + comp;
+  return { hi, lo: comp - (hi - sum) };
+}
+/** Σ_jk |A_jk|·|B_kj|: the scale of the rounding of Tr AB (Higham, 2nd ed., §3.1). */
+function absoluteTraceScale(a: CMatrix, b: CMatrix): number {
+  const n = a.rows;
+  let s = 0;
+  for (let j = 0; j < n; j++) {
+    for (let k = 0; k < n; k++) s += Math.hypot(a.re[j * n + k], a.im[j * n + k]) * Math.hypot(b.re[k * n + j], b.im[k * n + j]);
+  }
+  return s;
+}
+
 const hypothesisTesting: Fn = (req, ans, c, tol) => {
   const rho = readState(req.rho, 'request.rho', tol).matrix;
   const sigma = readOperatorState(req.sigma, 'request.sigma', tol).matrix;
   const eps = readNumber(req.epsilon, 'request.epsilon', { min: 0, max: 1 });
   const lb = logBase(req);
   const d = rho.rows;
-  const trS = trace(sigma).re;
+  const { hi: trS, lo: trSLo } = traceParts(sigma);
   const mu = num(ans.certificate.dual.mu);
   c.require('dual point μ ≥ 0', mu >= 0, { mu });
-  const logPad = (8 * U) / lb;
+  // Each logarithm errs by an ulp or two of its size: relative to D when Tr σ ≈ 1.
+  const logPad = (x: number) => 16 * U * (Math.abs(x) + Math.abs(Math.log(trS)) / lb);
+  // A trace over d² products errs by at most γ·Σ|A_jk||B_kj|.
+  const gamma = (2 * d * d + 8) * U;
   if (ans.certificate.primal.rejection !== undefined) {
     const m = hermitianPart(point(ans, 'primal', 'rejection'));
     const s = spectrum(m);
     c.require('0 ⪯ M ⪯ I', s.values[0] >= -s.pad && s.values[d - 1] <= 1 + s.pad);
     const rej = traceOfProductRe(rho, m);
+    const rejUp = rej + gamma * absoluteTraceScale(rho, m);
     c.require('Tr ρM ≤ ε (type-I error)', rej <= eps + 8 * d * U, { rejection: rej });
-    const bcLow = Math.max(0, traceOfProductRe(sigma, m) * (1 - 8 * d * d * U));
     const e = spectrum(sub(sigma, scale(rho, mu)));
     let bcUp = mu * eps;
     for (const v of e.values) bcUp += Math.max(0, v + e.pad);
     bcUp = Math.min(bcUp, trS);
-    const fromC = (bc: number) => (bc < trS ? -(Math.log(trS) + Math.log1p(-bc / trS)) / lb : Infinity);
-    return [fromC(bcLow) - logPad, fromC(bcUp) + logPad];
+    // M/(1 + pad) lies in [0, I]. Where the type-I error may exceed ε, two repairs, the better kept:
+    // scaled by ε/Tr ρM it is feasible; or the excess is paid at the rate μ*, the slope of the concave
+    // β^c_ε = max{Tr σM : Tr ρM ≤ ε}, which weak duality (M = 0 in με + Tr(σ − μρ)₊ ≥ με + Tr M(σ − μρ))
+    // bounds by β^c/ε.
+    const bcRaw = Math.max(0, (traceOfProductRe(sigma, m) - gamma * absoluteTraceScale(sigma, m)) / (1 + s.pad));
+    const excess = Math.max(0, rejUp - eps);
+    const bcLow = excess > 0 ? Math.max(bcRaw * (eps / rejUp), bcRaw - (bcUp / eps) * excess) : bcRaw;
+    const fromC = (bc: number) => (bc < trS ? -(Math.log(trS) + Math.log1p((trSLo - bc) / trS)) / lb : Infinity);
+    const lo = fromC(bcLow);
+    const up = fromC(bcUp);
+    return [lo - logPad(lo), up + logPad(up)];
   }
   const t = hermitianPart(point(ans, 'primal', 'test'));
   const s = spectrum(t);
   c.require('0 ⪯ Λ ⪯ I', s.values[0] >= -s.pad && s.values[d - 1] <= 1 + s.pad);
   const acc = traceOfProductRe(rho, t);
+  const accLow = (acc - gamma * absoluteTraceScale(rho, t)) / (1 + s.pad);
   c.require('Tr ρΛ ≥ 1 − ε', acc >= 1 - eps - 8 * d * U, { acceptance: acc });
-  const bUp = traceOfProductRe(sigma, t) * (1 + 8 * d * d * U);
   const e = spectrum(sub(scale(rho, mu), sigma));
   let bLow = mu * (1 - eps);
   for (const v of e.values) bLow -= Math.max(0, v + e.pad);
+  // Λ/(1 + pad) lies in [0, I]. Where the acceptance may fall short of 1 − ε, two repairs, the better
+  // kept: mixed with I by the t that restores it, it is feasible; or the shortfall is paid at the rate
+  // μ*, the slope of the convex β_ε, which weak duality bounds for any 0 ⪯ P ⪯ I with Tr ρP > 1 − ε
+  // (g(μ) ≤ Tr σP − μ(Tr ρP − (1 − ε))): μ* ≤ (Tr σP − β)/(Tr ρP − (1 − ε)), with P = I and P = Λ/λ_max(Λ).
+  const bRaw = traceOfProductRe(sigma, t) + gamma * absoluteTraceScale(sigma, t);
+  const short = Math.max(0, 1 - eps - accLow);
+  let bUp = bRaw;
+  if (short > 0) {
+    const mix = short / (1 - accLow);
+    let muBar = (trS + trSLo - bLow) / eps;
+    const top = s.values[d - 1] + s.pad;
+    if (top > 0 && accLow / top > 1 - eps) muBar = Math.min(muBar, (bRaw / top - bLow) / (accLow / top - (1 - eps)));
+    bUp = Math.min((1 - mix) * bRaw + mix * (trS + trSLo), bRaw + Math.max(0, muBar) * short);
+  }
   const fromB = (b: number) => (b > 0 ? -Math.log(b) / lb : Infinity);
-  return [fromB(bUp) - logPad, fromB(bLow) + logPad];
+  const lo = fromB(bUp);
+  const up = fromB(bLow);
+  return [lo - logPad(lo), up + logPad(up)];
 };
 
 const smoothMax: Fn = (req, ans, c, tol) => {

@@ -80,6 +80,13 @@ describe('hypothesis-testing relative entropy', () => {
     if (ref) checkClosedForms(ref, 'live');
   });
 
+  it('agrees with the closed forms on fresh mpmath batches that once made the search creep (seeds 5, 7, 35, 40: the bracket\'s far upper end linearized badly, 80 evaluations, a refusal)', () => {
+    for (const seed of ['5', '7', '35', '40']) {
+      const ref = liveReference<ClosedForms>([`${root}scripts/reference/mpmath_hypothesis.py`, '--seed', seed, '--count', '2'], 'mpmath (bash scripts/setup.sh)');
+      if (ref) checkClosedForms(ref, `live seed ${seed}`);
+    }
+  });
+
   it('matches cvxopt.solvers.sdp on the committed random instances, d = 2..4 (values to 1e-6 relative)', () => {
     checkAgainst(committedCases('hypothesis-testing'), 'committed');
   });
