@@ -262,6 +262,24 @@ export function trace(a: CMatrix): Complex {
   return { re, im };
 }
 
+/**
+ * Tr M (real part) by compensated (Neumaier) summation of the diagonal, as an unevaluated sum hi + lo
+ * (hi the rounded trace, lo what the rounding left out): for quantities such as −log(Tr σ − small)
+ * that need the trace to better than an ulp.
+ */
+export function traceParts(m: CMatrix): { hi: number; lo: number } {
+  let sum = 0;
+  let comp = 0;
+  for (let i = 0; i < m.rows; i++) {
+    const x = m.re[i * m.cols + i];
+    const t = sum + x;
+    comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
+    sum = t;
+  }
+  const hi = sum + comp;
+  return { hi, lo: comp - (hi - sum) };
+}
+
 /** Tr(A* B), the Hilbert–Schmidt inner product. */
 export function innerProduct(a: CMatrix, b: CMatrix): Complex {
   sameShape(a, b, 'innerProduct');

@@ -40,7 +40,7 @@
  * eigendecomposition of μρ − σ and the diagonal of V*ρV (O(d³)), typically 8–15 steps; "sdp": d² + 1
  * constraints, O(d⁶) per interior-point iteration.
  */
-import { CMatrix, zeros, mul, adjoint, identity, traceOfProductRe, trace, scale, eigh, hermitianPart } from '../linalg/index.js';
+import { CMatrix, zeros, mul, adjoint, identity, traceOfProductRe, trace, traceParts, scale, eigh, hermitianPart } from '../linalg/index.js';
 import { RhoError } from '../errors.js';
 import {
   solveSdp, partialTraceConstraints, certify, lnBase, matrixBlock, symmetrize, roundingPad,
@@ -198,23 +198,6 @@ export function repairTest(test: CMatrix, rho: CMatrix, sigma: CMatrix, epsilon:
     bound = (1 - t) * bound + t * trace(sigma).re;
   }
   return { test: out, bound };
-}
-
-/**
- * Tr M by compensated (Neumaier) summation of the diagonal, as an unevaluated sum hi + lo (hi the
- * rounded trace, lo what the rounding left out): D_H ~ 1e-9 bits needs Tr σ to better than an ulp.
- */
-function traceParts(m: CMatrix): { hi: number; lo: number } {
-  let sum = 0;
-  let comp = 0;
-  for (let i = 0; i < m.rows; i++) {
-    const x = m.re[i * m.cols + i];
-    const t = sum + x;
-    comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
-    sum = t;
-  }
-  const hi = sum + comp;
-  return { hi, lo: comp - (hi - sum) };
 }
 
 /** Tr M correct to about one ulp (traceParts rounded). */

@@ -19,6 +19,7 @@
 import {
   CMatrix, add, adjoint, eigh, fromSpectrum, hermitianPart, identity, kron, marginal, mul, partialTrace, product, scale, sub, trace,
   traceNorm, traceOfProductRe, zeros, frobeniusNorm,
+  traceParts,
 } from '../linalg/index.js';
 import { krausToChoi } from '../quantum/channels.js';
 import { RhoError } from '../errors.js';
@@ -126,22 +127,6 @@ function supportTolerance(ans: Record<string, any>): number {
   return typeof ans.supportTolerance === 'number' ? ans.supportTolerance : DEFAULT_SUPPORT;
 }
 
-/**
- * Tr M as an unevaluated sum hi + lo (Neumaier's compensated sum of the diagonal): a D_H of 1e-9 bits
- * needs Tr σ to better than an ulp.
- */
-function traceParts(m: CMatrix): { hi: number; lo: number } {
-  let sum = 0;
-  let comp = 0;
-  for (let i = 0; i < m.rows; i++) {
-    const x = m.re[i * m.cols + i];
-    const t = sum + x;
-    comp += Math.abs(sum) >= Math.abs(x) ? sum - t + x : x - t + sum;
-    sum = t;
-  }
-  const hi = sum + comp;
-  return { hi, lo: comp - (hi - sum) };
-}
 /** Σ_jk |A_jk|·|B_kj|: the scale of the rounding of Tr AB (Higham, 2nd ed., §3.1). */
 function absoluteTraceScale(a: CMatrix, b: CMatrix): number {
   const n = a.rows;
