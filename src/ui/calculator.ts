@@ -104,6 +104,16 @@ export abstract class Calculator<I extends object, V extends object> {
     this.recompute();
   }
 
+  /** New inputs and settings at once (one round of requests instead of two); fields left out keep their values. */
+  update(next: { inputs?: Partial<I>; value?: Partial<V> }): void {
+    if (next.inputs) this._inputs = { ...this._inputs, ...next.inputs };
+    if (next.value) {
+      this.settings = { ...this.settings, ...next.value };
+      this.syncControls();
+    }
+    this.recompute();
+  }
+
   /** The newest answers by name ({ request, answer }). */
   get results(): Record<string, ResultEvent> {
     return Object.fromEntries(this.latest);

@@ -7,17 +7,18 @@
  * whether or not a view shows it; it tells the kernel that a front end is attached (a custom message),
  * so that Python does not compute the same request headless.
  *
- * The view shows the calculator's parameters as controls, the answer card (value, conventions,
- * certificate status) and the error of a refused request.
+ * The view mounts the src/ui calculator of the same quantity (see CalculatorView below).
  *
  * Deliberately not here: any numerics (the worker's) and the request rules (requests.ts).
  * Cost: one request per change, in the worker.
  */
 import { DOMWidgetModel, DOMWidgetView, type WidgetModel } from '@jupyter-widgets/base';
-import { renderAnswerCard, type AnswerData } from './answer-card.js';
+import { answerText, type AnswerData } from './answer-card.js';
 import { pageEngine } from './engine.js';
 import { MODELS, type ModelName } from './schema.js';
-import type { Fields, Request } from './requests.js';
+import { stateOf, type Fields, type Request } from './requests.js';
+import { stateFieldsOf } from './references.js';
+import type { EngineLike } from '../worker/types.js';
 
 const OUTPUT_FIELDS = new Set(['request', 'result', 'status', 'error', 'computed_by']);
 const EDITOR_FIELDS = 'change:matrix change:ket change:dims change:labels change:kraus change:choi change:input_dims change:output_dims';
@@ -108,98 +109,127 @@ export abstract class CalculatorModel extends DOMWidgetModel {
 
 }
 
-/** A control of the view: a select of choices or a number input, bound to one field. */
-export interface Control {
-  field: string;
-  label: string;
-  choices?: string[];
-  /** Shown only when this returns true for the current fields. */
-  when?: (f: Fields) => boolean;
+/** A src/ui calculator as the view uses it (the methods every one of them has). */
+export interface MountedCalculator {
+  readonly element: HTMLElement;
+  on(event: 'change', cb: (v: Record<string, unknown>) => void): () => void;
+  update(next: { inputs?: Record<string, unknown>; value?: Record<string, unknown> }): void;
+  dispose(): void;
 }
 
+/**
+ * The view: the src/ui calculator of the same quantity (its controls, result cards with conventions
+ * and certificate badges, the typeset formula and the curve over α where it has them), mounted on the
+ * page's shared engine, with its inputs taken from the editors the model holds by reference and its
+ * settings from the model's fields. A setting changed in the view is written to the model (so Python
+ * sees it and the model computes the kernel's `result`); a field set from Python is shown in the view.
+ * Below the calculator, one line says what Python's `result` holds and who computed it.
+ *
+ * The model and the view ask the same request for the headline quantity; the shared engine
+ * (engine.ts, SharedRequests) sends it to the worker once.
+ */
 export abstract class CalculatorView extends DOMWidgetView {
-  protected abstract readonly title: string;
-  protected abstract readonly controls: Control[];
-  private card!: HTMLElement;
-  private statusLine!: HTMLElement;
-  private form!: HTMLElement;
+  /** Makes the src/ui calculator in `host`. */
+  protected abstract mount(host: HTMLElement, engine: EngineLike, inputs: Record<string, unknown>, value: Record<string, unknown>): MountedCalculator;
+  /** The calculator's inputs from the model's fields (editors resolved to their protocol states). */
+  protected abstract inputsOf(f: Fields): Record<string, unknown>;
+  /** The calculator's settings from the model's fields. */
+  protected abstract settingsOf(f: Fields): Record<string, unknown>;
+
+  private calc: MountedCalculator | null = null;
+  private kernelLine!: HTMLElement;
+  private watched: WidgetModel[] = [];
+  private writing = false;
+  private pending = false;
+  private unsubscribe: (() => void)[] = [];
 
   override render(): void {
     this.el.classList.add('rs-widget', 'rs-calculator-widget');
-    const head = document.createElement('div');
-    head.className = 'rs-calculator-title';
-    head.textContent = this.title;
-    this.form = document.createElement('div');
-    this.form.className = 'rs-calculator-controls';
-    this.statusLine = document.createElement('div');
-    this.statusLine.className = 'rs-calculator-status';
-    this.statusLine.setAttribute('aria-live', 'polite');
-    this.card = document.createElement('div');
-    this.card.className = 'rs-calculator-result';
-    this.el.replaceChildren(head, this.form, this.statusLine, this.card);
-    this.renderControls();
-    this.showResult();
-    this.listenTo(this.model, 'change:result change:status change:error', () => this.showResult());
+    const host = document.createElement('div');
+    this.kernelLine = document.createElement('div');
+    this.kernelLine.className = 'rs-kernel-line';
+    this.kernelLine.setAttribute('aria-live', 'polite');
+    this.el.replaceChildren(host, this.kernelLine);
+    const f = fieldsOf(this.model);
+    this.calc = this.mount(host, pageEngine(), this.inputsOf(f), this.settingsOf(f));
+    this.unsubscribe.push(
+      this.calc.on('change', (v) => {
+        // Only the model's own fields (a view setting such as "draw the curve" stays in the view).
+        const own = Object.fromEntries(Object.entries(v).filter(([k]) => k in MODELS[this.modelName].defaults && !this.references.includes(k)));
+        this.writing = true;
+        try {
+          this.model.set(own);
+          this.touch();
+        } finally {
+          this.writing = false;
+        }
+      }),
+    );
+    this.rewire();
+    this.showKernel();
+    this.listenTo(this.model, 'change:result change:status change:error change:computed_by', () => this.showKernel());
     this.listenTo(this.model, 'change', () => {
       const changed = Object.keys(this.model.changedAttributes() || {});
-      if (changed.some((k) => this.controls.some((c) => c.field === k))) this.renderControls();
+      if (changed.some((k) => this.references.includes(k))) this.rewire();
+      if (!this.writing && changed.some((k) => !OUTPUT_FIELDS.has(k))) this.schedule();
     });
   }
 
-  private renderControls(): void {
-    const f = fieldsOf(this.model);
-    const nodes: HTMLElement[] = [];
-    for (const c of this.controls) {
-      if (c.when && !c.when(f)) continue;
-      const label = document.createElement('label');
-      label.className = 'rs-calculator-control';
-      label.append(document.createTextNode(c.label + ' '));
-      let input: HTMLInputElement | HTMLSelectElement;
-      if (c.choices) {
-        const sel = document.createElement('select');
-        for (const choice of c.choices) {
-          const o = document.createElement('option');
-          o.value = o.textContent = choice;
-          sel.append(o);
-        }
-        sel.value = String(f[c.field]);
-        sel.addEventListener('change', () => {
-          this.model.set(c.field, sel.value);
-          this.touch();
-        });
-        input = sel;
-      } else {
-        const num = document.createElement('input');
-        num.type = 'text';
-        num.inputMode = 'decimal';
-        num.size = 6;
-        num.value = String(f[c.field]);
-        num.addEventListener('change', () => {
-          const text = num.value.trim();
-          const v = text === 'e' ? 'e' : Number(text);
-          if (v === 'e' || Number.isFinite(v)) {
-            num.removeAttribute('aria-invalid');
-            this.model.set(c.field, v);
-            this.touch();
-          } else {
-            num.setAttribute('aria-invalid', 'true');
-          }
-        });
-        input = num;
-      }
-      input.dataset.field = c.field;
-      label.append(input);
-      nodes.push(label);
-    }
-    this.form.replaceChildren(...nodes);
+  private get references(): readonly string[] {
+    return MODELS[this.modelName].references;
   }
 
-  private showResult(): void {
+  /** The model's name (the view's model is one of MODELS). */
+  private get modelName(): ModelName {
+    return String(this.model.get('_model_name')) as ModelName;
+  }
+
+  private rewire(): void {
+    for (const m of this.watched) this.stopListening(m);
+    this.watched = [];
+    for (const field of this.references) {
+      const v = this.model.get(field);
+      for (const m of Array.isArray(v) ? v : [v]) {
+        if (m && typeof m === 'object' && 'on' in m) {
+          this.watched.push(m as WidgetModel);
+          this.listenTo(m as WidgetModel, EDITOR_FIELDS, () => this.schedule());
+        }
+      }
+    }
+  }
+
+  /** One update of the calculator per task (Python sets several fields at once). */
+  private schedule(): void {
+    if (this.pending) return;
+    this.pending = true;
+    queueMicrotask(() => {
+      this.pending = false;
+      const f = fieldsOf(this.model);
+      this.calc?.update({ inputs: this.inputsOf(f), value: this.settingsOf(f) });
+    });
+  }
+
+  private showKernel(): void {
     const status = String(this.model.get('status'));
     this.el.dataset.status = status;
-    this.statusLine.textContent = status === 'computing' ? 'computing…' : '';
     const result = this.model.get('result') as AnswerData | null;
-    if (result) renderAnswerCard(this.card, result);
-    else this.card.replaceChildren();
+    const by = this.model.get('computed_by');
+    if (status === 'computing') this.kernelLine.textContent = "Python's result: computing…";
+    else if (result) this.kernelLine.textContent = `Python's result${by ? ` (computed in the ${by})` : ''}: ${answerText(result)}`;
+    else this.kernelLine.textContent = "Python's result: none yet (an input is missing).";
   }
+
+  override remove(): void {
+    for (const u of this.unsubscribe) u();
+    this.unsubscribe = [];
+    this.calc?.dispose();
+    this.calc = null;
+    super.remove();
+  }
+}
+
+/** The protocol state of an editor held by reference, or undefined while it is unset. */
+export function editorState(ref: unknown): Record<string, unknown> | undefined {
+  const f = stateFieldsOf(ref as never);
+  return f ? (stateOf(f) as Record<string, unknown>) : undefined;
 }

@@ -4,7 +4,9 @@
  *
  * Deliberately not here: numerics (the worker's). Cost: one divergence request per change.
  */
-import { CalculatorModel, CalculatorView, type Control } from './calculator.js';
+import { CalculatorModel, CalculatorView, editorState, type MountedCalculator } from './calculator.js';
+import { DivergenceCalculator } from '../ui/divergence-calculator.js';
+import type { EngineLike } from '../worker/types.js';
 import { defaultsOf, referenceSerializers } from './base.js';
 import { divergenceRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
@@ -26,12 +28,15 @@ export class DivergenceCalculatorModel extends CalculatorModel {
   }
 }
 
+/** The view: src/ui's DivergenceCalculator (formula, every family side by side, the curve over α). */
 export class DivergenceCalculatorView extends CalculatorView {
-  protected readonly title = 'Divergence D(ρ‖σ)';
-  protected readonly controls: Control[] = [
-    { field: 'family', label: 'family', choices: DIVERGENCE_FAMILIES },
-    { field: 'alpha', label: 'α', when: (f) => ['petz', 'sandwiched', 'alpha-z', 'geometric'].includes(String(f.family)) },
-    { field: 'z', label: 'z', when: (f) => f.family === 'alpha-z' },
-    { field: 'base', label: 'log base' },
-  ];
+  protected mount(host: HTMLElement, engine: EngineLike, inputs: Record<string, unknown>, value: Record<string, unknown>) {
+    return new DivergenceCalculator(host, { engine, inputs: inputs as never, value: value as never, label: 'Divergence D(ρ‖σ)' }) as unknown as MountedCalculator;
+  }
+  protected inputsOf(f: Fields) {
+    return { rho: editorState(f.rho), sigma: editorState(f.sigma) };
+  }
+  protected settingsOf(f: Fields) {
+    return { family: f.family, alpha: f.alpha, z: f.z, base: f.base };
+  }
 }

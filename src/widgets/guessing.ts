@@ -4,7 +4,9 @@
  *
  * Deliberately not here: numerics (the worker's). Cost: one request per change.
  */
-import { CalculatorModel, CalculatorView, type Control } from './calculator.js';
+import { CalculatorModel, CalculatorView, editorState, type MountedCalculator } from './calculator.js';
+import { GuessingCalculator } from '../ui/guessing-calculator.js';
+import type { EngineLike } from '../worker/types.js';
 import { defaultsOf, referenceSerializers } from './base.js';
 import { guessingRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
@@ -25,10 +27,17 @@ export class GuessingCalculatorModel extends CalculatorModel {
   }
 }
 
+/** The view: src/ui's GuessingCalculator (guessing probability and guesswork; Python's `result` is `quantity`'s). */
 export class GuessingCalculatorView extends CalculatorView {
-  protected readonly title = 'Guessing with quantum side information';
-  protected readonly controls: Control[] = [
-    { field: 'quantity', label: 'quantity', choices: ['guessing-probability', 'guesswork'] },
-    { field: 'moment', label: 'moment', when: (f) => f.quantity === 'guesswork' },
-  ];
+  protected mount(host: HTMLElement, engine: EngineLike, inputs: Record<string, unknown>, value: Record<string, unknown>) {
+    return new GuessingCalculator(host, { engine, inputs: inputs as never, value: value as never, label: 'Guessing with quantum side information' }) as unknown as MountedCalculator;
+  }
+  protected inputsOf(f: Fields) {
+    const refs = Array.isArray(f.states) ? f.states : [];
+    const states = refs.map((r) => editorState(r));
+    return states.length && states.every(Boolean) ? { states, probabilities: f.probabilities } : { states: undefined, probabilities: f.probabilities };
+  }
+  protected settingsOf(f: Fields) {
+    return { moment: f.moment };
+  }
 }

@@ -5,7 +5,9 @@
  *
  * Deliberately not here: numerics (the worker's). Cost: one SDP request per change.
  */
-import { CalculatorModel, CalculatorView, type Control } from './calculator.js';
+import { CalculatorModel, CalculatorView, editorState, type MountedCalculator } from './calculator.js';
+import { OneShotCalculator } from '../ui/one-shot-calculator.js';
+import type { EngineLike } from '../worker/types.js';
 import { defaultsOf, referenceSerializers } from './base.js';
 import { oneShotRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
@@ -28,11 +30,15 @@ export class OneShotCalculatorModel extends CalculatorModel {
   }
 }
 
+/** The view: src/ui's OneShotCalculator (the quantity with its convention and certificate). */
 export class OneShotCalculatorView extends CalculatorView {
-  protected readonly title = 'One-shot quantity';
-  protected readonly controls: Control[] = [
-    { field: 'quantity', label: 'quantity', choices: [...PAIRWISE, 'conditional-min-entropy', 'conditional-max-entropy', 'max-information'] },
-    { field: 'epsilon', label: 'ε', when: (f) => PAIRWISE.includes(String(f.quantity)) },
-    { field: 'base', label: 'log base' },
-  ];
+  protected mount(host: HTMLElement, engine: EngineLike, inputs: Record<string, unknown>, value: Record<string, unknown>) {
+    return new OneShotCalculator(host, { engine, inputs: inputs as never, value: value as never, label: 'One-shot quantity' }) as unknown as MountedCalculator;
+  }
+  protected inputsOf(f: Fields) {
+    return { rho: editorState(f.rho), sigma: editorState(f.sigma) };
+  }
+  protected settingsOf(f: Fields) {
+    return { quantity: f.quantity, epsilon: f.epsilon, a: f.a, b: f.b, base: f.base };
+  }
 }

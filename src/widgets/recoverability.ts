@@ -5,7 +5,9 @@
  *
  * Deliberately not here: numerics (the worker's). Cost: one request per change.
  */
-import { CalculatorModel, CalculatorView, type Control } from './calculator.js';
+import { CalculatorModel, CalculatorView, editorState, type MountedCalculator } from './calculator.js';
+import { RecoverabilityCalculator } from '../ui/recoverability-calculator.js';
+import type { EngineLike } from '../worker/types.js';
 import { defaultsOf, referenceSerializers } from './base.js';
 import { recoverabilityRequest, type Fields } from './requests.js';
 import { stateFieldsOf } from './references.js';
@@ -24,10 +26,15 @@ export class RecoverabilityCalculatorModel extends CalculatorModel {
   }
 }
 
+/** The view: src/ui's RecoverabilityCalculator (all three quantities; Python's `result` is `quantity`'s). */
 export class RecoverabilityCalculatorView extends CalculatorView {
-  protected readonly title = 'Recoverability of A–B–C';
-  protected readonly controls: Control[] = [
-    { field: 'quantity', label: 'quantity', choices: ['conditional-mutual-information', 'petz-recovery', 'fidelity-of-recovery'] },
-    { field: 'base', label: 'log base', when: (f) => f.quantity === 'conditional-mutual-information' },
-  ];
+  protected mount(host: HTMLElement, engine: EngineLike, inputs: Record<string, unknown>, value: Record<string, unknown>) {
+    return new RecoverabilityCalculator(host, { engine, inputs: inputs as never, value: value as never, label: 'Recoverability of A–B–C' }) as unknown as MountedCalculator;
+  }
+  protected inputsOf(f: Fields) {
+    return { rho: editorState(f.rho) };
+  }
+  protected settingsOf(f: Fields) {
+    return { a: f.a, b: f.b, c: f.c, base: f.base };
+  }
 }

@@ -10,7 +10,9 @@
  *  - `signal`: abort a queued request → it is dropped; abort the running one → the worker is terminated
  *    and started again (`handle` is synchronous and cannot be interrupted otherwise); answered 'cancelled'.
  *  - A worker that dies (an error event, out of memory) answers its running request with
- *    'internal-error' and is started again; the queue goes on.
+ *    'internal-error' and is started again; the queue goes on. After MAX_CRASHES deaths in a row with
+ *    no answer between them the client gives up: every waiting and later request is answered
+ *    'internal-error' saying so (`broken`), instead of restarting a worker that cannot run.
  * Comlink carries the calls and the progress callback (a comlink proxy).
  *
  * Deliberately not here: any numerics (the worker's), and any caching of answers.
@@ -48,6 +50,9 @@ function failure(request: object, code: 'cancelled' | 'internal-error', message:
   return a;
 }
 
+/** Worker deaths in a row (no answer between them) after which the client stops restarting it. */
+export const MAX_CRASHES = 3;
+
 export class EngineClient implements EngineLike {
   private worker!: Worker;
   private remote!: Remote<WorkerApi>;
@@ -57,6 +62,10 @@ export class EngineClient implements EngineLike {
   private disposed = false;
   /** Times the worker was started (1 + restarts); for tests and diagnostics. */
   starts = 0;
+  /** Worker deaths since the last answer; at MAX_CRASHES the client gives up (`broken`). */
+  private crashes = 0;
+  /** Why the client gave up on its worker, or null. */
+  broken: string | null = null;
 
   constructor(private readonly options: EngineClientOptions = {}) {
     this.start();
@@ -78,8 +87,17 @@ export class EngineClient implements EngineLike {
       if (gen !== this.generation) return;
       e.preventDefault?.();
       const job = this.running;
+      this.crashes++;
+      const why = e.message || 'unknown error';
+      if (this.crashes >= MAX_CRASHES) {
+        // A worker that dies again and again without answering (a script that does not load, a
+        // request that kills it each time) is not restarted for ever: everything waiting is answered.
+        this.broken = `The engine worker stopped ${this.crashes} times in a row without answering (last: ${why}); it is not restarted again. Reload the page.`;
+        this.dispose(this.broken);
+        return;
+      }
       this.restart();
-      if (job) this.finish(job, failure(job.request, 'internal-error', `The engine worker stopped: ${e.message || 'unknown error'}; it has been restarted.`));
+      if (job) this.finish(job, failure(job.request, 'internal-error', `The engine worker stopped: ${why}; it has been restarted.`));
       this.pump();
     });
   }
@@ -98,6 +116,7 @@ export class EngineClient implements EngineLike {
 
   compute(request: object, options: ComputeOptions = {}): Promise<Answer> {
     return new Promise<Answer>((resolve) => {
+      if (this.broken) return resolve(failure(request, 'internal-error', this.broken));
       if (this.disposed) return resolve(failure(request, 'cancelled', 'The engine client has been disposed.'));
       if (options.signal?.aborted) return resolve(failure(request, 'cancelled', 'The request was cancelled before it started.'));
       const job: Job = { request, options, resolve, done: false };
@@ -147,6 +166,7 @@ export class EngineClient implements EngineLike {
     this.remote.compute(job.request, onProgress ? proxy((p: Progress) => onProgress(p)) : undefined).then(
       (answer) => {
         if (gen !== this.generation) return;
+        this.crashes = 0;
         this.finish(job, answer);
         this.pump();
       },
@@ -159,14 +179,17 @@ export class EngineClient implements EngineLike {
     );
   }
 
-  /** Stops the worker; every queued or running request is answered 'cancelled'. */
-  dispose(): void {
+  /** Stops the worker; every queued or running request is answered 'cancelled' (or, when the client
+   * gives up on a failing worker, 'internal-error' with `reason`). */
+  dispose(reason?: string): void {
     if (this.disposed) return;
     this.disposed = true;
     const pending = [...(this.running ? [this.running] : []), ...this.queue];
     this.remote[releaseProxy]?.();
     this.worker.terminate();
     this.generation++;
-    for (const job of pending) this.finish(job, failure(job.request, 'cancelled', 'The engine client has been disposed.'));
+    for (const job of pending) {
+      this.finish(job, reason ? failure(job.request, 'internal-error', reason) : failure(job.request, 'cancelled', 'The engine client has been disposed.'));
+    }
   }
 }

@@ -33,6 +33,10 @@ const CELLS = [
   'import json, numpy as np\nfrom rhosigma.widgets import StateEditor, DivergenceCalculator\nrho = StateEditor(np.diag([0.7, 0.3]), title="rho")\nrho',
   'sigma = StateEditor(np.eye(2) / 2, title="sigma")\ncalc = DivergenceCalculator(rho, sigma)\ncalc',
   'print("RESULT" + json.dumps({"result": calc.result, "request": calc.request, "by": calc.computed_by, "matrix": rho.matrix}))',
+  // A four-qubit state: 256 entries, so Python sends its matrix packed (binary comm buffers).
+  'g = np.random.default_rng(2026).normal(size=(16, 16)) + 1j * np.random.default_rng(7).normal(size=(16, 16))\nbig = g @ g.conj().T\nbig /= np.trace(big).real\ntau = StateEditor(big, dims=[2, 2, 2, 2], title="tau")\nflat = StateEditor(np.eye(16) / 16, dims=[2, 2, 2, 2], title="flat")\nbig_calc = DivergenceCalculator(tau, flat)\ntau',
+  'big_calc',
+  'lam = np.linalg.eigvalsh(big)\nprint("RESULT" + json.dumps({"result": big_calc.result, "request": big_calc.request, "by": big_calc.computed_by, "packed": isinstance(tau.matrix, dict) and tau.matrix.get("packed"), "numpy": float(4 + np.sum(lam * np.log2(lam)))}))',
 ];
 
 interface Printed { result: any; request: any; by: string; matrix: unknown }
@@ -58,18 +62,18 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
 
   const grid = () => lab.page.locator('.jp-Notebook .jp-Cell').nth(0).locator('input.rs-cell');
 
-  async function printed(): Promise<Printed> {
-    await lab.runCell(2);
-    const text = await lab.outputText(2);
+  async function printed(index = 2): Promise<Printed> {
+    await lab.runCell(index);
+    const text = await lab.outputText(index);
     assert.ok(text.includes('RESULT'), text);
     return JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim());
   }
 
   /** Prints the result until the browser's answer for the expected request is there (or a minute passed). */
-  async function browserResult(pred: (r: Printed) => boolean): Promise<Printed> {
+  async function browserResult(pred: (r: Printed) => boolean, index = 2): Promise<Printed> {
     const deadline = Date.now() + 60_000;
     for (;;) {
-      const r = await printed();
+      const r = await printed(index);
       if ((r.by === 'browser' && pred(r)) || Date.now() > deadline) return r;
       await lab.page.waitForTimeout(300);
     }
@@ -83,7 +87,7 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
       await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-failure.png'), fullPage: true });
       throw new Error(`the state editor did not render: ${e}\noutputs: ${await lab.outputText(0)}`);
     });
-    await lab.page.locator('.rs-calculator-widget .rs-answer-value').first().waitFor({ timeout: 60_000 });
+    await lab.page.locator('.rs-calculator-widget .rs-card__value').first().waitFor({ timeout: 60_000 });
   }
 
   it('an edit typed into the grid reaches the kernel as the calculator result, equal to the headless engine for the same request', async () => {
@@ -122,6 +126,30 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     assert.equal(expected.ok, false);
     assert.equal(expected.error.code, got.result.error.code);
     await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-invalid.png'), fullPage: true });
+  }, 300_000);
+
+  it('a four-qubit state travels packed, its 16×16 grid renders, and the browser computes the same number as numpy', async () => {
+    await lab.runCell(3);
+    await lab.runCell(4);
+    const bigGrid = lab.page.locator('.jp-Notebook .jp-Cell').nth(3).locator('input.rs-cell');
+    await bigGrid.first().waitFor({ timeout: 60_000 });
+    assert.equal(await bigGrid.count(), 256, 'a 16×16 grid');
+    await lab.page.locator('.jp-Notebook .jp-Cell').nth(4).locator('.rs-card__value').first().waitFor({ timeout: 60_000 });
+    const got = (await browserResult((r) => r.result?.ok === true, 5)) as Printed & { packed: unknown; numpy: number };
+    assert.equal(got.by, 'browser', 'the browser computed the result');
+    assert.equal(got.packed, 'float64-le', 'Python holds the matrix packed');
+    assert.equal(got.request.rho.matrix.packed, 'float64-le', 'the request the browser sent carries the packed matrix');
+    // D(ρ‖1/d) = log₂ d − S(ρ) (Nielsen & Chuang §11.3; S from numpy's eigvalsh).
+    assert.ok(Math.abs(got.result.value - got.numpy) < 1e-10, `${got.result.value} vs numpy ${got.numpy}`);
+    const expected = headless(got.request);
+    assert.ok(Math.abs(got.result.value - expected.value) <= 1e-12 * Math.abs(expected.value), `${got.result.value} vs ${expected.value}`);
+    // The view shows the same number, and says what Python holds.
+    const shown = await lab.page.locator('.jp-Notebook .jp-Cell').nth(4).locator('.rs-card__value').first().getAttribute('data-value');
+    assert.ok(Math.abs(Number(shown) - got.result.value) <= 1e-12 * Math.abs(got.result.value), `shown ${shown}`);
+    const line = await lab.page.locator('.jp-Notebook .jp-Cell').nth(4).locator('.rs-kernel-line').textContent();
+    assert.ok(line?.includes('computed in the browser'), String(line));
+    await lab.page.locator('.jp-Notebook .jp-Cell').nth(4).screenshot({ path: join(SHOTS, 'rhosigma-lab-four-qubits.png') });
+    await lab.page.locator('.jp-Notebook .jp-Cell').nth(3).screenshot({ path: join(SHOTS, 'rhosigma-lab-four-qubit-grid.png') });
   }, 300_000);
 
   it('the dark theme renders the widgets', async () => {
