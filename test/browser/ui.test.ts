@@ -251,6 +251,63 @@ if (!haveChromium && inCI) {
       assert.equal(r[2].value, 1);
     });
 
+    it('identical requests in flight go to the worker once (the widgets\' SharedRequests); a superseded first asker does not cost the others their answer; Stop stops it for all', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const shared = new rs.SharedRequests(rs.engine);
+        const st = await rs.engine.compute({ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2, 2, 4], seed: 6 });
+        const fr = { op: 'fidelity-of-recovery', rho: st.value, a: [0], b: [1], c: [2] };
+        const h = (p: number) => ({ op: 'entropy', rho: { matrix: [[p, 0], [0, 1 - p]] } });
+        // 1. Two askers, one request: one worker call, the same answer.
+        const [x, y] = await Promise.all([shared.compute(h(0.5), { key: 'model' }), shared.compute(h(0.5), { key: 'view' })]);
+        const afterPair = { ...shared.counts };
+        // 2. The worker busy; the first asker's request is superseded by its own newer one (latest wins)
+        //    while queued: the first asker gets 'cancelled', the joiner still its answer.
+        const busy = shared.compute({ ...fr, deadline: 400 });
+        const first = shared.compute(h(0.25), { key: 'model' });
+        const joiner = shared.compute(h(0.25), { key: 'view' });
+        const newer = shared.compute(h(0.125), { key: 'model' });
+        const [, f, j, n] = await Promise.all([busy, first, joiner, newer]);
+        // 3. Stop from one asker stops the shared solve: both are answered 'cancelled'.
+        const stop = new AbortController();
+        const a = shared.compute(fr, { signal: stop.signal, key: 'view' });
+        const b = shared.compute(fr, { key: 'model' });
+        setTimeout(() => stop.abort(), 300);
+        const [sa, sb] = await Promise.all([a, b]);
+        return { x, y, afterPair, f, j, n, sa, sb };
+      });
+      assert.deepEqual(r.x, r.y);
+      assert.equal(r.x.value, 1); // H(1/2, 1/2) = 1 bit (textbook)
+      assert.deepEqual(r.afterPair, { sent: 1, shared: 1 });
+      assert.equal(r.f.ok, false);
+      assert.equal(r.f.error.code, 'cancelled');
+      assert.equal(r.j.ok, true, JSON.stringify(r.j));
+      // h(1/4) = 2 − (3/4) log₂ 3 bits (textbook binary entropy).
+      assert.ok(Math.abs(r.j.value - (2 - 0.75 * Math.log2(3))) < 1e-14, String(r.j.value));
+      assert.ok(Math.abs(r.n.value - (-(0.125 * Math.log2(0.125)) - 0.875 * Math.log2(0.875))) < 1e-14);
+      assert.equal(r.sa.error?.code, 'cancelled');
+      assert.equal(r.sb.error?.code, 'cancelled');
+    });
+
+    it('a worker that cannot run is not restarted for ever: after three deaths in a row every request is refused, saying why', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const script = URL.createObjectURL(new Blob(['throw new Error("this worker cannot start")'], { type: 'text/javascript' }));
+        const client = new rs.EngineClient({ createWorker: () => new Worker(script) });
+        const first = await client.compute({ op: 'entropy', rho: { matrix: [[1, 0], [0, 0]] } });
+        await new Promise((res) => setTimeout(res, 1500));
+        const later = await client.compute({ op: 'entropy', rho: { matrix: [[1, 0], [0, 0]] } });
+        return { first, later, starts: client.starts, broken: client.broken };
+      });
+      assert.equal(r.first.ok, false);
+      assert.equal(r.first.error.code, 'internal-error');
+      assert.equal(r.later.ok, false);
+      assert.equal(r.later.error.code, 'internal-error');
+      assert.match(r.later.error.message, /not restarted/);
+      assert.equal(r.starts, 3);
+      assert.ok(r.broken);
+    });
+
     it('renders in the dark theme with light text on a dark ground (screenshot for a person to look at)', async () => {
       await page.screenshot({ path: join(tmpdir(), 'rhosigma-ui-light.png'), fullPage: true });
       await page.evaluate(() => document.body.classList.add('rs-theme-dark'));

@@ -6,6 +6,7 @@
  * maximally mixed σ) is our own.
  */
 import { EngineClient } from '../../../src/worker/client.js';
+import { SharedRequests } from '../../../src/widgets/engine.js';
 import {
   ChannelEditor, DivergenceCalculator, GuessingCalculator, OneShotCalculator, RecoverabilityCalculator, StateEditor,
 } from '../../../src/ui/index.js';
@@ -42,5 +43,5 @@ sigma.on('change', (v) => {
   oneShot.inputs = { sigma: v };
 });
 
-(window as unknown as { rs: unknown }).rs = { engine, rho, sigma, channel, divergence, oneShot, recoverability, guessing };
+(window as unknown as { rs: unknown }).rs = { EngineClient, SharedRequests, engine, rho, sigma, channel, divergence, oneShot, recoverability, guessing };
 document.body.dataset.ready = 'true';
