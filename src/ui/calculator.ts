@@ -54,6 +54,8 @@ export abstract class Calculator<I extends object, V extends object> {
   private latest = new Map<string, ResultEvent>();
   /** Resolves when the newest round of requests has been shown (for tests and benchmarks). */
   computed: Promise<void> = Promise.resolve();
+  /** Resolves when the newest round's SDP answers have been re-checked (verify-answer) and the verdicts shown. */
+  verified: Promise<void> = Promise.resolve();
 
   constructor(protected readonly host: HTMLElement, options: CalculatorOptions<I, V>, defaults: V, kind: string, title: string) {
     this.engine = options.engine;
@@ -142,6 +144,26 @@ export abstract class Calculator<I extends object, V extends object> {
   /** Show the answers (in the order of `requests`). */
   protected abstract render(answers: { req: NamedRequest; answer: Answer }[]): void;
 
+  /** Each SDP answer shown is re-checked by the engine's verify-answer; the verdict joins its badge. */
+  private recheck(answers: { req: NamedRequest; answer: Answer }[], seq: number): void {
+    const checks: Promise<void>[] = [];
+    for (const { req, answer } of answers) {
+      const cert = answer.ok ? (answer as Record<string, any>).certificate : undefined;
+      const box = cert && typeof cert === 'object' ? badges.get(cert) : undefined;
+      if (!box) continue;
+      const slot = box.querySelector<HTMLElement>('.rs-verdict')!;
+      slot.textContent = ' · re-checking…';
+      checks.push(this.engine.compute({ op: 'verify-answer', request: req.request, answer }, { key: `${this.id}:verify:${req.name}` }).then((v) => {
+        if (this.disposed || seq !== this.seq) return;
+        if (!v.ok && v.error.code === 'cancelled') return;
+        const { text, ok } = verdictText(v);
+        slot.textContent = ` · ${text}`;
+        slot.dataset.verdict = ok ? 'certified' : 'not-certified';
+      }));
+    }
+    this.verified = Promise.all(checks).then(() => undefined);
+  }
+
   protected recompute(): void {
     if (this.disposed) return;
     const seq = ++this.seq;
@@ -175,6 +197,7 @@ export abstract class Calculator<I extends object, V extends object> {
       const stopped = answers.some((a) => !a.answer.ok && a.answer.error.code === 'cancelled');
       this.status.textContent = stopped && abort.signal.aborted ? 'Stopped.' : '';
       this.render(answers);
+      this.recheck(answers, seq);
       for (const { req, answer } of answers) {
         const ev = { name: req.name, request: req.request, answer };
         this.latest.set(req.name, ev);
@@ -187,6 +210,26 @@ export abstract class Calculator<I extends object, V extends object> {
 // ---------------------------------------------------------------------------------------------------
 // Pieces of result cards
 
+/** The badge shown for each certificate object (so that its re-check can be added when it arrives). */
+const badges = new WeakMap<object, HTMLElement>();
+
+/**
+ * What the engine's `verify-answer` said of an SDP answer: re-checked from the answer's own points
+ * (both points' feasibility, both bounds recomputed; docs/protocol.md), shown beside the certificate.
+ */
+export function verdictText(v: Answer): { text: string; ok: boolean } {
+  if (!v.ok) return { text: `re-check failed to run (${v.error.code})`, ok: false };
+  const a = v as Record<string, any>;
+  if (a.checkable === false) return { text: `not re-checkable: ${a.reason ?? 'the answer carries no points'}`, ok: false };
+  if (a.value === true) {
+    const acc = a.accuracy && typeof a.accuracy === 'object' ? a.accuracy : null;
+    const within = acc && typeof acc.absolute === 'number' ? ` (recomputed bracket ${formatNumber(acc.absolute, 2)} wide)` : '';
+    return { text: `re-checked from its points: certified${within}`, ok: true };
+  }
+  const failed = Array.isArray(a.checks) ? a.checks.filter((c: { ok: boolean }) => !c.ok).map((c: { check: string }) => c.check) : [];
+  return { text: `re-checked from its points: NOT certified${failed.length ? ` (${failed.join(', ')})` : ''}`, ok: false };
+}
+
 /** The logarithm base as the answer states it. */
 export function baseText(answer: Record<string, any>, asked: unknown): string {
   const b = answer.base ?? asked ?? 2;
@@ -198,11 +241,14 @@ export function certificateBadge(cert: Record<string, any> | undefined): HTMLEle
   if (!cert) return null;
   const ok = cert.status === 'optimal';
   const gap = cert.relativeGap ?? cert.gap;
-  return el('span', { class: `rs-badge ${ok ? 'rs-badge--ok' : 'rs-badge--warn'}`, title: cert.problem ?? '' }, [
+  const badge = el('span', { class: `rs-badge ${ok ? 'rs-badge--ok' : 'rs-badge--warn'}`, title: cert.problem ?? '' }, [
     `certificate: ${cert.status}`,
     gap !== undefined ? ` · relative gap ${formatNumber(gap, 2)}` : '',
     cert.iterations !== undefined ? ` · ${cert.iterations} iterations` : '',
   ]);
+  const box = el('span', { class: 'rs-certificate' }, [badge, el('span', { class: 'rs-verdict', 'data-verdict': 'pending' }, [])]);
+  badges.set(cert, box);
+  return box;
 }
 
 /** One result: a name, the value (or the error in its place), conventions, extras. */

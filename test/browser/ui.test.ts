@@ -251,6 +251,26 @@ if (!haveChromium && inCI) {
       assert.equal(r[2].value, 1);
     });
 
+    it('an SDP answer shown is re-checked from its own points (verify-answer), with the verdict Node gives for the same answer', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        // The page's two-qubit ρ again (earlier tests edited the editors), H_min(A|B): an SDP.
+        rs.oneShot.inputs = { rho: { matrix: [[0.4, 0, 0, 0.1], [0, 0.2, 0, 0], [0, 0, 0.2, 0], [0.1, 0, 0, 0.2]], dims: [2, 2] } };
+        rs.oneShot.value = { quantity: 'conditional-min-entropy' };
+        await rs.oneShot.computed;
+        await rs.oneShot.verified;
+        const shown = document.querySelector('#oneshot .rs-verdict') as HTMLElement | null;
+        if (!shown) return { verdict: 'none', text: document.querySelector('#oneshot')!.textContent, request: null, answer: null };
+        const res = Object.values(rs.oneShot.results)[0] as { request: unknown; answer: unknown };
+        return { verdict: shown.dataset.verdict, text: shown.textContent, request: res.request, answer: res.answer };
+      });
+      const node = handle({ op: 'verify-answer', request: r.request, answer: r.answer }) as Record<string, any>;
+      assert.equal(node.ok, true, JSON.stringify(node));
+      assert.equal(r.verdict, node.value === true ? 'certified' : 'not-certified', `${r.text} vs ${JSON.stringify(node)}`);
+      assert.equal(node.value, true, 'the one-shot answer of the test page is certified');
+      assert.match(String(r.text), /re-checked from its points: certified/);
+    });
+
     it('identical requests in flight go to the worker once (the widgets\' SharedRequests); a superseded first asker does not cost the others their answer; Stop stops it for all', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;
