@@ -15,9 +15,11 @@ nothing from the rest of the package and runs no engine code: a referee can read
 WHAT IS CHECKED (per op; the formulation and its source in each function's docstring):
   divergence (family hypothesis-testing), smooth-max-divergence, conditional-min-entropy,
   conditional-max-entropy, max-information, guessing-probability, diamond-distance, fidelity-sdp,
-  guesswork (with side information). Answers whose certificate carries no points (fidelity-of-recovery
-  today, the closed-form guesswork without side information) are reported as "not checkable", never as
-  certified.
+  guesswork (with side information), fidelity-of-recovery. Answers whose certificate carries no points
+  (the closed-form guesswork without side information) are reported as "not checkable", never as
+  certified. Where a quantity has a range by definition (a fidelity or a diamond distance in [0, 1], a
+  guessing probability in [max_x p_x, 1]) the recomputed bracket is clipped to it, as the engine clips
+  its own (the answer's certificate.clipped says by how much).
 
 THE VERDICT: `certified` is True when every feasibility check passes, the recomputed bracket [lower,
 upper] lies inside the answer's stated bracket (up to a slack of its width again and a few
@@ -628,7 +630,89 @@ def _fidelity_sdp(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
     return low_root ** 2, up_root ** 2
 
 
+def _tripartite(req: dict) -> tuple[np.ndarray, int, int, int]:
+    """ρ_ABC: the request's state reordered to the groups a, b, c (A first) with the rest traced out."""
+    rho, dims, labels = state(req["rho"], "rho")
+
+    def idx(x: Any) -> int:
+        return labels.index(x) if isinstance(x, str) and labels else int(x)
+
+    ga, gb, gc = ([idx(x) for x in req.get(g, [])] for g in ("a", "b", "c"))
+    d = [int(np.prod([dims[k] for k in g])) if g else 1 for g in (ga, gb, gc)]
+    rabc = partial_trace(rho, list(dims), ga + gb + gc)
+    return hermitian(rabc / np.trace(rabc).real), d[0], d[1], d[2]
+
+
+def recovered_state(rab: np.ndarray, J: np.ndarray, da: int, db: int, do: int) -> np.ndarray:
+    """σ(J) = (id_A ⊗ R_J)(ρ_AB) for the Choi matrix J = Σ_ij |i⟩⟨j| ⊗ R(|i⟩⟨j|) (input first; docs/protocol.md, "Values"):
+    σ_{(a,o),(x,p)} = Σ_{b,c} (ρ_AB)_{(a,b),(x,c)} J_{(b,o),(c,p)}, by linearity from R(|b⟩⟨c|)_{op} = J_{(b,o),(c,p)}."""
+    s = np.einsum("abxc,bocp->aoxp", rab.reshape(da, db, da, db), J.reshape(db, do, db, do))
+    return s.reshape(da * do, da * do)
+
+
+def recovery_dual_operator(rab: np.ndarray, W: np.ndarray, da: int, db: int, do: int) -> np.ndarray:
+    """K(W) on B ⊗ BC with Tr σ(J)W = Tr K(W)J for every J: K_{(c,p),(b,o)} = Σ_{a,x} (ρ_AB)_{(a,b),(x,c)} W_{(x,p),(a,o)}
+    (the same sum as recovered_state, read as a linear functional of J)."""
+    k = np.einsum("abxc,xpao->cpbo", rab.reshape(da, db, da, db), W.reshape(da, do, da, do))
+    return hermitian(k.reshape(db * do, db * do))
+
+
+def _fidelity_of_recovery(req: dict, ans: dict, v: Verdict) -> tuple[float, float]:
+    """F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (Seshadreesan & Wilde, Phys. Rev. A 92,
+    042321 (2015)). Lower: the closed-form fidelity of the answer's Choi matrix J (J ⪰ 0 and Tr_out J = 1_B checked to
+    1e-9, then made exactly trace preserving by (T^{-1/2} ⊗ 1) J (T^{-1/2} ⊗ 1), T = Tr_out J). Upper: for Y ≻ 0 on
+    supp ρ_ABC, √F(ρ, σ) ≤ √(Tr ρY · Tr σY⁻¹) (Alberti, Lett. Math. Phys. 7 (1983) — recalled from memory; the dual of
+    Watrous's fidelity SDP, Chicago J. Theor. Comput. Sci. 2013, Sec. 3), and for every channel Tr σ(J)W = Tr K(W)J ≤ Tr Z'
+    when Z' ⊗ 1_BC ⪰ K(W) (weak duality for J ⪰ 0, Tr_out J = 1_B), Z' = Z + s·1 with s the shift that makes it so."""
+    rabc, da, db, dc = _tripartite(req)
+    do = db * dc
+    n = da * do
+    rab = partial_trace(rabc, [da * db, dc], [0])
+    tol = float(req.get("supportTolerance", DEFAULT_SUPPORT_TOLERANCE))
+    cert = ans["certificate"]
+    J = hermitian(matrix(cert["primal"]["choi"], "certificate.primal.choi"))
+    v.require("J has the size of a channel B → BC", J.shape == (db * do, db * do), rows=J.shape[0])
+    lo, pad = min_eig(J)
+    v.require("J ⪰ 0 (completely positive)", lo >= -pad, smallest=lo)
+    T = partial_trace(J, [db, do], [0])
+    defect = float(np.linalg.norm(T - np.eye(db), 2))
+    v.require("Tr_out J = 1_B (trace preserving, to 1e-9)", defect <= 1e-9, defect=defect)
+    Jp = psd_part(J)
+    tw, tv = np.linalg.eigh(hermitian(partial_trace(Jp, [db, do], [0])))
+    S = np.kron((tv / np.sqrt(tw)) @ tv.conj().T, np.eye(do))
+    Jr = hermitian(S @ Jp @ S)
+    f = root_fidelity(rabc, hermitian(recovered_state(rab, Jr, da, db, do)), tol) ** 2
+    rp = 8 * n * n * U
+    P = support(rabc, tol)
+    Y = P.conj().T @ hermitian(matrix(cert["dual"]["Y"], "certificate.dual.Y")) @ P
+    yw, yv = np.linalg.eigh(Y)
+    v.require("Y positive definite on supp ρ_ABC", yw[0] > 0, smallest=yw[0])
+    W = P @ ((yv / yw) @ yv.conj().T) @ P.conj().T
+    Z = hermitian(matrix(cert["dual"]["Z"], "certificate.dual.Z"))
+    v.require("Z acts on B", Z.shape == (db, db), rows=Z.shape[0])
+    s = shift_to_psd(np.kron(Z, np.eye(do)) - recovery_dual_operator(rab, W, da, db, do))
+    mu = float(np.trace(Z).real) + db * s
+    up_root = math.sqrt(max(0.0, float(np.trace(P.conj().T @ rabc @ P @ Y).real)) * max(0.0, mu)) * (1 + 1e-14) + rp
+    return max(0.0, f * (1 - 4e-15) - rp), up_root ** 2
+
+
+def _guessing_range(req: dict) -> tuple[float, float]:
+    """p_guess ≥ max_x p_x Tr ρ_x (always guess the likeliest x) and ≤ Σ_x p_x Tr ρ_x (common practice)."""
+    w = [max(0.0, float(p)) * float(np.trace(state(s, f"states[{k}]")[0]).real) for k, (p, s) in enumerate(zip(req["probabilities"], req["states"]))]
+    return max(w), max(max(w), sum(w))
+
+
+# The ranges the quantities have by definition; a recomputed bracket is clipped to them (facts, not evidence).
+RANGES = {
+    "fidelity-of-recovery": lambda req: (0.0, 1.0),
+    "fidelity-sdp": lambda req: (0.0, 1.0),
+    "diamond-distance": lambda req: (0.0, 1.0),
+    "guessing-probability": _guessing_range,
+}
+
+
 CHECKERS = {
+    "fidelity-of-recovery": _fidelity_of_recovery,
     "smooth-max-divergence": _smooth_max,
     "conditional-min-entropy": _min_entropy,
     "conditional-max-entropy": _max_entropy,
@@ -663,6 +747,9 @@ def check(request: dict, answer: dict) -> dict:
         return _infinite(request, answer, v)
     try:
         lower, upper = fn(request, answer, v)
+        if name in RANGES:
+            lo, hi = RANGES[name](request)
+            lower, upper = min(max(lower, lo), hi), min(max(upper, lo), hi)
     except (KeyError, TypeError, ValueError, IndexError, np.linalg.LinAlgError) as e:
         raise CheckError(f"{name}: cannot read the request or the certificate ({type(e).__name__}: {e})") from e
     return _finish(v, answer, lower, upper)

@@ -63,6 +63,9 @@ def reference_requests() -> list[tuple[dict, float | None, str]]:
         out.append(({"op": "guessing-probability", "probabilities": c["probabilities"], "states": c["states"]}, float(c["value"]), f"{gsrc}: guessing #{i}"))
     for i, c in enumerate(g["diamond"]):
         out.append(({"op": "diamond-distance", "a": c["a"], "b": c["b"]}, float(c["value"]), f"{gsrc}: diamond #{i}"))
+    for i, c in enumerate(g["recovery"]):
+        r = {"op": "fidelity-of-recovery", "rho": c["rho"], "a": c["a"], "b": c["b"], "c": c["c"]}
+        out.append((r, float(c["value"]), f"{gsrc}: recovery #{i}"))
     gw = json.loads((DATA / "guesswork-cases.json").read_text())
     gwsrc = f"cvxopt {gw['cvxopt']} ({gw['generator']})"
     for c in gw["cases"]:
@@ -238,3 +241,108 @@ def test_the_engines_verify_answer_op_gives_the_same_verdicts_as_numpy(answered)
     for (r, a), v in zip(pairs, verdicts):
         assert v["ok"], v
         assert v["value"] == C.check(r, a)["certified"], (r["op"], v["checks"])
+
+
+# ---------------------------------------------------------------------------------------------------
+# Fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 042321 (2015)) and values at the end of their range.
+
+
+def _kraus_of_choi(J: np.ndarray, din: int, dout: int) -> list[np.ndarray]:
+    """Kraus operators of a Choi matrix J = Σ_ij |i⟩⟨j| ⊗ N(|i⟩⟨j|) (input first): K_k = √λ_k · unvec(v_k), from J's
+    eigenvectors (Choi 1975; the vectorisation index (i, o) ↦ K[o, i])."""
+    w, v = np.linalg.eigh(J)
+    return [np.sqrt(x) * v[:, k].reshape(din, dout).T for k, x in enumerate(w) if x > 1e-14]
+
+
+def _random_channel(din: int, dout: int, rng, kraus: int = 3) -> np.ndarray:
+    """A random channel's Choi matrix, from a random isometry's Kraus operators (Stinespring; common practice)."""
+    g = rng.normal(size=(dout * kraus, din)) + 1j * rng.normal(size=(dout * kraus, din))
+    q, _ = np.linalg.qr(g)
+    ks = [q[k * dout:(k + 1) * dout, :] for k in range(kraus)]
+    J = np.zeros((din * dout, din * dout), dtype=complex)
+    for k in ks:
+        vec = k.T.reshape(-1)
+        J += np.outer(vec, vec.conj())
+    return J
+
+
+def test_the_recovery_maps_match_the_channel_applied_by_its_kraus_operators_and_their_adjoint_identity():
+    """σ(J) = (id_A ⊗ R)(ρ_AB) = Σ_k (1 ⊗ K_k) ρ_AB (1 ⊗ K_k)* (Kraus form, Nielsen & Chuang §8.2.3) for the checker's
+    einsum form, and Tr σ(J)W = Tr K(W)J for its dual operator (the defining identity), on random ρ_AB, J, W."""
+    rng = np.random.default_rng(21)
+    for da, db, dc in ((2, 2, 2), (1, 2, 3), (3, 2, 1)):
+        do = db * dc
+        rab = random_density(da * db, rng)
+        J = _random_channel(db, do, rng)
+        ks = _kraus_of_choi(J, db, do)
+        by_kraus = sum(np.kron(np.eye(da), k) @ rab @ np.kron(np.eye(da), k).conj().T for k in ks)
+        assert np.allclose(C.recovered_state(rab, J, da, db, do), by_kraus, atol=1e-12)
+        W = random_density(da * do, rng)
+        lhs = np.trace(C.recovered_state(rab, J, da, db, do) @ W)
+        rhs = np.trace(C.recovery_dual_operator(rab, W, da, db, do) @ J)
+        assert abs(lhs - rhs) <= 1e-12
+
+
+def test_fidelity_of_recovery_answers_are_certified_and_each_perturbed_point_is_rejected():
+    """Random three-qubit states of ranks 8, 3 and 1 (the SDP is restricted to supp ρ_ABC) and a product over B (a Markov
+    chain, F = 1: Hayden, Jozsa, Petz & Winter 2004): certified; J, Y or Z moved by 1e-3 alone is refused (J: Tr_out J ≠ 1_B;
+    Y, Z: the dual bound rises above the stated bracket; Y only where it matters, see below); and the value is at least the Petz map's fidelity, a feasible
+    channel (Seshadreesan & Wilde 2015), recomputed here from the closed form."""
+    rng = np.random.default_rng(23)
+    reqs = []
+    for rank in (8, 3, 1):
+        reqs.append({"op": "fidelity-of-recovery", "rho": {"matrix": _mat(random_density(8, rng, rank)), "dims": [2, 2, 2]}, "a": [0], "b": [1], "c": [2]})
+    prod = np.kron(random_density(2, rng), np.kron(np.diag([1.0, 0.0]), random_density(2, rng)))
+    reqs.append({"op": "fidelity-of-recovery", "rho": {"matrix": _mat(prod), "dims": [2, 2, 2]}, "a": [0], "b": [1], "c": [2]})
+    answers = cli_compute(reqs)
+    for r, a in zip(reqs, answers):
+        assert a["ok"], a.get("error")
+        v = C.check(r, a)
+        assert v["certified"], [c for c in v["checks"] if not c["ok"]]
+        assert 0 <= a["value"] <= 1 and a["certificate"]["bounds"]["upper"] <= 1
+        # Both objectives recomputed from the points agree with the stated ones (the checker's own numbers).
+        assert float(v["lower"]) <= a["value"] <= float(v["upper"])
+        # For rank 1 the bound √(Tr ρY · Tr σY⁻¹) does not depend on Y (Y is a number on supp ρ and the bound is
+        # scale invariant), and at F = 1 a raised upper bound is clipped back to 1: there perturbed dual points prove as much.
+        keys = [("primal", "choi"), ("dual", "Y"), ("dual", "Z")][: 3 if r is reqs[0] or r is reqs[1] else 1]
+        if r is reqs[2]:
+            keys.append(("dual", "Z"))
+        for which, key in keys:
+            b = copy.deepcopy(a)
+            b["certificate"][which][key] = _perturb(b["certificate"][which][key], rng, 1e-3)
+            assert not C.check(r, b)["certified"], (r["rho"]["matrix"]["re"][0][:2], which, key)
+    assert abs(answers[-1]["value"] - 1) <= 1e-6
+    # The Petz map R(X) = ρ_BC^{1/2}(ρ_B^{-1/2} X ρ_B^{-1/2} ⊗ 1_C)ρ_BC^{1/2} (Petz 1986) is one channel: F(A;C|B) ≥ its fidelity.
+    for r, a in zip(reqs[:1], answers[:1]):
+        rho = C.matrix(r["rho"]["matrix"])
+        rbc = C.partial_trace(rho, [2, 2, 2], [1, 2])
+        rb = C.partial_trace(rho, [2, 2, 2], [1])
+        rab = C.partial_trace(rho, [2, 2, 2], [0, 1])
+        wb, vb = np.linalg.eigh(rb)
+        ib = (vb / np.sqrt(wb)) @ vb.conj().T
+        sq = C.sqrtm_psd(rbc)
+        L = np.kron(np.eye(2), sq @ np.kron(ib, np.eye(2)))
+        # (id_A ⊗ R)(ρ_AB) = (1_A ⊗ ρ_BC^{1/2}(ρ_B^{-1/2} ⊗ 1)) (ρ_AB ⊗ 1_C) (…)*
+        petz = L @ np.kron(rab, np.eye(2)) @ L.conj().T
+        f_petz = C.root_fidelity(rho, petz) ** 2
+        assert a["value"] >= f_petz - 1e-7, (a["value"], f_petz)
+
+
+def test_values_at_the_end_of_their_range_are_clipped_stated_and_still_certified():
+    """A diamond distance of 1 (identity against the bit flip: orthogonal outputs on |0⟩; common practice) and p_guess = 1 for
+    orthogonal states (Nielsen & Chuang, Box 2.3): value and bracket within [0, 1]; an excess is stated in certificate.clipped;
+    the checker, clipping its own bracket to the same range, certifies them."""
+    reqs = [
+        {"op": "diamond-distance", "a": {"kraus": [[[1, 0], [0, 1]]]}, "b": {"kraus": [[[0, 1], [1, 0]]]}},
+        {"op": "guessing-probability", "probabilities": [0.5, 0.5], "states": [[[1, 0], [0, 0]], [[0, 0], [0, 1]]]},
+    ]
+    for r, a in zip(reqs, cli_compute(reqs)):
+        assert a["ok"], a.get("error")
+        b = a["certificate"]["bounds"]
+        assert b["lower"] <= a["value"] <= b["upper"] <= 1, (r["op"], a["value"], b)
+        assert abs(a["value"] - 1) <= 1e-7
+        clip = a["certificate"].get("clipped")
+        if clip:
+            assert clip["excess"] > 0 and clip["excess"] <= 1e-6, clip
+            assert max(clip["from"], clip["bracket"]["upper"]) > 1, clip
+        assert C.check(r, a)["certified"], r["op"]

@@ -148,7 +148,7 @@ export function guessingProbability(
     dual: { Y: dual }, dualObjective: trY,
     bounds: { lower: achieved - pad, upper: upper + pad },
     estimate: -answer.primalObjective,
-    range: [0, 1],
+    range: guessingRange(weighted),
     limit: ACCEPT_INACCURATE_LOOSE,
   });
   const result: GuessingResult = {
@@ -161,6 +161,22 @@ export function guessingProbability(
   };
   if (c.note) result.warning = c.note;
   return result;
+}
+
+/**
+ * The range of p_guess for the weighted states w_x = p_x ρ_x: at least max_x Tr w_x (always guess the most
+ * likely x: M_x* = I) and at most Σ_x Tr w_x (each Tr M_x w_x ≤ Tr w_x) — [max_x p_x, 1] for a distribution
+ * and states of unit trace, and max_x p_x ≥ 1/n. Facts of the problem, not of the solve (common practice).
+ */
+export function guessingRange(weighted: readonly CMatrix[]): [number, number] {
+  let top = 0;
+  let sum = 0;
+  for (const w of weighted) {
+    const t = trace(w).re;
+    top = Math.max(top, t);
+    sum += t;
+  }
+  return [top, Math.max(top, sum)];
 }
 
 /** Σ_x p_x ρ_x M_x, the operator that equals Y at the optimum (Holevo / Yuen–Kennedy–Lax). */

@@ -44,7 +44,7 @@ function boundedAnswer(
 defineOp({
   name: 'guessing-probability',
   summary:
-    'Optimal probability of guessing x from the state ρ_x drawn with probability p_x: max over POVMs of Σ_x p_x Tr M_x ρ_x, with the optimal measurement, the dual operator Y ⪰ p_x ρ_x and the SDP certificate.',
+    'Optimal probability of guessing x from the state ρ_x drawn with probability p_x: max over POVMs of Σ_x p_x Tr M_x ρ_x, with the optimal measurement, the dual operator Y ⪰ p_x ρ_x and the SDP certificate; value and bracket clipped to [max_x p_x, 1], the excess in certificate.clipped.',
   args: {
     type: 'object',
     properties: {
@@ -89,7 +89,7 @@ defineOp({
 defineOp({
   name: 'diamond-distance',
   summary:
-    "Diamond-norm distance ½‖N − M‖_⋄ of two channels with the same input and output spaces, by Watrous's SDP; with an optimal input (its reduced state and a purification), checkable bounds and the certificate.",
+    "Diamond-norm distance ½‖N − M‖_⋄ of two channels with the same input and output spaces, by Watrous's SDP; with an optimal input (its reduced state and a purification), checkable bounds and the certificate; value and bracket clipped to [0, 1], the excess in certificate.clipped.",
   args: {
     type: 'object',
     properties: {

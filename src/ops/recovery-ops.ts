@@ -98,7 +98,7 @@ defineOp({
 defineOp({
   name: 'fidelity-of-recovery',
   summary:
-    'Fidelity of recovery F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (squared, with the root), by an SDP over the Choi matrix of R; plus the optimal channel, the fidelity it achieves (closed form) and the certificate.',
+    'Fidelity of recovery F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (squared, with the root), by an SDP over the Choi matrix of R; plus the optimal channel, the fidelity it achieves (closed form) and the certificate (primal: the channel\'s Choi matrix; dual: Y on supp ρ_ABC and Z on B; value and bracket clipped to [0, 1], the excess in certificate.clipped).',
   args: { type: 'object', properties: { ...groupArgs }, required: ['rho', 'a', 'b', 'c'] },
   cost: (req) => {
     const [dA, dB, dC] = [req.a, req.b, req.c].map((g) => groupDimension(req.rho, g));

@@ -22,6 +22,7 @@ import {
   traceParts,
 } from '../linalg/index.js';
 import { krausToChoi } from '../quantum/channels.js';
+import { partialTranspose, reorderSubsystems } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import { defineOp, type OpResult } from './registry.js';
 import { readChannel, readMatrix, readNumber, readOperatorState, readState, readSystems } from './codec.js';
@@ -502,7 +503,74 @@ const fidelitySdp: Fn = (req, ans, c, tol) => {
   return [lowRoot ** 2, upRoot ** 2];
 };
 
+/**
+ * F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB)) (Seshadreesan & Wilde, Phys. Rev. A 92,
+ * 042321 (2015)). Lower: the closed-form F(ρ_ABC, σ(J)) of the answer's Choi matrix J (checked ⪰ 0 and Tr_out J = 1_B
+ * to 1e-9, then made exactly trace preserving by (T^{−1/2} ⊗ 1) J (T^{−1/2} ⊗ 1), T = Tr_out J), with σ(J) =
+ * Tr_B[(ρ_AB^{T_B} ⊗ 1)(1_A ⊗ J)] (the Choi–Jamiołkowski identity). Upper: √F(ρ, σ) ≤ √(Tr ρY · Tr σY⁻¹) for Y ≻ 0 on
+ * supp ρ (Alberti 1983; the dual of Watrous's fidelity SDP), and Tr σ(J)W = Tr K(W)J with K(W) = Tr_A[(W ⊗ 1_B)(ρ_AB^{T_B}
+ * ⊗ 1)] (subsystems A, B, BC), so Tr σ(J)W ≤ Tr Z + d_B·s for every channel once (Z + s·1) ⊗ 1 ⪰ K(W), W = Y⁻¹.
+ */
+const fidelityOfRecovery: Fn = (req, ans, c, tol) => {
+  const st = readState(req.rho, 'request.rho', tol);
+  const opts = { labels: st.labels };
+  const n = st.dims.length;
+  const [ga, gb, gc] = (['a', 'b', 'c'] as const).map((g) => readSystems(req[g], `request.${g}`, n, opts));
+  const dA = product(ga.map((k) => st.dims[k]));
+  const dB = product(gb.map((k) => st.dims[k]));
+  const dC = product(gc.map((k) => st.dims[k]));
+  const dO = dB * dC;
+  const N = dA * dO;
+  let rabc = marginal(st.matrix, st.dims, [...ga, ...gb, ...gc]);
+  rabc = hermitianPart(scale(rabc, 1 / trace(rabc).re));
+  const rab = partialTrace(rabc, [dA * dB, dC], [1]);
+  const stol = typeof req.supportTolerance === 'number' ? req.supportTolerance : DEFAULT_SUPPORT;
+  const rabT = kron(partialTranspose(rab, [dA, dB], [1]), identity(dO));
+  // Primal: J, a Choi matrix of a channel B → BC (input factor first).
+  const J = hermitianPart(point(ans, 'primal', 'choi'));
+  c.require('J has the size of a channel B → BC', J.rows === dB * dO, { rows: J.rows });
+  const ej = minEig(J);
+  c.require('J ⪰ 0 (completely positive)', ej.value >= -ej.pad, { smallest: ej.value });
+  const T = partialTrace(J, [dB, dO], [1]);
+  const defect = opNorm(sub(T, identity(dB)));
+  c.require('Tr_out J = 1_B (trace preserving, to 1e-9)', defect <= 1e-9, { defect });
+  const Jp = psdPart(J);
+  const S = kron(invSqrt(partialTrace(Jp, [dB, dO], [1])), identity(dO));
+  const Jr = hermitianPart(mul(mul(S, Jp), S));
+  const sigma = hermitianPart(partialTrace(mul(rabT, kron(identity(dA), Jr)), [dA, dB, dO], [1]));
+  const f = rootFidelity(rabc, sigma, stol) ** 2;
+  const pad = 8 * N * N * U;
+  // Dual: Y on supp ρ_ABC, Z on B.
+  const P = supportBasis(rabc, stol);
+  const Y = compress(P, point(ans, 'dual', 'Y'));
+  const { inverse, smallest } = inversePd(Y);
+  c.require('Y positive definite on supp ρ_ABC', smallest > 0, { smallest });
+  const W = mul(mul(P, inverse), adjoint(P));
+  const Wext = reorderSubsystems(kron(W, identity(dB)), [dA, dO, dB], [0, 2, 1]);
+  const K = hermitianPart(partialTrace(mul(Wext, rabT), [dA, dB, dO], [0]));
+  const Z = hermitianPart(point(ans, 'dual', 'Z'));
+  c.require('Z acts on B', Z.rows === dB, { rows: Z.rows });
+  const s = shiftToPsd(sub(kron(Z, identity(dO)), K));
+  const mu = trace(Z).re + dB * s;
+  const upRoot = Math.sqrt(Math.max(0, traceOfProductRe(compress(P, rabc), Y)) * Math.max(0, mu)) * (1 + 1e-14) + pad;
+  return [Math.max(0, f * (1 - 4e-15) - pad), upRoot ** 2];
+};
+
+/** Ranges the quantities have by definition: a recomputed bracket is clipped to them (facts, not evidence). */
+const RANGES: Record<string, (req: Record<string, any>, tol: number) => [number, number]> = {
+  'fidelity-of-recovery': () => [0, 1],
+  'fidelity-sdp': () => [0, 1],
+  'diamond-distance': () => [0, 1],
+  // At least max_x p_x Tr ρ_x (always guess the likeliest), at most Σ_x p_x Tr ρ_x.
+  'guessing-probability': (req, tol) => {
+    const w = readStates(req, tol).map((r, x) => Math.max(0, req.probabilities[x]) * trace(r).re);
+    const top = Math.max(...w);
+    return [top, Math.max(top, w.reduce((x, y) => x + y, 0))];
+  },
+};
+
 const CHECKERS: Record<string, Fn> = {
+  'fidelity-of-recovery': fidelityOfRecovery,
   'smooth-max-divergence': smoothMax,
   'conditional-min-entropy': minEntropy,
   'conditional-max-entropy': maxEntropy,
@@ -535,7 +603,12 @@ export function verifyAnswer(req: Record<string, any>, ans: Record<string, any>)
   const c = new Checks();
   const value = num(ans.value);
   if (!Number.isFinite(value)) return infinite(req, ans, c, tol, name);
-  const [lower, upper] = fn(req, ans, c, tol);
+  let [lower, upper] = fn(req, ans, c, tol);
+  const range = RANGES[op]?.(req, tol);
+  if (range) {
+    lower = Math.min(Math.max(lower, range[0]), range[1]);
+    upper = Math.min(Math.max(upper, range[0]), range[1]);
+  }
   const sl = num(cert.bounds.lower);
   const su = num(cert.bounds.upper);
   const width = Number.isFinite(su - sl) ? su - sl : Infinity;

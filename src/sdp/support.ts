@@ -60,6 +60,24 @@ export interface SdpCertificate {
   dualResidual: number;
   /** The solver's remark, when it has one. */
   message?: string;
+  /**
+   * Present only when the solver's estimate or the padded bracket reached beyond the range the quantity
+   * has by definition (a fidelity above 1, a distance above 1): what was clipped, and by how much.
+   */
+  clipped?: RangeClip;
+}
+
+/**
+ * What clipping to a quantity's range changed: `from`, the solver's raw estimate of the headline value
+ * (before any clamping); `excess`, how far beyond the range the raw estimate or the padded bracket reached
+ * (the larger; 0 < excess); `range`, the quantity's range; `bracket`, the padded bracket before clipping.
+ * The reported value and `bounds` are the clipped ones, so `bounds` still contains `value`.
+ */
+export interface RangeClip {
+  from: number;
+  excess: number;
+  range: [number, number];
+  bracket: { lower: number; upper: number };
 }
 
 /** Default relative width of the certified bracket up to which an answer is returned. */
@@ -132,14 +150,18 @@ export function assess(c: CertifyInput): Assessed {
   const status: SdpStatus | 'exact' = s ? s.status : 'exact';
   let lower = Math.min(c.bounds.lower, c.bounds.upper);
   let upper = Math.max(c.bounds.lower, c.bounds.upper);
+  const raw = c.estimate ?? 0.5 * (lower + upper);
   const notes: string[] = [];
+  let clipped: RangeClip | undefined;
   if (c.range) {
     const [lo, hi] = c.range;
-    if (upper > hi || lower < lo) {
-      const excess = Math.max(upper - hi, lo - lower);
+    const excess = Math.max(upper - hi, lo - lower, Number.isFinite(raw) ? Math.max(raw - hi, lo - raw) : 0);
+    if (excess > 0) {
+      clipped = { from: raw, excess, range: [lo, hi], bracket: { lower, upper } };
       notes.push(
-        `The certified bracket [${fmt(lower)}, ${fmt(upper)}] reaches ${fmt(excess)} beyond the range [${lo}, ${hi}] of ${c.what} ` +
-          `(rounding and the solver's residuals); it is clipped to the range.`,
+        `The solver's estimate ${fmt(raw)} and the certified bracket [${fmt(lower)}, ${fmt(upper)}] reach ${fmt(excess)} beyond the range ` +
+          `[${lo}, ${hi}] of ${c.what} (rounding and the solver's residuals); the value and the bracket are clipped to the range ` +
+          `(certificate.clipped).`,
       );
       lower = Math.min(Math.max(lower, lo), hi);
       upper = Math.min(Math.max(upper, lo), hi);
@@ -169,6 +191,7 @@ export function assess(c: CertifyInput): Assessed {
     primalResidual: s ? s.primalResidual : 0,
     dualResidual: s ? s.dualResidual : 0,
     ...(s?.message ? { message: s.message } : {}),
+    ...(clipped ? { clipped } : {}),
   };
   const limit = c.limit ?? ACCEPT_RELATIVE;
   const absolute = c.absolute ?? ACCEPT_ABSOLUTE;

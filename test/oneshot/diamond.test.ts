@@ -153,6 +153,31 @@ describe('diamond-distance op', () => {
     assert.ok(a.bounds.lower <= a.bounds.upper + 1e-9);
   });
 
+  it('stays in its range [0, 1] (½‖N − M‖_⋄ ≤ ½(‖N‖_⋄ + ‖M‖_⋄) = 1 for channels; Watrous, The Theory of Quantum Information, Ch. 3) at distance 1, with the bracket containing the value and any excess stated in certificate.clipped', () => {
+    // Identity against the bit flip, and the replacement channels onto |0⟩ and |1⟩ (orthogonal outputs: distance 1).
+    const pairs = [
+      [{ kraus: [[[1, 0], [0, 1]]] }, { kraus: [[[0, 1], [1, 0]]] }],
+      [{ kraus: [[[1, 0], [0, 0]], [[0, 1], [0, 0]]] }, { kraus: [[[0, 0], [1, 0]], [[0, 0], [0, 1]]] }],
+    ];
+    for (const [a, b] of pairs) {
+      const ans = handle({ op: 'diamond-distance', a, b }) as Record<string, any>;
+      assert.equal(ans.ok, true, JSON.stringify(ans.error));
+      const { lower, upper } = ans.certificate.bounds;
+      assert.ok(ans.value >= 0 && ans.value <= 1, `value ${ans.value}`);
+      assert.ok(lower >= 0 && upper <= 1 && lower <= ans.value && ans.value <= upper, JSON.stringify(ans.certificate.bounds));
+      assert.ok(Math.abs(ans.value - 1) <= 1e-7);
+      const c = ans.certificate.clipped;
+      if (c) {
+        // What was clipped is stated: the raw estimate or the raw bracket left [0, 1] by `excess`, which is small.
+        assert.deepEqual(c.range, [0, 1]);
+        assert.ok(c.excess > 0 && c.excess <= 1e-6, JSON.stringify(c));
+        assert.ok(Math.max(c.from - 1, c.bracket.upper - 1) > 0);
+        assert.ok(Math.abs(Math.max(c.from, c.bracket.upper) - 1 - c.excess) <= 1e-15, JSON.stringify(c));
+        assert.ok(typeof ans.warning === 'string' && ans.warning.includes('clipped'), ans.warning);
+      }
+    }
+  });
+
   it('refuses a Kraus family that is not trace preserving, naming the channel', () => {
     const a = handle({ op: 'diamond-distance', a: { kraus: [[[0.5, 0], [0, 0.5]]] }, b: { kraus: [[[1, 0], [0, 1]]] } }) as Record<string, any>;
     assert.equal(a.ok, false);

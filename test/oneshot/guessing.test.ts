@@ -107,6 +107,26 @@ describe('guessing-probability op (PROTOCOL.md fields: probabilities, states)', 
     assert.doesNotThrow(() => JSON.parse(JSON.stringify(a)));
   });
 
+  it('stays in its range [max_x p_x, 1] (guessing the likeliest x is a strategy; every Tr M_x ρ_x ≤ 1; common practice), the excess stated in certificate.clipped', () => {
+    // Orthogonal states (p_guess = 1, Nielsen & Chuang Box 2.3) and equal states (p_guess = max_x p_x): both ends of the range.
+    const cases: [number[], number[][][], number][] = [
+      [[0.5, 0.5], [[[1, 0], [0, 0]], [[0, 0], [0, 1]]], 1],
+      [[0.7, 0.3], [[[0.6, 0], [0, 0.4]], [[0.6, 0], [0, 0.4]]], 0.7],
+    ];
+    for (const [probabilities, states, exact] of cases) {
+      const a = handle({ op: 'guessing-probability', probabilities, states }) as Record<string, any>;
+      assert.equal(a.ok, true, JSON.stringify(a.error));
+      const { lower, upper } = a.certificate.bounds;
+      assert.ok(lower >= Math.max(...probabilities) && upper <= 1, JSON.stringify(a.certificate.bounds));
+      assert.ok(lower <= a.value && a.value <= upper);
+      assert.ok(Math.abs(a.value - exact) <= 1e-7, `${a.value} vs ${exact}`);
+      if (a.certificate.clipped) {
+        assert.deepEqual(a.certificate.clipped.range, [Math.max(...probabilities), 1]);
+        assert.ok(a.certificate.clipped.excess > 0 && a.certificate.clipped.excess <= 1e-6);
+      }
+    }
+  });
+
   it('refuses probabilities that do not sum to 1, and negative ones, naming the field', () => {
     const states = [[[1, 0], [0, 0]], [[0, 0], [0, 1]]];
     const a = handle({ op: 'guessing-probability', probabilities: [0.5, 0.6], states }) as Record<string, any>;

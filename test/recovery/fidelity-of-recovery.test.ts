@@ -6,7 +6,7 @@ import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { CMatrix, fromRows, identity, sub, eigvalsh, toRows } from '../../src/linalg/index.js';
+import { CMatrix, fromRows, identity, partialTrace, sub, eigvalsh, toRows } from '../../src/linalg/index.js';
 import { fidelityOfRecovery } from '../../src/recovery/fidelity-of-recovery.js';
 import { petzRecovery } from '../../src/recovery/petz.js';
 import { krausSum } from '../../src/quantum/channels.js';
@@ -89,6 +89,46 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
     assert.ok(eigvalsh(f.choi)[0] >= -1e-12);
     assert.ok(Math.abs(f.achieved - f.value) <= 1e-6, `achieved ${f.achieved}, SDP ${f.value}`);
     assert.ok(f.certificate.relativeGap <= 1e-7);
+  });
+});
+
+describe('fidelity of recovery: range and certificate (docs/protocol.md, "SDP certificates")', () => {
+  it('stays in its range [0, 1] on a quantum Markov chain, where F(A;C|B) = 1 (Hayden, Jozsa, Petz & Winter 2004; Seshadreesan & Wilde 2015): value and bracket clipped, the excess stated', () => {
+    const r = rng(56);
+    for (const blocks of [[[1, 1], [1, 1]], [[2, 1]]] as [number, number][][]) {
+      const { rho, dB } = markovChain(2, 2, blocks, r);
+      const f = fidelityOfRecovery(rho, [2, dB, 2], [0], [1], [2]);
+      const { lower, upper } = f.certificate.bounds;
+      assert.ok(f.value <= 1 && upper <= 1 && lower <= f.value && f.value <= upper, `value ${f.value}, bracket [${lower}, ${upper}]`);
+      assert.ok(Math.abs(f.value - 1) <= 1e-6, `F = ${f.value}`);
+      const c = f.certificate.clipped;
+      if (c) {
+        assert.deepEqual(c.range, [0, 1]);
+        assert.ok(c.excess > 0 && c.excess <= 1e-6 && Math.max(c.from, c.bracket.upper) > 1, JSON.stringify(c));
+        assert.ok(f.warning?.includes('clipped'), f.warning);
+      }
+    }
+  });
+
+  it('carries a primal point (the channel\'s Choi matrix, CPTP) and a dual point (Y ⪰ 0, Z on B) whose objectives bracket the value (weak duality; Watrous 2013 fidelity SDP with σ a variable)', () => {
+    const r = rng(57);
+    for (const rank of [8, 2]) {
+      const rho = randomDensity(8, r, rank);
+      const f = fidelityOfRecovery(rho, [2, 2, 2], [0], [1], [2]);
+      const cert = f.certificate;
+      const J = cert.primal.choi as CMatrix;
+      assert.ok(eigvalsh(J)[0] >= -1e-12, 'J ⪰ 0');
+      assert.ok(maxAbs(sub(partialTrace(J, [2, 4], [1]), identity(2))) <= 1e-12, 'Tr_out J = 1_B');
+      assert.equal((cert.dual.Z as CMatrix).rows, 2);
+      assert.equal((cert.dual.Y as CMatrix).rows, 8);
+      assert.ok(eigvalsh(cert.dual.Y as CMatrix)[0] >= -1e-12, 'Y ⪰ 0');
+      // Objectives are of √F: the primal is the achieved root fidelity, the dual at least it (weak duality).
+      assert.ok(Math.abs(cert.primalObjective ** 2 - f.achieved) <= 1e-12);
+      assert.ok(cert.dualObjective >= cert.primalObjective - 1e-12);
+      assert.ok(Math.abs(cert.gap - Math.abs(cert.dualObjective - cert.primalObjective)) <= 1e-15);
+      assert.ok(cert.bounds.lower <= f.value && f.value <= cert.bounds.upper);
+      assert.ok(cert.accuracy.relative <= 1e-5, JSON.stringify(cert.accuracy));
+    }
   });
 });
 

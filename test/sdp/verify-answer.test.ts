@@ -26,6 +26,7 @@ function referenceCases(): { request: Record<string, unknown>; value: number; so
   const g = data('guessing-cases');
   g.guessing.slice(0, 4).forEach((c: any, i: number) => out.push({ request: { op: 'guessing-probability', probabilities: c.probabilities, states: c.states }, value: c.value, source: `cvxopt guessing #${i}` }));
   g.diamond.slice(0, 4).forEach((c: any, i: number) => out.push({ request: { op: 'diamond-distance', a: c.a, b: c.b }, value: c.value, source: `cvxopt diamond #${i}` }));
+  g.recovery.forEach((c: any, i: number) => out.push({ request: { op: 'fidelity-of-recovery', rho: c.rho, a: c.a, b: c.b, c: c.c }, value: c.value, source: `cvxopt recovery #${i}` }));
   const gw = data('guesswork-cases');
   gw.cases.slice(0, 4).forEach((c: any) => out.push({ request: { op: 'guesswork', probabilities: c.probabilities, states: c.states, moment: c.moment }, value: c.value, source: `cvxopt ${c.name}` }));
   const h = data('hypothesis-closed-forms');
@@ -87,6 +88,35 @@ describe('verify-answer', () => {
         assert.equal(verify(request, narrow).value, false, source);
       }
     });
+  });
+
+  it('rejects fidelity-of-recovery answers whose Choi matrix J, dual Y or dual Z alone was perturbed by 1e-3 (J: Tr_out J = 1_B fails; Y, Z: the bound √(Tr ρY · Tr Z) rises above the stated bracket)', () => {
+    const rec = answered.filter((x) => x.request.op === 'fidelity-of-recovery');
+    assert.ok(rec.length >= 3);
+    rec.forEach(({ request, answer, source }, i) => {
+      for (const [side, key] of [['primal', 'choi'], ['dual', 'Y'], ['dual', 'Z']] as const) {
+        const t = JSON.parse(JSON.stringify(answer));
+        t.certificate[side][key] = perturbed(t.certificate[side][key], 1e-3, 23 + i);
+        const v = verify(request, t);
+        assert.ok(v.ok && v.value === false, `${source}: ${side}.${key} perturbed yet certified`);
+      }
+    });
+  });
+
+  it('certifies range-clipped answers (F(A;C|B) = 1 on a Markov chain ρ_A ⊗ ρ_BC, a diamond distance of 1, p_guess = 1): the recomputed bracket is clipped to the same range', () => {
+    const prod = { matrix: [[0.5, 0, 0, 0, 0, 0, 0, 0], [0, 0.5, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0], [0, 0, 0, 0, 0, 0, 0, 0]], dims: [2, 2, 2] };
+    const requests = [
+      { op: 'fidelity-of-recovery', rho: prod, a: [2], b: [0], c: [1] },
+      { op: 'diamond-distance', a: { kraus: [[[1, 0], [0, 1]]] }, b: { kraus: [[[0, 1], [1, 0]]] } },
+      { op: 'guessing-probability', probabilities: [0.5, 0.5], states: [[[1, 0], [0, 0]], [[0, 0], [0, 1]]] },
+    ];
+    for (const request of requests) {
+      const answer = JSON.parse(JSON.stringify(handle(request)));
+      assert.ok(answer.ok, JSON.stringify(answer.error));
+      assert.ok(Math.abs(answer.value - 1) <= 1e-6 && answer.certificate.bounds.upper <= 1, `${request.op}: ${answer.value}`);
+      const v = verify(request, answer);
+      assert.ok(v.ok && v.value === true, `${request.op}: ${JSON.stringify(v.checks?.filter((c: any) => !c.ok))}`);
+    }
   });
 
   it('reports an answer without points (guesswork without side information, a closed form: Massey 1994) as not checkable', () => {
