@@ -17,12 +17,10 @@
 import type { Answer, EngineLike } from '../worker/types.js';
 import { Emitter, el, errorBox, field, formatNumber, parseIntegerList, setChildren, uniqueId } from './dom.js';
 import { MatrixGrid } from './matrix-grid.js';
-import { rowsOfAnswerMatrix, type Entry } from './matrix-text.js';
+import { asStateValue, rowsOfAnswerMatrix, type Entry, type StateValue } from './matrix-text.js';
 import { basisNames } from './names.js';
 
-export type StateValue =
-  | { matrix: Entry[][]; dims?: number[]; labels?: string[] }
-  | { ket: Entry[]; dims?: number[]; labels?: string[] };
+export type { StateValue };
 
 export interface StateEditorOptions {
   engine: EngineLike;
@@ -60,38 +58,6 @@ export const STATE_PRESETS: PresetSpec[] = [
     params: ['x', 'y', 'z'].map((c, k) => ({ name: c, label: c, min: -1, max: 1, step: 0.01, value: k === 2 ? 0.5 : 0 })),
   },
 ];
-
-/**
- * The state forms a caller may hand in, as the editor's StateValue: `{matrix}` or `{ket}` with rows of
- * entries, also `{re, im}` matrices and kets (an answer's form), and a bare matrix (rows) or a bare
- * vector (a ket). Anything else is refused with a TypeError that says what is accepted.
- */
-export function asStateValue(v: unknown): StateValue {
-  const rows = (m: unknown): Entry[][] | null => (Array.isArray(m) && m.every(Array.isArray) ? (m as Entry[][]) : m && typeof m === 'object' && Array.isArray((m as { re?: unknown }).re) ? rowsOfAnswerMatrix(m) : null);
-  const vector = (k: unknown): Entry[] | null => {
-    if (Array.isArray(k) && !k.some(Array.isArray)) return k as Entry[];
-    const o = k as { re?: unknown; im?: unknown } | null;
-    if (o && typeof o === 'object' && Array.isArray(o.re) && !o.re.some(Array.isArray)) return rowsOfAnswerMatrix({ re: [o.re], im: Array.isArray(o.im) ? [o.im] : undefined })[0];
-    return null;
-  };
-  if (Array.isArray(v)) {
-    const m = rows(v);
-    if (m) return { matrix: m };
-    const k = vector(v);
-    if (k) return { ket: k };
-  } else if (v && typeof v === 'object') {
-    const o = v as { matrix?: unknown; ket?: unknown; dims?: number[]; labels?: string[] };
-    const extra = { ...(Array.isArray(o.dims) ? { dims: o.dims } : {}), ...(Array.isArray(o.labels) ? { labels: o.labels } : {}) };
-    if (o.ket !== undefined && o.ket !== null) {
-      const k = vector(o.ket);
-      if (k) return { ket: k, ...extra };
-    } else {
-      const m = rows(o.matrix);
-      if (m) return { matrix: m, ...extra };
-    }
-  }
-  throw new TypeError('StateEditor: a state is {matrix: rows} or {ket: entries} (with optional dims and labels), a {re, im} matrix, or bare rows.');
-}
 
 function side(v: StateValue): number {
   return 'ket' in v ? v.ket.length : v.matrix.length;

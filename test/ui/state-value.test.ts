@@ -1,10 +1,10 @@
-// The state forms the StateEditor accepts (src/ui/state-editor.ts asStateValue): a bare matrix (rows) or a
+// The state forms the StateEditor accepts (src/ui/matrix-text.ts asStateValue): a bare matrix (rows) or a
 // bare vector, {matrix}/{ket}, and {re, im} forms as answers carry them; anything else is refused with a
 // TypeError saying what is accepted, instead of a crash deep in the grid. Forms as docs/protocol.md writes
 // them ("Matrices"); the complex entry text is the reader's "a+b*i" (common practice, no published source).
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { asStateValue } from '../../src/ui/state-editor.js';
+import { asStateValue } from '../../src/ui/matrix-text.js';
 
 describe('StateEditor input forms', () => {
   it('reads a bare matrix as {matrix} and a bare vector as {ket}', () => {
