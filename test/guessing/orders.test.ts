@@ -26,6 +26,7 @@ import '../../src/ops/all.js';
 import { rng, randomDensity, randomUnitary } from '../helpers/random.js';
 import { liveReference } from '../helpers/python.js';
 import { withProgress } from '../../src/deadline.js';
+import type { GuessworkReferenceFile } from '../helpers/reference-batch.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guesswork.py`;
@@ -350,20 +351,7 @@ describe('classical bounds beside the value', () => {
   });
 });
 
-interface ReferenceCase {
-  name: string;
-  probabilities: number[];
-  states: { re: number[][]; im: number[][] }[];
-  moment: number;
-  value: number;
-  cvxoptStatus: string;
-}
-interface ReferenceFile {
-  cvxopt: string;
-  numpy: string;
-  seed: number;
-  cases: ReferenceCase[];
-}
+type ReferenceFile = GuessworkReferenceFile;
 
 function compareWithCvxopt(ref: ReferenceFile, origin: string): void {
   assert.ok(ref.cases.length > 0, `${origin}: no cases`);
