@@ -3,8 +3,11 @@
  *   rhosigma-embed.js         the script a page includes once (src/embed/main.ts: the element, the ui
  *                             components, the engine client)
  *   rhosigma-embed-worker.js  the engine's web worker (src/worker/engine-worker.ts), loaded by the client
- *                             from beside the script; the expression reader (mathjs) is inside it, not a
- *                             chunk of its own, so a page requests nothing else
+ *                             from beside the script
+ *   rhosigma-embed-katex.js   chunks loaded with import() on first need, from beside the script (publicPath
+ *   rhosigma-embed-plot.js    "auto": the script's own address, document.currentScript; in the worker, the
+ *   rhosigma-embed-expressions.js  worker's): KaTeX for the formulas, vega for the charts, and, in the
+ *                             worker, mathjs for the expression reader (only when an entry is an expression)
  *   rhosigma-embed.css        the components' stylesheets (style/*.css) and the embed frame's
  *                             (src/embed/embed.css), concatenated: linked inside each element's shadow root
  *
@@ -36,7 +39,7 @@ class EmbedStylesheet {
 
 const { browserConfig } = require('./webpack.browser.config.cjs');
 
-const base = browserConfig({ name: 'embed', entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') }, outputPath: path.join(root, 'dist', 'embed') });
+const base = browserConfig({ name: 'embed', entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') }, outputPath: path.join(root, 'dist', 'embed'), lazyExpressions: true });
 
 module.exports = {
   ...base,
@@ -54,8 +57,6 @@ module.exports = {
     rules: base.module.rules.map((r) => (r.loader === 'ts-loader'
       ? { ...r, options: { ...r.options, compilerOptions: { ...r.options.compilerOptions, module: 'es2022', moduleResolution: 'bundler' } } }
       : r)),
-    // The engine loads mathjs with import() on first need: kept inside the worker, not a chunk of its own.
-    parser: { javascript: { dynamicImportMode: 'eager' } },
   },
   optimization: { ...base.optimization, runtimeChunk: false, chunkIds: 'named' },
   plugins: [new EmbedStylesheet()],

@@ -1,22 +1,35 @@
 /**
  * DivergenceCalculator: D(ρ‖σ) of a chosen family (Umegaki, Petz, sandwiched, α-z, geometric, max,
  * min, measured) at α and z, with its defining formula typeset by KaTeX, every family's value at the
- * same parameters side by side, and the curve of the chosen family over α (Vega-Lite) with the α-interval
+ * same parameters side by side, and the curve of the chosen family over α (Vega, ./plot.ts) with the α-interval
  * where the α-z family is known to satisfy data processing shaded (op `data-processing-region`,
  * H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
  *
  * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
  * Settings (`value`): { family, alpha, z, base, curve }.
  *
+ * KaTeX and the plotting (vega) are loaded with import() when first needed, so a page (the wiki embed:
+ * chunks of their own beside the script) has its first result before it has fetched them.
+ *
  * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
  * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
  */
-import katex from 'katex';
 import type { View } from 'vega';
 import type { Answer } from '../worker/types.js';
 import { el, field, formatNumber, setChildren } from './dom.js';
 import { baseText, Calculator, numberControl, resultCard, selectControl, type CalculatorOptions, type NamedRequest } from './calculator.js';
-import { renderChart } from './plot.js';
+
+let katexModule: Promise<typeof import('katex').default> | null = null;
+/** KaTeX, loaded on first use. */
+function loadKatex(): Promise<typeof import('katex').default> {
+  return (katexModule ??= import(/* webpackChunkName: "katex" */ 'katex').then((m) => m.default));
+}
+
+let plotModule: Promise<typeof import('./plot.js')> | null = null;
+/** The plotting module (vega), loaded on first use. */
+function loadPlot(): Promise<typeof import('./plot.js')> {
+  return (plotModule ??= import(/* webpackChunkName: "plot" */ './plot.js'));
+}
 import type { StateValue } from './state-editor.js';
 
 export interface DivergenceInputs {
@@ -60,8 +73,11 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
   private chart: HTMLElement;
   private view: View | null = null;
   private chartSeq = 0;
+  private formulaSeq = 0;
   /** Resolves when the newest chart has been drawn. */
   drawn: Promise<void> = Promise.resolve();
+  /** Resolves when the newest formula has been typeset. */
+  typeset: Promise<void> = Promise.resolve();
 
   constructor(host: HTMLElement, options: CalculatorOptions<DivergenceInputs, DivergenceSettings>) {
     super(host, options, { family: 'sandwiched', alpha: 2, z: 1, base: 2, curve: true }, 'divergence', 'Divergence');
@@ -86,8 +102,15 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     this.alphaInput.disabled = !fam?.alpha;
     this.zInput.disabled = !fam?.z;
     if (this.formula) {
-      if (fam) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
-      else setChildren(this.formula, []);
+      const seq = ++this.formulaSeq;
+      if (fam) {
+        this.typeset = loadKatex().then((katex) => {
+          if (seq === this.formulaSeq) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
+        }, () => {
+          // KaTeX could not be loaded (offline, a missing chunk): the formula's TeX source, as text.
+          if (seq === this.formulaSeq) setChildren(this.formula, [el('code', {}, [fam.tex])]);
+        });
+      } else setChildren(this.formula, []);
     }
   }
 
@@ -135,6 +158,7 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     ]);
     if (s.curve && fam?.alpha && main.answer.ok) void this.drawCurve();
     else {
+      this.chartSeq++;
       this.view?.finalize();
       this.view = null;
       setChildren(this.chart, []);
@@ -155,27 +179,16 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
         .map((p) => ({ alpha: p.alpha, value: (p.answer as Record<string, any>).value as number }));
       const intervals = reg && reg.ok ? ((reg as Record<string, any>).alphaIntervals as [number, number][]).map(([a, b]) => ({ from: a, to: b })) : [];
       const unit = s.base === 'e' ? 'nats' : 'bits';
-      const layers: object[] = [];
-      if (intervals.length) {
-        layers.push({
-          data: { values: intervals },
-          mark: { type: 'rect', opacity: 0.35, color: 'var(--band)' },
-          encoding: { x: { field: 'from', type: 'quantitative' }, x2: { field: 'to' } },
-        });
-      }
-      layers.push(
-        { data: { values: data }, mark: { type: 'line', point: true }, encoding: { x: { field: 'alpha', type: 'quantitative', title: 'α' }, y: { field: 'value', type: 'quantitative', title: `D (${unit})` } } },
-        { data: { values: [{ alpha: s.alpha }] }, mark: { type: 'rule', strokeDash: [4, 3] }, encoding: { x: { field: 'alpha', type: 'quantitative' } } },
-      );
-      const theme = getComputedStyle(this.chart);
-      const colour = (n: string, f: string) => theme.getPropertyValue(n).trim() || f;
-      for (const l of layers as { mark: { color?: string; type: string } }[]) {
-        l.mark.color = l.mark.type === 'rect' ? colour('--rs-chart-band', '#b7e4c7') : l.mark.type === 'rule' ? colour('--rs-chart-mark', '#c1121f') : colour('--rs-chart-line', '#2a6f97');
-      }
-      this.view = await renderChart(this.chart, {
-        $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-        width: 'container' as unknown as number, height: 180, layer: layers,
-      } as never, this.view);
+      const { renderCurve } = await loadPlot();
+      if (seq !== this.chartSeq) return;
+      this.view = await renderCurve(this.chart, {
+        points: data.map((p) => ({ x: p.alpha, y: p.value })),
+        bands: intervals,
+        rule: s.alpha,
+        xTitle: 'α',
+        yTitle: `D (${unit})`,
+        height: 180,
+      }, this.view);
       this.chart.setAttribute('aria-label', `${FAMILIES.find((f) => f.name === s.family)?.label} over α from ${CURVE_ALPHAS[0]} to ${CURVE_ALPHAS[CURVE_ALPHAS.length - 1]}${intervals.length ? '; shaded: where data processing is known to hold (Zhang 2020)' : ''}`);
       if (reg && reg.ok) this.chart.title = String((reg as Record<string, any>).source);
     });

@@ -151,6 +151,12 @@ if (!haveChromium && inCI) {
       const node = handle(request) as { ok: boolean; value: number };
       assert.equal(node.ok, true);
       assert.ok(Math.abs((answer.value as number) - node.value) <= 1e-12 * Math.abs(node.value), `${answer.value} vs ${node.value}`);
+      // KaTeX and the plotting are chunks loaded on first need from beside the script (the site's
+      // rhosigma/ folder), under the strict policy: the formula's MathML and the chart's SVG appear.
+      const root = page.locator('#pair');
+      await root.locator('.rs-formula math').first().waitFor({ timeout: 30_000 });
+      await root.locator('.rs-chart svg').first().waitFor({ timeout: 30_000 });
+      assert.ok(await root.locator('.rs-chart svg path').count() >= 1, 'the chart has no marks');
       await page.screenshot({ path: join(shots, 'wiki-light.png'), fullPage: true });
       await page.emulateMedia({ colorScheme: 'dark' });
       await page.screenshot({ path: join(shots, 'wiki-dark.png'), fullPage: true });
@@ -264,10 +270,10 @@ if (!haveChromium && inCI) {
       await page.close();
     });
 
-    it('reported no Content-Security-Policy violation and no error on any page, and requested only the site\'s and the embed\'s own files', () => {
+    it('reported no Content-Security-Policy violation and no error on any page, and requested only the site\'s and the embed\'s own files (the script, its stylesheet, its worker and its chunks)', () => {
       assert.deepEqual(violations, []);
       assert.deepEqual(consoleErrors, []);
-      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker)?\.(js|css)$|^\/favicon\.ico$|^\/rhosigma\/favicon\.svg$/;
+      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker|-katex|-plot|-expressions)?\.(js|css)$|^\/favicon\.ico$|^\/rhosigma\/favicon\.svg$/;
       const odd = server!.requests.filter((p) => !allowed.test(p));
       assert.deepEqual(odd, []);
     });
