@@ -14,7 +14,6 @@
  * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
  * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
  */
-import type { View } from 'vega';
 import type { Answer } from '../worker/types.js';
 import { el, field, formatNumber, setChildren } from './dom.js';
 import { baseText, Calculator, numberControl, resultCard, selectControl, type CalculatorOptions, type NamedRequest } from './calculator.js';
@@ -71,7 +70,6 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
   private baseSelect: HTMLSelectElement;
   private formula: HTMLElement;
   private chart: HTMLElement;
-  private view: View | null = null;
   private chartSeq = 0;
   private formulaSeq = 0;
   /** Resolves when the newest chart has been drawn. */
@@ -159,8 +157,7 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     if (s.curve && fam?.alpha && main.answer.ok) void this.drawCurve();
     else {
       this.chartSeq++;
-      this.view?.finalize();
-      this.view = null;
+      if (plotModule) void plotModule.then((p) => p.clearChart(this.chart));
       setChildren(this.chart, []);
     }
   }
@@ -181,14 +178,14 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
       const unit = s.base === 'e' ? 'nats' : 'bits';
       const { renderCurve } = await loadPlot();
       if (seq !== this.chartSeq) return;
-      this.view = await renderCurve(this.chart, {
+      await renderCurve(this.chart, {
         points: data.map((p) => ({ x: p.alpha, y: p.value })),
         bands: intervals,
         rule: s.alpha,
         xTitle: 'α',
         yTitle: `D (${unit})`,
         height: 180,
-      }, this.view);
+      });
       this.chart.setAttribute('aria-label', `${FAMILIES.find((f) => f.name === s.family)?.label} over α from ${CURVE_ALPHAS[0]} to ${CURVE_ALPHAS[CURVE_ALPHAS.length - 1]}${intervals.length ? '; shaded: where data processing is known to hold (Zhang 2020)' : ''}`);
       if (reg && reg.ok) this.chart.title = String((reg as Record<string, any>).source);
     });

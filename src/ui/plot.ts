@@ -4,13 +4,14 @@
  * download), rendered by vega as SVG into a container, with vega's expression interpreter instead of its
  * code generator (no `new Function`, so plots work under a strict Content-Security-Policy, as the wiki
  * embeds need). Colours, axis text included, are read from the component's CSS custom properties
- * (--rs-chart-*), so light and dark themes (JupyterLab's --jp-* variables, or --rs-* overrides) apply.
+ * (--rs-chart-*), so light and dark themes (JupyterLab's --jp-* variables, or --rs-* overrides) apply;
+ * a chart is redrawn in the new colours when the reader's colour scheme or JupyterLab's theme changes.
  *
  * The components load this module with import() when they first draw (a chunk of its own in the embed).
  * Deliberately not here: the data (answers of the engine, passed in), any numerics.
  * Cost: one vega parse per render (milliseconds for our small charts).
  */
-import { parse, View } from 'vega';
+import { parse, View } from './vega-core.js';
 import { expressionInterpreter } from 'vega-interpreter';
 
 export interface ChartTheme {
@@ -100,11 +101,39 @@ export function curveSpec(chart: CurveChart, theme: ChartTheme): object {
   };
 }
 
-/** Renders a CurveChart into `container` (replacing an earlier chart); resolves with the view. */
-export async function renderCurve(container: HTMLElement, chart: CurveChart, previous?: View | null): Promise<View> {
-  previous?.finalize();
+/** The charts on the page, by container, so that a change of theme redraws them in the new colours. */
+const live = new Map<HTMLElement, { chart: CurveChart; view: View }>();
+let watching = false;
+
+/** Redraws every live chart when the reader's colour scheme or JupyterLab's theme changes (once per page). */
+function watchTheme(): void {
+  if (watching || typeof window === 'undefined') return;
+  watching = true;
+  const redraw = () => {
+    for (const [container, { chart }] of live) {
+      if (container.isConnected) void renderCurve(container, chart);
+      else clearChart(container);
+    }
+  };
+  window.matchMedia?.('(prefers-color-scheme: dark)').addEventListener?.('change', redraw);
+  // JupyterLab marks its theme on <body> (data-jp-theme-light); a page may switch a class (rs-theme-dark).
+  if (document.body) new MutationObserver(redraw).observe(document.body, { attributes: true, attributeFilter: ['data-jp-theme-light', 'data-jp-theme-name', 'class'] });
+}
+
+/** Renders a CurveChart into `container` (replacing its earlier chart); resolves with the view. */
+export async function renderCurve(container: HTMLElement, chart: CurveChart): Promise<View> {
+  live.get(container)?.view.finalize();
   const spec = curveSpec(chart, chartTheme(container));
   const view = new View(parse(spec as never, undefined, { ast: true }), { expr: expressionInterpreter, renderer: 'svg', container, hover: true });
+  live.set(container, { chart, view });
+  watchTheme();
   await view.runAsync();
   return view;
+}
+
+/** Removes the chart of `container` (its view finalized; the container emptied). */
+export function clearChart(container: HTMLElement): void {
+  live.get(container)?.view.finalize();
+  live.delete(container);
+  container.replaceChildren();
 }

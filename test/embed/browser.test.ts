@@ -159,6 +159,33 @@ if (!haveChromium && inCI) {
       assert.ok(await root.locator('.rs-chart svg path').count() >= 1, 'the chart has no marks');
       await page.screenshot({ path: join(shots, 'wiki-light.png'), fullPage: true });
       await page.emulateMedia({ colorScheme: 'dark' });
+      // The chart follows the switch to dark: its axis text is redrawn in the dark theme's colour, with a
+      // contrast against the frame's background of at least 4.5:1 (WCAG 2.1 AA for text, its luminance formula).
+      const contrast = () => root.evaluate((host) => {
+        const shadow = (host as HTMLElement).shadowRoot ?? host;
+        const frame = shadow.querySelector('.rs-component') as HTMLElement;
+        const texts = [...shadow.querySelectorAll('.rs-chart svg text')] as SVGTextElement[];
+        const lum = (css: string) => {
+          const [r, g, b] = css.match(/\d+(\.\d+)?/g)!.slice(0, 3).map(Number).map((v) => {
+            const c = v / 255;
+            return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+          });
+          return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+        };
+        const bg = lum(getComputedStyle(frame).backgroundColor);
+        const ratios = texts.map((t) => {
+          const fg = lum(getComputedStyle(t).fill);
+          return (Math.max(fg, bg) + 0.05) / (Math.min(fg, bg) + 0.05);
+        });
+        return { bg, n: texts.length, min: Math.min(...ratios) };
+      });
+      let seen = await contrast();
+      for (let k = 0; k < 40 && !(seen.n > 0 && seen.min >= 4.5); k++) {
+        await page.waitForTimeout(100);
+        seen = await contrast();
+      }
+      assert.ok(seen.bg < 0.05, `the frame's background is not dark: ${JSON.stringify(seen)}`);
+      assert.ok(seen.n > 0 && seen.min >= 4.5, `chart text contrast in the dark theme: ${JSON.stringify(seen)}`);
       await page.screenshot({ path: join(shots, 'wiki-dark.png'), fullPage: true });
       await page.close();
     });
