@@ -8,8 +8,9 @@
  * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
  * Settings (`value`): { family, alpha, z, base, curve }.
  *
- * KaTeX and the plotting (vega) are loaded with import() when first needed, so a page (the wiki embed:
- * chunks of their own beside the script) has its first result before it has fetched them.
+ * KaTeX and the plotting (vega) are loaded with import() when first needed (KaTeX after the first result),
+ * so a page (the wiki embed: chunks of their own beside the script) has its first result before it has
+ * fetched either.
  *
  * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
  * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
@@ -102,7 +103,12 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     if (this.formula) {
       const seq = ++this.formulaSeq;
       if (fam) {
-        this.typeset = loadKatex().then((katex) => {
+        // The first time, KaTeX is fetched after the first result (start() runs recompute() right after
+        // this, so one microtask later `computed` is that round) or after a second, whichever comes first,
+        // so that it does not compete with the worker for the page's bandwidth.
+        const firstRound = () => Promise.race([this.computed.catch(() => undefined), new Promise((r) => setTimeout(r, 1000))]);
+        const katex = katexModule ?? Promise.resolve().then(firstRound).then(loadKatex);
+        this.typeset = katex.then((katex) => {
           if (seq === this.formulaSeq) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
         }, () => {
           // KaTeX could not be loaded (offline, a missing chunk): the formula's TeX source, as text.
