@@ -59,5 +59,7 @@ module.exports = {
       : r)),
   },
   optimization: { ...base.optimization, runtimeChunk: false, chunkIds: 'named' },
-  plugins: [new EmbedStylesheet()],
+  // The worker's idle warm-up leaves the expression reader's chunk alone (fetched when an entry is an
+  // expression, not by every page): src/worker/engine-worker.ts.
+  plugins: [new EmbedStylesheet(), new webpack.DefinePlugin({ __RHOSIGMA_WARM_EXPRESSIONS__: JSON.stringify(false) })],
 };

@@ -211,6 +211,27 @@ if (!haveChromium && inCI) {
       await page.close();
     });
 
+    it('reads an entry typed as an expression (the worker fetches its expression reader on this first need), as the engine does', async () => {
+      const page = await open(`${server!.url}index.html`);
+      await resultOf(page, 'pair');
+      const before = await resultCount(page, 'pair');
+      const cell = page.locator('#pair .rs-embed-editor').nth(1).locator('input.rs-cell').first();
+      await cell.fill('1/sqrt(8)');
+      await cell.press('Tab');
+      let latest = await resultOf(page, 'pair', before);
+      for (let k = 0; k < 40 && JSON.stringify(latest.request).indexOf('sqrt') < 0; k++) {
+        await page.waitForTimeout(100);
+        latest = await resultOf(page, 'pair', before);
+      }
+      assert.equal((latest.request.sigma as { matrix: unknown[][] }).matrix[0][0], '1/sqrt(8)');
+      assert.equal(latest.answer.ok, true, JSON.stringify(latest.answer).slice(0, 300));
+      // The outside reference: the engine in Node (mathjs's bundle loaded by require) for the same request.
+      const node = handle(latest.request) as { ok: boolean; value: number };
+      assert.equal(node.ok, true);
+      assert.ok(Math.abs((latest.answer.value as number) - node.value) <= 1e-12 * Math.abs(node.value));
+      await page.close();
+    });
+
     it('reopens a shared link with the same inputs, and the copied request gives the same value through `rhosigma compute`', async () => {
       const page = await open(`${server!.url}index.html`);
       await resultOf(page, 'pair');
