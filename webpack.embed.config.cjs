@@ -4,10 +4,11 @@
  *                             components, the engine client)
  *   rhosigma-embed-worker.js  the engine's web worker (src/worker/engine-worker.ts), loaded by the client
  *                             from beside the script
- *   rhosigma-embed-katex.js   chunks loaded with import() on first need, from beside the script (publicPath
- *   rhosigma-embed-plot.js    "auto": the script's own address, document.currentScript; in the worker, the
- *   rhosigma-embed-expressions.js  worker's): KaTeX for the formulas, vega for the charts, and, in the
- *                             worker, mathjs for the expression reader (only when an entry is an expression)
+ *   rhosigma-embed-plot.js    chunks loaded with import() on first need, from beside the script (publicPath
+ *   rhosigma-embed-expressions.js  "auto": the script's own address, document.currentScript; in the worker,
+ *                             the worker's): vega for the charts, and, in the worker, mathjs for the
+ *                             expression reader (only when an entry is an expression)
+ * No KaTeX: the formulas are MathML written at build time (src/embed/formula-mathml.ts replaces src/ui/formula.ts).
  *   rhosigma-embed.css        the components' stylesheets (style/*.css) and the embed frame's
  *                             (src/embed/embed.css), concatenated: linked inside each element's shadow root
  *
@@ -61,5 +62,12 @@ module.exports = {
   optimization: { ...base.optimization, runtimeChunk: false, chunkIds: 'named' },
   // The worker's idle warm-up leaves the expression reader's chunk alone (fetched when an entry is an
   // expression, not by every page): src/worker/engine-worker.ts.
-  plugins: [new EmbedStylesheet(), new webpack.DefinePlugin({ __RHOSIGMA_WARM_EXPRESSIONS__: JSON.stringify(false) })],
+  plugins: [
+    new EmbedStylesheet(),
+    new webpack.DefinePlugin({ __RHOSIGMA_WARM_EXPRESSIONS__: JSON.stringify(false) }),
+    // Formulas: the MathML KaTeX wrote at build time (src/embed/formula-mathml.ts) instead of KaTeX.
+    new webpack.NormalModuleReplacementPlugin(/^\.\/formula\.js$/, (resource) => {
+      if (path.normalize(resource.context) === path.join(root, 'src', 'ui')) resource.request = path.join(root, 'src', 'embed', 'formula-mathml.ts');
+    }),
+  ],
 };

@@ -8,7 +8,8 @@
  * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
  * Settings (`value`): { family, alpha, z, base, curve }.
  *
- * KaTeX and the plotting (vega) are loaded with import() when first needed (KaTeX after the first result),
+ * KaTeX (./formula.ts) and the plotting (vega, ./plot.ts) are loaded with import() when first needed
+ * (KaTeX after the first result),
  * so a page (the wiki embed: chunks of their own beside the script) has its first result before it has
  * fetched either.
  *
@@ -18,12 +19,8 @@
 import type { Answer } from '../worker/types.js';
 import { el, field, formatNumber, setChildren } from './dom.js';
 import { baseText, Calculator, numberControl, resultCard, selectControl, type CalculatorOptions, type NamedRequest } from './calculator.js';
-
-let katexModule: Promise<typeof import('katex').default> | null = null;
-/** KaTeX, loaded on first use. */
-function loadKatex(): Promise<typeof import('katex').default> {
-  return (katexModule ??= import(/* webpackChunkName: "katex" */ 'katex').then((m) => m.default));
-}
+import { formulasReady, typesetFormula } from './formula.js';
+import { FAMILIES } from './families.js';
 
 let plotModule: Promise<typeof import('./plot.js')> | null = null;
 /** The plotting module (vega), loaded on first use. */
@@ -46,17 +43,7 @@ export interface DivergenceSettings {
   curve: boolean;
 }
 
-/** The families, whether they take α (and z), and their defining formulas (standard forms of the literature). */
-export const FAMILIES: { name: string; label: string; alpha: boolean; z?: boolean; tex: string }[] = [
-  { name: 'umegaki', label: 'Umegaki relative entropy', alpha: false, tex: String.raw`D(\rho\|\sigma) = \operatorname{Tr}\rho\,(\log\rho - \log\sigma)` },
-  { name: 'petz', label: 'Petz Rényi', alpha: true, tex: String.raw`\bar D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\rho^\alpha\sigma^{1-\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'sandwiched', label: 'Sandwiched Rényi', alpha: true, tex: String.raw`\tilde D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2\alpha}}\rho\,\sigma^{\frac{1-\alpha}{2\alpha}}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'alpha-z', label: 'α-z Rényi', alpha: true, z: true, tex: String.raw`D_{\alpha,z}(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2z}}\rho^{\frac{\alpha}{z}}\sigma^{\frac{1-\alpha}{2z}}\big)^{z}}{\operatorname{Tr}\rho}` },
-  { name: 'geometric', label: 'Geometric Rényi', alpha: true, tex: String.raw`\hat D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\sigma\big(\sigma^{-\frac12}\rho\,\sigma^{-\frac12}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'max', label: 'Max-relative entropy', alpha: false, tex: String.raw`D_{\max}(\rho\|\sigma) = \log\min\{\lambda : \rho \le \lambda\sigma\}` },
-  { name: 'min', label: 'Min-relative entropy', alpha: false, tex: String.raw`D_{\min}(\rho\|\sigma) = -\log\operatorname{Tr}\Pi_\rho\,\sigma` },
-  { name: 'measured', label: 'Measured relative entropy', alpha: false, tex: String.raw`D^{\mathbb M}(\rho\|\sigma) = \sup_{\{M_x\}} \sum_x \operatorname{Tr}\rho M_x \log\frac{\operatorname{Tr}\rho M_x}{\operatorname{Tr}\sigma M_x}` },
-];
+export { FAMILIES };
 
 /** Families shown side by side (measured is left out: it is an optimisation, on demand only). */
 const TABLE = ['umegaki', 'petz', 'sandwiched', 'alpha-z', 'geometric', 'max', 'min'];
@@ -107,10 +94,10 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
         // this, so one microtask later `computed` is that round) or after a second, whichever comes first,
         // so that it does not compete with the worker for the page's bandwidth.
         const firstRound = () => Promise.race([this.computed.catch(() => undefined), new Promise((r) => setTimeout(r, 1000))]);
-        const katex = katexModule ?? Promise.resolve().then(firstRound).then(loadKatex);
-        this.typeset = katex.then((katex) => {
-          if (seq === this.formulaSeq) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
-        }, () => {
+        const ready = formulasReady() ? Promise.resolve() : Promise.resolve().then(firstRound);
+        this.typeset = ready.then(async () => {
+          if (seq === this.formulaSeq) await typesetFormula(this.formula, fam.tex);
+        }).catch(() => {
           // KaTeX could not be loaded (offline, a missing chunk): the formula's TeX source, as text.
           if (seq === this.formulaSeq) setChildren(this.formula, [el('code', {}, [fam.tex])]);
         });
