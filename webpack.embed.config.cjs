@@ -8,9 +8,10 @@
  *   rhosigma-embed-expressions.js  "auto": the script's own address, document.currentScript; in the worker,
  *                             the worker's): vega for the charts, and, in the worker, mathjs for the
  *                             expression reader (only when an entry is an expression)
- * No KaTeX: the formulas are MathML written at build time (src/embed/formula-mathml.ts replaces src/ui/formula.ts).
  *   rhosigma-embed.css        the components' stylesheets (style/*.css) and the embed frame's
  *                             (src/embed/embed.css), concatenated: linked inside each element's shadow root
+ * No KaTeX: the formulas are MathML that KaTeX wrote at build time (src/embed/formula-mathml.ts replaces
+ * src/ui/formula.ts). Sizes, and what a page requests before its first result: `npm run bench -- embed`.
  *
  * Production mode (minified), no source maps, no eval-based devtool (a strict CSP forbids eval).
  * Cost: one production build, about half a minute on two cores.

@@ -1,17 +1,16 @@
 /**
  * DivergenceCalculator: D(ρ‖σ) of a chosen family (Umegaki, Petz, sandwiched, α-z, geometric, max,
  * min, measured) at α and z, with its defining formula typeset by KaTeX, every family's value at the
- * same parameters side by side, and the curve of the chosen family over α (Vega, ./plot.ts) with the α-interval
- * where the α-z family is known to satisfy data processing shaded (op `data-processing-region`,
- * H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
+ * same parameters side by side, and the curve of the chosen family over α (Vega, ./plot.ts) with the
+ * α-interval where the α-z family is known to satisfy data processing shaded (op
+ * `data-processing-region`, H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
  *
  * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
  * Settings (`value`): { family, alpha, z, base, curve }.
  *
- * KaTeX (./formula.ts) and the plotting (vega, ./plot.ts) are loaded with import() when first needed
- * (KaTeX after the first result),
- * so a page (the wiki embed: chunks of their own beside the script) has its first result before it has
- * fetched either.
+ * KaTeX (./formula.ts; in the wiki embed, MathML written at build time instead) and the plotting (vega,
+ * ./plot.ts) are loaded with import() when first needed (KaTeX after the first result), so a page has its
+ * first result before it has fetched either (in the embed: chunks of their own beside the script).
  *
  * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
  * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
