@@ -102,7 +102,7 @@ export function curveSpec(chart: CurveChart, theme: ChartTheme): object {
 }
 
 /** The charts on the page, by container, so that a change of theme redraws them in the new colours. */
-const live = new Map<HTMLElement, { chart: CurveChart; view: View }>();
+const live = new Map<HTMLElement, { chart: CurveChart; view: View; theme: string }>();
 let watching = false;
 
 /** Redraws every live chart when the reader's colour scheme or JupyterLab's theme changes (once per page). */
@@ -110,9 +110,10 @@ function watchTheme(): void {
   if (watching || typeof window === 'undefined') return;
   watching = true;
   const redraw = () => {
-    for (const [container, { chart }] of live) {
-      if (container.isConnected) void renderCurve(container, chart);
-      else clearChart(container);
+    for (const [container, { chart, theme }] of live) {
+      if (!container.isConnected) clearChart(container);
+      // Only when a colour changed (a class toggled on <body> for other reasons costs one style read).
+      else if (JSON.stringify(chartTheme(container)) !== theme) void renderCurve(container, chart);
     }
   };
   window.matchMedia?.('(prefers-color-scheme: dark)').addEventListener?.('change', redraw);
@@ -123,9 +124,10 @@ function watchTheme(): void {
 /** Renders a CurveChart into `container` (replacing its earlier chart); resolves with the view. */
 export async function renderCurve(container: HTMLElement, chart: CurveChart): Promise<View> {
   live.get(container)?.view.finalize();
-  const spec = curveSpec(chart, chartTheme(container));
+  const theme = chartTheme(container);
+  const spec = curveSpec(chart, theme);
   const view = new View(parse(spec as never, undefined, { ast: true }), { expr: expressionInterpreter, renderer: 'svg', container, hover: true });
-  live.set(container, { chart, view });
+  live.set(container, { chart, view, theme: JSON.stringify(theme) });
   watchTheme();
   await view.runAsync();
   return view;
