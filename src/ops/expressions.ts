@@ -71,9 +71,11 @@ export function expressionReaderLoaded(): boolean {
  */
 export async function loadExpressionReader(): Promise<void> {
   if (parse) return;
-  // webpackMode eager: a webpack build (the wheel's engine, browser workers) keeps mathjs in its one
-  // file instead of a chunk beside it; esbuild's command bundle leaves it outside (a real import).
-  adopt(await import(/* webpackMode: "eager" */ 'mathjs/lib/browser/math.js'));
+  // Each webpack build decides where mathjs goes: the wheel's engine, the browser worker and the
+  // labextension keep it in their one file (a rule with dynamicImportMode "eager" for this module), the
+  // wiki embed's worker loads it as a chunk beside it (rhosigma-embed-expressions.js) on first need;
+  // esbuild's command bundle leaves it outside (a real import).
+  adopt(await import(/* webpackChunkName: "expressions" */ 'mathjs/lib/browser/math.js'));
 }
 
 function reader(): (text: string) => unknown {
