@@ -7,11 +7,12 @@
 // (bench/transport.ts). Node 20 has no compile cache for modules (module.enableCompileCache() is Node
 // 22's), hence vm.Script, which takes and makes V8's cached data on any Node. V8 checks the cache
 // against its version, its flags and the source's length and ignores a cache that does not fit
-// (script.cachedDataRejected); the bundle is then compiled from its text as usual, and the cache is
+// (script.cachedDataRejected; a cache older than the bundle is not even offered, since a rebuilt bundle
+// of the same length would pass V8's check); the bundle is then compiled from its text as usual, and the cache is
 // written anew after the command's work (to a temporary file renamed into place, so concurrent commands
 // never see half a file; silently skipped where the folder is read-only). The bundle runs as a CommonJS
 // module: require from dist/cli/, __filename its own path, import() by Node's default loader.
-import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -25,7 +26,8 @@ function loadBundle() {
   const cacheFile = `${bundle}.cache`;
   let cachedData;
   try {
-    cachedData = readFileSync(cacheFile);
+    // V8 checks a cache against the source's length only: one older than the bundle is not used.
+    if (statSync(cacheFile).mtimeMs >= statSync(bundle).mtimeMs) cachedData = readFileSync(cacheFile);
   } catch {
     cachedData = undefined;
   }
