@@ -13,9 +13,9 @@
  * (sweep plots) and cli-progress (a terminal's progress bar), loaded by `import()` where they are used.
  * Node's built-in modules that only some commands use (child_process, which commander loads for
  * subcommands run as separate programs, which ours are not; crypto, the sweep spec's hash; worker_threads,
- * the sweep pool's) are required on first use of one of their exports, not at start-up: each import of
- * them becomes a small module of getters (`lazyBuiltins`); they cost a cold start more than all of the engine's
- * own code. What it does not do: minify (stack traces of bugs stay readable) or bundle for browsers
+ * the sweep pool's) are required on first use of one of their exports, not at start-up, and so is ajv's
+ * compiler (only sweep specs use it): each import of them becomes a small module of getters (`lazyModules`);
+ * together they were about a quarter of a cached cold start (bench/RESULTS.md). What it does not do: minify (stack traces of bugs stay readable) or bundle for browsers
  * (scripts/bundle-engine.mjs). Cost: a second or two (the bundle, then one request run to fill the cache).
  */
 import { build } from 'esbuild';
@@ -34,13 +34,14 @@ const LAZY_BUILTINS = ['node:child_process', 'node:crypto', 'node:worker_threads
 const LAZY_PACKAGES = ['ajv/dist/2020.js'];
 
 /**
- * esbuild plugin: each import of a LAZY_BUILTINS module becomes a module of getters, one per export of the
- * real one (listed here, at build time), that require the real module on first read. (Getters, not a
+ * esbuild plugin: each import of a LAZY_BUILTINS or LAZY_PACKAGES module becomes a module of getters, one
+ * per export of the real one (listed here, at build time), that require the real module on first read (a
+ * built-in from Node, a package from the bundle, where esbuild wraps it to run on its first require). (Getters, not a
  * Proxy: esbuild's interop copies the names of a module's exports at import, which a Proxy would have to
  * answer by loading it.)
  */
-const lazyBuiltins = {
-  name: 'lazy-builtins',
+const lazyModules = {
+  name: 'lazy-modules',
   setup(b) {
     const escape = (m) => m.replace(/[.*+?^${}()|[\]\\/]/g, '\\$&');
     const builtins = new RegExp(`^(${LAZY_BUILTINS.map((m) => m.replace('node:', '(node:)?')).join('|')})$`);
@@ -91,7 +92,7 @@ export async function bundleCli() {
     target: ['node20'],
     // vega, vega-lite and cli-progress too: only `sweep plot` and a terminal's progress bar need them.
     external: ['mathjs', 'mathjs/*', 'vega', 'vega-lite', 'cli-progress'],
-    plugins: [lazyBuiltins],
+    plugins: [lazyModules],
     // The bundle's own file URL (src/cli/main.ts reads ../../package.json beside it; the expression
     // reader and handle's ajv fallback require from it). import.meta.resolve is reached only from source.
     define: { 'import.meta.url': '__rhosigmaBundleUrl', 'import.meta.resolve': '__rhosigmaResolve' },
