@@ -27,7 +27,10 @@ import { COMMON_FIELDS, closeOpNames, pointerToPath } from '../ops/handle.js';
 import { getOp } from '../ops/registry.js';
 import '../ops/all.js';
 
-const Ajv2020 = ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
+/** ajv's class, looked up at the first spec read rather than at import (the command's bundle then loads ajv only for sweeps: scripts/bundle-cli.mjs). */
+function ajv2020(): typeof Ajv2020Module.default {
+  return ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
+}
 
 /** The spec format this engine reads. */
 export const SPEC_VERSION = 1;
@@ -299,7 +302,7 @@ export function readSpec(value: unknown): Spec {
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
     throw new RhoError('invalid-argument', 'A sweep spec must be a JSON object like {"sweep": 1, "seed": 1, ...}.', '');
   }
-  validator ??= new Ajv2020({ allErrors: false, verbose: true, strict: true, strictTypes: false, logger: false }).compile(SPEC_SCHEMA);
+  validator ??= new (ajv2020())({ allErrors: false, verbose: true, strict: true, strictTypes: false, logger: false }).compile(SPEC_SCHEMA);
   if (!validator(value)) throw specError(validator.errors ?? []);
   const src = value as Record<string, any>;
 
