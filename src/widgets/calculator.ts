@@ -59,6 +59,8 @@ export abstract class CalculatorModel extends DOMWidgetModel {
   /** The request for the current inputs, or null when an input is missing. */
   protected abstract buildRequest(f: Fields): Request | null;
 
+  /** Whether the newest request is on its way (the view's "computing…"; not synced, see compute()). */
+  declare computing: boolean;
   private declare seq: number;
   private declare watched: WidgetModel[];
   private declare pending: boolean;
@@ -66,6 +68,7 @@ export abstract class CalculatorModel extends DOMWidgetModel {
   override initialize(attributes: Parameters<DOMWidgetModel['initialize']>[0], options: Parameters<DOMWidgetModel['initialize']>[1]): void {
     super.initialize(attributes, options);
     this.seq = 0;
+    this.computing = false;
     this.watched = [];
     this.pending = false;
     this.on('change', () => {
@@ -107,18 +110,27 @@ export abstract class CalculatorModel extends DOMWidgetModel {
       request = null;
     }
     if (!request) {
+      this.seq++;
+      this.computing = false;
       this.set({ status: 'idle' });
+      this.trigger('rs:computing');
       return;
     }
     const seq = ++this.seq;
-    this.set({ status: 'computing' });
+    // "Computing" is the page's own state, not a synced field: a status set here and then overwritten by
+    // a kernel update (Python's headless answer, under ipywidgets' state lock) stays in ipywidgets'
+    // buffered diff, is sent with the next save_changes and echoed back, leaving "computing" for good.
+    this.computing = true;
+    this.trigger('rs:computing');
     void pageEngine()
       .compute(request, { key: `calculator:${this.model_id}` })
       .then((answer) => {
         if (seq !== this.seq) return; // a newer request is on its way
+        this.computing = false;
         const a = answer as { ok: boolean; error?: unknown };
         this.set({ request, result: answer, status: a.ok ? 'done' : 'error', error: a.ok ? null : a.error ?? null, computed_by: 'browser' });
         this.save_changes();
+        this.trigger('rs:computing');
       });
   }
 
@@ -182,7 +194,7 @@ export abstract class CalculatorView extends DOMWidgetView {
     );
     this.rewire();
     this.showKernel();
-    this.listenTo(this.model, 'change:result change:status change:error change:computed_by', () => this.showKernel());
+    this.listenTo(this.model, 'change:result change:status change:error change:computed_by rs:computing', () => this.showKernel());
     this.listenTo(this.model, 'change', () => {
       const changed = Object.keys(this.model.changedAttributes() || {});
       if (changed.some((k) => this.references.includes(k))) this.rewire();
@@ -215,11 +227,12 @@ export abstract class CalculatorView extends DOMWidgetView {
   }
 
   private showKernel(): void {
-    const status = String(this.model.get('status'));
+    const computing = (this.model as unknown as { computing?: boolean }).computing === true;
+    const status = computing ? 'computing' : String(this.model.get('status'));
     this.el.dataset.status = status;
     const result = this.model.get('result') as AnswerData | null;
     const by = this.model.get('computed_by');
-    if (status === 'computing') this.kernelLine.textContent = "Python's result: computing…";
+    if (computing) this.kernelLine.textContent = "Python's result: computing…";
     else if (result) this.kernelLine.textContent = `Python's result${by ? ` (computed in the ${by})` : ''}: ${answerText(result)}`;
     else this.kernelLine.textContent = "Python's result: none yet (an input is missing).";
   }

@@ -10,8 +10,9 @@
  *    form `{shape, packed: "float64-le", re, im?}` (what Python sends for 256 entries or more);
  *  - `rho`, `sigma`, `channel`, `states` hold other widgets by reference ("IPY_MODEL_<id>" on the wire);
  *  - `result` is the protocol answer of `request`, set by the front end the moment it arrives (or by
- *    Python's headless engine when no front end is attached); `status` says which: "idle", "computing",
- *    "done", "error" (the answer is a refusal, or an editor's input is invalid).
+ *    Python's headless engine when no front end is attached); `status` says which: "idle", "done",
+ *    "error" (the answer is a refusal, or an editor's input is invalid). A request on its way is shown
+ *    by the view ("computing…") but not synced: see CalculatorModel.compute.
  *
  * Deliberately not here: DOM, engine calls (views), and the module name and version (version.ts).
  * Cost: none.
