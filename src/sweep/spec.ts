@@ -19,7 +19,8 @@
  * Deliberately not here: evaluating points (src/sweep/point.ts) or any numerics.
  * Cost: reading is linear in the spec's size; pointAt is O(number of parameters).
  */
-import { createHash } from 'node:crypto';
+import { sha256 } from '@noble/hashes/sha2.js';
+import { bytesToHex, utf8ToBytes } from '@noble/hashes/utils.js';
 import Ajv2020Module from 'ajv/dist/2020.js';
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import { RhoError } from '../errors.js';
@@ -386,7 +387,8 @@ export function readSpec(value: unknown): Spec {
 
 /** "sha256:" + the hex digest of the spec's compact JSON text (key order as written; whitespace does not count). */
 export function specHash(source: unknown): string {
-  return `sha256:${createHash('sha256').update(JSON.stringify(source)).digest('hex')}`;
+  // @noble/hashes rather than node:crypto, so that specs are also read in the browser's engine worker.
+  return `sha256:${bytesToHex(sha256(utf8ToBytes(JSON.stringify(source))))}`;
 }
 
 /** The parameter values and sample number of point `index`. */
