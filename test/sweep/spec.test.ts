@@ -4,6 +4,7 @@
 // ends included (common practice).
 import { afterAll, describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
+import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import Ajv2020Module from 'ajv/dist/2020.js';
 import { RhoError } from '../../src/errors.js';
@@ -53,6 +54,12 @@ describe('sweep specs', () => {
     assert.equal(a.hash, specHash(good));
     assert.notEqual(readSpec({ ...good, seed: 4 }).hash, a.hash);
     assert.match(a.hash, /^sha256:[0-9a-f]{64}$/);
+  });
+
+  it('the hash is the SHA-256 of the compact JSON text (FIPS 180-4; node:crypto as the outside reference)', () => {
+    for (const spec of [good, { ...good, title: 'α-z over a grid, ρ ≥ 0' }]) {
+      assert.equal(specHash(spec), `sha256:${createHash('sha256').update(JSON.stringify(spec)).digest('hex')}`);
+    }
   });
 
   it('refuse bad specs with a clear error naming the field (ajv 8, JSON Schema 2020-12)', () => {
