@@ -235,13 +235,13 @@ export class SweepPanel {
       };
       const layers: unknown[] = [];
       if (numeric && !repeated && x !== 'sample') layers.push({ mark: { type: 'line', color: colour('--rs-chart-line', '#2a6f97') }, encoding: enc });
+      // Violated points in the mark colour, when the spec has an inequality; else one colour, no legend.
+      const color = s.spec?.inequality
+        ? { field: 'violated', type: 'nominal', title: 'violated', scale: { domain: [false, true], range: [colour('--rs-chart-line', '#2a6f97'), colour('--rs-chart-mark', '#c1121f')] } }
+        : { value: colour('--rs-chart-line', '#2a6f97') };
       layers.push({
         mark: { type: 'point', filled: true, size: 30 },
-        encoding: {
-          ...enc,
-          color: { field: 'violated', type: 'nominal', title: 'violated', scale: { domain: [false, true], range: [colour('--rs-chart-line', '#2a6f97'), colour('--rs-chart-mark', '#c1121f')] } },
-          tooltip: [{ field: 'index', type: 'quantitative' }, { field: 'x', title: x }, { field: 'y', title: y, type: 'quantitative' }],
-        },
+        encoding: { ...enc, color, tooltip: [{ field: 'index', type: 'quantitative' }, { field: 'x', title: x }, { field: 'y', title: y, type: 'quantitative' }] },
       });
       this.view = await renderChart(this.chart, {
         $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
