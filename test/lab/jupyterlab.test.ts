@@ -51,6 +51,9 @@ const CELLS = [
     + '"quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}}\n'
     + 'long = Sweep(long_spec)\nlong',
   'print("RESULT" + json.dumps({"status": long.status, "done": long.done, "total": long.total, "indices": [r["index"] for r in long.rows], "by": long.computed_by}))',
+  // Cells 11-12: Python's run() and cancel() reach the front end (custom messages).
+  'long.run()',
+  'long.cancel()',
 ];
 
 interface Printed { result: any; request: any; by: string; matrix: unknown }
@@ -245,6 +248,15 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     assert.equal(later.done, stopped.done, 'nothing runs after Cancel');
     assert.equal(later.status, 'cancelled');
     await longCell.screenshot({ path: join(SHOTS, 'rhosigma-lab-sweep-cancelled.png') });
+    // From Python: run() starts the browser's run again from the first point, cancel() stops it.
+    await lab.runCell(11);
+    await longCell.locator('.rs-sweep[data-status="running"]').waitFor({ timeout: 60_000 });
+    await lab.runCell(12);
+    await longCell.locator('.rs-sweep[data-status="cancelled"]').waitFor({ timeout: 30_000 });
+    const again = await until<{ status: string; done: number; indices: number[] }>(10, (r) => r.status === 'cancelled');
+    assert.equal(again.status, 'cancelled');
+    assert.ok(again.done < 6000, `${again.done} of 6000`);
+    assert.deepEqual(again.indices, [...Array(again.done).keys()], 'a fresh run from point 0');
   }, 400_000);
 
   it('the dark theme renders the widgets', async () => {
