@@ -7,7 +7,10 @@
 // same engine in another runtime), and the number against an outside fact: for commuting states the
 // Umegaki relative entropy is the Kullback–Leibler divergence of the spectra (Umegaki 1962; Nielsen &
 // Chuang §11.3). An invalid entry shows an error, keeps the other entries and yields a refusal, never a
-// number. The dark theme renders (light text on a dark page). Screenshots: <tmpdir>/rhosigma-lab-*.png.
+// number. The dark theme renders (light text on a dark page). A second notebook (its own JupyterLab) runs
+// the sweep widget: a small sweep run by the browser whose rows Python compares with rhosigma.sweep's
+// headless rows (a consistency check between two runtimes of the same engine), and a longer one stopped by
+// Cancel and by Python's cancel(). Screenshots: <tmpdir>/rhosigma-lab-*.png.
 //
 // Needs the labextension built and linked (scripts/setup.sh), .venv with JupyterLab, and Chromium. Under
 // CI=true anything missing fails the file; elsewhere it is skipped with a message. Cost: a minute or two.
@@ -37,23 +40,6 @@ const CELLS = [
   'g = np.random.default_rng(2026).normal(size=(16, 16)) + 1j * np.random.default_rng(7).normal(size=(16, 16))\nbig = g @ g.conj().T\nbig /= np.trace(big).real\ntau = StateEditor(big, dims=[2, 2, 2, 2], title="tau")\nflat = StateEditor(np.eye(16) / 16, dims=[2, 2, 2, 2], title="flat")\nbig_calc = DivergenceCalculator(tau, flat)\ntau',
   'big_calc',
   'lam = np.linalg.eigvalsh(big)\nprint("RESULT" + json.dumps({"result": big_calc.result, "request": big_calc.request, "by": big_calc.computed_by, "packed": isinstance(tau.matrix, dict) and tau.matrix.get("packed"), "numpy": float(4 + np.sum(lam * np.log2(lam)))}))',
-  // Cells 6-10: the sweep widget. A small sweep (Petz–Rényi divergence of two random qubit states over 12
-  // values of α, a spec of our own), run by the browser; then a longer one (6000 points) to cancel.
-  'import rhosigma\nfrom rhosigma.widgets import Sweep\nfrom rhosigma.sweeps import sweep_rows\n'
-    + 'small_spec = {"sweep": 1, "seed": 2026, "title": "Petz-Renyi divergence over a grid of alpha", "parameters": {"alpha": {"from": 0.1, "to": 1.9, "count": 12}}, '
-    + '"draws": {"rho": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}, "sigma": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}}, '
-    + '"quantity": {"op": "divergence", "family": "petz", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}, "record": ["rho", "sigma"]}\n'
-    + 'small = Sweep(small_spec)\nsmall',
-  'print("RESULT" + json.dumps({"status": small.status, "done": small.done, "total": small.total, "by": small.computed_by, "error": small.error}))',
-  'headless_rows, _ = sweep_rows(small_spec)\nprint("RESULT" + json.dumps({"rows": small.rows, "headless": headless_rows, "exact": small.rows == headless_rows, "frame": small.frame().equals(rhosigma.sweep(small_spec))}))',
-  'long_spec = {"sweep": 1, "seed": 7, "samples": 2000, "parameters": {"alpha": {"values": [0.5, 1.5, 3]}}, '
-    + '"draws": {"rho": {"op": "random-state", "ensemble": "bures", "dims": [4]}, "sigma": {"op": "random-state", "ensemble": "bures", "dims": [4]}}, '
-    + '"quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}}\n'
-    + 'long = Sweep(long_spec)\nlong',
-  'print("RESULT" + json.dumps({"status": long.status, "done": long.done, "total": long.total, "indices": [r["index"] for r in long.rows], "by": long.computed_by}))',
-  // Cells 11-12: Python's run() and cancel() reach the front end (custom messages).
-  'long.run()',
-  'long.cancel()',
 ];
 
 interface Printed { result: any; request: any; by: string; matrix: unknown }
@@ -169,6 +155,58 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     await lab.page.locator('.jp-Notebook .jp-Cell').nth(3).screenshot({ path: join(SHOTS, 'rhosigma-lab-four-qubit-grid.png') });
   }, 300_000);
 
+  it('the dark theme renders the widgets', async () => {
+    const dir = join(lab.settings, '@jupyterlab', 'apputils-extension');
+    mkdirSync(dir, { recursive: true });
+    writeFileSync(join(dir, 'themes.jupyterlab-settings'), JSON.stringify({ theme: 'JupyterLab Dark' }));
+    await showWidgets();
+    await lab.page.waitForFunction(() => document.body.dataset.jpThemeLight === 'false', undefined, { timeout: 60_000 });
+    const colors = await lab.page.evaluate(() => {
+      const card = document.querySelector('.rs-calculator-widget');
+      return { bg: getComputedStyle(document.querySelector('.jp-Notebook')).backgroundColor, fg: getComputedStyle(card).color, body: getComputedStyle(document.body).backgroundColor };
+    });
+    // Light text on a dark page (WCAG relative luminance; common practice, no published source for the threshold).
+    const lum = (c: string) => {
+      const [r, g, b] = (c.match(/\d+(\.\d+)?/g) ?? ['0', '0', '0']).slice(0, 3).map((x) => Number(x) / 255).map((v) => (v <= 0.03928 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4));
+      return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+    };
+    assert.ok(lum(colors.fg) > lum(colors.body), JSON.stringify(colors));
+    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-dark.png'), fullPage: true });
+  }, 400_000);
+});
+
+const SWEEP_CELLS = [
+  // Cells 0-4: the sweep widget. A small sweep (Petz–Rényi divergence of two random qubit states over 12
+  // values of α, a spec of our own), run by the browser; then a longer one (6000 points) to cancel.
+  'import json, rhosigma\nfrom rhosigma.widgets import Sweep\nfrom rhosigma.sweeps import sweep_rows\n'
+    + 'small_spec = {"sweep": 1, "seed": 2026, "title": "Petz-Renyi divergence over a grid of alpha", "parameters": {"alpha": {"from": 0.1, "to": 1.9, "count": 12}}, '
+    + '"draws": {"rho": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}, "sigma": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}}, '
+    + '"quantity": {"op": "divergence", "family": "petz", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}, "record": ["rho", "sigma"]}\n'
+    + 'small = Sweep(small_spec)\nsmall',
+  'print("RESULT" + json.dumps({"status": small.status, "done": small.done, "total": small.total, "by": small.computed_by, "error": small.error}))',
+  'headless_rows, _ = sweep_rows(small_spec)\nprint("RESULT" + json.dumps({"rows": small.rows, "headless": headless_rows, "exact": small.rows == headless_rows, "frame": small.frame().equals(rhosigma.sweep(small_spec))}))',
+  'long_spec = {"sweep": 1, "seed": 7, "samples": 2000, "parameters": {"alpha": {"values": [0.5, 1.5, 3]}}, '
+    + '"draws": {"rho": {"op": "random-state", "ensemble": "bures", "dims": [4]}, "sigma": {"op": "random-state", "ensemble": "bures", "dims": [4]}}, '
+    + '"quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}}\n'
+    + 'long = Sweep(long_spec)\nlong',
+  'print("RESULT" + json.dumps({"status": long.status, "done": long.done, "total": long.total, "indices": [r["index"] for r in long.rows], "by": long.computed_by}))',
+  // Cells 5-6: Python's run() and cancel() reach the front end (custom messages).
+  'long.run()',
+  'long.cancel()',
+];
+
+maybe('the sweep widget in a real JupyterLab (Chromium)', () => {
+  let lab: LabSession;
+
+  beforeAll(async () => {
+    lab = await startLab(SWEEP_CELLS, 'sweep.ipynb');
+    await lab.open();
+  }, 240_000);
+
+  afterAll(async () => {
+    await lab?.stop();
+  }, 30_000);
+
   /** Prints cell `index`'s RESULT until `pred` holds (or two minutes passed). */
   async function until<T>(index: number, pred: (r: T) => boolean, ms = 120_000): Promise<T> {
     const deadline = Date.now() + ms;
@@ -206,10 +244,10 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
   }
 
   it('a sweep widget runs in the browser, its rows reach the kernel live, equal row for row to rhosigma.sweep headless; Cancel stops a longer one', async () => {
-    await lab.runCell(6);
-    const sweepCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(6);
+    await lab.runCell(0);
+    const sweepCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(0);
     await sweepCell.locator('.rs-sweep').waitFor({ timeout: 60_000 });
-    const got = await until<{ status: string; done: number; total: number; by: string; error: unknown }>(7, (r) => r.status === 'done' || r.status === 'error');
+    const got = await until<{ status: string; done: number; total: number; by: string; error: unknown }>(1, (r) => r.status === 'done' || r.status === 'error');
     assert.equal(got.status, 'done', JSON.stringify(got));
     assert.equal(got.by, 'browser', 'the browser ran the sweep');
     assert.equal(got.done, 12);
@@ -220,8 +258,8 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     await sweepCell.screenshot({ path: join(SHOTS, 'rhosigma-lab-sweep.png') });
     // Consistency check, not an outside reference: the rows the browser sent equal those of the headless
     // engine (rhosigma.sweep through `rhosigma serve`) for the same spec, row for row.
-    await lab.runCell(8);
-    const text = await lab.outputText(8);
+    await lab.runCell(2);
+    const text = await lab.outputText(2);
     const cmp = JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim()) as { rows: any[]; headless: any[]; exact: boolean; frame: boolean };
     assert.equal(cmp.rows.length, 12);
     assert.deepEqual(cmp.rows.map((r) => r.index), [...Array(12).keys()]);
@@ -229,52 +267,33 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     if (!cmp.exact) console.warn(`sweep widget: rows equal the headless ones within 1e-12 relative, not bit for bit: ${difference(cmp.rows, cmp.headless, 0)}`);
     assert.equal(cmp.frame, cmp.exact, 'frame() equals rhosigma.sweep(spec) exactly when the rows do');
     // Cancel: a 6000-point sweep, cancelled from its view as soon as rows arrive, stops before its end.
-    await lab.runCell(9);
-    const longCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(9);
+    await lab.runCell(3);
+    const longCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(3);
     await longCell.locator('.rs-sweep[data-status="running"]').waitFor({ timeout: 60_000 });
     await lab.page.waitForFunction((i) => {
       const t = document.querySelectorAll('.jp-Notebook .jp-Cell')[i as number]?.querySelector('.rs-sweep__count')?.textContent ?? '';
       return /^[1-9]\d* of 6000/.test(t);
-    }, 9, { timeout: 60_000 });
+    }, 3, { timeout: 60_000 });
     await longCell.locator('.rs-sweep .rs-button--stop').click();
     await longCell.locator('.rs-sweep[data-status="cancelled"]').waitFor({ timeout: 30_000 });
-    const stopped = await until<{ status: string; done: number; total: number; indices: number[]; by: string }>(10, (r) => r.status === 'cancelled');
+    const stopped = await until<{ status: string; done: number; total: number; indices: number[]; by: string }>(4, (r) => r.status === 'cancelled');
     assert.equal(stopped.status, 'cancelled', JSON.stringify({ ...stopped, indices: stopped.indices.length }));
     assert.equal(stopped.total, 6000);
     assert.ok(stopped.done > 0 && stopped.done < 6000, `${stopped.done} of 6000`);
     assert.deepEqual(stopped.indices, [...Array(stopped.done).keys()], 'the rows done before Cancel, in index order');
     await lab.page.waitForTimeout(2000);
-    const later = await until<{ done: number; status: string }>(10, () => true);
+    const later = await until<{ done: number; status: string }>(4, () => true);
     assert.equal(later.done, stopped.done, 'nothing runs after Cancel');
     assert.equal(later.status, 'cancelled');
     await longCell.screenshot({ path: join(SHOTS, 'rhosigma-lab-sweep-cancelled.png') });
     // From Python: run() starts the browser's run again from the first point, cancel() stops it.
-    await lab.runCell(11);
+    await lab.runCell(5);
     await longCell.locator('.rs-sweep[data-status="running"]').waitFor({ timeout: 60_000 });
-    await lab.runCell(12);
+    await lab.runCell(6);
     await longCell.locator('.rs-sweep[data-status="cancelled"]').waitFor({ timeout: 30_000 });
-    const again = await until<{ status: string; done: number; indices: number[] }>(10, (r) => r.status === 'cancelled');
+    const again = await until<{ status: string; done: number; indices: number[] }>(4, (r) => r.status === 'cancelled');
     assert.equal(again.status, 'cancelled');
     assert.ok(again.done < 6000, `${again.done} of 6000`);
     assert.deepEqual(again.indices, [...Array(again.done).keys()], 'a fresh run from point 0');
-  }, 400_000);
-
-  it('the dark theme renders the widgets', async () => {
-    const dir = join(lab.settings, '@jupyterlab', 'apputils-extension');
-    mkdirSync(dir, { recursive: true });
-    writeFileSync(join(dir, 'themes.jupyterlab-settings'), JSON.stringify({ theme: 'JupyterLab Dark' }));
-    await showWidgets();
-    await lab.page.waitForFunction(() => document.body.dataset.jpThemeLight === 'false', undefined, { timeout: 60_000 });
-    const colors = await lab.page.evaluate(() => {
-      const card = document.querySelector('.rs-calculator-widget');
-      return { bg: getComputedStyle(document.querySelector('.jp-Notebook')).backgroundColor, fg: getComputedStyle(card).color, body: getComputedStyle(document.body).backgroundColor };
-    });
-    // Light text on a dark page (WCAG relative luminance; common practice, no published source for the threshold).
-    const lum = (c: string) => {
-      const [r, g, b] = (c.match(/\d+(\.\d+)?/g) ?? ['0', '0', '0']).slice(0, 3).map((x) => Number(x) / 255).map((v) => (v <= 0.03928 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4));
-      return 0.2126 * r + 0.7152 * g + 0.0722 * b;
-    };
-    assert.ok(lum(colors.fg) > lum(colors.body), JSON.stringify(colors));
-    await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-dark.png'), fullPage: true });
   }, 400_000);
 });
