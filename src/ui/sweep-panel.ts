@@ -2,7 +2,8 @@
  * `SweepPanel`: the face of a sweep (docs/sweeps.md, "In the notebook"): a summary of the spec (its title,
  * its points, its parameters and what each point records), a progress bar with the count and the rate of
  * points, Run and Cancel buttons, the refusal when the spec is refused, and a live chart of the rows so far
- * through plot.ts (one parameter on x, one field of a line on y; violated points marked).
+ * through plot.ts (one parameter on x, one field of a line on y; violated points marked; points joined by a
+ * line only when the spec has neither samples nor draws, where they are one function of x).
  *
  * The panel is told everything (`update`) and says what the user asked for (`on('run' | 'cancel' | 'plot')`):
  * whoever owns it (the sweep widget's view) runs the sweep. The chart's numbers are the rows' own, as the
@@ -234,7 +235,10 @@ export class SweepPanel {
         y: { field: 'y', type: 'quantitative', title: y, scale: { zero: false } },
       };
       const layers: unknown[] = [];
-      if (numeric && !repeated && x !== 'sample') layers.push({ mark: { type: 'line', color: colour('--rs-chart-line', '#2a6f97') }, encoding: enc });
+      // A line only where the points are one function of x: no repeated samples and no random draws (each
+      // point draws its own states, so neighbouring points of a sweep with draws belong to different states).
+      const drawn = !!s.spec?.draws && Object.keys(s.spec.draws as object).length > 0;
+      if (numeric && !repeated && !drawn && x !== 'sample') layers.push({ mark: { type: 'line', color: colour('--rs-chart-line', '#2a6f97') }, encoding: enc });
       // Violated points in the mark colour, when the spec has an inequality; else one colour, no legend.
       const color = s.spec?.inequality
         ? { field: 'violated', type: 'nominal', title: 'violated', scale: { domain: [false, true], range: [colour('--rs-chart-line', '#2a6f97'), colour('--rs-chart-mark', '#c1121f')] } }
