@@ -193,6 +193,9 @@ const SWEEP_CELLS = [
   // Cells 5-6: Python's run() and cancel() reach the front end (custom messages).
   'long.run()',
   'long.cancel()',
+  // Cells 7-8: a refused spec (a parameter with no values) ends in status "error" naming the field.
+  'bad = Sweep({**small_spec, "parameters": {"alpha": {"from": 0.1, "to": 1.9, "count": 0}}})\nbad',
+  'print("RESULT" + json.dumps({"status": bad.status, "error": bad.error, "rows": bad.rows}))',
 ];
 
 maybe('the sweep widget in a real JupyterLab (Chromium)', () => {
@@ -295,5 +298,13 @@ maybe('the sweep widget in a real JupyterLab (Chromium)', () => {
     assert.equal(again.status, 'cancelled');
     assert.ok(again.done < 6000, `${again.done} of 6000`);
     assert.deepEqual(again.indices, [...Array(again.done).keys()], 'a fresh run from point 0');
+    // A refused spec: the engine's refusal, with the field at fault, is the widget's `error`; no rows.
+    await lab.runCell(7);
+    const bad = await until<{ status: string; error: { code: string; path?: string } | null; rows: unknown[] }>(8, (r) => r.status === 'error');
+    assert.equal(bad.status, 'error', JSON.stringify(bad));
+    assert.equal(bad.error?.code, 'invalid-argument');
+    assert.ok(String(bad.error?.path).startsWith('spec.parameters.alpha'), JSON.stringify(bad.error));
+    assert.deepEqual(bad.rows, []);
+    await lab.page.locator('.jp-Notebook .jp-Cell').nth(7).locator('.rs-sweep .rs-error').waitFor({ timeout: 30_000 });
   }, 400_000);
 });
