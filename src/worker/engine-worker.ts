@@ -52,11 +52,11 @@ const api: WorkerApi = {
 /**
  * The sweep layer (src/sweep, with the op `sweep-points` that the sweep widget asks for chunks of points)
  * in a chunk of its own, loaded on the first sweep request: pages that never sweep (the wiki embed) never
- * load it. Resolves with the reason when it cannot load (the request is then answered internal-error).
+ * load it ("lazy" also where a build makes dynamic imports eager, as the embed's does). Resolves with the reason when it cannot load (the request is then answered internal-error).
  */
 async function loadSweeps(): Promise<string | undefined> {
   try {
-    await import(/* webpackChunkName: "rhosigma-sweeps" */ '../sweep/op.js');
+    await import(/* webpackChunkName: "rhosigma-sweeps", webpackMode: "lazy" */ '../sweep/op.js');
     return undefined;
   } catch (e) {
     return e instanceof Error ? e.message : String(e);
