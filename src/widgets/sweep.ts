@@ -90,7 +90,10 @@ export class SweepModel extends DOMWidgetModel {
   }
 
   private async ask(spec: unknown, body: { indices?: number[]; refine?: number[][] }, signal: AbortSignal): Promise<Record<string, any>> {
-    const answer = (await pageEngine().compute({ op: 'sweep-points', spec, deadline: SWEEP_DEADLINE_MS, ...body }, { signal })) as Answer & Record<string, any>;
+    // `id` (echoed, a common field) keeps this model's requests its own: the page's engine shares identical
+    // requests in flight (engine.ts), and a Cancel of another sweep of the same spec must not stop this one.
+    const request = { op: 'sweep-points', spec, deadline: SWEEP_DEADLINE_MS, id: `sweep:${this.model_id}`, ...body };
+    const answer = (await pageEngine().compute(request, { signal })) as Answer & Record<string, any>;
     if (!answer.ok) {
       const error = (answer as { error: Refusal }).error;
       throw signal.aborted || error.code === 'cancelled' ? new Stopped('cancelled') : new Stopped('error', error);
