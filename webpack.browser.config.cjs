@@ -13,8 +13,11 @@
  */
 const path = require('node:path');
 
+/** The rule that inlines the expression reader's import() of mathjs (shared with the labextension's configuration). */
+const EAGER_EXPRESSIONS = { test: /[\\/]ops[\\/]expressions\.[jt]s$/, parser: { dynamicImportMode: 'eager' } };
+
 /**
- * @param {{ name: string, entry: Record<string, string>, outputPath: string, mode?: 'production' | 'development', target?: string }} o
+ * @param {{ name: string, entry: Record<string, string>, outputPath: string, mode?: 'production' | 'development', target?: string, lazyExpressions?: boolean }} o
  */
 function browserConfig(o) {
   return {
@@ -37,6 +40,9 @@ function browserConfig(o) {
           exclude: /node_modules/,
           options: { transpileOnly: true, configFile: path.resolve(__dirname, 'tsconfig.dom.json'), compilerOptions: { sourceMap: false, declaration: false, module: 'es2022', moduleResolution: 'bundler' } },
         },
+        // The expression reader's mathjs (src/ops/expressions.ts, loaded with import() on first need) kept
+        // inside the worker file, not a chunk beside it, unless the build asks for lazy chunks (the embed).
+        ...(o.lazyExpressions ? [] : [EAGER_EXPRESSIONS]),
       ],
     },
     // Module concatenation trips over the ops layer's import cycles (handle ↔ registry users): off.
@@ -56,3 +62,4 @@ module.exports = [
   }),
 ];
 module.exports.browserConfig = browserConfig;
+module.exports.EAGER_EXPRESSIONS = EAGER_EXPRESSIONS;

@@ -3,10 +3,15 @@
  *   rhosigma-embed.js         the script a page includes once (src/embed/main.ts: the element, the ui
  *                             components, the engine client)
  *   rhosigma-embed-worker.js  the engine's web worker (src/worker/engine-worker.ts), loaded by the client
- *                             from beside the script; the expression reader (mathjs) is inside it, not a
- *                             chunk of its own, so a page requests nothing else
+ *                             from beside the script
+ *   rhosigma-embed-plot.js    chunks loaded with import() on first need, from beside the script (publicPath
+ *   rhosigma-embed-expressions.js  "auto": the script's own address, document.currentScript; in the worker,
+ *                             the worker's): vega for the charts, and, in the worker, mathjs for the
+ *                             expression reader (only when an entry is an expression)
  *   rhosigma-embed.css        the components' stylesheets (style/*.css) and the embed frame's
  *                             (src/embed/embed.css), concatenated: linked inside each element's shadow root
+ * No KaTeX: the formulas are MathML that KaTeX wrote at build time (src/embed/formula-mathml.ts replaces
+ * src/ui/formula.ts). Sizes, and what a page requests before its first result: `npm run bench -- embed`.
  *
  * Production mode (minified), no source maps, no eval-based devtool (a strict CSP forbids eval).
  * Cost: one production build, about half a minute on two cores.
@@ -36,7 +41,7 @@ class EmbedStylesheet {
 
 const { browserConfig } = require('./webpack.browser.config.cjs');
 
-const base = browserConfig({ name: 'embed', entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') }, outputPath: path.join(root, 'dist', 'embed') });
+const base = browserConfig({ name: 'embed', entry: { 'rhosigma-embed': path.join(root, 'src', 'embed', 'main.ts') }, outputPath: path.join(root, 'dist', 'embed'), lazyExpressions: true });
 
 module.exports = {
   ...base,
@@ -54,9 +59,16 @@ module.exports = {
     rules: base.module.rules.map((r) => (r.loader === 'ts-loader'
       ? { ...r, options: { ...r.options, compilerOptions: { ...r.options.compilerOptions, module: 'es2022', moduleResolution: 'bundler' } } }
       : r)),
-    // The engine loads mathjs with import() on first need: kept inside the worker, not a chunk of its own.
-    parser: { javascript: { dynamicImportMode: 'eager' } },
   },
   optimization: { ...base.optimization, runtimeChunk: false, chunkIds: 'named' },
-  plugins: [new EmbedStylesheet()],
+  // The worker's idle warm-up leaves the expression reader's chunk alone (fetched when an entry is an
+  // expression, not by every page): src/worker/engine-worker.ts.
+  plugins: [
+    new EmbedStylesheet(),
+    new webpack.DefinePlugin({ __RHOSIGMA_WARM_EXPRESSIONS__: JSON.stringify(false) }),
+    // Formulas: the MathML KaTeX wrote at build time (src/embed/formula-mathml.ts) instead of KaTeX.
+    new webpack.NormalModuleReplacementPlugin(/^\.\/formula\.js$/, (resource) => {
+      if (path.normalize(resource.context) === path.join(root, 'src', 'ui')) resource.request = path.join(root, 'src', 'embed', 'formula-mathml.ts');
+    }),
+  ],
 };

@@ -11,7 +11,7 @@
  *    (LAPACK through OpenBLAS, OPENBLAS_NUM_THREADS=1 set in its own process: scripts/reference/
  *    numpy_eigh_bench.py). Goals ≤ 2× packed, ≤ 3× rows.
  *
- * Needs the build (`npm run build`: bin/rhosigma.js runs dist/cli/bundle.mjs) and .venv (numpy).
+ * Needs the build (`npm run build`: bin/rhosigma.js runs dist/cli/bundle.cjs with its code cache) and .venv (numpy).
  * Prints medians and ratios only; asserts nothing (not a test). Cost: about a minute.
  */
 import { spawnSync } from 'node:child_process';
@@ -75,7 +75,7 @@ function numpyEigvalsh(): number {
 }
 
 export default async function transport(): Promise<void> {
-  if (!existsSync(join(root, 'dist/cli/bundle.mjs'))) throw new Error('bench/transport.ts needs `npm run build` first');
+  if (!existsSync(join(root, 'dist/cli/bundle.cjs'))) throw new Error('bench/transport.ts needs `npm run build` first');
   if (!existsSync(PYTHON)) throw new Error('bench/transport.ts needs .venv (bash scripts/setup.sh)');
   const dir = mkdtempSync(join(tmpdir(), 'rhosigma-transport-'));
   const one = join(dir, 'one.json');

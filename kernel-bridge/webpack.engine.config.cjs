@@ -36,6 +36,8 @@ module.exports = {
       // The sweep pool finds its worker (and, from source, tsx) through import.meta at run time: left
       // untouched rather than resolved at build time.
       { test: /[\\/]sweep[\\/]pool\.js$/, parser: { url: false, worker: false, importMeta: false } },
+      // The expression reader's mathjs (import() on first need) inlined in the one file.
+      { test: /[\\/]ops[\\/]expressions\.[jt]s$/, parser: { dynamicImportMode: 'eager' } },
     ],
   },
   // One file of code: no split chunks, no separate runtime, and modules the command loads on first need

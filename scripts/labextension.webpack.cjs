@@ -28,6 +28,9 @@ module.exports = {
           },
         ],
       },
+      // The expression reader's mathjs (src/ops/expressions.ts, import() on first need) stays inside the
+      // worker chunk, as in the browser worker build (webpack.browser.config.cjs).
+      { test: /[\\/]ops[\\/]expressions\.[jt]s$/, parser: { dynamicImportMode: 'eager' } },
     ],
   },
 };

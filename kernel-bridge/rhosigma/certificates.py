@@ -703,11 +703,27 @@ def _guessing_range(req: dict) -> tuple[float, float]:
 
 
 # The ranges the quantities have by definition; a recomputed bracket is clipped to them (facts, not evidence).
+def _entropy_range(req: dict) -> tuple[float, float]:
+    _, da, _ = _bipartite(req)
+    h = math.log(da) / log_base(req)
+    return (-h, h)
+
+
+def _max_information_range(req: dict) -> tuple[float, float]:
+    _, da, db = _bipartite(req)
+    return (0.0, 2 * math.log(min(da, db)) / log_base(req))
+
+
 RANGES = {
     "fidelity-of-recovery": lambda req: (0.0, 1.0),
     "fidelity-sdp": lambda req: (0.0, 1.0),
     "diamond-distance": lambda req: (0.0, 1.0),
     "guessing-probability": _guessing_range,
+    # −log d_A ≤ H_min, H_max ≤ log d_A; 0 ≤ I_max ≤ 2 log min(d_A, d_B) (Tomamichel 2016; Berta,
+    # Christandl, Renner 2011; both as recalled from memory).
+    "conditional-min-entropy": _entropy_range,
+    "conditional-max-entropy": _entropy_range,
+    "max-information": _max_information_range,
 }
 
 

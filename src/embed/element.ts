@@ -5,8 +5,8 @@
  * Safe by construction: everything is built with createElement and textContent (no HTML from strings),
  * no style attribute is ever written from a string (styles come from the stylesheet file beside the
  * script, linked inside the element's shadow root), nothing is read from the page but this element, the
- * URL's fragment (for shared links) and the address of our own script; the only requests are the
- * stylesheet and the worker file beside the script. Works under `Content-Security-Policy: default-src
+ * URL's fragment (for shared links) and the address of our own script; the only requests are for the
+ * embed's own files beside the script (the stylesheet, the worker, the chunks loaded on first need). Works under `Content-Security-Policy: default-src
  * 'self'`.
  *
  * What it does not do: compute (the calculator asks the page's one engine worker) or draw the editors

@@ -4,8 +4,10 @@
  * A page includes it once: `<script src=".../rhosigma-embed.js" defer></script>`.
  *
  * One worker per page: the client is made when the first calculator mounts and shared by every one after
- * it. The worker file and the stylesheet are found beside this script (webpack's publicPath "auto", from
- * document.currentScript), the only files the embed ever requests.
+ * it. The worker file, the stylesheet and the chunks loaded on first need (the plotting, the worker's
+ * expression reader) are found beside this script (webpack's publicPath "auto", from
+ * document.currentScript; in the worker, from the worker's own address), the only files the embed ever
+ * requests.
  *
  * What it does not do: read the page (each element reads only itself), or compute. Cost: the bundle's load.
  */

@@ -210,6 +210,33 @@ export function readStates(states: readonly CMatrix[], count: number, tol: numbe
   return states.map((s) => hermitianPart(s));
 }
 
+/** An ensemble read for a search over guessing orders: states, their side, the clipped prior and its support. */
+export interface PreparedEnsemble {
+  rho: CMatrix[];
+  d: number;
+  p: number[];
+  /** Symbols of nonzero probability, and of zero probability. */
+  support: number[];
+  zeroSymbols: number[];
+}
+
+/**
+ * What both searches over guessing orders (all orders at once here, column generation in
+ * side-information.ts) check and compute first: the prior and the states, the prior clipped at 0, and
+ * the support, refused as 'too-large' above `limit` symbols (`what` says which search and why).
+ */
+export function prepareEnsemble(probabilities: readonly number[], states: readonly CMatrix[], tol: number, limit: number, what: string): PreparedEnsemble {
+  checkProbabilities(probabilities, 'probabilities', tol);
+  const rho = readStates(states, probabilities.length, tol);
+  const p = probabilities.map((x) => Math.max(0, x));
+  const support = p.map((_, x) => x).filter((x) => p[x] > 0);
+  const zeroSymbols = p.map((_, x) => x).filter((x) => p[x] === 0);
+  if (support.length > limit) {
+    throw new RhoError('too-large', `X has ${support.length} symbols of nonzero probability; ${what}.`, 'probabilities', { size: support.length, limit });
+  }
+  return { rho, d: rho[0].rows, p, support, zeroSymbols };
+}
+
 /**
  * Guesswork of X given quantum side information B, for the ensemble {p_x, ρ_x}, by the plain SDP over
  * POVMs indexed by ALL guessing orders at once (see the module comment): the generic method, kept as an
@@ -226,21 +253,9 @@ export function guessworkAllOrders(
   const moment = checkMoment(options.moment ?? 1);
   const weightTolerance = options.weightTolerance ?? DEFAULT_WEIGHT_TOLERANCE;
   checkNumber(weightTolerance, 'weightTolerance', { min: 0, max: 1 });
-  checkProbabilities(probabilities, 'probabilities', tol);
-  const rho = readStates(states, probabilities.length, tol);
-  const d = rho[0].rows;
-  const p = probabilities.map((x) => Math.max(0, x));
+  const { rho, d, p, support, zeroSymbols } = prepareEnsemble(probabilities, states, tol, MAX_SUPPORT,
+    `the guesswork SDP searches all orders and is limited to ${MAX_SUPPORT} (${factorial(MAX_SUPPORT)} orders)`);
 
-  const support = p.map((_, x) => x).filter((x) => p[x] > 0);
-  const zeroSymbols = p.map((_, x) => x).filter((x) => p[x] === 0);
-  if (support.length > MAX_SUPPORT) {
-    throw new RhoError(
-      'too-large',
-      `X has ${support.length} symbols of nonzero probability; the guesswork SDP searches all orders and is limited to ${MAX_SUPPORT} (${720} orders).`,
-      'probabilities',
-      { size: support.length, limit: MAX_SUPPORT },
-    );
-  }
   const count = factorial(support.length);
   if (count * d * d > MAX_SDP_SIZE) {
     throw new RhoError(

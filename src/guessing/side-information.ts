@@ -35,7 +35,7 @@ import { assess, type SdpCertificate } from '../sdp/support.js';
 import type { SdpOptions } from '../sdp/index.js';
 import { solveOverOrders, DEFAULT_GAP, type OrderProgress } from './column-generation.js';
 import { factorial } from './orders.js';
-import { checkMoment, guessworkClassical, readStates, type GuessingOrder } from './guesswork.js';
+import { checkMoment, guessworkClassical, prepareEnsemble, type GuessingOrder } from './guesswork.js';
 
 /** Largest support of X searched by column generation (12! ≈ 4.8 × 10⁸ orders, streamed). */
 export const MAX_ORDER_SUPPORT = 12;
@@ -115,20 +115,8 @@ function overOrders(probabilities: readonly number[], states: readonly CMatrix[]
   checkNumber(weightTolerance, 'weightTolerance', { min: 0, max: 1 });
   const gap = options.gap ?? DEFAULT_GAP;
   checkNumber(gap, 'gap', { min: 0, minExclusive: true, max: 1 });
-  checkProbabilities(probabilities, 'probabilities', tol);
-  const rho = readStates(states, probabilities.length, tol);
-  const d = rho[0].rows;
-  const p = probabilities.map((x) => Math.max(0, x));
-  const support = p.map((_, x) => x).filter((x) => p[x] > 0);
-  const zeroSymbols = p.map((_, x) => x).filter((x) => p[x] === 0);
-  if (support.length > MAX_ORDER_SUPPORT) {
-    throw new RhoError(
-      'too-large',
-      `X has ${support.length} symbols of nonzero probability; the search over guessing orders is limited to ${MAX_ORDER_SUPPORT} (${factorial(MAX_ORDER_SUPPORT)} orders, priced one by one).`,
-      'probabilities',
-      { size: support.length, limit: MAX_ORDER_SUPPORT },
-    );
-  }
+  const { rho, d, p, support, zeroSymbols } = prepareEnsemble(probabilities, states, tol, MAX_ORDER_SUPPORT,
+    `the search over guessing orders is limited to ${MAX_ORDER_SUPPORT} (${factorial(MAX_ORDER_SUPPORT)} orders, priced one by one)`);
   // With a cost of positions that decreases somewhere (giving up cheaper than guessing on), a wasted
   // guess on a zero-probability symbol can pay: then every symbol is searched.
   const full = spec.costs(p.length);

@@ -158,6 +158,10 @@ export function conditionalMinEntropy(
       dual: { X: r.X }, dualObjective: traceOfProductRe(rhoAB, r.X),
       bounds: { lower: h(r.upper), upper: h(r.lower) },
       estimate: h(r.optimum),
+      // −log d_A ≤ H_min(A|B) ≤ log d_A (Tomamichel, "Quantum Information Processing with Finite
+      // Resources", 2016, Lemma 6.4 as recalled from memory; the ends are the maximally entangled and the
+      // maximally mixed product states).
+      range: [-Math.log(dA) / lb, Math.log(dA) / lb],
     });
   };
   const c = certifyRefined(attempt, options.solver);
@@ -280,6 +284,8 @@ export function conditionalMaxEntropy(
       dual: { Y: mul(mul(V, pd), adjoint(V)) }, dualObjective: rootUpper * rootUpper,
       bounds: { lower: h(f.value * (1 - 4e-15) - pad), upper: h((rootUpper + pad) ** 2) },
       estimate: -ans.primalObjective > 0 ? (2 * Math.log(-ans.primalObjective)) / lb : undefined,
+      // −log d_A ≤ H_max(A|B) ≤ log d_A (the same ends as H_min; Tomamichel 2016, as recalled from memory).
+      range: [-Math.log(dA) / lb, Math.log(dA) / lb],
     });
   };
   const c = certifyRefined(attempt, options.solver);

@@ -92,6 +92,9 @@ export function maxInformation(
       dual: { Z: symmetrize(mul(mul(back, res.X), K)) }, dualObjective: res.lower,
       bounds: { lower: h(res.lower - conditioning), upper: h(res.upper + conditioning) },
       estimate: h(res.optimum),
+      // 0 ≤ I_max(A:B) ≤ 2 log min(d_A, d_B) (Berta, Christandl, Renner 2011, as recalled from memory;
+      // 0 because both sides of the D_max are states, the upper end at maximally entangled states).
+      range: [0, (2 * Math.log(Math.min(dA, dB))) / lb],
     });
   };
   const c = certifyRefined(attempt, options.solver);

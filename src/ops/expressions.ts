@@ -11,7 +11,8 @@
  * Conventions (mathjs's grammar): `^` binds tighter than unary minus (-2^2 = -4) and is right-associative
  * (2^3^2 = 512); functions use principal branches (sqrt(-1) = i, log of a negative real has imaginary part +π);
  * signed zeros are dropped at every step, so -1 is −1 + 0i and never falls on the lower side of a branch cut.
- * Implicit multiplication ("2i", "1/2i") is refused because its precedence surprises readers: write "2*i".
+ * A number written directly before i is an imaginary literal, as in Python ("2i", "1/2i" = 1/(2i));
+ * any other implicit multiplication ("2 i", "2pi") is refused because its precedence surprises readers.
  *
  * Deliberately not supported: variables, assignment, user functions, units, matrices, strings, booleans,
  * comparisons, factorial, modulo. Every refusal is a RhoError 'parse-error' naming the entry's path.
@@ -70,9 +71,11 @@ export function expressionReaderLoaded(): boolean {
  */
 export async function loadExpressionReader(): Promise<void> {
   if (parse) return;
-  // webpackMode eager: a webpack build (the wheel's engine, browser workers) keeps mathjs in its one
-  // file instead of a chunk beside it; esbuild's command bundle leaves it outside (a real import).
-  adopt(await import(/* webpackMode: "eager" */ 'mathjs/lib/browser/math.js'));
+  // Each webpack build decides where mathjs goes: the wheel's engine, the browser worker and the
+  // labextension keep it in their one file (a rule with dynamicImportMode "eager" for this module), the
+  // wiki embed's worker loads it as a chunk beside it (rhosigma-embed-expressions.js) on first need;
+  // esbuild's command bundle leaves it outside (a real import).
+  adopt(await import(/* webpackChunkName: "expressions" */ 'mathjs/lib/browser/math.js'));
 }
 
 function reader(): (text: string) => unknown {
@@ -267,7 +270,7 @@ export function readExpression(text: unknown, path: string): { re: number; im: n
   if (text.trim() === '') throw new RhoError('parse-error', 'The expression is empty.', path);
   let tree: Node;
   try {
-    tree = reader()(text) as unknown as Node;
+    tree = reader()(imaginaryLiterals(text)) as unknown as Node;
   } catch (err) {
     const why = err instanceof Error ? err.message : String(err);
     throw new RhoError('parse-error', `Cannot read the expression "${clip(text)}": ${clip(why)}.`, path);
@@ -282,6 +285,18 @@ export function readExpression(text: unknown, path: string): { re: number; im: n
     // Anything else (a stack overflow on absurd nesting, a bug) is still the user's input we refuse.
     throw new RhoError('parse-error', `Cannot evaluate the expression "${clip(text)}".`, path);
   }
+}
+
+/**
+ * Imaginary literals: a number written directly before `i` ("2i", "0.25i", "1e-3i") is one literal, as in
+ * Python's "2j" (Python language reference, "Imaginary literals"): "1/2i" is 1/(2i) = −i/2, "0.5+0.25i" is
+ * 0.5 + 0.25i. Rewritten as "(2*i)" before mathjs parses, so that mathjs's implicit multiplication, whose
+ * precedence surprises ("1/2x" is (1/2)·x there), is still never used: "2 i", "2pi", "(1)i" are refused.
+ */
+const IMAGINARY_LITERAL = /(?<![\w.])((?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)i(?![\w.(])/g;
+
+function imaginaryLiterals(text: string): string {
+  return text.replace(IMAGINARY_LITERAL, '($1*i)');
 }
 
 function clip(s: string, n = 80): string {

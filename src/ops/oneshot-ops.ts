@@ -169,7 +169,7 @@ function sigmaAnswer(value: number, sigma: CMatrix, certificate: SdpCertificate,
 defineOp({
   name: 'conditional-min-entropy',
   summary:
-    'Conditional min-entropy H_min(A|B) = −log min{Tr σ_B : I_A ⊗ σ_B ⪰ ρ_AB} (an SDP), with the optimal σ_B (Tr σ_B = 2^{−H_min}) and the certificate.',
+    'Conditional min-entropy H_min(A|B) = −log min{Tr σ_B : I_A ⊗ σ_B ⪰ ρ_AB} (an SDP), with the optimal σ_B (Tr σ_B = 2^{−H_min}) and the certificate; value and bracket clipped to [−log d_A, log d_A], the excess in certificate.clipped.',
   args: bipartiteArgs('B (may be empty)'),
   base: true,
   cost: (req) => {
@@ -188,7 +188,7 @@ defineOp({
 defineOp({
   name: 'conditional-max-entropy',
   summary:
-    'Conditional max-entropy H_max(A|B) = log max over states σ_B of F(ρ_AB, I_A ⊗ σ_B), F the squared fidelity (an SDP), with the optimal σ_B and the certificate.',
+    'Conditional max-entropy H_max(A|B) = log max over states σ_B of F(ρ_AB, I_A ⊗ σ_B), F the squared fidelity (an SDP), with the optimal σ_B and the certificate; value and bracket clipped to [−log d_A, log d_A], the excess in certificate.clipped.',
   args: bipartiteArgs('B (may be empty)'),
   base: true,
   cost: (req) => {
@@ -208,7 +208,7 @@ defineOp({
 defineOp({
   name: 'max-information',
   summary:
-    'Max-information I_max(A:B) = min over states σ_B of D_max(ρ_AB ‖ ρ_A ⊗ σ_B) (an SDP on the support of ρ_A), with the optimal σ_B and the certificate.',
+    'Max-information I_max(A:B) = min over states σ_B of D_max(ρ_AB ‖ ρ_A ⊗ σ_B) (an SDP on the support of ρ_A), with the optimal σ_B and the certificate; value and bracket clipped to [0, 2 log min(d_A, d_B)], the excess in certificate.clipped.',
   args: bipartiteArgs('B'),
   base: true,
   cost: (req) => {

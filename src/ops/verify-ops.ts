@@ -557,10 +557,23 @@ const fidelityOfRecovery: Fn = (req, ans, c, tol) => {
 };
 
 /** Ranges the quantities have by definition: a recomputed bracket is clipped to them (facts, not evidence). */
+function entropyRange(req: Record<string, any>, tol: number): [number, number] {
+  const { da } = bipartite(req, tol);
+  const h = Math.log(da) / logBase(req);
+  return [-h, h];
+}
+
 const RANGES: Record<string, (req: Record<string, any>, tol: number) => [number, number]> = {
   'fidelity-of-recovery': () => [0, 1],
   'fidelity-sdp': () => [0, 1],
   'diamond-distance': () => [0, 1],
+  // −log d_A ≤ H_min, H_max ≤ log d_A; 0 ≤ I_max ≤ 2 log min(d_A, d_B) (the engine's ranges, same sources).
+  'conditional-min-entropy': (req, tol) => entropyRange(req, tol),
+  'conditional-max-entropy': (req, tol) => entropyRange(req, tol),
+  'max-information': (req, tol) => {
+    const { da, db } = bipartite(req, tol);
+    return [0, (2 * Math.log(Math.min(da, db))) / logBase(req)];
+  },
   // At least max_x p_x Tr ρ_x (always guess the likeliest), at most Σ_x p_x Tr ρ_x.
   'guessing-probability': (req, tol) => {
     const w = readStates(req, tol).map((r, x) => Math.max(0, req.probabilities[x]) * trace(r).re);

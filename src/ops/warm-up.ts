@@ -9,7 +9,7 @@
  * eigensolver at a few sizes, the SDP solver on each family of problems the ops build (Hermitian blocks
  * with coordinate constraints, partial-trace constraints, several blocks, a vector block), the codec's
  * readers (rows, {re, im}, packed) and the expression reader (mathjs is loaded here, not on the first
- * expression a user types). One request per step; between steps the function yields to the event loop
+ * expression a user types; unless `expressions: false`). One request per step; between steps the function yields to the event loop
  * (a macrotask), so that a request arriving meanwhile is answered after at most one step (a few
  * milliseconds to a few tens), and `options.busy()` can hold warming back while the engine works.
  *
@@ -18,7 +18,7 @@
  * one core, once.
  */
 import './all.js';
-import { handle } from './handle.js';
+import { handle, mayNeedExpressions } from './handle.js';
 import { loadExpressionReader } from './expressions.js';
 
 export interface WarmUpOptions {
@@ -28,6 +28,12 @@ export interface WarmUpOptions {
   signal?: { readonly aborted: boolean };
   /** How many times the whole list of steps is run (default 3: enough for the optimising compiler). */
   rounds?: number;
+  /**
+   * Whether to load and warm the expression reader (default true). False leaves mathjs unloaded until an
+   * expression needs it: the wiki embed's worker, where it is a chunk fetched over the network, which a
+   * reader who types only numbers never needs.
+   */
+  expressions?: boolean;
 }
 
 export interface WarmUpReport {
@@ -96,12 +102,15 @@ function pause(ms = 0): Promise<void> {
 export async function warmUp(options: WarmUpOptions = {}): Promise<WarmUpReport> {
   const t0 = performance.now();
   const report: WarmUpReport = { steps: 0, failed: [], elapsedMs: 0 };
-  try {
-    await loadExpressionReader();
-  } catch {
-    // Without the reader the expression step fails and is listed; everything else still warms.
+  const expressions = options.expressions ?? true;
+  if (expressions) {
+    try {
+      await loadExpressionReader();
+    } catch {
+      // Without the reader the expression step fails and is listed; everything else still warms.
+    }
   }
-  const requests = warmUpRequests();
+  const requests = warmUpRequests().filter((r) => expressions || !mayNeedExpressions(r));
   const rounds = options.rounds ?? 3;
   for (let round = 0; round < rounds; round++) {
     for (const request of requests) {

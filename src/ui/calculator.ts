@@ -246,7 +246,15 @@ export function certificateBadge(cert: Record<string, any> | undefined): HTMLEle
     gap !== undefined ? ` · relative gap ${formatNumber(gap, 2)}` : '',
     cert.iterations !== undefined ? ` · ${cert.iterations} iterations` : '',
   ]);
-  const box = el('span', { class: 'rs-certificate' }, [badge, el('span', { class: 'rs-verdict', 'data-verdict': 'pending' }, [])]);
+  const clip = cert.clipped && typeof cert.clipped === 'object' ? cert.clipped : null;
+  const clipNote = clip
+    ? el('div', { class: 'rs-note rs-clipped' }, [
+      `The solver's estimate ${formatNumber(clip.from, 12)} (or its bracket) reached ${formatNumber(clip.excess, 2)} beyond the range `
+        + `[${(clip.range ?? []).map((x: number) => formatNumber(x, 6)).join(', ')}] this quantity has by definition (rounding and the solver's residuals); `
+        + 'the value and its bracket are clipped to the range.',
+    ])
+    : null;
+  const box = el('span', { class: 'rs-certificate' }, [badge, el('span', { class: 'rs-verdict', 'data-verdict': 'pending' }, []), clipNote]);
   badges.set(cert, box);
   return box;
 }

@@ -1,22 +1,31 @@
 /**
  * DivergenceCalculator: D(ρ‖σ) of a chosen family (Umegaki, Petz, sandwiched, α-z, geometric, max,
  * min, measured) at α and z, with its defining formula typeset by KaTeX, every family's value at the
- * same parameters side by side, and the curve of the chosen family over α (Vega-Lite) with the α-interval
- * where the α-z family is known to satisfy data processing shaded (op `data-processing-region`,
- * H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
+ * same parameters side by side, and the curve of the chosen family over α (Vega, ./plot.ts) with the
+ * α-interval where the α-z family is known to satisfy data processing shaded (op
+ * `data-processing-region`, H. Zhang, Adv. Math. 2020) for the α-z and Petz (z = 1) families.
  *
  * Inputs: `calc.inputs = { rho, sigma }` (the protocol's state forms, e.g. a StateEditor's `value`).
  * Settings (`value`): { family, alpha, z, base, curve }.
  *
+ * KaTeX (./formula.ts; in the wiki embed, MathML written at build time instead) and the plotting (vega,
+ * ./plot.ts) are loaded with import() when first needed (KaTeX after the first result), so a page has its
+ * first result before it has fetched either (in the embed: chunks of their own beside the script).
+ *
  * Deliberately not here: numerics (the α grid of the curve is the set of parameters asked for; every
  * value drawn is an answer). Cost: 1 + 7 divergence requests per change, plus the curve's points.
  */
-import katex from 'katex';
-import type { View } from 'vega';
 import type { Answer } from '../worker/types.js';
 import { el, field, formatNumber, setChildren } from './dom.js';
 import { baseText, Calculator, numberControl, resultCard, selectControl, type CalculatorOptions, type NamedRequest } from './calculator.js';
-import { renderChart } from './plot.js';
+import { formulasReady, typesetFormula } from './formula.js';
+import { FAMILIES } from './families.js';
+
+let plotModule: Promise<typeof import('./plot.js')> | null = null;
+/** The plotting module (vega), loaded on first use. */
+function loadPlot(): Promise<typeof import('./plot.js')> {
+  return (plotModule ??= import(/* webpackChunkName: "plot" */ './plot.js'));
+}
 import type { StateValue } from './state-editor.js';
 
 export interface DivergenceInputs {
@@ -33,17 +42,7 @@ export interface DivergenceSettings {
   curve: boolean;
 }
 
-/** The families, whether they take α (and z), and their defining formulas (standard forms of the literature). */
-export const FAMILIES: { name: string; label: string; alpha: boolean; z?: boolean; tex: string }[] = [
-  { name: 'umegaki', label: 'Umegaki relative entropy', alpha: false, tex: String.raw`D(\rho\|\sigma) = \operatorname{Tr}\rho\,(\log\rho - \log\sigma)` },
-  { name: 'petz', label: 'Petz Rényi', alpha: true, tex: String.raw`\bar D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\rho^\alpha\sigma^{1-\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'sandwiched', label: 'Sandwiched Rényi', alpha: true, tex: String.raw`\tilde D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2\alpha}}\rho\,\sigma^{\frac{1-\alpha}{2\alpha}}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'alpha-z', label: 'α-z Rényi', alpha: true, z: true, tex: String.raw`D_{\alpha,z}(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\big(\sigma^{\frac{1-\alpha}{2z}}\rho^{\frac{\alpha}{z}}\sigma^{\frac{1-\alpha}{2z}}\big)^{z}}{\operatorname{Tr}\rho}` },
-  { name: 'geometric', label: 'Geometric Rényi', alpha: true, tex: String.raw`\hat D_\alpha(\rho\|\sigma) = \frac{1}{\alpha-1}\log\frac{\operatorname{Tr}\sigma\big(\sigma^{-\frac12}\rho\,\sigma^{-\frac12}\big)^{\alpha}}{\operatorname{Tr}\rho}` },
-  { name: 'max', label: 'Max-relative entropy', alpha: false, tex: String.raw`D_{\max}(\rho\|\sigma) = \log\min\{\lambda : \rho \le \lambda\sigma\}` },
-  { name: 'min', label: 'Min-relative entropy', alpha: false, tex: String.raw`D_{\min}(\rho\|\sigma) = -\log\operatorname{Tr}\Pi_\rho\,\sigma` },
-  { name: 'measured', label: 'Measured relative entropy', alpha: false, tex: String.raw`D^{\mathbb M}(\rho\|\sigma) = \sup_{\{M_x\}} \sum_x \operatorname{Tr}\rho M_x \log\frac{\operatorname{Tr}\rho M_x}{\operatorname{Tr}\sigma M_x}` },
-];
+export { FAMILIES };
 
 /** Families shown side by side (measured is left out: it is an optimisation, on demand only). */
 const TABLE = ['umegaki', 'petz', 'sandwiched', 'alpha-z', 'geometric', 'max', 'min'];
@@ -58,10 +57,12 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
   private baseSelect: HTMLSelectElement;
   private formula: HTMLElement;
   private chart: HTMLElement;
-  private view: View | null = null;
   private chartSeq = 0;
+  private formulaSeq = 0;
   /** Resolves when the newest chart has been drawn. */
   drawn: Promise<void> = Promise.resolve();
+  /** Resolves when the newest formula has been typeset. */
+  typeset: Promise<void> = Promise.resolve();
 
   constructor(host: HTMLElement, options: CalculatorOptions<DivergenceInputs, DivergenceSettings>) {
     super(host, options, { family: 'sandwiched', alpha: 2, z: 1, base: 2, curve: true }, 'divergence', 'Divergence');
@@ -86,8 +87,20 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     this.alphaInput.disabled = !fam?.alpha;
     this.zInput.disabled = !fam?.z;
     if (this.formula) {
-      if (fam) katex.render(fam.tex, this.formula, { throwOnError: false, displayMode: true, output: 'htmlAndMathml' });
-      else setChildren(this.formula, []);
+      const seq = ++this.formulaSeq;
+      if (fam) {
+        // The first time, KaTeX is fetched after the first result (start() runs recompute() right after
+        // this, so one microtask later `computed` is that round) or after a second, whichever comes first,
+        // so that it does not compete with the worker for the page's bandwidth.
+        const firstRound = () => Promise.race([this.computed.catch(() => undefined), new Promise((r) => setTimeout(r, 1000))]);
+        const ready = formulasReady() ? Promise.resolve() : Promise.resolve().then(firstRound);
+        this.typeset = ready.then(async () => {
+          if (seq === this.formulaSeq) await typesetFormula(this.formula, fam.tex);
+        }).catch(() => {
+          // KaTeX could not be loaded (offline, a missing chunk): the formula's TeX source, as text.
+          if (seq === this.formulaSeq) setChildren(this.formula, [el('code', {}, [fam.tex])]);
+        });
+      } else setChildren(this.formula, []);
     }
   }
 
@@ -135,8 +148,8 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
     ]);
     if (s.curve && fam?.alpha && main.answer.ok) void this.drawCurve();
     else {
-      this.view?.finalize();
-      this.view = null;
+      this.chartSeq++;
+      if (plotModule) void plotModule.then((p) => p.clearChart(this.chart));
       setChildren(this.chart, []);
     }
   }
@@ -155,27 +168,16 @@ export class DivergenceCalculator extends Calculator<DivergenceInputs, Divergenc
         .map((p) => ({ alpha: p.alpha, value: (p.answer as Record<string, any>).value as number }));
       const intervals = reg && reg.ok ? ((reg as Record<string, any>).alphaIntervals as [number, number][]).map(([a, b]) => ({ from: a, to: b })) : [];
       const unit = s.base === 'e' ? 'nats' : 'bits';
-      const layers: object[] = [];
-      if (intervals.length) {
-        layers.push({
-          data: { values: intervals },
-          mark: { type: 'rect', opacity: 0.35, color: 'var(--band)' },
-          encoding: { x: { field: 'from', type: 'quantitative' }, x2: { field: 'to' } },
-        });
-      }
-      layers.push(
-        { data: { values: data }, mark: { type: 'line', point: true }, encoding: { x: { field: 'alpha', type: 'quantitative', title: 'α' }, y: { field: 'value', type: 'quantitative', title: `D (${unit})` } } },
-        { data: { values: [{ alpha: s.alpha }] }, mark: { type: 'rule', strokeDash: [4, 3] }, encoding: { x: { field: 'alpha', type: 'quantitative' } } },
-      );
-      const theme = getComputedStyle(this.chart);
-      const colour = (n: string, f: string) => theme.getPropertyValue(n).trim() || f;
-      for (const l of layers as { mark: { color?: string; type: string } }[]) {
-        l.mark.color = l.mark.type === 'rect' ? colour('--rs-chart-band', '#b7e4c7') : l.mark.type === 'rule' ? colour('--rs-chart-mark', '#c1121f') : colour('--rs-chart-line', '#2a6f97');
-      }
-      this.view = await renderChart(this.chart, {
-        $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-        width: 'container' as unknown as number, height: 180, layer: layers,
-      } as never, this.view);
+      const { renderCurve } = await loadPlot();
+      if (seq !== this.chartSeq) return;
+      await renderCurve(this.chart, {
+        points: data.map((p) => ({ x: p.alpha, y: p.value })),
+        bands: intervals,
+        rule: s.alpha,
+        xTitle: 'α',
+        yTitle: `D (${unit})`,
+        height: 180,
+      });
       this.chart.setAttribute('aria-label', `${FAMILIES.find((f) => f.name === s.family)?.label} over α from ${CURVE_ALPHAS[0]} to ${CURVE_ALPHAS[CURVE_ALPHAS.length - 1]}${intervals.length ? '; shaded: where data processing is known to hold (Zhang 2020)' : ''}`);
       if (reg && reg.ok) this.chart.title = String((reg as Record<string, any>).source);
     });

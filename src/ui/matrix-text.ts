@@ -14,6 +14,11 @@
 
 export type Entry = number | string;
 
+/** A state as the components hold it: rows (or a ket) of entries, with subsystem dims and labels. */
+export type StateValue =
+  | { matrix: Entry[][]; dims?: number[]; labels?: string[] }
+  | { ket: Entry[]; dims?: number[]; labels?: string[] };
+
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /** An entry as typed → the protocol's entry: a number for a plain decimal literal, else the trimmed text. */
@@ -83,4 +88,36 @@ export function parsePastedMatrix(text: string): { rows: string[][] } | { error:
   const bad = rows.findIndex((r) => r.length !== width);
   if (bad >= 0) return { error: `Row ${bad + 1} of the pasted text has ${rows[bad].length} entries, row 1 has ${width}.` };
   return { rows };
+}
+
+/**
+ * The state forms a caller may hand in, as the editor's StateValue: `{matrix}` or `{ket}` with rows of
+ * entries, also `{re, im}` matrices and kets (an answer's form), and a bare matrix (rows) or a bare
+ * vector (a ket). Anything else is refused with a TypeError that says what is accepted.
+ */
+export function asStateValue(v: unknown): StateValue {
+  const rows = (m: unknown): Entry[][] | null => (Array.isArray(m) && m.every(Array.isArray) ? (m as Entry[][]) : m && typeof m === 'object' && Array.isArray((m as { re?: unknown }).re) ? rowsOfAnswerMatrix(m) : null);
+  const vector = (k: unknown): Entry[] | null => {
+    if (Array.isArray(k) && !k.some(Array.isArray)) return k as Entry[];
+    const o = k as { re?: unknown; im?: unknown } | null;
+    if (o && typeof o === 'object' && Array.isArray(o.re) && !o.re.some(Array.isArray)) return rowsOfAnswerMatrix({ re: [o.re], im: Array.isArray(o.im) ? [o.im] : undefined })[0];
+    return null;
+  };
+  if (Array.isArray(v)) {
+    const m = rows(v);
+    if (m) return { matrix: m };
+    const k = vector(v);
+    if (k) return { ket: k };
+  } else if (v && typeof v === 'object') {
+    const o = v as { matrix?: unknown; ket?: unknown; dims?: number[]; labels?: string[] };
+    const extra = { ...(Array.isArray(o.dims) ? { dims: o.dims } : {}), ...(Array.isArray(o.labels) ? { labels: o.labels } : {}) };
+    if (o.ket !== undefined && o.ket !== null) {
+      const k = vector(o.ket);
+      if (k) return { ket: k, ...extra };
+    } else {
+      const m = rows(o.matrix);
+      if (m) return { matrix: m, ...extra };
+    }
+  }
+  throw new TypeError('StateEditor: a state is {matrix: rows} or {ket: entries} (with optional dims and labels), a {re, im} matrix, or bare rows.');
 }

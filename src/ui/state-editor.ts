@@ -17,12 +17,10 @@
 import type { Answer, EngineLike } from '../worker/types.js';
 import { Emitter, el, errorBox, field, formatNumber, parseIntegerList, setChildren, uniqueId } from './dom.js';
 import { MatrixGrid } from './matrix-grid.js';
-import { rowsOfAnswerMatrix, type Entry } from './matrix-text.js';
+import { asStateValue, rowsOfAnswerMatrix, type Entry, type StateValue } from './matrix-text.js';
 import { basisNames } from './names.js';
 
-export type StateValue =
-  | { matrix: Entry[][]; dims?: number[]; labels?: string[] }
-  | { ket: Entry[]; dims?: number[]; labels?: string[] };
+export type { StateValue };
 
 export interface StateEditorOptions {
   engine: EngineLike;
@@ -92,7 +90,7 @@ export class StateEditor {
 
   constructor(private host: HTMLElement, options: StateEditorOptions) {
     this.engine = options.engine;
-    const value = options.value ?? { matrix: [[0.5, 0], [0, 0.5]], dims: [2] };
+    const value = asStateValue(options.value ?? { matrix: [[0.5, 0], [0, 0.5]], dims: [2] });
     this.form = 'ket' in value ? 'ket' : 'matrix';
     this.dims = value.dims ?? [side(value)];
     this.labels = value.labels;
@@ -160,7 +158,8 @@ export class StateEditor {
     return out;
   }
 
-  set value(v: StateValue) {
+  set value(given: StateValue) {
+    const v = asStateValue(given);
     this.form = 'ket' in v ? 'ket' : 'matrix';
     this.formSelect.value = this.form;
     this.dims = v.dims ?? [side(v)];

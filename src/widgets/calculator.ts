@@ -23,6 +23,31 @@ import type { EngineLike } from '../worker/types.js';
 const OUTPUT_FIELDS = new Set(['request', 'result', 'status', 'error', 'computed_by']);
 const EDITOR_FIELDS = 'change:matrix change:ket change:dims change:labels change:kraus change:choi change:input_dims change:output_dims';
 
+/** What listens (a model or a view: Backbone's listenTo / stopListening). */
+interface Listener {
+  listenTo(other: WidgetModel, events: string, cb: () => void): unknown;
+  stopListening(other: WidgetModel): unknown;
+}
+
+/**
+ * Listens (again, after a reference changed) to the editors `model` holds in its reference `fields`:
+ * stops listening to `previous`, calls `onEdit` on any edit of the new ones, and returns them.
+ */
+function watchEditors(who: Listener, model: WidgetModel, fields: readonly string[], previous: WidgetModel[], onEdit: () => void): WidgetModel[] {
+  for (const m of previous) who.stopListening(m);
+  const watched: WidgetModel[] = [];
+  for (const field of fields) {
+    const v = model.get(field);
+    for (const m of Array.isArray(v) ? v : [v]) {
+      if (m && typeof m === 'object' && 'on' in m) {
+        watched.push(m as WidgetModel);
+        who.listenTo(m as WidgetModel, EDITOR_FIELDS, onEdit);
+      }
+    }
+  }
+  return watched;
+}
+
 export function fieldsOf(model: WidgetModel): Fields {
   return { ...(model.attributes as Fields) };
 }
@@ -60,17 +85,7 @@ export abstract class CalculatorModel extends DOMWidgetModel {
 
   /** Listen to the editors the calculator refers to (again after a reference changes). */
   private rewire(): void {
-    for (const m of this.watched) this.stopListening(m);
-    this.watched = [];
-    for (const field of MODELS[this.modelName].references) {
-      const v = this.get(field);
-      for (const m of Array.isArray(v) ? v : [v]) {
-        if (m && typeof m === 'object' && 'on' in m) {
-          this.watched.push(m as WidgetModel);
-          this.listenTo(m as WidgetModel, EDITOR_FIELDS, () => this.schedule());
-        }
-      }
-    }
+    this.watched = watchEditors(this, this, MODELS[this.modelName].references, this.watched, () => this.schedule());
   }
 
   /** Coalesces the changes of one task (Python sets several fields at once) into one request. */
@@ -185,17 +200,7 @@ export abstract class CalculatorView extends DOMWidgetView {
   }
 
   private rewire(): void {
-    for (const m of this.watched) this.stopListening(m);
-    this.watched = [];
-    for (const field of this.references) {
-      const v = this.model.get(field);
-      for (const m of Array.isArray(v) ? v : [v]) {
-        if (m && typeof m === 'object' && 'on' in m) {
-          this.watched.push(m as WidgetModel);
-          this.listenTo(m as WidgetModel, EDITOR_FIELDS, () => this.schedule());
-        }
-      }
-    }
+    this.watched = watchEditors(this, this.model, this.references, this.watched, () => this.schedule());
   }
 
   /** One update of the calculator per task (Python sets several fields at once). */

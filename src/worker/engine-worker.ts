@@ -23,6 +23,14 @@ import type { Answer, WorkerApi } from './types.js';
 
 let busy = 0;
 
+/**
+ * Whether the idle warm-up loads the expression reader (mathjs). A build may set it with webpack's
+ * DefinePlugin: the wiki embed sets false, since there mathjs is a chunk fetched over the network on first
+ * need (webpack.embed.config.cjs); unset (the browser worker, the labextension), it is true.
+ */
+declare const __RHOSIGMA_WARM_EXPRESSIONS__: boolean | undefined;
+const warmExpressions = typeof __RHOSIGMA_WARM_EXPRESSIONS__ === 'boolean' ? __RHOSIGMA_WARM_EXPRESSIONS__ : true;
+
 const api: WorkerApi = {
   async compute(request: unknown, onProgress?: (p: Progress) => void): Promise<Answer> {
     busy++;
@@ -67,5 +75,5 @@ expose(api);
 
 // Warm up once the page has had time to send its first requests (those go first: warming waits while busy).
 setTimeout(() => {
-  void warmUp({ busy: () => busy > 0, rounds: 2 });
+  void warmUp({ busy: () => busy > 0, rounds: 2, expressions: warmExpressions });
 }, 200);

@@ -271,6 +271,22 @@ if (!haveChromium && inCI) {
       assert.match(String(r.text), /re-checked from its points: certified/);
     });
 
+    it('a value at the end of its range is shown clipped to the range, with the excess stated exactly when the answer states one', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        // Orthogonal pure states: the guessing probability is exactly 1 (Helstrom; textbook).
+        rs.guessing.inputs = { probabilities: [0.5, 0.5], states: [{ matrix: [[1, 0], [0, 0]] }, { matrix: [[0, 0], [0, 1]] }] };
+        await rs.guessing.computed;
+        const res = rs.guessing.results['guessing-probability'];
+        return { answer: res.answer, note: document.querySelector('#guessing .rs-clipped')?.textContent ?? null };
+      });
+      assert.equal(r.answer.ok, true);
+      assert.ok(r.answer.value <= 1 && r.answer.value > 1 - 1e-8, String(r.answer.value));
+      assert.ok(r.answer.certificate.bounds.upper <= 1);
+      assert.equal(r.note !== null, r.answer.certificate.clipped !== undefined, `${r.note} vs ${JSON.stringify(r.answer.certificate.clipped)}`);
+      if (r.note) assert.match(r.note, /clipped to the range/);
+    });
+
     it('identical requests in flight go to the worker once (the widgets\' SharedRequests); a superseded first asker does not cost the others their answer; Stop stops it for all', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;

@@ -151,8 +151,41 @@ if (!haveChromium && inCI) {
       const node = handle(request) as { ok: boolean; value: number };
       assert.equal(node.ok, true);
       assert.ok(Math.abs((answer.value as number) - node.value) <= 1e-12 * Math.abs(node.value), `${answer.value} vs ${node.value}`);
+      // The formula is MathML written at build time (no KaTeX in the embed); the plotting is a chunk loaded
+      // on first need from beside the script (the site's rhosigma/ folder), under the strict policy.
+      const root = page.locator('#pair');
+      await root.locator('.rs-formula math').first().waitFor({ timeout: 30_000 });
+      await root.locator('.rs-chart svg').first().waitFor({ timeout: 30_000 });
+      assert.ok(await root.locator('.rs-chart svg path').count() >= 1, 'the chart has no marks');
       await page.screenshot({ path: join(shots, 'wiki-light.png'), fullPage: true });
       await page.emulateMedia({ colorScheme: 'dark' });
+      // The chart follows the switch to dark: its axis text is redrawn in the dark theme's colour, with a
+      // contrast against the frame's background of at least 4.5:1 (WCAG 2.1 AA for text, its luminance formula).
+      const contrast = () => root.evaluate((host) => {
+        const shadow = (host as HTMLElement).shadowRoot ?? host;
+        const frame = shadow.querySelector('.rs-component') as HTMLElement;
+        const texts = [...shadow.querySelectorAll('.rs-chart svg text')] as SVGTextElement[];
+        const lum = (css: string) => {
+          const [r, g, b] = css.match(/\d+(\.\d+)?/g)!.slice(0, 3).map(Number).map((v) => {
+            const c = v / 255;
+            return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+          });
+          return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+        };
+        const bg = lum(getComputedStyle(frame).backgroundColor);
+        const ratios = texts.map((t) => {
+          const fg = lum(getComputedStyle(t).fill);
+          return (Math.max(fg, bg) + 0.05) / (Math.min(fg, bg) + 0.05);
+        });
+        return { bg, n: texts.length, min: Math.min(...ratios) };
+      });
+      let seen = await contrast();
+      for (let k = 0; k < 40 && !(seen.n > 0 && seen.min >= 4.5); k++) {
+        await page.waitForTimeout(100);
+        seen = await contrast();
+      }
+      assert.ok(seen.bg < 0.05, `the frame's background is not dark: ${JSON.stringify(seen)}`);
+      assert.ok(seen.n > 0 && seen.min >= 4.5, `chart text contrast in the dark theme: ${JSON.stringify(seen)}`);
       await page.screenshot({ path: join(shots, 'wiki-dark.png'), fullPage: true });
       await page.close();
     });
@@ -174,6 +207,27 @@ if (!haveChromium && inCI) {
       assert.equal(Number(sigma.matrix[0][0]), 0.4);
       const node = handle(latest.request) as { ok: boolean; value: number };
       assert.equal(latest.answer.ok, true);
+      assert.ok(Math.abs((latest.answer.value as number) - node.value) <= 1e-12 * Math.abs(node.value));
+      await page.close();
+    });
+
+    it('reads an entry typed as an expression (the worker fetches its expression reader on this first need), as the engine does', async () => {
+      const page = await open(`${server!.url}index.html`);
+      await resultOf(page, 'pair');
+      const before = await resultCount(page, 'pair');
+      const cell = page.locator('#pair .rs-embed-editor').nth(1).locator('input.rs-cell').first();
+      await cell.fill('1/sqrt(8)');
+      await cell.press('Tab');
+      let latest = await resultOf(page, 'pair', before);
+      for (let k = 0; k < 40 && JSON.stringify(latest.request).indexOf('sqrt') < 0; k++) {
+        await page.waitForTimeout(100);
+        latest = await resultOf(page, 'pair', before);
+      }
+      assert.equal((latest.request.sigma as { matrix: unknown[][] }).matrix[0][0], '1/sqrt(8)');
+      assert.equal(latest.answer.ok, true, JSON.stringify(latest.answer).slice(0, 300));
+      // The outside reference: the engine in Node (mathjs's bundle loaded by require) for the same request.
+      const node = handle(latest.request) as { ok: boolean; value: number };
+      assert.equal(node.ok, true);
       assert.ok(Math.abs((latest.answer.value as number) - node.value) <= 1e-12 * Math.abs(node.value));
       await page.close();
     });
@@ -264,10 +318,10 @@ if (!haveChromium && inCI) {
       await page.close();
     });
 
-    it('reported no Content-Security-Policy violation and no error on any page, and requested only the site\'s and the embed\'s own files', () => {
+    it('reported no Content-Security-Policy violation and no error on any page, and requested only the site\'s and the embed\'s own files (the script, its stylesheet, its worker and its chunks)', () => {
       assert.deepEqual(violations, []);
       assert.deepEqual(consoleErrors, []);
-      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker)?\.(js|css)$|^\/favicon\.ico$|^\/rhosigma\/favicon\.svg$/;
+      const allowed = /^\/(index|hostile|five)\.html$|^\/site\.css$|^\/rhosigma\/rhosigma-embed(-worker|-plot|-expressions)?\.(js|css)$|^\/favicon\.ico$|^\/rhosigma\/favicon\.svg$/;
       const odd = server!.requests.filter((p) => !allowed.test(p));
       assert.deepEqual(odd, []);
     });

@@ -18,6 +18,7 @@ import { handle } from '../../src/ops/handle.js';
 import '../../src/ops/guesswork-ops.js';
 import { rng, randomDensity } from '../helpers/random.js';
 import { liveReference } from '../helpers/python.js';
+import type { GuessworkReferenceFile } from '../helpers/reference-batch.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guesswork.py`;
@@ -198,21 +199,7 @@ describe('guesswork with quantum side information by the plain SDP over all orde
   });
 });
 
-interface ReferenceCase {
-  name: string;
-  probabilities: number[];
-  states: { re: number[][]; im: number[][] }[];
-  moment: number;
-  value: number;
-  dualValue: number;
-  cvxoptStatus: string;
-}
-interface ReferenceFile {
-  cvxopt: string;
-  numpy: string;
-  seed: number;
-  cases: ReferenceCase[];
-}
+type ReferenceFile = GuessworkReferenceFile;
 
 function compareWithCvxopt(ref: ReferenceFile, origin: string): void {
   assert.ok(ref.cases.length > 0, `${origin}: no cases`);

@@ -26,6 +26,7 @@ import '../../src/ops/all.js';
 import { rng, randomDensity, randomUnitary } from '../helpers/random.js';
 import { liveReference } from '../helpers/python.js';
 import { withProgress } from '../../src/deadline.js';
+import type { GuessworkReferenceFile } from '../helpers/reference-batch.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const script = `${root}scripts/reference/cvxopt_guesswork.py`;
@@ -350,20 +351,7 @@ describe('classical bounds beside the value', () => {
   });
 });
 
-interface ReferenceCase {
-  name: string;
-  probabilities: number[];
-  states: { re: number[][]; im: number[][] }[];
-  moment: number;
-  value: number;
-  cvxoptStatus: string;
-}
-interface ReferenceFile {
-  cvxopt: string;
-  numpy: string;
-  seed: number;
-  cases: ReferenceCase[];
-}
+type ReferenceFile = GuessworkReferenceFile;
 
 function compareWithCvxopt(ref: ReferenceFile, origin: string): void {
   assert.ok(ref.cases.length > 0, `${origin}: no cases`);
@@ -446,7 +434,9 @@ describe('the ops over orders', () => {
     const reports: Record<string, unknown>[] = [];
     const a = withProgress((q) => reports.push(q), () => handle({ op: 'guesswork', probabilities: p, states })) as Record<string, any>;
     assert.equal(a.ok, true, JSON.stringify(a).slice(0, 300));
-    if (reports.length > 0) assert.match(String(reports[0].what), /guesswork/);
+    // Reports come every 100 ms from whichever loop runs then (the search over orders says "guesswork",
+    // an SDP inside it "the SDP solver"): on a loaded machine the first may be either.
+    if (reports.length > 0) assert.ok(reports.every((q) => typeof q.what === 'string' && /guesswork|SDP solver/.test(q.what as string)), JSON.stringify(reports.slice(0, 3)));
     assert.equal(a.certified, true);
     assert.equal(a.search.orders, factorial(12));
     assert.ok(a.value <= a.withoutSideInformation && a.value >= 1);

@@ -12,3 +12,23 @@ export function groupsOf<C extends { name: string }>(cases: readonly C[]): Map<s
   }
   return groups;
 }
+
+/** A guesswork case of scripts/reference/cvxopt_guesswork.py (cvxopt's SDP over all guessing orders). */
+export interface GuessworkReferenceCase {
+  name: string;
+  probabilities: number[];
+  states: { re: number[][]; im: number[][] }[];
+  moment: number;
+  value: number;
+  /** cvxopt's dual objective (written by the generator; not every suite reads it). */
+  dualValue?: number;
+  cvxoptStatus: string;
+}
+
+/** A batch of those cases with the versions and seed that made it. */
+export interface GuessworkReferenceFile {
+  cvxopt: string;
+  numpy: string;
+  seed: number;
+  cases: GuessworkReferenceCase[];
+}

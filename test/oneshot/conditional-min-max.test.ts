@@ -14,6 +14,20 @@ import { maximallyEntangled } from '../../src/quantum/index.js';
 import { randomDensity, rng } from '../helpers/random.js';
 import { assertClose, committedCases, liveCases, matrixOf, origin, type OneShotReference } from './oneshot-reference.js';
 
+/** 1/d on the diagonal. */
+function scaleIdentity(d: number) {
+  const m = identity(d);
+  for (let i = 0; i < d; i++) m.re[i * d + i] = 1 / d;
+  return m;
+}
+
+/** Rows {re, im} of a matrix, the protocol's form. */
+function rowsOf(m: ReturnType<typeof identity>) {
+  const n = m.rows;
+  const part = (a: Float64Array) => Array.from({ length: n }, (_, i) => Array.from(a.subarray(i * n, (i + 1) * n)));
+  return { re: part(m.re), im: part(m.im) };
+}
+
 function checkMin(ref: OneShotReference, label: string): void {
   for (const c of ref.cases) {
     const where = origin(ref, c, label);
@@ -52,6 +66,27 @@ describe('conditional min-entropy', () => {
     for (const d of [2, 3]) {
       const ans = conditionalMinEntropy(maximallyEntangled(d).matrix, [d, d], [0], [1]);
       assertClose(ans.value, -Math.log2(d), 1e-7, `d=${d}`);
+    }
+  });
+
+  it('never leaves [−log d_A, log d_A] at the ends of its range: value and bracket inside, any excess stated, and the answer still re-checks (Tomamichel 2016, from memory)', () => {
+    for (const d of [2, 3, 4]) {
+      const ends = [
+        { name: 'maximally entangled', rho: maximallyEntangled(d).matrix, end: -Math.log2(d) },
+        { name: 'maximally mixed product', rho: kron(scaleIdentity(d), scaleIdentity(d)), end: Math.log2(d) },
+      ];
+      for (const { name, rho, end } of ends) {
+        const request = { op: 'conditional-min-entropy', rho: { matrix: rowsOf(rho), dims: [d, d] }, a: [0], b: [1] };
+        const ans = handle(request) as Record<string, any>;
+        assert.equal(ans.ok, true, `${name} d=${d}`);
+        const { lower, upper } = ans.certificate.bounds;
+        assert.ok(ans.value >= -Math.log2(d) && ans.value <= Math.log2(d), `${name} d=${d}: ${ans.value}`);
+        assert.ok(lower >= -Math.log2(d) && upper <= Math.log2(d), `${name} d=${d}: [${lower}, ${upper}]`);
+        assertClose(ans.value, end, 1e-7, `${name} d=${d}`);
+        if (ans.certificate.clipped) assert.ok(ans.certificate.clipped.excess > 0);
+        const check = handle({ op: 'verify-answer', request, answer: ans }) as Record<string, any>;
+        assert.equal(check.value, true, `${name} d=${d}: ${JSON.stringify(check.checks?.filter((c: { ok: boolean }) => !c.ok))}`);
+      }
     }
   });
 

@@ -45,6 +45,17 @@ describe('restricted expression reader', () => {
     assert.deepEqual(readExpression('-i/2', 'x'), { re: 0, im: -0.5 });
   });
 
+  it('reads a number written before i as one imaginary literal, as Python reads 2j (Python language reference, "Imaginary literals")', () => {
+    assert.deepEqual(readExpression('2i', 'x'), { re: 0, im: 2 });
+    assert.deepEqual(readExpression('0.5+0.25i', 'x'), { re: 0.5, im: 0.25 });
+    assert.deepEqual(readExpression('0.5-.25i', 'x'), { re: 0.5, im: -0.25 });
+    assert.deepEqual(readExpression('1e-3i', 'x'), { re: 0, im: 1e-3 });
+    // Python: 1/2j == -0.5j (the literal binds first), and 2i^2 is (2i)^2 = -4 like Python's 2j**2.
+    assert.deepEqual(readExpression('1/2i', 'x'), { re: 0, im: -0.5 });
+    assert.deepEqual(readExpression('2i^2', 'x'), { re: -4, im: 0 });
+    assert.deepEqual(readExpression('exp(3i)', 'x'), readExpression('exp(3*i)', 'x'));
+  });
+
   it('follows mathjs precedence: -2^2 = -4, 2^3^2 = 512 (mathjs 15 syntax documentation)', () => {
     assert.deepEqual(readExpression('-2^2', 'x'), { re: -4, im: 0 });
     assert.deepEqual(readExpression('2^3^2', 'x'), { re: 512, im: 0 });
@@ -65,7 +76,7 @@ describe('restricted expression reader', () => {
     for (const text of [
       'a = 1', 'f(x) = x^2', 'x + 1', '5 cm', '[1, 2]', '"one"', 'true', 'evaluate("1+1")', 'parse("1")',
       'import({}, {})', 'createUnit("qubit")', 'sqrt', 'sqrt(1, 2)', '3!', '5 mod 2', '1 ? 2 : 3', 'a.b', 'a[1]',
-      '{a: 1}', '1 < 2', '1:3', '1; 2', 'constructor', '__proto__', 'toString(1)', '2i', '1/2i', 'Infinity', 'NaN',
+      '{a: 1}', '1 < 2', '1:3', '1; 2', 'constructor', '__proto__', 'toString(1)', '2 i', '2pi', '(1)i', '2ii', '2i(1)', 'Infinity', 'NaN',
       '', '   ', '(', '1 +', 'pi(1)',
     ]) {
       refuses(text);

@@ -4,7 +4,7 @@
 // §3); the speed it buys is measured in bench/warmup.ts, not here.
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
-import { handle } from '../../src/ops/handle.js';
+import { handle, mayNeedExpressions } from '../../src/ops/handle.js';
 import { warmUp, warmUpRequests } from '../../src/ops/warm-up.js';
 
 describe('warmUp', () => {
@@ -25,6 +25,14 @@ describe('warmUp', () => {
     assert.ok(report.elapsedMs >= 50);
     assert.deepEqual(handle(request), before);
     busyUntil = 0;
+  });
+
+  it('with expressions: false, skips exactly the steps that hold an expression string (mayNeedExpressions)', async () => {
+    const report = await warmUp({ rounds: 1, expressions: false });
+    assert.deepEqual(report.failed, []);
+    const withExpressions = warmUpRequests().filter((r) => mayNeedExpressions(r)).length;
+    assert.ok(withExpressions >= 1);
+    assert.equal(report.steps, warmUpRequests().length - withExpressions);
   });
 
   it('stops after the current step once its signal is aborted', async () => {

@@ -1,0 +1,113 @@
+// Facts about the built command (bin/rhosigma.js running dist/cli/bundle.cjs with its code cache,
+// scripts/bundle-cli.mjs), on a copy of the launcher and the bundle in a temporary folder so that no
+// other test's command sees the cache being replaced. Needs the build (`npm run build`): skipped without
+// it, failed without it under CI=true. Sources: the eigenvalues of [[2, 1], [1, 2]] are 1 and 3 (closed
+// form: trace 4, determinant 3); V8 refuses cached data that is not its own (vm.Script's
+// cachedDataRejected, Node's documentation of vm.Script); which built-in modules a process has loaded is
+// process.moduleLoadList (common practice, no published source: Node's own tests read it).
+import { describe, it } from '@jest/globals';
+import assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = fileURLToPath(new URL('../..', import.meta.url));
+const built = existsSync(join(root, 'dist/cli/bundle.cjs')) && existsSync(join(root, 'dist/cli/bundle.cjs.cache'));
+if (!built && process.env.CI === 'true') throw new Error('test/cli/bundle.test.ts needs the build (npm run build)');
+const maybe = built ? it : it.skip;
+
+/** A fresh copy of bin/rhosigma.js and the bundle with its cache; returns the paths. */
+function copy(): { dir: string; bin: string; bundle: string; cache: string } {
+  const dir = mkdtempSync(join(tmpdir(), 'rhosigma-bundle-test-'));
+  mkdirSync(join(dir, 'bin'));
+  mkdirSync(join(dir, 'dist/cli'), { recursive: true });
+  writeFileSync(join(dir, 'package.json'), JSON.stringify({ name: 'rhosigma', version: '0.0.0-test', type: 'module' }));
+  copyFileSync(join(root, 'bin/rhosigma.js'), join(dir, 'bin/rhosigma.js'));
+  const bundle = join(dir, 'dist/cli/bundle.cjs');
+  copyFileSync(join(root, 'dist/cli/bundle.cjs'), bundle);
+  copyFileSync(join(root, 'dist/cli/bundle.cjs.cache'), `${bundle}.cache`);
+  // The copy keeps the build's order of modification times (the cache is not older than the bundle).
+  const t = statSync(join(root, 'dist/cli/bundle.cjs')).mtime;
+  utimesSync(bundle, t, t);
+  utimesSync(`${bundle}.cache`, new Date(t.getTime() + 1000), new Date(t.getTime() + 1000));
+  const request = join(dir, 'one.json');
+  writeFileSync(request, JSON.stringify({ op: 'spectrum', matrix: [[2, 1], [1, 2]] }));
+  return { dir, bin: join(dir, 'bin/rhosigma.js'), bundle, cache: `${bundle}.cache` };
+}
+
+function compute(bin: string, dir: string, extra: string[] = []): { value: number[]; stderr: string } {
+  const r = spawnSync(process.execPath, [...extra, bin, 'compute', join(dir, 'one.json')], { encoding: 'utf8' });
+  assert.equal(r.status, 0, `the command failed: ${r.stderr}`);
+  const answer = JSON.parse(r.stdout) as { ok: boolean; value: number[] };
+  assert.equal(answer.ok, true);
+  return { value: answer.value, stderr: r.stderr };
+}
+
+function closeTo(values: number[], expected: number[]): void {
+  assert.equal(values.length, expected.length);
+  values.forEach((v, k) => assert.ok(Math.abs(v - expected[k]) < 1e-12, `eigenvalue ${k}: ${v}, expected ${expected[k]}`));
+}
+
+describe('the built command (bundle with its code cache)', () => {
+  maybe('answers through the bundle: the eigenvalues of [[2, 1], [1, 2]] are 1 and 3 (closed form)', () => {
+    const { dir, bin } = copy();
+    closeTo(compute(bin, dir).value, [1, 3]);
+  });
+
+  maybe('uses the cache the build wrote: a run leaves it byte for byte as it was (a rejected cache is rewritten)', () => {
+    const { dir, bin, cache } = copy();
+    const before = readFileSync(cache);
+    closeTo(compute(bin, dir).value, [1, 3]);
+    assert.ok(readFileSync(cache).equals(before), 'the cache was rewritten, so V8 rejected it');
+  });
+
+  maybe('rewrites a cache that V8 rejects (bytes that are not a code cache) and answers the same', () => {
+    const { dir, bin, cache } = copy();
+    const junk = Buffer.alloc(4096, 7);
+    writeFileSync(cache, junk);
+    closeTo(compute(bin, dir).value, [1, 3]);
+    const fresh = readFileSync(cache);
+    assert.ok(!fresh.equals(junk) && fresh.length > 10_000, 'the rejected cache was not replaced by a real one');
+    const again = readFileSync(cache);
+    closeTo(compute(bin, dir).value, [1, 3]);
+    assert.ok(readFileSync(cache).equals(again), 'the rewritten cache was itself rejected');
+  });
+
+  maybe('does not offer V8 a cache older than the bundle (V8 checks only the length), and writes a new one', () => {
+    const { dir, bin, bundle, cache } = copy();
+    const t = statSync(bundle).mtime;
+    utimesSync(cache, new Date(t.getTime() - 10_000), new Date(t.getTime() - 10_000));
+    closeTo(compute(bin, dir).value, [1, 3]);
+    assert.ok(statSync(cache).mtimeMs >= statSync(bundle).mtimeMs, 'the old cache was left in place');
+  });
+
+  maybe('loads none of child_process, crypto and worker_threads for one request (they load on first use)', () => {
+    const { dir, bin } = copy();
+    const hook = join(dir, 'modules.cjs');
+    writeFileSync(hook, "process.on('exit', () => process.stderr.write(`modules: ${JSON.stringify(process.moduleLoadList)}\\n`));");
+    const { stderr } = compute(bin, dir, ['--require', hook]);
+    const m = /modules: (.*)/.exec(stderr);
+    assert.ok(m, `no module list in ${stderr}`);
+    const loaded = JSON.parse(m[1]) as string[];
+    for (const name of ['child_process', 'crypto', 'worker_threads']) {
+      assert.ok(!loaded.includes(`NativeModule ${name}`), `${name} was loaded at start-up`);
+    }
+    // The list is the real one: the modules the command does use are in it.
+    assert.ok(loaded.includes('NativeModule vm'), 'process.moduleLoadList does not list node:vm, which the launcher uses');
+  });
+
+  maybe('computes a sweep through the bundle, with the spec hash (crypto and ajv, loaded on first use)', () => {
+    const { dir, bin } = copy();
+    const spec = JSON.parse(readFileSync(join(root, 'docs/sweeps/strong-subadditivity.json'), 'utf8')) as { samples: number };
+    spec.samples = 2;
+    writeFileSync(join(dir, 'spec.json'), JSON.stringify(spec));
+    const out = join(dir, 'out.jsonl');
+    const r = spawnSync(process.execPath, [bin, 'sweep', join(dir, 'spec.json'), '-o', out], { encoding: 'utf8' });
+    assert.equal(r.status, 0, `the sweep failed: ${r.stderr}`);
+    const header = JSON.parse(readFileSync(out, 'utf8').split('\n')[0]) as { specHash: string; points: number };
+    assert.match(header.specHash, /^sha256:[0-9a-f]{64}$/);
+    assert.ok(header.points > 0);
+  });
+});
