@@ -2,8 +2,9 @@
  * `SweepPanel`: the face of a sweep (docs/sweeps.md, "In the notebook"): a summary of the spec (its title,
  * its points, its parameters and what each point records), a progress bar with the count and the rate of
  * points, Run and Cancel buttons, the refusal when the spec is refused, and a live chart of the rows so far
- * through plot.ts (one parameter on x, one field of a line on y; violated points marked; points joined by a
- * line only when the spec has neither samples nor draws, where they are one function of x).
+ * through plot.ts's `renderCurve` (one parameter, `index` or `sample` on x, one field of a line on y). The curve
+ * joins the points in x order; where the points are not one function of x (the spec has draws or samples)
+ * a note under the chart says so, and violated points are counted there.
  *
  * The panel is told everything (`update`) and says what the user asked for (`on('run' | 'cancel' | 'plot')`):
  * whoever owns it (the sweep widget's view) runs the sweep. The chart's numbers are the rows' own, as the
@@ -14,9 +15,13 @@
  * with the field at fault; the summary only lists what the spec says). Cost: one chart render per
  * update at most every quarter of a second (vega-lite compile and vega parse: milliseconds for our sizes).
  */
-import type { View } from 'vega';
 import { el, Emitter, errorBox, field, formatNumber, setChildren } from './dom.js';
-import { renderChart } from './plot.js';
+
+// plot.ts (and vega with it) is loaded on the first chart, as the calculators load it.
+let plotModule: Promise<typeof import('./plot.js')> | null = null;
+function loadPlot(): Promise<typeof import('./plot.js')> {
+  return (plotModule ??= import(/* webpackChunkName: "plot" */ './plot.js'));
+}
 
 /** One line of the op sweep-points (src/sweep/point.ts, jobs.ts), as plain data. */
 export type SweepLine = Record<string, unknown> & { index: number; parameters?: Record<string, unknown>; sample?: number };
@@ -81,11 +86,11 @@ function chartNumber(v: unknown): number | undefined {
   return typeof v === 'number' && Number.isFinite(v) ? v : undefined;
 }
 
+/** A row's x: a parameter's value, its index or its sample (a chart of numbers: other values are left off). */
 function chartCoordinate(row: SweepLine, x: string): unknown {
   if (x === 'index') return row.index;
   if (x === 'sample') return row.sample;
-  const v = row.parameters?.[x];
-  return v !== null && typeof v === 'object' ? JSON.stringify(v) : v;
+  return row.parameters?.[x];
 }
 
 export class SweepPanel {
@@ -102,7 +107,6 @@ export class SweepPanel {
   private readonly ySelect = el('select', { class: 'rs-select' });
   private readonly chart = el('div', { class: 'rs-chart rs-sweep__chart', role: 'img' });
   private readonly chartNote = el('div', { class: 'rs-note rs-sweep__note' });
-  private view: View | null = null;
   private rendering = false;
   private again = false;
   private timer: ReturnType<typeof setTimeout> | null = null;
@@ -211,48 +215,34 @@ export class SweepPanel {
     try {
       const s = this.state;
       const { x, y } = plotAxes(s.spec, s.plot);
-      const points: { x: unknown; y: number; violated: boolean; index: number }[] = [];
+      const points: { x: number; y: number }[] = [];
       let left = 0;
+      let violated = 0;
       for (const row of s.rows) {
         if (row.refined !== undefined) continue; // refinements have their own parameters; the chart shows the grid
         const v = chartNumber(row[y]);
-        const at = chartCoordinate(row, x);
+        const at = chartNumber(chartCoordinate(row, x));
         if (v === undefined || at === undefined) left++;
-        else points.push({ x: at, y: v, violated: row.violated === true, index: row.index });
+        else points.push({ x: at, y: v });
+        if (row.violated === true) violated++;
       }
-      this.chartNote.textContent = left ? `${left} point${left === 1 ? '' : 's'} without a finite ${y} (failed or infinite) left off the chart.` : '';
+      const drawn = !!s.spec?.draws && Object.keys(s.spec.draws as object).length > 0;
+      const repeated = typeof s.spec?.samples === 'number' && s.spec.samples > 1;
+      const notes = [
+        left ? `${left} point${left === 1 ? '' : 's'} without a finite number for ${x} or ${y} (failed, infinite, or a value that is not a number) left off the chart.` : '',
+        points.length > 1 && (drawn || repeated) && x !== 'index'
+          ? `Each point has ${drawn ? 'draws' : 'a sample'} of its own: the line joins different ${drawn ? 'random draws' : 'samples'} in order of ${x}, not one curve.`
+          : '',
+        violated ? `${violated} violated point${violated === 1 ? '' : 's'} (gap below −tolerance).` : '',
+      ].filter(Boolean);
+      this.chartNote.textContent = notes.join(' ');
+      const plot = await loadPlot();
+      if (this.disposed) return;
       if (!points.length) {
-        this.view?.finalize();
-        this.view = null;
-        this.chart.replaceChildren();
+        plot.clearChart(this.chart);
         return;
       }
-      const numeric = points.every((p) => typeof p.x === 'number');
-      const repeated = typeof s.spec?.samples === 'number' && s.spec.samples > 1;
-      const colour = (name: string, fallback: string) => getComputedStyle(this.element).getPropertyValue(name).trim() || fallback;
-      const enc = {
-        x: { field: 'x', type: numeric ? 'quantitative' : 'nominal', title: x, scale: numeric ? { zero: false } : undefined },
-        y: { field: 'y', type: 'quantitative', title: y, scale: { zero: false } },
-      };
-      const layers: unknown[] = [];
-      // A line only where the points are one function of x: no repeated samples and no random draws (each
-      // point draws its own states, so neighbouring points of a sweep with draws belong to different states).
-      const drawn = !!s.spec?.draws && Object.keys(s.spec.draws as object).length > 0;
-      if (numeric && !repeated && !drawn && x !== 'sample') layers.push({ mark: { type: 'line', color: colour('--rs-chart-line', '#2a6f97') }, encoding: enc });
-      // Violated points in the mark colour, when the spec has an inequality; else one colour, no legend.
-      const color = s.spec?.inequality
-        ? { field: 'violated', type: 'nominal', title: 'violated', scale: { domain: [false, true], range: [colour('--rs-chart-line', '#2a6f97'), colour('--rs-chart-mark', '#c1121f')] } }
-        : { value: colour('--rs-chart-line', '#2a6f97') };
-      layers.push({
-        mark: { type: 'point', filled: true, size: 30 },
-        encoding: { ...enc, color, tooltip: [{ field: 'index', type: 'quantitative' }, { field: 'x', title: x }, { field: 'y', title: y, type: 'quantitative' }] },
-      });
-      this.view = await renderChart(this.chart, {
-        $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-        width: 'container' as unknown as number, height: 200,
-        data: { values: points },
-        layer: layers,
-      } as never, this.view);
+      await plot.renderCurve(this.chart, { points, xTitle: x, yTitle: y, height: 200 });
       this.chart.setAttribute('aria-label', `${y} over ${x}, ${points.length} points`);
       this.chart.dataset.points = String(points.length);
     } catch (e) {
@@ -269,8 +259,7 @@ export class SweepPanel {
   dispose(): void {
     this.disposed = true;
     if (this.timer) clearTimeout(this.timer);
-    this.view?.finalize();
-    this.view = null;
+    if (plotModule) void plotModule.then((p) => p.clearChart(this.chart));
     this.events.clear();
     this.element.remove();
   }
