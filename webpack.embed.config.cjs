@@ -8,6 +8,9 @@
  *   rhosigma-embed-expressions.js  "auto": the script's own address, document.currentScript; in the worker,
  *                             the worker's): vega for the charts, and, in the worker, mathjs for the
  *                             expression reader (only when an entry is an expression)
+ *   rhosigma-embed-rhosigma-sweeps.js  the sweep layer (the op sweep-points, for the notebook's sweep widget),
+ *                             and the copy of package.json it names for the engine's version: emitted because
+ *                             the worker can load it, never requested by an embed (it sends no sweep)
  *   rhosigma-embed.css        the components' stylesheets (style/*.css) and the embed frame's
  *                             (src/embed/embed.css), concatenated: linked inside each element's shadow root
  * No KaTeX: the formulas are MathML that KaTeX wrote at build time (src/embed/formula-mathml.ts replaces

@@ -12,9 +12,10 @@
  * (src/ops/expressions.ts), so requests without expression strings never pay for it. So do vega, vega-lite
  * (sweep plots) and cli-progress (a terminal's progress bar), loaded by `import()` where they are used.
  * Node's built-in modules that only some commands use (child_process, which commander loads for
- * subcommands run as separate programs, which ours are not; crypto, the sweep spec's hash; worker_threads,
- * the sweep pool's) are required on first use of one of their exports, not at start-up, and so is ajv's
- * compiler (only sweep specs use it): each import of them becomes a small module of getters (`lazyModules`);
+ * subcommands run as separate programs, which ours are not; crypto, which the engine itself no longer uses:
+ * the sweep spec's hash is @noble/hashes'; worker_threads, the sweep pool's) are required on first use of one
+ * of their exports, not at start-up, and so would be ajv's compiler (sweep specs now use a precompiled
+ * validator, src/sweep/spec-validator.generated.ts): each import of them becomes a small module of getters (`lazyModules`);
  * together they were about a quarter of a cached cold start (bench/RESULTS.md). What it does not do: minify (stack traces of bugs stay readable) or bundle for browsers
  * (scripts/bundle-engine.mjs). Cost: a second or two (the bundle, then one request run to fill the cache).
  */
@@ -30,7 +31,7 @@ const outfile = join(root, 'dist/cli/bundle.cjs');
 
 /** Built-in modules loaded on first use of an export (every use in the bundle is `module.name`, read at the call). */
 const LAZY_BUILTINS = ['node:child_process', 'node:crypto', 'node:worker_threads'];
-/** Bundled packages evaluated on first use of an export: ajv's compiler, which only sweep specs use (src/sweep/spec.ts). */
+/** Bundled packages evaluated on first use of an export: ajv's compiler (imported by nothing in the engine today; kept lazy should it be). */
 const LAZY_PACKAGES = ['ajv/dist/2020.js'];
 
 /**

@@ -29,6 +29,7 @@ from __future__ import annotations
 import asyncio
 import base64
 import binascii
+import json
 from typing import Any, Sequence
 
 import numpy as np
@@ -40,6 +41,7 @@ from .answer import Answer
 from .convert import from_protocol, to_numpy, to_protocol
 from .engine import compute as engine_compute
 from .objects import Channel, State
+from .sweeps import DEFAULT_CHUNK, _ask, _engine, _read_spec, rows_to_frame, sweep_rows
 
 __all__ = [
     "StateEditor",
@@ -48,6 +50,7 @@ __all__ = [
     "RecoverabilityCalculator",
     "GuessingCalculator",
     "OneShotCalculator",
+    "Sweep",
 ]
 
 _ALPHA_FAMILIES = {"petz", "sandwiched", "alpha-z", "geometric"}
@@ -498,3 +501,119 @@ class OneShotCalculator(_Calculator):
             r.update({"rho": rho, "sigma": sigma, "epsilon": self.epsilon, "base": self.base})
             return r
         return {"op": q, "rho": rho, "a": list(self.a), "b": list(self.b), "base": self.base}
+
+
+class Sweep(_Base):
+    """A sweep in the notebook (docs/sweeps.md, "In the notebook"): the spec's summary, a progress bar with
+    the count and rate, Cancel, and a live chart of the rows (the twin of src/widgets/sweep.ts).
+
+        >>> sw = Sweep({"sweep": 1, "seed": 3, "parameters": {"alpha": {"from": 0.5, "to": 2, "count": 7}},
+        ...             "draws": {"rho": {"op": "random-state", "dims": [2]}, "sigma": {"op": "random-state", "dims": [2]}},
+        ...             "quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"},
+        ...                          "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}})   # doctest: +SKIP
+        >>> sw                        # in JupyterLab: the browser runs it in chunks; `rows` grow live
+        >>> sw.frame()                # the DataFrame that rhosigma.sweep(spec) returns for these rows
+
+    With a front end the browser runs the points through the page's worker with the op `sweep-points`, the
+    op `rhosigma.sweep` asks the headless engine, and writes `rows` (the lines, plain data), `done`, `total`
+    and `status` after each chunk; `observe(cb, "rows")` sees them. A point's line depends only on the spec's
+    seed and its index, so the rows equal `rhosigma.sweep(spec)`'s. `auto` (default true) makes the front end
+    run when the widget's model is made and whenever `spec` changes. Without a front end nothing runs until
+    `run()`, which computes the same rows headless through `sweep_rows` (blocking; `done`/`total` move per
+    chunk, `rows` arrive at the end). `cancel()` stops the browser's run after aborting the chunk in flight.
+    A widget made and `run()` in the same cell runs in the kernel: the front end's "attached" message is
+    read only after the cell.
+
+    Deliberately not here: any numerics (the engine's, in the browser's worker or the kernel's process).
+    """
+
+    _model_name = t.Unicode("SweepModel").tag(sync=True)
+    _view_name = t.Unicode("SweepView").tag(sync=True)
+    spec = t.Dict(default_value=None, allow_none=True).tag(sync=True)
+    rows = t.List(t.Dict()).tag(sync=True)
+    done = t.Int(0).tag(sync=True)
+    total = t.Int(0).tag(sync=True)
+    status = t.Unicode("idle").tag(sync=True)
+    error = t.Dict(default_value=None, allow_none=True).tag(sync=True)
+    plot = t.Dict(default_value={"x": None, "y": None}).tag(sync=True)
+    auto = t.Bool(True).tag(sync=True)
+    computed_by = t.Unicode(None, allow_none=True).tag(sync=True)
+
+    def __init__(self, spec: Any = None, **kwargs: Any):
+        if spec is not None:
+            kwargs["spec"] = _read_spec(spec)
+        self._attached = False
+        self._facts: tuple[str, dict] | None = None
+        super().__init__(**kwargs)
+        self.on_msg(self._on_custom)
+
+    @property
+    def frontend_attached(self) -> bool:
+        """True once a front end (JupyterLab's widget manager) has made this sweep's model."""
+        return self._attached
+
+    def _on_custom(self, _widget: Any, content: Any, _buffers: Any) -> None:
+        if isinstance(content, dict) and content.get("event") == "attached":
+            self._attached = True
+
+    def run(self, *, chunk: int = DEFAULT_CHUNK, engine: Any = None) -> list[dict] | None:
+        """Run the sweep from its first point: in the browser when a front end is attached (the rows arrive
+        as `rows`; returns None at once), else headless through `sweep_rows` (returns the rows)."""
+        if self._attached:
+            self.send({"event": "run"})
+            return None
+        if self.spec is None:
+            raise ValueError("the sweep has no spec")
+        spec = dict(self.spec)
+        with self.hold_sync():
+            self.rows, self.done, self.total, self.error = [], 0, 0, None
+            self.status, self.computed_by = "running", "kernel"
+
+        def progress(done: int, total: int) -> None:
+            self.done, self.total = done, total
+
+        from .errors import ComputeError
+
+        try:
+            rows, facts = sweep_rows(spec, chunk=chunk, engine=engine, progress=progress)
+        except ComputeError as e:
+            with self.hold_sync():
+                self.error = dict(e.answer.get("error") or {"code": e.code, "message": e.message})
+                self.status = "error"
+            raise
+        self._facts = (_json_key(spec), facts)
+        with self.hold_sync():
+            self.rows = rows
+            self.done = len(rows)
+            self.total = max(self.total, facts["points"], len(rows))
+            self.status = "done"
+        return rows
+
+    def cancel(self) -> None:
+        """Stop the browser's run: the chunk in flight is aborted, the rows done before it stay
+        (status "cancelled"). A headless `run()` blocks the kernel, so there is nothing to cancel then."""
+        if self._attached:
+            self.send({"event": "cancel"})
+
+    def facts(self, engine: Any = None) -> dict:
+        """The sweep's header facts as `rhosigma.sweep` puts them in `df.attrs` (spec hash, seed, engine
+        version, mode, points), from the headless engine (one request that evaluates no point)."""
+        if self.spec is None:
+            raise ValueError("the sweep has no spec")
+        key = _json_key(self.spec)
+        if self._facts is None or self._facts[0] != key:
+            info = _ask(_engine(engine), dict(self.spec), indices=[])
+            self._facts = (key, {"specHash": info["specHash"], "seed": self.spec.get("seed"), "engine": info["engine"]["version"],
+                                 "mode": info["mode"], "points": info["points"]})
+        return dict(self._facts[1])
+
+    def frame(self, engine: Any = None):
+        """The rows so far as the pandas DataFrame `rhosigma.sweep(spec)` returns (rows_to_frame), with its attrs."""
+        return rows_to_frame(list(self.rows), self.facts(engine), ((self.spec or {}).get("parameters") or {}).keys())
+
+    def __repr__(self) -> str:
+        return f"Sweep({self.done} of {self.total} points; {self.status}; by {self.computed_by or '—'})"
+
+
+def _json_key(spec: Any) -> str:
+    return json.dumps(spec, sort_keys=True)

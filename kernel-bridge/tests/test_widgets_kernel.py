@@ -8,6 +8,10 @@ Facts checked:
   a calculator recomputes from the edited editor;
 - once a front end says it is attached, the result it sets is the calculator's `result`, `observe`
   callbacks and `next_result()` see it, and the kernel does not compute the request itself;
+- a sweep widget with a front end attached asks it to run (`run()`, `cancel()`: custom messages) instead
+  of computing in the kernel; the rows the front end sends (here: the lines the headless engine gives for
+  the same spec, sent the way JupyterLab sends an update) are its `rows`, seen by `observe`, and `frame()`
+  is `rhosigma.sweep(spec)`'s DataFrame (a consistency check between two paths of the same engine);
 - with no front end the kernel computes through the headless engine, with numpy as the outside
   reference for the number (the Umegaki relative entropy of two commuting states is the classical
   Kullback–Leibler divergence of their eigenvalues: Umegaki 1962; Nielsen & Chuang, §11.3).
@@ -27,11 +31,15 @@ ROOT = Path(__file__).resolve().parents[2]
 
 PROLOGUE = """
 import json, numpy as np
-from rhosigma.widgets import StateEditor, DivergenceCalculator, GuessingCalculator
+from rhosigma.widgets import StateEditor, DivergenceCalculator, GuessingCalculator, Sweep
 rho = StateEditor(np.diag([0.7, 0.3]))
 sigma = StateEditor(np.eye(2) / 2)
 calc = DivergenceCalculator(rho, sigma)
 guess = GuessingCalculator([StateEditor(np.diag([1.0, 0.0])), StateEditor(np.full((2, 2), 0.5))])
+sweep_spec = {"sweep": 1, "seed": 5, "parameters": {"alpha": {"values": [0.5, 2]}},
+              "draws": {"rho": {"op": "random-state", "dims": [2]}, "sigma": {"op": "random-state", "dims": [2]}},
+              "quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}}
+sw = Sweep(sweep_spec)
 print(json.dumps({"rho": rho.model_id, "sigma": sigma.model_id, "calc": calc.model_id}))
 """
 
@@ -99,7 +107,7 @@ def test_comm_open_carries_the_typescript_model_names_module_and_fields(kernel, 
     msgs, text = kernel.prologue
     opens = [m["content"] for m in msgs if m["msg_type"] == "comm_open" and m["content"]["target_name"] == "jupyter.widget"]
     ours = [c for c in opens if c["data"]["state"].get("_model_module") == ts["name"]]
-    assert {c["data"]["state"]["_model_name"] for c in ours} == {"StateEditorModel", "DivergenceCalculatorModel", "GuessingCalculatorModel"}
+    assert {c["data"]["state"]["_model_name"] for c in ours} == {"StateEditorModel", "DivergenceCalculatorModel", "GuessingCalculatorModel", "SweepModel"}
     for c in ours:
         state = c["data"]["state"]
         spec = ts["models"][state["_model_name"]]
@@ -190,3 +198,29 @@ def test_packed_matrices_travel_as_binary_buffers_both_ways(kernel):
     got = json.loads(text)
     assert got["re_is_text"] is True
     assert np.array_equal(np.array(got["value"]), m2)
+
+
+def test_a_sweep_with_a_front_end_asks_it_to_run_and_its_rows_reach_python(kernel):
+    _, text = run(kernel, "print(json.dumps({'sw': sw.model_id, 'status': sw.status, 'rows': sw.rows}))")
+    ids = json.loads(text)
+    assert ids["status"] == "idle" and ids["rows"] == [], "nothing runs in the kernel before run()"
+    front_end_custom(kernel, ids["sw"], {"event": "attached"})
+    msgs, _ = run(kernel, "sweep_seen = []\nsw.observe(lambda ch: sweep_seen.append(len(ch['new'])), 'rows')\nsw.run()\nsw.cancel()\nprint(sw.status)")
+    sent = [m["content"]["data"] for m in msgs if m["msg_type"] == "comm_msg" and m["content"]["comm_id"] == ids["sw"]]
+    assert {"method": "custom", "content": {"event": "run"}} in sent, sent
+    assert {"method": "custom", "content": {"event": "cancel"}} in sent, sent
+    # The lines of the same spec from the headless engine, sent in two updates as the front end sends chunks.
+    _, text = run(kernel, "from rhosigma.sweeps import sweep_rows\nprint(json.dumps(sweep_rows(sweep_spec)[0]))")
+    lines = json.loads(text)
+    assert [r["index"] for r in lines] == [0, 1]
+    front_end_update(kernel, ids["sw"], {"rows": lines[:1], "done": 1, "total": 2, "status": "running", "computed_by": "browser"})
+    front_end_update(kernel, ids["sw"], {"rows": lines, "done": 2, "total": 2, "status": "done", "computed_by": "browser"})
+    _, text = run(kernel, (
+        "import rhosigma\n"
+        "print(json.dumps({'seen': sweep_seen, 'rows': sw.rows, 'status': sw.status, 'by': sw.computed_by, 'attached': sw.frontend_attached,"
+        " 'same_frame': sw.frame().equals(rhosigma.sweep(sweep_spec)), 'attrs': sw.frame().attrs == rhosigma.sweep(sweep_spec).attrs}))"
+    ))
+    got = json.loads(text)
+    assert got["seen"] == [1, 2] and got["rows"] == lines
+    assert got["status"] == "done" and got["by"] == "browser" and got["attached"] is True
+    assert got["same_frame"] is True and got["attrs"] is True

@@ -15,18 +15,11 @@
 import { readFileSync } from 'node:fs';
 import { RhoError } from '../errors.js';
 import type { Json, Spec } from './spec.js';
+import { engineVersion } from './engine-version.js';
+
+export { engineVersion };
 
 export const FILE_FORMAT = 1;
-
-/** The engine's version (package.json beside src/ or dist/). */
-export function engineVersion(): string {
-  try {
-    const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version?: string };
-    return pkg.version ?? 'unknown';
-  } catch {
-    return 'unknown';
-  }
-}
 
 export interface Shard {
   index: number;

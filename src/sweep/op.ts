@@ -18,7 +18,7 @@ import { RhoError } from '../errors.js';
 import { deadlinePassed } from '../deadline.js';
 import { plain } from '../ops/cost.js';
 import { defineOp } from '../ops/registry.js';
-import { engineVersion } from './file.js';
+import { engineVersion } from './engine-version.js';
 import { runJob, type Job } from './jobs.js';
 import { readSpec, type Spec } from './spec.js';
 

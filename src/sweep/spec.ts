@@ -16,21 +16,20 @@
  * Points: the Cartesian product of the parameter lists (the last varies fastest), each repeated `samples`
  * times; point index = combination · samples + sample.
  *
+ * The schema's validator is precompiled (src/sweep/spec-validator.generated.ts, by `npm run schema`): reading a
+ * spec compiles nothing at run time, here or in a browser's engine worker.
+ *
  * Deliberately not here: evaluating points (src/sweep/point.ts) or any numerics.
  * Cost: reading is linear in the spec's size; pointAt is O(number of parameters).
  */
-import { createHash } from 'node:crypto';
-import Ajv2020Module from 'ajv/dist/2020.js';
+import { sha256 } from '@noble/hashes/sha2.js';
+import { bytesToHex, utf8ToBytes } from '@noble/hashes/utils.js';
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import { RhoError } from '../errors.js';
 import { COMMON_FIELDS, closeOpNames, pointerToPath } from '../ops/handle.js';
 import { getOp } from '../ops/registry.js';
 import '../ops/all.js';
-
-/** ajv's class, looked up at the first spec read rather than at import (the command's bundle then loads ajv only for sweeps: scripts/bundle-cli.mjs). */
-function ajv2020(): typeof Ajv2020Module.default {
-  return ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
-}
+import precompiledSpecValidator from './spec-validator.generated.js';
 
 /** The spec format this engine reads. */
 export const SPEC_VERSION = 1;
@@ -197,7 +196,10 @@ export interface Spec {
   hash: string;
 }
 
-let validator: ValidateFunction | undefined;
+/** ajv's options for the spec's validator (precompiled by scripts/write-schema.ts with these). */
+export const SPEC_AJV_OPTIONS = { allErrors: false, verbose: true, strict: true, strictTypes: false, logger: false } as const;
+
+const validator = precompiledSpecValidator as unknown as ValidateFunction;
 
 function specError(errors: ErrorObject[]): RhoError {
   let best = errors[0];
@@ -302,7 +304,6 @@ export function readSpec(value: unknown): Spec {
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
     throw new RhoError('invalid-argument', 'A sweep spec must be a JSON object like {"sweep": 1, "seed": 1, ...}.', '');
   }
-  validator ??= new (ajv2020())({ allErrors: false, verbose: true, strict: true, strictTypes: false, logger: false }).compile(SPEC_SCHEMA);
   if (!validator(value)) throw specError(validator.errors ?? []);
   const src = value as Record<string, any>;
 
@@ -389,7 +390,8 @@ export function readSpec(value: unknown): Spec {
 
 /** "sha256:" + the hex digest of the spec's compact JSON text (key order as written; whitespace does not count). */
 export function specHash(source: unknown): string {
-  return `sha256:${createHash('sha256').update(JSON.stringify(source)).digest('hex')}`;
+  // @noble/hashes rather than node:crypto, so that specs are also read in the browser's engine worker.
+  return `sha256:${bytesToHex(sha256(utf8ToBytes(JSON.stringify(source))))}`;
 }
 
 /** The parameter values and sample number of point `index`. */

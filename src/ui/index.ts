@@ -12,5 +12,6 @@ export { RecoverabilityCalculator, type RecoverabilityInputs, type Recoverabilit
 export { GuessingCalculator, type GuessingInputs, type GuessingSettings } from './guessing-calculator.js';
 export { OneShotCalculator, ONE_SHOT, type OneShotInputs, type OneShotSettings } from './one-shot-calculator.js';
 export { MatrixGrid } from './matrix-grid.js';
+export { SweepPanel, plotAxes, type SweepPanelState, type SweepPlot, type SweepLine } from './sweep-panel.js';
 export { parsePastedMatrix, toEntry, type Entry } from './matrix-text.js';
 export type { EngineLike, Answer, ComputeOptions, Progress } from '../worker/types.js';

@@ -12,3 +12,4 @@ export { DivergenceCalculatorModel, DivergenceCalculatorView } from './divergenc
 export { RecoverabilityCalculatorModel, RecoverabilityCalculatorView } from './recoverability.js';
 export { GuessingCalculatorModel, GuessingCalculatorView } from './guessing.js';
 export { OneShotCalculatorModel, OneShotCalculatorView } from './oneshot.js';
+export { SweepModel, SweepView } from './sweep.js';

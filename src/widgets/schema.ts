@@ -131,6 +131,29 @@ export const MODELS = {
       ...calculatorFields,
     },
   },
+  SweepModel: {
+    view: 'SweepView',
+    references: [],
+    defaults: {
+      /** The sweep spec (docs/sweeps.md), plain JSON, or null. */
+      spec: null,
+      /** The lines of the points done so far, as the op sweep-points answers them (then refinements). */
+      rows: [],
+      /** Lines done and the sweep's number of points (plus refinements in the search mode, once known). */
+      done: 0,
+      total: 0,
+      /** "idle", "running", "cancelled", "done" or "error". */
+      status: 'idle',
+      /** The refusal ({code, message, path}) when status is "error", else null. */
+      error: null,
+      /** The chart: {x: a parameter's name, y: a line's field ("value", "gap", "left", "right")}; null picks from the spec. */
+      plot: { x: null, y: null },
+      /** When true the front end runs the sweep when the model is made (status "idle") and when `spec` changes. */
+      auto: true,
+      /** "browser" or "kernel": who computed `rows`. */
+      computed_by: null,
+    },
+  },
 } satisfies Record<string, ModelSpec>;
 
 export type ModelName = keyof typeof MODELS;

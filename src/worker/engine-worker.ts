@@ -5,6 +5,8 @@
  * ascent, ...) to the callback the client passes as a comlink proxy. While idle the worker warms the
  * solver's hot paths (src/ops/warm-up.ts), one small step per macrotask, pausing while a request runs.
  *
+ * The op `sweep-points` (src/sweep/op.ts) is loaded on its first request, as a chunk of its own.
+ *
  * Deliberately not here: queueing, latest-wins and cancellation (client.ts: cancelling a running
  * request means terminating this worker, since `handle` is synchronous). Cost: that of the requests,
  * plus a few seconds of warm-up spread over idle time after start.
@@ -12,6 +14,7 @@
 import { expose } from 'comlink';
 import { handle, mayNeedExpressions } from '../ops/handle.js';
 import '../ops/all.js';
+import { getOp } from '../ops/registry.js';
 import { expressionReaderLoaded, loadExpressionReader } from '../ops/expressions.js';
 import { warmUp } from '../ops/warm-up.js';
 import { withProgress, type Progress } from '../deadline.js';
@@ -39,6 +42,10 @@ const api: WorkerApi = {
           // handle() answers with the reader's own error for the expression that needs it.
         }
       }
+      if ((request as { op?: unknown } | null)?.op === 'sweep-points' && !getOp('sweep-points')) {
+        const failed = await loadSweeps();
+        if (failed) return { ok: false, op: 'sweep-points', error: { code: 'internal-error', message: `The sweep module could not be loaded in the engine worker: ${failed}` } } as Answer;
+      }
       // The progress callback is a comlink proxy: calling it posts a message at once, even mid-solve.
       return withProgress(onProgress ? (p) => void onProgress(p) : undefined, () => handle(request));
     } finally {
@@ -49,6 +56,20 @@ const api: WorkerApi = {
     return { eigh: eighWasmStatus() };
   },
 };
+
+/**
+ * The sweep layer (src/sweep, with the op `sweep-points` that the sweep widget asks for chunks of points)
+ * in a chunk of its own, loaded on the first sweep request: pages that never sweep (the wiki embed) never
+ * load it ("lazy" also where a build makes dynamic imports eager, as the embed's does). Resolves with the reason when it cannot load (the request is then answered internal-error).
+ */
+async function loadSweeps(): Promise<string | undefined> {
+  try {
+    await import(/* webpackChunkName: "rhosigma-sweeps", webpackMode: "lazy" */ '../sweep/op.js');
+    return undefined;
+  } catch (e) {
+    return e instanceof Error ? e.message : String(e);
+  }
+}
 
 expose(api);
 

@@ -98,7 +98,7 @@ describe('the built command (bundle with its code cache)', () => {
     assert.ok(loaded.includes('NativeModule vm'), 'process.moduleLoadList does not list node:vm, which the launcher uses');
   });
 
-  maybe('computes a sweep through the bundle, with the spec hash (crypto and ajv, loaded on first use)', () => {
+  maybe('computes a sweep through the bundle, with the spec hash (SHA-256 by @noble/hashes, the spec validator precompiled)', () => {
     const { dir, bin } = copy();
     const spec = JSON.parse(readFileSync(join(root, 'docs/sweeps/strong-subadditivity.json'), 'utf8')) as { samples: number };
     spec.samples = 2;

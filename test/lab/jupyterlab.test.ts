@@ -7,7 +7,10 @@
 // same engine in another runtime), and the number against an outside fact: for commuting states the
 // Umegaki relative entropy is the Kullback–Leibler divergence of the spectra (Umegaki 1962; Nielsen &
 // Chuang §11.3). An invalid entry shows an error, keeps the other entries and yields a refusal, never a
-// number. The dark theme renders (light text on a dark page). Screenshots: <tmpdir>/rhosigma-lab-*.png.
+// number. The dark theme renders (light text on a dark page). A second notebook (its own JupyterLab) runs
+// the sweep widget: a small sweep run by the browser whose rows Python compares with rhosigma.sweep's
+// headless rows (a consistency check between two runtimes of the same engine), and a longer one stopped by
+// Cancel and by Python's cancel(). Screenshots: <tmpdir>/rhosigma-lab-*.png.
 //
 // Needs the labextension built and linked (scripts/setup.sh), .venv with JupyterLab, and Chromium. Under
 // CI=true anything missing fails the file; elsewhere it is skipped with a message. Cost: a minute or two.
@@ -175,5 +178,139 @@ maybe('rhosigma widgets in a real JupyterLab (Chromium)', () => {
     };
     assert.ok(lum(colors.fg) > lum(colors.body), JSON.stringify(colors));
     await lab.page.screenshot({ path: join(SHOTS, 'rhosigma-lab-dark.png'), fullPage: true });
+  }, 400_000);
+});
+
+const SWEEP_CELLS = [
+  // Cells 0-4: the sweep widget. A small sweep (Petz–Rényi divergence of two random qubit states over 12
+  // values of α, a spec of our own), run by the browser; then a longer one (6000 points) to cancel.
+  'import json, rhosigma\nfrom rhosigma.widgets import Sweep\nfrom rhosigma.sweeps import sweep_rows\n'
+    + 'small_spec = {"sweep": 1, "seed": 2026, "title": "Petz-Renyi divergence over a grid of alpha", "parameters": {"alpha": {"from": 0.1, "to": 1.9, "count": 12}}, '
+    + '"draws": {"rho": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}, "sigma": {"op": "random-state", "ensemble": "hilbert-schmidt", "dims": [2]}}, '
+    + '"quantity": {"op": "divergence", "family": "petz", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}, "record": ["rho", "sigma"]}\n'
+    + 'small = Sweep(small_spec)\nsmall',
+  'print("RESULT" + json.dumps({"status": small.status, "done": small.done, "total": small.total, "by": small.computed_by, "error": small.error}))',
+  'headless_rows, _ = sweep_rows(small_spec)\nprint("RESULT" + json.dumps({"rows": small.rows, "headless": headless_rows, "exact": small.rows == headless_rows, "frame": small.frame().equals(rhosigma.sweep(small_spec))}))',
+  'long_spec = {"sweep": 1, "seed": 7, "samples": 2000, "parameters": {"alpha": {"values": [0.5, 1.5, 3]}}, '
+    + '"draws": {"rho": {"op": "random-state", "ensemble": "bures", "dims": [4]}, "sigma": {"op": "random-state", "ensemble": "bures", "dims": [4]}}, '
+    + '"quantity": {"op": "divergence", "family": "sandwiched", "alpha": {"$": "alpha"}, "rho": {"$": "rho"}, "sigma": {"$": "sigma"}}}\n'
+    + 'long = Sweep(long_spec)\nlong',
+  'print("RESULT" + json.dumps({"status": long.status, "done": long.done, "total": long.total, "indices": [r["index"] for r in long.rows], "by": long.computed_by}))',
+  // Cells 5-6: Python's run() and cancel() reach the front end (custom messages).
+  'long.run()',
+  'long.cancel()',
+  // Cells 7-8: a refused spec (a parameter with no values) ends in status "error" naming the field.
+  'bad = Sweep({**small_spec, "parameters": {"alpha": {"from": 0.1, "to": 1.9, "count": 0}}})\nbad',
+  'print("RESULT" + json.dumps({"status": bad.status, "error": bad.error, "rows": bad.rows}))',
+];
+
+maybe('the sweep widget in a real JupyterLab (Chromium)', () => {
+  let lab: LabSession;
+
+  beforeAll(async () => {
+    lab = await startLab(SWEEP_CELLS, 'sweep.ipynb');
+    await lab.open();
+  }, 240_000);
+
+  afterAll(async () => {
+    await lab?.stop();
+  }, 30_000);
+
+  /** Prints cell `index`'s RESULT until `pred` holds (or two minutes passed). */
+  async function until<T>(index: number, pred: (r: T) => boolean, ms = 120_000): Promise<T> {
+    const deadline = Date.now() + ms;
+    for (;;) {
+      await lab.runCell(index);
+      const text = await lab.outputText(index);
+      assert.ok(text.includes('RESULT'), text);
+      const r = JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim()) as T;
+      if (pred(r) || Date.now() > deadline) return r;
+      await lab.page.waitForTimeout(500);
+    }
+  }
+
+  /** Equal as JSON, numbers within `rel` relative (0: exactly); the first difference as text, or ''. */
+  function difference(a: unknown, b: unknown, rel: number, at = ''): string {
+    if (typeof a === 'number' && typeof b === 'number') return Math.abs(a - b) <= rel * Math.max(Math.abs(a), Math.abs(b)) ? '' : `${at}: ${a} vs ${b}`;
+    if (Array.isArray(a) && Array.isArray(b)) {
+      if (a.length !== b.length) return `${at}: length ${a.length} vs ${b.length}`;
+      for (let k = 0; k < a.length; k++) {
+        const d = difference(a[k], b[k], rel, `${at}[${k}]`);
+        if (d) return d;
+      }
+      return '';
+    }
+    if (a && b && typeof a === 'object' && typeof b === 'object') {
+      const ka = Object.keys(a).sort(), kb = Object.keys(b).sort();
+      if (ka.join() !== kb.join()) return `${at}: keys ${ka} vs ${kb}`;
+      for (const k of ka) {
+        const d = difference((a as any)[k], (b as any)[k], rel, `${at}.${k}`);
+        if (d) return d;
+      }
+      return '';
+    }
+    return a === b ? '' : `${at}: ${JSON.stringify(a)} vs ${JSON.stringify(b)}`;
+  }
+
+  it('a sweep widget runs in the browser, its rows reach the kernel live, equal row for row to rhosigma.sweep headless; Cancel stops a longer one', async () => {
+    await lab.runCell(0);
+    const sweepCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(0);
+    await sweepCell.locator('.rs-sweep').waitFor({ timeout: 60_000 });
+    const got = await until<{ status: string; done: number; total: number; by: string; error: unknown }>(1, (r) => r.status === 'done' || r.status === 'error');
+    assert.equal(got.status, 'done', JSON.stringify(got));
+    assert.equal(got.by, 'browser', 'the browser ran the sweep');
+    assert.equal(got.done, 12);
+    assert.equal(got.total, 12);
+    // The chart shows every point (all finite), through src/ui/plot.ts.
+    await sweepCell.locator('.rs-sweep__chart[data-points="12"] svg').waitFor({ timeout: 30_000 });
+    assert.match(String(await sweepCell.locator('.rs-sweep__count').textContent()), /12 of 12 points · done/);
+    await sweepCell.screenshot({ path: join(SHOTS, 'rhosigma-lab-sweep.png') });
+    // Consistency check, not an outside reference: the rows the browser sent equal those of the headless
+    // engine (rhosigma.sweep through `rhosigma serve`) for the same spec, row for row.
+    await lab.runCell(2);
+    const text = await lab.outputText(2);
+    const cmp = JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim()) as { rows: any[]; headless: any[]; exact: boolean; frame: boolean };
+    assert.equal(cmp.rows.length, 12);
+    assert.deepEqual(cmp.rows.map((r) => r.index), [...Array(12).keys()]);
+    assert.equal(difference(cmp.rows, cmp.headless, 1e-12), '', 'browser rows vs headless rows');
+    if (!cmp.exact) console.warn(`sweep widget: rows equal the headless ones within 1e-12 relative, not bit for bit: ${difference(cmp.rows, cmp.headless, 0)}`);
+    assert.equal(cmp.frame, cmp.exact, 'frame() equals rhosigma.sweep(spec) exactly when the rows do');
+    // Cancel: a 6000-point sweep, cancelled from its view as soon as rows arrive, stops before its end.
+    await lab.runCell(3);
+    const longCell = lab.page.locator('.jp-Notebook .jp-Cell').nth(3);
+    await longCell.locator('.rs-sweep[data-status="running"]').waitFor({ timeout: 60_000 });
+    await lab.page.waitForFunction((i) => {
+      const t = document.querySelectorAll('.jp-Notebook .jp-Cell')[i as number]?.querySelector('.rs-sweep__count')?.textContent ?? '';
+      return /^[1-9]\d* of 6000/.test(t);
+    }, 3, { timeout: 60_000 });
+    await longCell.locator('.rs-sweep .rs-button--stop').click();
+    await longCell.locator('.rs-sweep[data-status="cancelled"]').waitFor({ timeout: 30_000 });
+    const stopped = await until<{ status: string; done: number; total: number; indices: number[]; by: string }>(4, (r) => r.status === 'cancelled');
+    assert.equal(stopped.status, 'cancelled', JSON.stringify({ ...stopped, indices: stopped.indices.length }));
+    assert.equal(stopped.total, 6000);
+    assert.ok(stopped.done > 0 && stopped.done < 6000, `${stopped.done} of 6000`);
+    assert.deepEqual(stopped.indices, [...Array(stopped.done).keys()], 'the rows done before Cancel, in index order');
+    await lab.page.waitForTimeout(2000);
+    const later = await until<{ done: number; status: string }>(4, () => true);
+    assert.equal(later.done, stopped.done, 'nothing runs after Cancel');
+    assert.equal(later.status, 'cancelled');
+    await longCell.screenshot({ path: join(SHOTS, 'rhosigma-lab-sweep-cancelled.png') });
+    // From Python: run() starts the browser's run again from the first point, cancel() stops it.
+    await lab.runCell(5);
+    await longCell.locator('.rs-sweep[data-status="running"]').waitFor({ timeout: 60_000 });
+    await lab.runCell(6);
+    await longCell.locator('.rs-sweep[data-status="cancelled"]').waitFor({ timeout: 30_000 });
+    const again = await until<{ status: string; done: number; indices: number[] }>(4, (r) => r.status === 'cancelled');
+    assert.equal(again.status, 'cancelled');
+    assert.ok(again.done < 6000, `${again.done} of 6000`);
+    assert.deepEqual(again.indices, [...Array(again.done).keys()], 'a fresh run from point 0');
+    // A refused spec: the engine's refusal, with the field at fault, is the widget's `error`; no rows.
+    await lab.runCell(7);
+    const bad = await until<{ status: string; error: { code: string; path?: string } | null; rows: unknown[] }>(8, (r) => r.status === 'error');
+    assert.equal(bad.status, 'error', JSON.stringify(bad));
+    assert.equal(bad.error?.code, 'invalid-argument');
+    assert.ok(String(bad.error?.path).startsWith('spec.parameters.alpha'), JSON.stringify(bad.error));
+    assert.deepEqual(bad.rows, []);
+    await lab.page.locator('.jp-Notebook .jp-Cell').nth(7).locator('.rs-sweep .rs-error').waitFor({ timeout: 30_000 });
   }, 400_000);
 });

@@ -4,11 +4,13 @@
 // ends included (common practice).
 import { afterAll, describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
+import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import Ajv2020Module from 'ajv/dist/2020.js';
 import { RhoError } from '../../src/errors.js';
 import { pointAt, readSpec, specHash, specSchemaText, SPEC_SCHEMA } from '../../src/sweep/spec.js';
 import { evaluatePoint } from '../../src/sweep/point.js';
+import { SPEC_VALIDATOR_FILE, specValidatorText } from '../../scripts/write-schema.js';
 import { rhosigma, tempFolder } from './helpers.js';
 
 const Ajv2020 = ((Ajv2020Module as unknown as { default?: unknown }).default ?? Ajv2020Module) as typeof Ajv2020Module.default;
@@ -53,6 +55,16 @@ describe('sweep specs', () => {
     assert.equal(a.hash, specHash(good));
     assert.notEqual(readSpec({ ...good, seed: 4 }).hash, a.hash);
     assert.match(a.hash, /^sha256:[0-9a-f]{64}$/);
+  });
+
+  it('src/sweep/spec-validator.generated.ts is the validator ajv 8 compiles from the schema (run `npm run schema` if not)', () => {
+    assert.ok(readFileSync(SPEC_VALIDATOR_FILE, 'utf8') === specValidatorText(), 'src/sweep/spec-validator.generated.ts is stale: run `npm run schema`');
+  });
+
+  it('the hash is the SHA-256 of the compact JSON text (FIPS 180-4; node:crypto as the outside reference)', () => {
+    for (const spec of [good, { ...good, title: 'α-z over a grid, ρ ≥ 0' }]) {
+      assert.equal(specHash(spec), `sha256:${createHash('sha256').update(JSON.stringify(spec)).digest('hex')}`);
+    }
   });
 
   it('refuse bad specs with a clear error naming the field (ajv 8, JSON Schema 2020-12)', () => {
