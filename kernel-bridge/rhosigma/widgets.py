@@ -233,7 +233,23 @@ _EDITOR_TRAITS = ["matrix", "ket", "dims", "labels", "kraus", "choi", "input_dim
 _OUTPUT_TRAITS = {"request", "result", "status", "error", "computed_by"}
 
 
-class _Calculator(_Base):
+class _FrontendAware:
+    """What calculators and sweeps share: they learn that a front end made their model (its "attached"
+    message), so that they leave the computing to the browser."""
+
+    _attached = False
+
+    @property
+    def frontend_attached(self) -> bool:
+        """True once a front end (JupyterLab's widget manager) has made this widget's model."""
+        return self._attached
+
+    def _on_custom(self, _widget: Any, content: Any, _buffers: Any) -> None:
+        if isinstance(content, dict) and content.get("event") == "attached":
+            self._attached = True
+
+
+class _Calculator(_FrontendAware, _Base):
     """What every calculator shares: `request`, `result`, `status`, `error`, `auto`, `computed_by`."""
 
     request = t.Dict(default_value=None, allow_none=True).tag(sync=True, **_PACKED)
@@ -255,16 +271,6 @@ class _Calculator(_Base):
         self.observe(self._wake, "result")
         self._rewire()
         self._inputs_changed()
-
-    # -- the front end --------------------------------------------------------------------------
-    @property
-    def frontend_attached(self) -> bool:
-        """True once a front end (JupyterLab's widget manager) has made this calculator's model."""
-        return self._attached
-
-    def _on_custom(self, _widget: Any, content: Any, _buffers: Any) -> None:
-        if isinstance(content, dict) and content.get("event") == "attached":
-            self._attached = True
 
     def _own_change(self, change: dict) -> None:
         name = change["name"]
@@ -503,7 +509,7 @@ class OneShotCalculator(_Calculator):
         return {"op": q, "rho": rho, "a": list(self.a), "b": list(self.b), "base": self.base}
 
 
-class Sweep(_Base):
+class Sweep(_FrontendAware, _Base):
     """A sweep in the notebook (docs/sweeps.md, "In the notebook"): the spec's summary, a progress bar with
     the count and rate, Cancel, and a live chart of the rows (the twin of src/widgets/sweep.ts).
 
@@ -546,15 +552,6 @@ class Sweep(_Base):
         self._facts: tuple[str, dict] | None = None
         super().__init__(**kwargs)
         self.on_msg(self._on_custom)
-
-    @property
-    def frontend_attached(self) -> bool:
-        """True once a front end (JupyterLab's widget manager) has made this sweep's model."""
-        return self._attached
-
-    def _on_custom(self, _widget: Any, content: Any, _buffers: Any) -> None:
-        if isinstance(content, dict) and content.get("event") == "attached":
-            self._attached = True
 
     def run(self, *, chunk: int = DEFAULT_CHUNK, engine: Any = None) -> list[dict] | None:
         """Run the sweep from its first point: in the browser when a front end is attached (the rows arrive
