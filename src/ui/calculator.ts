@@ -153,7 +153,7 @@ export abstract class Calculator<I extends object, V extends object> {
       if (!box) continue;
       const slot = box.querySelector<HTMLElement>('.rs-verdict')!;
       slot.textContent = ' · re-checking…';
-      checks.push(this.engine.compute({ op: 'verify-answer', request: req.request, answer }, { key: `${this.id}:verify:${req.name}` }).then((v) => {
+      checks.push(this.engine.compute({ op: 'verify-answer', request: req.request, answer }, { key: `${this.id}:verify:${req.name}`, priority: 'background' }).then((v) => {
         if (this.disposed || seq !== this.seq) return;
         if (!v.ok && v.error.code === 'cancelled') return;
         const { text, ok } = verdictText(v);

@@ -59,6 +59,7 @@ export class SharedRequests implements EngineLike {
     const inner: ComputeOptions = {
       key: options.key,
       signal: stop.signal,
+      priority: options.priority,
       get onProgress() {
         return flight.listeners.size ? fanOut : undefined;
       },

@@ -7,6 +7,8 @@
  *  - `key`: latest wins. A queued request with the same key as a newer one is dropped and answered
  *    {ok:false, error:{code:'cancelled'}}; the running one finishes (its answer is still the truth for
  *    its request; the caller decides whether it is stale).
+ *  - `priority: 'background'`: such a request starts only when no other request is queued (one already
+ *    running is never interrupted), so that re-checks do not delay what a person waits for.
  *  - `signal`: abort a queued request → it is dropped; abort the running one → the worker is terminated
  *    and started again (`handle` is synchronous and cannot be interrupted otherwise); answered 'cancelled'.
  *  - A worker that dies (an error event, out of memory) answers its running request with
@@ -158,7 +160,10 @@ export class EngineClient implements EngineLike {
 
   private pump(): void {
     if (this.running || this.disposed) return;
-    const job = this.queue.shift();
+    // Requests in order, except that background ones wait until nothing else does.
+    let k = this.queue.findIndex((j) => j.options.priority !== 'background');
+    if (k < 0) k = 0;
+    const job = this.queue.splice(k, 1)[0];
     if (!job) return;
     this.running = job;
     const gen = this.generation;

@@ -20,6 +20,8 @@ export interface ComputeOptions {
   signal?: AbortSignal;
   /** Latest wins: a queued request with the same key is dropped (answered 'cancelled') when a newer one arrives. */
   key?: string;
+  /** 'background': started only when no other request waits (a re-check, a prefetch); default 'normal'. */
+  priority?: 'normal' | 'background';
 }
 
 export interface EngineLike {

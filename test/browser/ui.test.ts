@@ -251,6 +251,22 @@ if (!haveChromium && inCI) {
       assert.equal(r[2].value, 1);
     });
 
+    it('background requests (the re-checks) wait until nothing else is queued; a running one is not interrupted', async () => {
+      const order = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const st = await rs.engine.compute({ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2, 2, 4], seed: 8 });
+        const done: string[] = [];
+        const busy = rs.engine.compute({ op: 'fidelity-of-recovery', rho: st.value, a: [0], b: [1], c: [2], deadline: 300 }).then(() => done.push('busy'));
+        const h = (p: number) => ({ op: 'entropy', rho: { matrix: [[p, 0], [0, 1 - p]] } });
+        const a = rs.engine.compute(h(0.1), { priority: 'background' }).then(() => done.push('background'));
+        const b = rs.engine.compute(h(0.2)).then(() => done.push('normal 1'));
+        const c = rs.engine.compute(h(0.3)).then(() => done.push('normal 2'));
+        await Promise.all([busy, a, b, c]);
+        return done;
+      });
+      assert.deepEqual(order, ['busy', 'normal 1', 'normal 2', 'background']);
+    });
+
     it('an SDP answer shown is re-checked from its own points (verify-answer), with the verdict Node gives for the same answer', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;
