@@ -48,6 +48,19 @@ function watchEditors(who: Listener, model: WidgetModel, fields: readonly string
   return watched;
 }
 
+/** `fn` run once at the end of the current task however often the returned function is called in it. */
+function oncePerTask(fn: () => void): () => void {
+  let pending = false;
+  return () => {
+    if (pending) return;
+    pending = true;
+    queueMicrotask(() => {
+      pending = false;
+      fn();
+    });
+  };
+}
+
 export function fieldsOf(model: WidgetModel): Fields {
   return { ...(model.attributes as Fields) };
 }
@@ -63,14 +76,15 @@ export abstract class CalculatorModel extends DOMWidgetModel {
   declare computing: boolean;
   private declare seq: number;
   private declare watched: WidgetModel[];
-  private declare pending: boolean;
+  /** Coalesces the changes of one task (Python sets several fields at once) into one request. */
+  private declare schedule: () => void;
 
   override initialize(attributes: Parameters<DOMWidgetModel['initialize']>[0], options: Parameters<DOMWidgetModel['initialize']>[1]): void {
     super.initialize(attributes, options);
     this.seq = 0;
     this.computing = false;
     this.watched = [];
-    this.pending = false;
+    this.schedule = oncePerTask(() => this.compute(false));
     this.on('change', () => {
       const changed = Object.keys(this.changedAttributes() || {});
       if (changed.some((k) => !OUTPUT_FIELDS.has(k))) {
@@ -91,15 +105,6 @@ export abstract class CalculatorModel extends DOMWidgetModel {
     this.watched = watchEditors(this, this, MODELS[this.modelName].references, this.watched, () => this.schedule());
   }
 
-  /** Coalesces the changes of one task (Python sets several fields at once) into one request. */
-  private schedule(): void {
-    if (this.pending) return;
-    this.pending = true;
-    queueMicrotask(() => {
-      this.pending = false;
-      this.compute(false);
-    });
-  }
 
   compute(force: boolean): void {
     if (!force && this.get('auto') === false) return;
@@ -167,7 +172,6 @@ export abstract class CalculatorView extends DOMWidgetView {
   private kernelLine!: HTMLElement;
   private watched: WidgetModel[] = [];
   private writing = false;
-  private pending = false;
   private unsubscribe: (() => void)[] = [];
 
   override render(): void {
@@ -216,15 +220,10 @@ export abstract class CalculatorView extends DOMWidgetView {
   }
 
   /** One update of the calculator per task (Python sets several fields at once). */
-  private schedule(): void {
-    if (this.pending) return;
-    this.pending = true;
-    queueMicrotask(() => {
-      this.pending = false;
-      const f = fieldsOf(this.model);
-      this.calc?.update({ inputs: this.inputsOf(f), value: this.settingsOf(f) });
-    });
-  }
+  private schedule = oncePerTask(() => {
+    const f = fieldsOf(this.model);
+    this.calc?.update({ inputs: this.inputsOf(f), value: this.settingsOf(f) });
+  });
 
   private showKernel(): void {
     const computing = (this.model as unknown as { computing?: boolean }).computing === true;
