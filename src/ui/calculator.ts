@@ -6,8 +6,9 @@
  * the engine's error in place of the number; nothing is computed in the page.
  *
  * Events: `change` (the person changed a setting; the new `value`), `result` ({ name, request, answer },
- * once per answer). A long solve shows its progress and a Stop button, which aborts it (the worker is
- * restarted; docs/surfaces.md).
+ * once per answer). A long solve (and each certificate's re-check) is asked with `long: true`, so the
+ * engine client runs it on its long lane, beside other calculators' quick requests; it shows its progress
+ * and a Stop button, which aborts it (the long lane's worker is restarted; docs/surfaces.md).
  *
  * Deliberately not here: numerics, and knowledge of any one quantity (the subclasses).
  * Cost: the requests' (in the worker); rendering is a few elements per answer.
@@ -153,7 +154,7 @@ export abstract class Calculator<I extends object, V extends object> {
       if (!box) continue;
       const slot = box.querySelector<HTMLElement>('.rs-verdict')!;
       slot.textContent = ' · re-checking…';
-      checks.push(this.engine.compute({ op: 'verify-answer', request: req.request, answer }, { key: `${this.id}:verify:${req.name}`, priority: 'background' }).then((v) => {
+      checks.push(this.engine.compute({ op: 'verify-answer', request: req.request, answer }, { key: `${this.id}:verify:${req.name}`, priority: 'background', long: true }).then((v) => {
         if (this.disposed || seq !== this.seq) return;
         if (!v.ok && v.error.code === 'cancelled') return;
         const { text, ok } = verdictText(v);
@@ -175,8 +176,8 @@ export abstract class Calculator<I extends object, V extends object> {
     }
     const long = built.some((r) => r.long);
     // Superseded requests still queued are dropped by their key; one already running finishes and its
-    // answer is ignored. It is not stopped: stopping means restarting the worker, whose cold start
-    // (load and compile) costs every component on the page more than a small solve does. The Stop
+    // answer is ignored. It is not stopped: stopping means restarting its lane's worker, whose cold start
+    // (load and compile) costs the other solves on that lane more than a small solve does. The Stop
     // button stops the current round on purpose.
     const abort = new AbortController();
     this.abort = abort;
@@ -189,7 +190,7 @@ export abstract class Calculator<I extends object, V extends object> {
       this.status.textContent = `Computing ${p.what}: ${(p.elapsedMs / 1000).toFixed(1)} s${it}${gap}`;
     };
     const round = built.map((req) =>
-      this.engine.compute(req.request, { key: `${this.id}:${req.name}`, signal: abort.signal, onProgress: req.long ? onProgress : undefined })
+      this.engine.compute(req.request, { key: `${this.id}:${req.name}`, signal: abort.signal, long: req.long, onProgress: req.long ? onProgress : undefined })
         .then((answer) => ({ req, answer })));
     this.computed = Promise.all(round).then((answers) => {
       if (this.disposed || seq !== this.seq) return;

@@ -16,7 +16,7 @@ import { DOMWidgetModel, DOMWidgetView, type WidgetModel } from '@jupyter-widget
 import { answerText, type AnswerData } from './answer-card.js';
 import { pageEngine } from './engine.js';
 import { MODELS, type ModelName } from './schema.js';
-import { stateOf, type Fields, type Request } from './requests.js';
+import { mayRunLong, stateOf, type Fields, type Request } from './requests.js';
 import { stateFieldsOf } from './references.js';
 import type { EngineLike } from '../worker/types.js';
 
@@ -128,7 +128,7 @@ export abstract class CalculatorModel extends DOMWidgetModel {
     this.computing = true;
     this.trigger('rs:computing');
     void pageEngine()
-      .compute(request, { key: `calculator:${this.model_id}` })
+      .compute(request, { key: `calculator:${this.model_id}`, long: mayRunLong(request) })
       .then((answer) => {
         if (seq !== this.seq) return; // a newer request is on its way
         this.computing = false;

@@ -60,6 +60,7 @@ export class SharedRequests implements EngineLike {
       key: options.key,
       signal: stop.signal,
       priority: options.priority,
+      long: options.long,
       get onProgress() {
         return flight.listeners.size ? fanOut : undefined;
       },

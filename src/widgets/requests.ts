@@ -55,3 +55,19 @@ export function oneShotRequest(f: Fields, rho: Fields, sigma: Fields | null): Re
   }
   return { op: q, rho: stateOf(rho), a: f.a, b: f.b, base: f.base };
 }
+
+/** Ops (and divergence families) that solve an SDP or an optimisation, as the src/ui calculators mark theirs `long`. */
+const LONG_OPS = new Set([
+  'fidelity-of-recovery', 'guessing-probability', 'guesswork', 'success-within-guesses',
+  'conditional-min-entropy', 'conditional-max-entropy', 'smooth-max-divergence', 'max-information',
+]);
+const LONG_FAMILIES = new Set(['measured', 'hypothesis-testing']);
+
+/**
+ * Whether a calculator's request may run long: the page's engine client then runs it on its long lane
+ * (src/worker/client.ts), beside the quick requests of other calculators, and a view asking the same
+ * request joins it there (SharedRequests).
+ */
+export function mayRunLong(r: Request): boolean {
+  return LONG_OPS.has(r.op) || (r.op === 'divergence' && LONG_FAMILIES.has(String(r.family)));
+}

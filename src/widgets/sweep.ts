@@ -93,7 +93,7 @@ export class SweepModel extends DOMWidgetModel {
     // `id` (echoed, a common field) keeps this model's requests its own: the page's engine shares identical
     // requests in flight (engine.ts), and a Cancel of another sweep of the same spec must not stop this one.
     const request = { op: 'sweep-points', spec, deadline: SWEEP_DEADLINE_MS, id: `sweep:${this.model_id}`, ...body };
-    const answer = (await pageEngine().compute(request, { signal })) as Answer & Record<string, any>;
+    const answer = (await pageEngine().compute(request, { signal, long: true })) as Answer & Record<string, any>;
     if (!answer.ok) {
       const error = (answer as { error: Refusal }).error;
       throw signal.aborted || error.code === 'cancelled' ? new Stopped('cancelled') : new Stopped('error', error);

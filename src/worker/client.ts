@@ -3,7 +3,12 @@
  * implements `EngineLike`: `compute(request, { onProgress, signal, key })` resolves with the protocol
  * answer, never rejects. One client (one worker) per page, shared by every component on it.
  *
- * Requests go to the worker one at a time, in order, so that the client can keep its own queue:
+ * Two lanes, each a worker of its own with its own queue: requests asked with `long: true` (SDPs,
+ * optimisations, re-checks of certificates) go to the long lane, whose worker starts on the first of them;
+ * everything else to the quick lane. So a calculator's small requests after an edit are not held behind a
+ * solve another component started (the page's two cores run both), and stopping a solve restarts only the
+ * long lane. Within a lane, requests go to its worker one at a time, in order, so that the client keeps
+ * its own queue:
  *  - `key`: latest wins. A queued request with the same key as a newer one is dropped and answered
  *    {ok:false, error:{code:'cancelled'}}; the running one finishes (its answer is still the truth for
  *    its request; the caller decides whether it is stale).
@@ -18,7 +23,8 @@
  * Comlink carries the calls and the progress callback (a comlink proxy).
  *
  * Deliberately not here: any numerics (the worker's), and any caching of answers.
- * Cost: one structured clone of each request and answer; a restart costs the worker's load (~100 ms).
+ * Cost: one structured clone of each request and answer; a restart costs the worker's load (~100 ms); the
+ * long lane, once started, a second engine's memory (its heap and WebAssembly memory) and warm-up.
  */
 import { proxy, releaseProxy, wrap, type Remote } from 'comlink';
 import type { Answer, ComputeOptions, EngineLike, Progress, WorkerApi } from './types.js';
@@ -55,7 +61,8 @@ function failure(request: object, code: 'cancelled' | 'internal-error', message:
 /** Worker deaths in a row (no answer between them) after which the client stops restarting it. */
 export const MAX_CRASHES = 3;
 
-export class EngineClient implements EngineLike {
+/** One worker and its queue: the client's quick lane, or its long lane (see the header). */
+class Lane {
   private worker!: Worker;
   private remote!: Remote<WorkerApi>;
   private queue: Job[] = [];
@@ -111,7 +118,6 @@ export class EngineClient implements EngineLike {
     if (!this.disposed) this.start();
   }
 
-  /** Resolves once the worker answers; with the eigensolver's path (WebAssembly kernels or not). */
   ready(): Promise<{ eigh: { active: boolean; reason: string } }> {
     return this.remote.ready();
   }
@@ -196,5 +202,57 @@ export class EngineClient implements EngineLike {
     for (const job of pending) {
       this.finish(job, reason ? failure(job.request, 'internal-error', reason) : failure(job.request, 'cancelled', 'The engine client has been disposed.'));
     }
+  }
+}
+
+/**
+ * The client: a quick lane (its worker starts with the client) and a long lane, whose worker starts on
+ * the first request asked with `long: true` (an SDP, an optimisation, a re-check). Each lane keeps the
+ * rules above on its own queue; the two run side by side, so an edit's small requests are answered while
+ * a solve runs, and stopping a solve restarts only the long lane's worker.
+ */
+export class EngineClient implements EngineLike {
+  private readonly quick: Lane;
+  private slow: Lane | null = null;
+  private disposed = false;
+
+  constructor(private readonly options: EngineClientOptions = {}) {
+    this.quick = new Lane(options);
+  }
+
+  private lanes(): Lane[] {
+    return this.slow ? [this.quick, this.slow] : [this.quick];
+  }
+
+  /** Workers started over both lanes (1 + restarts, + the long lane's); for tests and diagnostics. */
+  get starts(): number {
+    return this.lanes().reduce((n, l) => n + l.starts, 0);
+  }
+
+  /** Workers started by each lane (the long lane's 0 until its first request). */
+  get laneStarts(): { quick: number; long: number } {
+    return { quick: this.quick.starts, long: this.slow?.starts ?? 0 };
+  }
+
+  /** Why the client gave up on a worker (either lane), or null. */
+  get broken(): string | null {
+    return this.quick.broken ?? this.slow?.broken ?? null;
+  }
+
+  /** Resolves once the quick lane's worker answers; with the eigensolver's path (WebAssembly kernels or not). */
+  ready(): Promise<{ eigh: { active: boolean; reason: string } }> {
+    return this.quick.ready();
+  }
+
+  compute(request: object, options: ComputeOptions = {}): Promise<Answer> {
+    if (!options.long || this.disposed) return this.quick.compute(request, options);
+    this.slow ??= new Lane(this.options);
+    return this.slow.compute(request, options);
+  }
+
+  /** Stops both lanes' workers; every queued or running request is answered 'cancelled' (see Lane.dispose). */
+  dispose(reason?: string): void {
+    this.disposed = true;
+    for (const lane of this.lanes()) lane.dispose(reason);
   }
 }

@@ -22,6 +22,11 @@ export interface ComputeOptions {
   key?: string;
   /** 'background': started only when no other request waits (a re-check, a prefetch); default 'normal'. */
   priority?: 'normal' | 'background';
+  /**
+   * May run long (an SDP, an optimisation, a certificate's re-check): the client runs it on its long lane,
+   * a second worker, so that quick requests are not held behind it (src/worker/client.ts). Default false.
+   */
+  long?: boolean;
 }
 
 export interface EngineLike {

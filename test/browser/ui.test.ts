@@ -236,6 +236,36 @@ if (!haveChromium && inCI) {
       assert.ok(r.starts >= 2);
     });
 
+    it('a request asked as long runs on the second lane: quick requests asked after it are answered while it runs, and stopping it restarts only that lane', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const st = await rs.engine.compute({ op: 'random-state', ensemble: 'hilbert-schmidt', dims: [2, 2, 4], seed: 12 });
+        const before = rs.engine.laneStarts;
+        const done: string[] = [];
+        const stop = new AbortController();
+        let reported: () => void = () => {};
+        const running = new Promise<void>((res) => (reported = res));
+        const solve = rs.engine.compute(
+          { op: 'fidelity-of-recovery', rho: st.value, a: [0], b: [1], c: [2] },
+          { long: true, signal: stop.signal, onProgress: () => reported() },
+        ).then((a: any) => { done.push('solve'); return a; });
+        await Promise.race([running, new Promise((res) => setTimeout(res, 10000))]);
+        const quick = await rs.engine.compute({ op: 'entropy', rho: { matrix: [[0.5, 0], [0, 0.5]] } });
+        done.push('quick');
+        stop.abort();
+        const stopped = await solve;
+        const after = await rs.engine.compute({ op: 'entropy', rho: { matrix: [[0.5, 0], [0, 0.5]] } }, { long: true });
+        return { done, quick, stopped, after, before, lanes: rs.engine.laneStarts };
+      });
+      assert.deepEqual(r.done, ['quick', 'solve']);
+      assert.equal(r.quick.value, 1); // H(1/2, 1/2) = 1 bit (textbook)
+      assert.equal(r.stopped.error?.code, 'cancelled');
+      assert.equal(r.after.value, 1);
+      // The quick lane's worker was not restarted by the stop; the long lane's was (once more than before the stop).
+      assert.equal(r.lanes.quick, r.before.quick);
+      assert.equal(r.lanes.long, Math.max(1, r.before.long) + 1);
+    });
+
     it('latest wins: queued requests with the same key are answered cancelled, the newest is computed', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;
@@ -322,9 +352,11 @@ if (!haveChromium && inCI) {
         const [, f, j, n] = await Promise.all([busy, first, joiner, newer]);
         // 3. Stop from one asker stops the shared solve: both are answered 'cancelled'.
         const stop = new AbortController();
-        const a = shared.compute(fr, { signal: stop.signal, key: 'view' });
+        // Stopped at its first progress report (the solve is then surely running; a fixed delay let an idle
+        // worker finish it first), or after 5 s.
+        const a = shared.compute(fr, { signal: stop.signal, key: 'view', onProgress: () => stop.abort() });
         const b = shared.compute(fr, { key: 'model' });
-        setTimeout(() => stop.abort(), 300);
+        setTimeout(() => stop.abort(), 5000);
         const [sa, sb] = await Promise.all([a, b]);
         return { x, y, afterPair, f, j, n, sa, sb };
       });

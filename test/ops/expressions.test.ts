@@ -25,6 +25,29 @@ function refuses(text: string, path = 'rho.matrix[0][1]'): RhoError {
 }
 
 describe('restricted expression reader', () => {
+  it('reads a plain decimal literal (the quick path, no parse) as the same double as mathjs\'s parser does for the same literal in parentheses', () => {
+    const digits = fc.stringMatching(/^[0-9]{1,17}$/);
+    const literal = fc.tuple(fc.constantFrom('', '-', '+'), digits, fc.option(fc.stringMatching(/^[0-9]{0,12}$/)), fc.option(fc.integer({ min: -330, max: 330 })))
+      .map(([sign, int, frac, exp]) => `${sign}${int}${frac === null ? '' : `.${frac}`}${exp === null ? '' : `e${exp}`}`);
+    const outcome = (t: string) => {
+      try {
+        return readExpression(t, 'x');
+      } catch (err) {
+        return (err as RhoError).code; // overflow to ±Infinity: refused both ways
+      }
+    };
+    fc.assert(fc.property(literal, (t) => {
+      const quick = outcome(t);
+      assert.deepEqual(quick, outcome(`(${t})`), t);
+      if (typeof quick === 'object') assert.ok(!Object.is(quick.re, -0), t);
+    }), { numRuns: 300 });
+    for (const t of ['.5', '-.25e1', '0', '-0', '+0.0', '1e308', '5e-324', '0.1', '123456789012345678901234567890']) {
+      assert.deepEqual(readExpression(t, 'x'), readExpression(`(${t})`, 'x'), t);
+    }
+    // Overflow is still refused with the parser's error, not read as Infinity.
+    refuses('1e400');
+  });
+
   it('gives sqrt(-1) = i, the principal square root (textbook)', () => {
     assert.ok(close(readExpression('sqrt(-1)', 'x'), { re: 0, im: 1 }));
   });
