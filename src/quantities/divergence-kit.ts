@@ -48,6 +48,8 @@ export interface PairAnalysis {
   tolerance: number;
   /** Trace of ρ before normalisation. */
   traceRho: number;
+  /** Tr σ as the sum of σ's diagonal (the given matrix's trace up to the rounding of one sum). */
+  traceSigma: number;
   /** U₁* V: ρ's support eigenvectors (rows, in the order of rho.support) against all of σ's. */
   cross: CMatrix;
 }
@@ -94,8 +96,15 @@ export function analysePair(rho: CMatrix, sigma: CMatrix, tol = DEFAULT_SUPPORT_
     orthogonal: inside <= tol,
     tolerance: tol,
     traceRho,
+    traceSigma: diagonalSum(sigma),
     cross: C,
   };
+}
+
+function diagonalSum(m: CMatrix): number {
+  let t = 0;
+  for (let i = 0; i < m.rows; i++) t += m.re[i * m.cols + i];
+  return t;
 }
 
 /** ln Σ_k w_k e^{x_k} for positive weights, without overflow. */

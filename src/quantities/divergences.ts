@@ -134,10 +134,16 @@ function infinite(r: DivergenceResult, reason: string): DivergenceResult {
   return r;
 }
 
+/** Values below this many nats in magnitude are reported with a note that they are 0 within rounding. */
+const ROUNDING_LEVEL = 1e-13;
+
 function finite(r: DivergenceResult, nats: number, lb: number): DivergenceResult {
   if (Number.isNaN(nats)) throw new RhoError('internal-error', `The ${r.family} divergence evaluated to NaN.`);
-  r.value = nats / lb;
+  r.value = nats / lb + 0; // + 0: no signed zero (−log 1 = −0)
   if (r.value === Infinity) r.reason = 'the value overflows double precision';
+  if (nats !== 0 && Math.abs(nats) <= ROUNDING_LEVEL) {
+    addNote(r, `|D| = ${Math.abs(nats).toExponential(1)} nats is at the level of double precision's rounding errors (below ${ROUNDING_LEVEL} nats): it is 0 within rounding, and its sign carries no information.`);
+  }
   return r;
 }
 
@@ -184,7 +190,13 @@ function minFromPair(p: PairAnalysis, options: DivergenceOptions, lb: number): D
   const r = base0('min', p, options);
   if (p.orthogonal) return infinite(r, ORTHOGONAL(p));
   let q = 0;
-  for (let a = 0; a < p.r.length; a++) for (let b = 0; b < p.s.length; b++) q += p.overlap[a][b] * p.s[b];
+  if (p.rho.support.length === p.cross.cols) {
+    // ρ of full rank: Π_ρ = 1, so Tr Π_ρ σ = Tr σ, read from σ's diagonal rather than summed over two
+    // eigenbases (whose rounding made D_min of full-rank states −6e-16 instead of 0 for Tr σ = 1).
+    q = p.traceSigma;
+  } else {
+    for (let a = 0; a < p.r.length; a++) for (let b = 0; b < p.s.length; b++) q += p.overlap[a][b] * p.s[b];
+  }
   r.projectedTrace = q;
   return finite(r, -Math.log(q), lb);
 }

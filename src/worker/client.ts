@@ -1,7 +1,7 @@
 /**
  * `EngineClient`: the page's side of the engine worker (docs/surfaces.md, "The engine client"). It
  * implements `EngineLike`: `compute(request, { onProgress, signal, key })` resolves with the protocol
- * answer, never rejects. One client (one worker) per page, shared by every component on it.
+ * answer, never rejects. One client per page, shared by every component on it.
  *
  * Two lanes, each a worker of its own with its own queue: requests asked with `long: true` (SDPs,
  * optimisations, re-checks of certificates) go to the long lane, whose worker starts on the first of them;

@@ -140,6 +140,25 @@ describe('properties of quantum divergences', () => {
     }
   });
 
+  it('D_min(ρ‖σ) = −log Tr σ exactly when ρ has full rank (Π_ρ = 1; Datta 2009), so 0 for σ of trace exactly 1; a value at rounding level carries a note saying so (common practice)', () => {
+    for (const { rho, sigma } of pairs(47, 6)) {
+      let t = 0;
+      for (let i = 0; i < sigma.rows; i++) t += sigma.re[i * sigma.cols + i];
+      const d = divergence('min', rho, sigma);
+      const ref = -Math.log2(t) + 0;
+      assert.ok(Math.abs(d.value - ref) <= 4 * Number.EPSILON * Math.abs(ref), `Tr σ = ${t}: ${d.value} vs ${ref}`);
+      const unit = divergence('min', rho, diagonal(Array.from({ length: rho.rows }, () => 1 / 2 ** Math.ceil(Math.log2(rho.rows))).map((x, i, a) => (i === 0 ? 1 - x * (a.length - 1) : x))));
+      assert.equal(unit.value, 0);
+    }
+    // D_max(ρ‖ρ) = 0 in exact arithmetic (Datta 2009); in floating point it lands within rounding of 0, and
+    // a nonzero value there is reported with the note.
+    for (const { rho } of pairs(53, 6)) {
+      const d = divergence('max', rho, rho);
+      assert.ok(Math.abs(d.value) < 1e-12, String(d.value));
+      assert.equal(d.value !== 0, (d.notes ?? []).some((n) => /0 within rounding/.test(n)), `${d.value} ${JSON.stringify(d.notes)}`);
+    }
+  });
+
   it('an unnormalised σ shifts every divergence by −log Tr σ (scaling of the definitions; common practice, no published source)', () => {
     for (const { rho, sigma } of pairs(43, 4)) {
       const c = 3.7;
