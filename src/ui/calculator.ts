@@ -280,6 +280,9 @@ export function resultCard(
   const conv = conventions(a);
   if (conv.length) card.append(el('div', { class: 'rs-card__conventions' }, [conv.join(' · ')]));
   if (a.reason) card.append(el('div', { class: 'rs-note' }, [String(a.reason)]));
+  // The engine's own caveats (a value at rounding level, a support decision, a solver's warning): shown, never dropped.
+  const notes = [...(Array.isArray(a.notes) ? a.notes : []), ...(typeof a.warning === 'string' ? [a.warning] : [])];
+  for (const n of notes) card.append(el('div', { class: 'rs-note rs-note--engine' }, [String(n)]));
   for (const x of extra?.(a) ?? []) if (x) card.append(x);
   return card;
 }

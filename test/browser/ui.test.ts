@@ -236,6 +236,27 @@ if (!haveChromium && inCI) {
       assert.ok(r.starts >= 2);
     });
 
+    it("shows the engine's notes on a result card: D_max(ρ‖ρ), 0 in exact arithmetic (Datta 2009), lands at rounding level with the note saying so", async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const rho = { matrix: [[0.4, 0.1, 0, 0.05], [0.1, 0.2, 0, 0], [0, 0, 0.2, 0], [0.05, 0, 0, 0.2]], dims: [2, 2] };
+        const before = rs.divergence.value;
+        rs.divergence.inputs = { rho, sigma: rho };
+        rs.divergence.value = { ...before, family: 'max' };
+        await rs.divergence.computed;
+        const answer = rs.divergence.results.divergence.answer;
+        const shown = [...document.querySelectorAll('#divergence .rs-card .rs-note--engine')].map((x) => x.textContent);
+        rs.divergence.value = before;
+        rs.divergence.inputs = { rho: rs.rho.value, sigma: rs.sigma.value };
+        await rs.divergence.computed;
+        return { answer, shown };
+      });
+      assert.equal(r.answer.ok, true);
+      assert.ok(Math.abs(r.answer.value) < 1e-12, String(r.answer.value));
+      assert.deepEqual(r.shown, r.answer.notes ?? []);
+      assert.equal(r.answer.value !== 0, r.shown.some((t: string) => /0 within rounding/.test(t)));
+    });
+
     it('a request asked as long runs on the second lane: quick requests asked after it are answered while it runs, and stopping it restarts only that lane', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;
