@@ -70,29 +70,35 @@ export function expressionReaderLoaded(): boolean {
  * expression string, or answer through `handleAsync`, which does it when a request needs it.
  */
 export async function loadExpressionReader(): Promise<void> {
-  if (parse) return;
-  // Each webpack build decides where mathjs goes: the wheel's engine, the browser worker and the
-  // labextension keep it in their one file (a rule with dynamicImportMode "eager" for this module), the
-  // wiki embed's worker loads it as a chunk beside it (rhosigma-embed-expressions.js) on first need;
-  // esbuild's command bundle leaves it outside (a real import).
-  adopt(await import(/* webpackChunkName: "expressions" */ 'mathjs/lib/browser/math.js'));
+  if (parse || requireInNode()) return;
+  // Each webpack build decides where its mathjs parser (./mathjs-parser.ts: the parser and complex numbers
+  // only) goes: the wheel's engine, the browser worker and the labextension keep it in their one file (a
+  // rule with dynamicImportMode "eager" for this module), the wiki embed's worker loads it as a chunk beside
+  // it (rhosigma-embed-expressions.js) on first need.
+  adopt(await import(/* webpackChunkName: "expressions" */ './mathjs-parser.js'));
 }
 
-function reader(): (text: string) => unknown {
-  if (parse) return parse;
-  // Node: load it synchronously through a CommonJS require (the bundle is UMD). process.getBuiltinModule
-  // is a property lookup, not an import, so browser bundles carry no Node built-in for it.
+/**
+ * Node with mathjs beside us (the checkout, the command's bundle): load its single-file bundle synchronously
+ * through a CommonJS require (the bundle is UMD). process.getBuiltinModule is a property lookup, not an
+ * import, so browser bundles carry no Node built-in for it. False where it cannot (a browser, a bundle run
+ * outside the checkout).
+ */
+function requireInNode(): boolean {
   const nodeModule = (globalThis as { process?: { getBuiltinModule?: (id: string) => unknown } }).process?.getBuiltinModule?.('node:module') as
     | { createRequire(from: string): (id: string) => unknown }
     | undefined;
-  if (nodeModule) {
-    try {
-      adopt(nodeModule.createRequire(import.meta.url)(MATHJS_BUNDLE));
-      return parse!;
-    } catch {
-      // Not beside us (a bundle run outside the checkout): only loadExpressionReader can load it.
-    }
+  if (!nodeModule) return false;
+  try {
+    adopt(nodeModule.createRequire(import.meta.url)(MATHJS_BUNDLE));
+    return true;
+  } catch {
+    return false;
   }
+}
+
+function reader(): (text: string) => unknown {
+  if (parse || requireInNode()) return parse!;
   throw new RhoError(
     'internal-error',
     'The expression reader is not loaded here; the engine must call loadExpressionReader() (or warmUp(), or answer through handleAsync) before reading expression strings.',
