@@ -2,8 +2,12 @@
  * The components in Chromium (issue 8's speed goals), on the test page of test/browser/ui-page with the
  * real engine worker:
  *  1. an edit of a two-qubit state (one entry typed, an `input` event) until the divergence calculator
- *     shows every family's value again (its `computed` promise; the curve is timed apart): median against
- *     one 16 ms frame, beside the worker's bare round trip for a 2×2 entropy measured in the same run;
+ *     shows every family's value again (its `computed` promise; the curve is timed apart): the time until
+ *     the answers are in the DOM, against one 16 ms frame and beside the worker's bare round trip for a
+ *     2×2 entropy measured in the same run; and in how many edits they are shown in the first frame after
+ *     the edit (the frame that an answer taking no time at all would be shown in: the goal "shown within
+ *     one frame"). Edits come at every phase of the display's frames (pauses of 20 + (7k mod 17) ms),
+ *     since a bench whose edits start right after a frame measures a whole frame period whatever the answer;
  *  2. during a solve of about ten seconds in the worker (fidelity-of-recovery SDPs one after another),
  *     with an entry typed every 100 ms, the main thread's long tasks (PerformanceObserver 'longtask',
  *     over 50 ms): their count and the longest.
@@ -48,19 +52,30 @@ export default async function main(): Promise<void> {
       }
       const alone: number[] = [];
       const answered: number[] = [];
+      const firstFrame: number[] = [];
+      const inFirst = { edit: 0, alone: 0 };
       for (const solo of [false, true]) {
         rs.wiring.oneShot = !solo;
         for (let k = 0; k < 30; k++) {
+          // Edits at every phase of the display's frames (a person's keystrokes are not locked to them):
+          // a pause of 20 + (7k mod 17) ms after the previous edit's curve was drawn.
+          await new Promise((res) => setTimeout(res, 20 + ((7 * k) % 17)));
           // Two entries that keep the trace 1: ρ₀₀ = 0.4 ± δ, ρ₁₁ = 0.2 ∓ δ.
           const d = k % 2 ? 0.01 : 0;
           input.value = String(0.4 + d);
           other.value = String(0.2 - d);
           const t0 = performance.now();
+          // The first frame after the edit: where an answer that took no time at all would be shown.
+          let first = { stamp: -1, at: 0 };
+          requestAnimationFrame((stamp) => (first = { stamp, at: performance.now() - t0 }));
           other.dispatchEvent(new Event('input'));
           await rs.divergence.computed;
           if (!solo) answered.push(performance.now() - t0);
-          await new Promise(requestAnimationFrame);
+          // The frame that shows the answers; the same frame as `first` when they were in the DOM before it.
+          const stamp = await new Promise<number>(requestAnimationFrame);
           (solo ? alone : edit).push(performance.now() - t0);
+          if (stamp === first.stamp) inFirst[solo ? 'alone' : 'edit']++;
+          if (!solo) firstFrame.push(first.at);
           await rs.divergence.drawn;
           if (!solo) curve.push(performance.now() - t0);
         }
@@ -87,12 +102,13 @@ export default async function main(): Promise<void> {
       const span = performance.now() - t0;
       await new Promise((res) => setTimeout(res, 200));
       obs.disconnect();
-      return { edit: median(edit), answered: median(answered), alone: median(alone), curve: median(curve), trip: median(trip), long, window: span, solves };
+      return { edit: median(edit), answered: median(answered), alone: median(alone), curve: median(curve), trip: median(trip), firstFrame: median(firstFrame), inFirst, long, window: span, solves };
     });
     console.log(`round trip to the worker (2×2 entropy): median ${r.trip.toFixed(2)} ms`);
-    console.log(`edit of a two-qubit ρ → all 7 divergence families shown: median ${r.edit.toFixed(2)} ms (${(r.edit / 16).toFixed(2)} frames of 16 ms; ${(r.edit / r.trip).toFixed(1)}× the round trip)`);
-    console.log(`  of which until the answers are in the page's DOM (before the next frame is painted): median ${r.answered.toFixed(2)} ms`);
-    console.log(`the same with the page's one-shot calculator left out of the edits (no SDP per edit in the shared worker): median ${r.alone.toFixed(2)} ms (${(r.alone / 16).toFixed(2)} frames)`);
+    console.log(`edit of a two-qubit ρ → all 7 divergence families in the page's DOM: median ${r.answered.toFixed(2)} ms (${(r.answered / 16).toFixed(2)} of a 16 ms frame; ${(r.answered / r.trip).toFixed(1)}× the round trip)`);
+    console.log(`  shown in the first frame after the edit (the frame an instantaneous answer would be shown in): ${r.inFirst.edit} of 30 edits (goal: the median edit, i.e. ≥ 15)`);
+    console.log(`  edit → the frame that shows them: median ${r.edit.toFixed(2)} ms; edit → the first frame after it: median ${r.firstFrame.toFixed(2)} ms (the reference: no answer can be shown earlier)`);
+    console.log(`the same with the page's one-shot calculator left out of the edits (no SDP per edit): shown in the first frame ${r.inFirst.alone} of 30 edits; edit → shown median ${r.alone.toFixed(2)} ms`);
     console.log(`edit → the curve over α (20 points) drawn: median ${r.curve.toFixed(2)} ms`);
     console.log(`during ${(r.window / 1000).toFixed(1)} s of solves (${r.solves} fidelity-of-recovery SDPs) with an entry typed every 100 ms: ${r.long.length} main-thread tasks over 50 ms${r.long.length ? `, longest ${Math.max(...r.long).toFixed(0)} ms` : ''}`);
   } finally {

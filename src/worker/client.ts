@@ -7,8 +7,9 @@
  * optimisations, re-checks of certificates) go to the long lane, whose worker starts on the first of them;
  * everything else to the quick lane. So a calculator's small requests after an edit are not held behind a
  * solve another component started (the page's two cores run both), and stopping a solve restarts only the
- * long lane. Within a lane, requests go to its worker one at a time, in order, so that the client keeps
- * its own queue:
+ * long lane. Within a lane, requests go to its worker in order, one at a time or, when several small ones
+ * wait (an edit's divergences, a curve's points), as one batch in one message (see Lane.pump), so that
+ * the client keeps its own queue:
  *  - `key`: latest wins. A queued request with the same key as a newer one is dropped and answered
  *    {ok:false, error:{code:'cancelled'}}; the running one finishes (its answer is still the truth for
  *    its request; the caller decides whether it is stale).
@@ -43,6 +44,8 @@ interface Job {
   options: ComputeOptions;
   resolve: (a: Answer) => void;
   done: boolean;
+  /** Sent alone, never in a batch (set after a batch could not reach the worker). */
+  solo?: boolean;
   unlisten?: () => void;
 }
 
@@ -58,6 +61,9 @@ function failure(request: object, code: 'cancelled' | 'internal-error', message:
   return a;
 }
 
+/** Most requests sent to a worker in one message (see Lane.pump). */
+const MAX_BATCH = 32;
+
 /** Worker deaths in a row (no answer between them) after which the client stops restarting it. */
 export const MAX_CRASHES = 3;
 
@@ -66,11 +72,15 @@ class Lane {
   private worker!: Worker;
   private remote!: Remote<WorkerApi>;
   private queue: Job[] = [];
-  private running: Job | null = null;
+  /** The jobs the worker is answering: one, or a batch (see pump). */
+  private running: Job[] = [];
   private generation = 0;
   private disposed = false;
   /** Times the worker was started (1 + restarts); for tests and diagnostics. */
   starts = 0;
+  /** Messages sent to the worker (a batch is one); for tests and diagnostics. */
+  messages = 0;
+  private pumpQueued = false;
   /** Worker deaths since the last answer; at MAX_CRASHES the client gives up (`broken`). */
   private crashes = 0;
   /** Why the client gave up on its worker, or null. */
@@ -95,7 +105,7 @@ class Lane {
     this.worker.addEventListener('error', (e) => {
       if (gen !== this.generation) return;
       e.preventDefault?.();
-      const job = this.running;
+      const jobs = this.running;
       this.crashes++;
       const why = e.message || 'unknown error';
       if (this.crashes >= MAX_CRASHES) {
@@ -106,7 +116,7 @@ class Lane {
         return;
       }
       this.restart();
-      if (job) this.finish(job, failure(job.request, 'internal-error', `The engine worker stopped: ${why}; it has been restarted.`));
+      for (const job of jobs) this.finish(job, failure(job.request, 'internal-error', `The engine worker stopped: ${why}; it has been restarted.`));
       this.pump();
     });
   }
@@ -114,7 +124,7 @@ class Lane {
   private restart(): void {
     this.remote[releaseProxy]?.();
     this.worker.terminate();
-    this.running = null;
+    this.running = [];
     if (!this.disposed) this.start();
   }
 
@@ -139,15 +149,35 @@ class Lane {
         job.unlisten = () => options.signal!.removeEventListener('abort', onAbort);
       }
       this.queue.push(job);
+      this.pumpSoon();
+    });
+  }
+
+  /**
+   * Pumps once the current task's synchronous code has asked everything it will (a microtask later), so
+   * that the requests a component asks together (an edit's divergences and state check) leave in one batch.
+   */
+  private pumpSoon(): void {
+    if (this.pumpQueued) return;
+    this.pumpQueued = true;
+    queueMicrotask(() => {
+      this.pumpQueued = false;
       this.pump();
     });
   }
 
   private abort(job: Job): void {
     if (job.done) return;
-    if (this.running === job) {
+    if (this.running.includes(job)) {
+      const others = this.running.filter((j) => j !== job && !j.done);
+      if (others.length) {
+        // One request of a batch: answered now; the worker finishes the batch for the others (quick requests).
+        this.finish(job, failure(job.request, 'cancelled', 'The computation was cancelled; its answer will be ignored.'));
+        return;
+      }
+      const batch = this.running;
       this.restart();
-      this.finish(job, failure(job.request, 'cancelled', 'The computation was cancelled; the engine worker was restarted.'));
+      for (const j of batch) this.finish(j, failure(j.request, 'cancelled', 'The computation was cancelled; the engine worker was restarted.'));
       this.pump();
     } else {
       this.finish(job, failure(job.request, 'cancelled', 'The request was cancelled before it started.'));
@@ -160,34 +190,62 @@ class Lane {
     job.unlisten?.();
     const k = this.queue.indexOf(job);
     if (k >= 0) this.queue.splice(k, 1);
-    if (this.running === job) this.running = null;
     job.resolve(answer);
   }
 
+  /**
+   * Starts the next request, or a batch: the first waiting request in order (background ones only when
+   * nothing else waits) and, when it reports no progress, the requests queued behind it that report none
+   * either, up to MAX_BATCH, in one message (`computeMany`). A calculator's edit asks several small
+   * requests in one task; one message for them all saves a round trip between threads per request (and
+   * the main thread's wait for each reply behind the page's rendering). A request that asks for progress
+   * (a long solve) always goes alone, so that stopping it can restart the worker.
+   */
   private pump(): void {
-    if (this.running || this.disposed) return;
-    // Requests in order, except that background ones wait until nothing else does.
+    if (this.running.length || this.disposed) return;
     let k = this.queue.findIndex((j) => j.options.priority !== 'background');
     if (k < 0) k = 0;
-    const job = this.queue.splice(k, 1)[0];
+    const job = this.queue[k];
     if (!job) return;
-    this.running = job;
+    const batch = [job];
+    if (!job.options.onProgress && !job.solo && job.options.priority !== 'background') {
+      for (let i = k + 1; i < this.queue.length && batch.length < MAX_BATCH; i++) {
+        const next = this.queue[i];
+        if (next.options.priority === 'background') continue;
+        if (next.options.onProgress || next.solo) break;
+        batch.push(next);
+      }
+    }
+    this.queue = this.queue.filter((j) => !batch.includes(j));
+    this.running = batch;
+    this.messages++;
     const gen = this.generation;
-    const onProgress = job.options.onProgress;
-    this.remote.compute(job.request, onProgress ? proxy((p: Progress) => onProgress(p)) : undefined).then(
-      (answer) => {
-        if (gen !== this.generation) return;
-        this.crashes = 0;
-        this.finish(job, answer);
-        this.pump();
-      },
-      (err: unknown) => {
-        if (gen !== this.generation) return;
+    const settle = (answers: Answer[]) => {
+      if (gen !== this.generation) return;
+      this.crashes = 0;
+      this.running = [];
+      batch.forEach((j, i) => this.finish(j, answers[i]));
+      this.pump();
+    };
+    const unreachable = (err: unknown) => {
+      if (gen !== this.generation) return;
+      this.running = [];
+      if (batch.length > 1) {
+        // One of them cannot be cloned to the worker: ask each alone, so that only that one fails.
+        for (const j of batch) j.solo = true;
+        this.queue.unshift(...batch.filter((j) => !j.done));
+      } else {
         // A request that cannot be cloned to the worker (a function, a DOM node inside) lands here.
         this.finish(job, failure(job.request, 'internal-error', `The request could not reach the engine worker: ${err instanceof Error ? err.message : String(err)}`));
-        this.pump();
-      },
-    );
+      }
+      this.pump();
+    };
+    if (batch.length > 1) {
+      this.remote.computeMany(batch.map((j) => j.request)).then(settle, unreachable);
+    } else {
+      const onProgress = job.options.onProgress;
+      this.remote.compute(job.request, onProgress ? proxy((p: Progress) => onProgress(p)) : undefined).then((a) => settle([a]), unreachable);
+    }
   }
 
   /** Stops the worker; every queued or running request is answered 'cancelled' (or, when the client
@@ -195,7 +253,7 @@ class Lane {
   dispose(reason?: string): void {
     if (this.disposed) return;
     this.disposed = true;
-    const pending = [...(this.running ? [this.running] : []), ...this.queue];
+    const pending = [...this.running, ...this.queue];
     this.remote[releaseProxy]?.();
     this.worker.terminate();
     this.generation++;
@@ -227,6 +285,11 @@ export class EngineClient implements EngineLike {
   /** Workers started over both lanes (1 + restarts, + the long lane's); for tests and diagnostics. */
   get starts(): number {
     return this.lanes().reduce((n, l) => n + l.starts, 0);
+  }
+
+  /** Messages sent to the workers of both lanes (a batch of requests is one). */
+  get messages(): number {
+    return this.lanes().reduce((n, l) => n + l.messages, 0);
   }
 
   /** Workers started by each lane (the long lane's 0 until its first request). */

@@ -31,26 +31,39 @@ let busy = 0;
 declare const __RHOSIGMA_WARM_EXPRESSIONS__: boolean | undefined;
 const warmExpressions = typeof __RHOSIGMA_WARM_EXPRESSIONS__ === 'boolean' ? __RHOSIGMA_WARM_EXPRESSIONS__ : true;
 
+/** One request: the expression reader or the sweep module loaded first when it needs them, then handle(). */
+async function answer(request: unknown, onProgress?: (p: Progress) => void): Promise<Answer> {
+  busy++;
+  try {
+    if (!expressionReaderLoaded() && mayNeedExpressions(request)) {
+      try {
+        await loadExpressionReader();
+      } catch {
+        // handle() answers with the reader's own error for the expression that needs it.
+      }
+    }
+    if ((request as { op?: unknown } | null)?.op === 'sweep-points' && !getOp('sweep-points')) {
+      const failed = await loadSweeps();
+      if (failed) return { ok: false, op: 'sweep-points', error: { code: 'internal-error', message: `The sweep module could not be loaded in the engine worker: ${failed}` } } as Answer;
+    }
+    // The progress callback is a comlink proxy: calling it posts a message at once, even mid-solve.
+    return withProgress(onProgress ? (p) => void onProgress(p) : undefined, () => handle(request));
+  } finally {
+    busy--;
+  }
+}
+
 const api: WorkerApi = {
-  async compute(request: unknown, onProgress?: (p: Progress) => void): Promise<Answer> {
+  compute: answer,
+  async computeMany(requests: unknown[]): Promise<Answer[]> {
+    const out: Answer[] = [];
     busy++;
     try {
-      if (!expressionReaderLoaded() && mayNeedExpressions(request)) {
-        try {
-          await loadExpressionReader();
-        } catch {
-          // handle() answers with the reader's own error for the expression that needs it.
-        }
-      }
-      if ((request as { op?: unknown } | null)?.op === 'sweep-points' && !getOp('sweep-points')) {
-        const failed = await loadSweeps();
-        if (failed) return { ok: false, op: 'sweep-points', error: { code: 'internal-error', message: `The sweep module could not be loaded in the engine worker: ${failed}` } } as Answer;
-      }
-      // The progress callback is a comlink proxy: calling it posts a message at once, even mid-solve.
-      return withProgress(onProgress ? (p) => void onProgress(p) : undefined, () => handle(request));
+      for (const request of requests) out.push(await answer(request));
     } finally {
       busy--;
     }
+    return out;
   },
   async ready() {
     return { eigh: eighWasmStatus() };

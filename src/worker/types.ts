@@ -36,6 +36,8 @@ export interface EngineLike {
 /** What the worker exposes through comlink (engine-worker.ts). */
 export interface WorkerApi {
   compute(request: unknown, onProgress?: (p: Progress) => void): Promise<Answer>;
+  /** Several requests answered one after another, in order, in one message (answers in the same order). */
+  computeMany(requests: unknown[]): Promise<Answer[]>;
   /** Resolves once the worker has loaded; says whether the eigensolver's WebAssembly kernels are active. */
   ready(): Promise<{ eigh: { active: boolean; reason: string } }>;
 }

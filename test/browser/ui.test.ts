@@ -287,6 +287,34 @@ if (!haveChromium && inCI) {
       assert.equal(r.lanes.long, Math.max(1, r.before.long) + 1);
     });
 
+    it('small requests that wait together go to the worker as one batch, each answered as if alone; one that cannot reach the worker fails alone', async () => {
+      const r = await page.evaluate(async () => {
+        const rs = (window as any).rs;
+        const client = new rs.EngineClient();
+        const h = (p: number) => ({ op: 'entropy', rho: { matrix: [[p, 0], [0, 1 - p]] } });
+        await client.compute(h(0.5));
+        const before = client.messages;
+        // Six asked in the same task leave together, as one message.
+        const ps = [0.5, 0.1, 0.2, 0.3, 0.4, 0.25].map((p) => client.compute(h(p)));
+        const answers = await Promise.all(ps);
+        const batched = client.messages - before;
+        // A function cannot be cloned to a worker: that request fails, the others in its batch are answered.
+        const first = client.compute(h(0.5));
+        const mixed = await Promise.all([client.compute(h(0.125)), client.compute({ ...h(0.5), note: () => 1 }), client.compute(h(0.375))]);
+        await first;
+        client.dispose();
+        return { values: answers.map((a: any) => a.value), batched, mixed };
+      });
+      // Binary entropy h(p) = −p log₂ p − (1 − p) log₂(1 − p) (textbook).
+      const h2 = (p: number) => -p * Math.log2(p) - (1 - p) * Math.log2(1 - p);
+      [0.5, 0.1, 0.2, 0.3, 0.4, 0.25].forEach((p, i) => assert.ok(Math.abs(r.values[i] - h2(p)) < 1e-14, `${p}: ${r.values[i]}`));
+      assert.equal(r.batched, 1);
+      assert.ok(Math.abs(r.mixed[0].value - h2(0.125)) < 1e-14);
+      assert.equal(r.mixed[1].ok, false);
+      assert.equal(r.mixed[1].error.code, 'internal-error');
+      assert.ok(Math.abs(r.mixed[2].value - h2(0.375)) < 1e-14);
+    });
+
     it('latest wins: queued requests with the same key are answered cancelled, the newest is computed', async () => {
       const r = await page.evaluate(async () => {
         const rs = (window as any).rs;
