@@ -41,6 +41,13 @@ interface HermitianEntries {
   idx: Int32Array;
   group: Int32Array;
   local: Int32Array;
+  /** Per constraint: its distinct rows (rows[rptr[a]..]) and columns (cols[cptr[a]..]); per entry its slot in them. */
+  rptr: Int32Array;
+  rows: Int32Array;
+  cptr: Int32Array;
+  cols: Int32Array;
+  slotR: Int32Array;
+  slotC: Int32Array;
 }
 
 export class SchurSystem {
@@ -68,6 +75,8 @@ export class SchurSystem {
   private readonly cT: Float64Array;
   private readonly cA: Float64Array;
   private readonly cU: Float64Array;
+  private readonly cSmall: Float64Array;
+  private readonly cY: Float64Array;
   dependent = 0;
 
   constructor(cp: Compiled) {
@@ -108,6 +117,12 @@ export class SchurSystem {
         idx: new Int32Array(tot),
         group: new Int32Array(mk),
         local: new Int32Array(mk),
+        rptr: new Int32Array(mk + 1),
+        rows: new Int32Array(tot),
+        cptr: new Int32Array(mk + 1),
+        cols: new Int32Array(tot),
+        slotR: new Int32Array(tot),
+        slotC: new Int32Array(tot),
       };
       for (let a = 0; a < mk; a++) {
         const p = cx.p[a];
@@ -129,11 +144,36 @@ export class SchurSystem {
         }
         out.group[a] = cp.groupOf[blk.cons[a]];
         out.local[a] = cp.localIndex[blk.cons[a]];
+        // Distinct rows and columns of the expanded entries (for the factored product W[:,R] Ã W[C,:]).
+        const rmap = new Map<number, number>();
+        const cmap = new Map<number, number>();
+        for (let t = ptr[a]; t < ptr[a + 1]; t++) {
+          let sr = rmap.get(out.p[t]);
+          if (sr === undefined) {
+            sr = rmap.size;
+            rmap.set(out.p[t], sr);
+            out.rows[out.rptr[a] + sr] = out.p[t];
+          }
+          let sc = cmap.get(out.q[t]);
+          if (sc === undefined) {
+            sc = cmap.size;
+            cmap.set(out.q[t], sc);
+            out.cols[out.cptr[a] + sc] = out.q[t];
+          }
+          out.slotR[t] = sr;
+          out.slotC[t] = sc;
+        }
+        out.rptr[a + 1] = out.rptr[a] + rmap.size;
+        out.cptr[a + 1] = out.cptr[a] + cmap.size;
       }
       return out;
     });
     const hmax = Math.max(1, ...cp.psd.filter((b) => b.complex).map((b) => b.n / 2));
     const hh = hmax * hmax;
+    let rc = 1;
+    for (const e of this.hx) if (e) for (let a = 0; a + 1 < e.rptr.length; a++) rc = Math.max(rc, (e.rptr[a + 1] - e.rptr[a]) * (e.cptr[a + 1] - e.cptr[a]));
+    this.cSmall = new Float64Array(2 * rc);
+    this.cY = new Float64Array(2 * hh);
     this.cT = new Float64Array(2 * hh);
     this.cA = new Float64Array(2 * hh);
     this.cU = new Float64Array(2 * hh);
@@ -150,7 +190,7 @@ export class SchurSystem {
    * O(m_k²) pair loop of coordinate-type constraints (one or two entries each, the bulk of the
    * one-shot quantities' rows) runs without per-pair dispatch.
    */
-  private assembleHermitianBlock(k: number, w: Float64Array): void {
+  private assembleHermitianBlock(k: number, w: Float64Array, sign = 1): void {
     const blk = this.cp.psd[k];
     const E = this.hx[k]!;
     const n = blk.n / 2;
@@ -183,7 +223,59 @@ export class SchurSystem {
       const pairCost = 2 * na * suffix[a];
       if (formCost < pairCost) {
         // T = W A_a W (complex n×n)
-        if (na * n < 2 * nn) {
+        const nr = E.rptr[a + 1] - E.rptr[a];
+        const nc = E.cptr[a + 1] - E.cptr[a];
+        if (nr * nn + nr * nc * n < Math.min(na * nn, 2 * nn * n)) {
+          // Few distinct rows R and columns C: T = W[:,R] Ã W[C,:] with Ã the |R|×|C| coefficients
+          // (σ-coupling constraints of the fidelity of recovery: 2·d_B rows for 4·d_B² entries).
+          const As = this.cSmall;
+          const ncc = nr * nc;
+          As.fill(0, 0, 2 * ncc);
+          for (let t = a0; t < a1; t++) {
+            const sl = E.slotR[t] * nc + E.slotC[t];
+            As[sl] += RE[t];
+            As[ncc + sl] += IM[t];
+          }
+          // Y = Ã W[C,:] (|R| × n)
+          const Y = this.cY;
+          const r0 = E.rptr[a];
+          const c0 = E.cptr[a];
+          Y.fill(0, 0, 2 * nr * n);
+          for (let i = 0; i < nr; i++) {
+            const yo = i * n;
+            for (let j = 0; j < nc; j++) {
+              const ar = As[i * nc + j];
+              const ai = As[ncc + i * nc + j];
+              if (ar === 0 && ai === 0) continue;
+              const wo = E.cols[c0 + j] * n;
+              for (let y = 0; y < n; y++) {
+                const wr0 = wr[wo + y];
+                const wi0 = wi[wo + y];
+                Y[yo + y] += ar * wr0 - ai * wi0;
+                Y[nr * n + yo + y] += ar * wi0 + ai * wr0;
+              }
+            }
+          }
+          // T = W[:,R] Y
+          Tr.fill(0, 0, nn);
+          Ti.fill(0, 0, nn);
+          for (let x = 0; x < n; x++) {
+            const xo = x * n;
+            for (let i = 0; i < nr; i++) {
+              const col = E.rows[r0 + i];
+              const cr = wr[xo + col];
+              const ci = wi[xo + col];
+              const yo = i * n;
+              const yio = nr * n + yo;
+              for (let y = 0; y < n; y++) {
+                const yr = Y[yo + y];
+                const yi = Y[yio + y];
+                Tr[xo + y] += cr * yr - ci * yi;
+                Ti[xo + y] += cr * yi + ci * yr;
+              }
+            }
+          }
+        } else if (na * n < 2 * nn) {
           Tr.fill(0, 0, nn);
           Ti.fill(0, 0, nn);
           for (let t = a0; t < a1; t++) {
@@ -251,7 +343,8 @@ export class SchurSystem {
           row[b] = sum;
         }
       }
-      // Scatter ½·row into the Schur complement.
+      // Scatter ½·row into the Schur complement (−½·row for a subtracted term).
+      if (sign !== 1) for (let b = a; b < mk; b++) row[b] *= sign;
       const ga = grp[a];
       const i = blk.cons[a];
       if (ga >= 0) {
@@ -299,12 +392,14 @@ export class SchurSystem {
    * Assemble and factor for scalings W (per PSD block: dense n×n real for symmetric blocks, the
    * complex n/2×n/2 scaling in complexdense.ts's layout for Hermitian blocks) and orthant weights d.
    */
-  assembleAndFactor(W: Float64Array[], d: Float64Array): void {
+  assembleAndFactor(W: Float64Array[], d: Float64Array, subtract?: { block: number; w: Float64Array }): void {
     const cp = this.cp;
     for (const a of this.D) a.fill(0);
     for (const a of this.B) a.fill(0);
     this.R.fill(0);
     cp.psd.forEach((blk, k) => (blk.complex ? this.assembleHermitianBlock(k, W[k]) : this.assembleBlock(blk, W[k])));
+    // A term ½ Re tr(A_a P A_b P) taken off one Hermitian block (elimination.ts: a fixed sub-block solved in closed form).
+    if (subtract) this.assembleHermitianBlock(subtract.block, subtract.w, -1);
     for (let p = 0; p < cp.nL; p++) {
       const s = cp.linColPtr[p];
       const e = cp.linColPtr[p + 1];
@@ -541,6 +636,24 @@ export class SchurSystem {
     return this.zBuf;
   }
 
+  /** The unfactored system times v (length m + free variables), into out. */
+  apply(v: Float64Array, out: Float64Array): Float64Array {
+    this.ensureBuffers();
+    return this.multiply(v, out);
+  }
+
+  private ensureBuffers(): void {
+    const len = this.cp.m + this.cp.nF;
+    if (this.bufRes.length !== len) {
+      this.bufAx = new Float64Array(len);
+      this.bufRes = new Float64Array(len);
+      this.bufDx = new Float64Array(len);
+      this.bufR1 = new Float64Array(this.r);
+      this.bufR2 = new Float64Array(this.r);
+      this.bufR3 = new Float64Array(this.r);
+    }
+  }
+
   /** Multiply by the unfactored system. */
   private multiply(v: Float64Array, out: Float64Array): Float64Array {
     const cp = this.cp;
@@ -584,14 +697,7 @@ export class SchurSystem {
    */
   solve(rhs: Float64Array, refinements = 1, out?: Float64Array): Float64Array {
     const len = this.cp.m + this.cp.nF;
-    if (this.bufRes.length !== len) {
-      this.bufAx = new Float64Array(len);
-      this.bufRes = new Float64Array(len);
-      this.bufDx = new Float64Array(len);
-      this.bufR1 = new Float64Array(this.r);
-      this.bufR2 = new Float64Array(this.r);
-      this.bufR3 = new Float64Array(this.r);
-    }
+    this.ensureBuffers();
     const x = this.solveOnce(rhs, out ?? new Float64Array(len));
     if (this.dependent > 0) return x; // refinement would fight the dropped rows
     for (let k = 0; k < refinements; k++) {
