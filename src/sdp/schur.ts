@@ -41,7 +41,15 @@ interface HermitianEntries {
   idx: Int32Array;
   group: Int32Array;
   local: Int32Array;
-  /** Per constraint: its distinct rows (rows[rptr[a]..]) and columns (cols[cptr[a]..]); per entry its slot in them. */
+  /**
+   * The same coefficients as A = A₀ + A₀* (A₀: the stored entries p ≤ q, diagonal ones halved), per
+   * constraint hptr[a]..hptr[a+1]−1 with hIdx = q·n + p, and A₀'s distinct rows (rows[rptr[a]..]) and
+   * columns (cols[cptr[a]..]) with each entry's slot in them: for W A W = T₀ + T₀*, T₀ = W[:,R] Ã₀ W[C,:].
+   */
+  hptr: Int32Array;
+  hIdx: Int32Array;
+  hRe: Float64Array;
+  hIm: Float64Array;
   rptr: Int32Array;
   rows: Int32Array;
   cptr: Int32Array;
@@ -117,6 +125,10 @@ export class SchurSystem {
         idx: new Int32Array(tot),
         group: new Int32Array(mk),
         local: new Int32Array(mk),
+        hptr: new Int32Array(mk + 1),
+        hIdx: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hRe: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hIm: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
         rptr: new Int32Array(mk + 1),
         rows: new Int32Array(tot),
         cptr: new Int32Array(mk + 1),
@@ -144,25 +156,32 @@ export class SchurSystem {
         }
         out.group[a] = cp.groupOf[blk.cons[a]];
         out.local[a] = cp.localIndex[blk.cons[a]];
-        // Distinct rows and columns of the expanded entries (for the factored product W[:,R] Ã W[C,:]).
+        // A₀ (stored entries, diagonal halved) with its distinct rows and columns.
         const rmap = new Map<number, number>();
         const cmap = new Map<number, number>();
-        for (let t = ptr[a]; t < ptr[a + 1]; t++) {
-          let sr = rmap.get(out.p[t]);
+        const h0 = out.hptr[a];
+        for (let t = 0; t < p.length; t++) {
+          const u = h0 + t;
+          const half = p[t] === q[t] ? 0.5 : 1;
+          out.hIdx[u] = q[t] * h + p[t];
+          out.hRe[u] = half * re[t];
+          out.hIm[u] = p[t] === q[t] ? 0 : im[t];
+          let sr = rmap.get(p[t]);
           if (sr === undefined) {
             sr = rmap.size;
-            rmap.set(out.p[t], sr);
-            out.rows[out.rptr[a] + sr] = out.p[t];
+            rmap.set(p[t], sr);
+            out.rows[out.rptr[a] + sr] = p[t];
           }
-          let sc = cmap.get(out.q[t]);
+          let sc = cmap.get(q[t]);
           if (sc === undefined) {
             sc = cmap.size;
-            cmap.set(out.q[t], sc);
-            out.cols[out.cptr[a] + sc] = out.q[t];
+            cmap.set(q[t], sc);
+            out.cols[out.cptr[a] + sc] = q[t];
           }
-          out.slotR[t] = sr;
-          out.slotC[t] = sc;
+          out.slotR[u] = sr;
+          out.slotC[u] = sc;
         }
+        out.hptr[a + 1] = h0 + p.length;
         out.rptr[a + 1] = out.rptr[a] + rmap.size;
         out.cptr[a + 1] = out.cptr[a] + cmap.size;
       }
@@ -225,18 +244,20 @@ export class SchurSystem {
         // T = W A_a W (complex n×n)
         const nr = E.rptr[a + 1] - E.rptr[a];
         const nc = E.cptr[a + 1] - E.cptr[a];
+        let halfPairs = false;
         if (nr * nn + nr * nc * n < Math.min(na * nn, 2 * nn * n)) {
-          // Few distinct rows R and columns C: T = W[:,R] Ã W[C,:] with Ã the |R|×|C| coefficients
-          // (σ-coupling constraints of the fidelity of recovery: 2·d_B rows for 4·d_B² entries).
+          // Few distinct rows R and columns C of A₀: T₀ = W[:,R] Ã₀ W[C,:], T = T₀ + T₀* (σ-coupling
+          // constraints of the fidelity of recovery: d_B rows for d_B² entries).
+          halfPairs = true;
           const As = this.cSmall;
           const ncc = nr * nc;
           As.fill(0, 0, 2 * ncc);
-          for (let t = a0; t < a1; t++) {
-            const sl = E.slotR[t] * nc + E.slotC[t];
-            As[sl] += RE[t];
-            As[ncc + sl] += IM[t];
+          for (let u = E.hptr[a]; u < E.hptr[a + 1]; u++) {
+            const sl = E.slotR[u] * nc + E.slotC[u];
+            As[sl] += E.hRe[u];
+            As[ncc + sl] += E.hIm[u];
           }
-          // Y = Ã W[C,:] (|R| × n)
+          // Y = Ã₀ W[C,:] (|R| × n)
           const Y = this.cY;
           const r0 = E.rptr[a];
           const c0 = E.cptr[a];
@@ -256,7 +277,7 @@ export class SchurSystem {
               }
             }
           }
-          // T = W[:,R] Y
+          // T₀ = W[:,R] Y, then T = T₀ + T₀*
           Tr.fill(0, 0, nn);
           Ti.fill(0, 0, nn);
           for (let x = 0; x < n; x++) {
@@ -273,6 +294,18 @@ export class SchurSystem {
                 Tr[xo + y] += cr * yr - ci * yi;
                 Ti[xo + y] += cr * yi + ci * yr;
               }
+            }
+          }
+          for (let x = 0; x < n; x++) {
+            Tr[x * n + x] *= 2;
+            Ti[x * n + x] = 0;
+            for (let y = x + 1; y < n; y++) {
+              const sr = Tr[x * n + y] + Tr[y * n + x];
+              const si = Ti[x * n + y] - Ti[y * n + x];
+              Tr[x * n + y] = sr;
+              Ti[x * n + y] = si;
+              Tr[y * n + x] = sr;
+              Ti[y * n + x] = -si;
             }
           }
         } else if (na * n < 2 * nn) {
@@ -308,8 +341,22 @@ export class SchurSystem {
           cMul(w, A, n, this.cU);
           cMul(this.cU, w, n, T);
         }
-        // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r.
-        for (let b = a; b < mk; b++) {
+        // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r. T is Hermitian, so
+        // twice the sum over A₀'s entries is the same number (half the work) when T is exactly so.
+        if (halfPairs) {
+          const HI = E.hIdx;
+          const HR = E.hRe;
+          const HM = E.hIm;
+          const HP = E.hptr;
+          for (let b = a; b < mk; b++) {
+            let sum = 0;
+            for (let u = HP[b]; u < HP[b + 1]; u++) {
+              const idx = HI[u];
+              sum += HR[u] * Tr[idx] - HM[u] * Ti[idx];
+            }
+            row[b] = 2 * sum;
+          }
+        } else for (let b = a; b < mk; b++) {
           let sum = 0;
           for (let u = ptr[b]; u < ptr[b + 1]; u++) {
             const idx = IDX[u];
