@@ -48,7 +48,7 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   entropy: { rho: packed(1025) },
   'expectation-divergence': { rho: packed(1025), blocks: [1025] },
   fidelity: { rho: packed(1025), sigma: packed(1025) },
-  'fidelity-of-recovery': { rho: { matrix: packed(64), dims: [4, 4, 4] }, a: [0], b: [1], c: [2] },
+  'fidelity-of-recovery': { rho: { matrix: packed(96), dims: [4, 4, 6] }, a: [0], b: [1], c: [2] },
   'fidelity-sdp': { rho: packed(64), sigma: packed(64) },
   'fisher-information': { rho: packed(1025), derivative: packed(1025) },
   'guessing-probability': { probabilities: [0.25, 0.25, 0.25, 0.25], states: [packed(128), packed(128), packed(128), packed(128)] },
