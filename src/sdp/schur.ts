@@ -156,27 +156,52 @@ export class SchurSystem {
         }
         out.group[a] = cp.groupOf[blk.cons[a]];
         out.local[a] = cp.localIndex[blk.cons[a]];
-        // A₀ (stored entries, diagonal halved) with its distinct rows and columns.
+        // A₀ (one of each mirrored pair, diagonal halved) with its distinct rows and columns. Each pair may
+        // enter A₀ either way round; a greedy vertex cover picks the orientation, so that the rows are few
+        // (the σ-coupling constraints: d_B rows (b, o) against d_B columns (b′, o′)).
+        const len = p.length;
+        const cnt = new Map<number, number>();
+        for (let t = 0; t < len; t++) {
+          cnt.set(p[t], (cnt.get(p[t]) ?? 0) + 1);
+          if (p[t] !== q[t]) cnt.set(q[t], (cnt.get(q[t]) ?? 0) + 1);
+        }
+        const rowOf = new Int32Array(len).fill(-1);
+        for (let left = len; left > 0;) {
+          let x = -1;
+          let best = 0;
+          for (const [key, c] of cnt) if (c > best) [x, best] = [key, c];
+          cnt.set(x, 0);
+          for (let t = 0; t < len; t++) {
+            if (rowOf[t] >= 0 || (p[t] !== x && q[t] !== x)) continue;
+            rowOf[t] = x;
+            left--;
+            const other = p[t] === x ? q[t] : p[t];
+            if (other !== x) cnt.set(other, (cnt.get(other) ?? 0) - 1);
+          }
+        }
         const rmap = new Map<number, number>();
         const cmap = new Map<number, number>();
         const h0 = out.hptr[a];
-        for (let t = 0; t < p.length; t++) {
+        for (let t = 0; t < len; t++) {
           const u = h0 + t;
+          const flip = rowOf[t] !== p[t];
+          const pr = flip ? q[t] : p[t];
+          const qc = flip ? p[t] : q[t];
           const half = p[t] === q[t] ? 0.5 : 1;
-          out.hIdx[u] = q[t] * h + p[t];
+          out.hIdx[u] = qc * h + pr;
           out.hRe[u] = half * re[t];
-          out.hIm[u] = p[t] === q[t] ? 0 : im[t];
-          let sr = rmap.get(p[t]);
+          out.hIm[u] = p[t] === q[t] ? 0 : flip ? -im[t] : im[t];
+          let sr = rmap.get(pr);
           if (sr === undefined) {
             sr = rmap.size;
-            rmap.set(p[t], sr);
-            out.rows[out.rptr[a] + sr] = p[t];
+            rmap.set(pr, sr);
+            out.rows[out.rptr[a] + sr] = pr;
           }
-          let sc = cmap.get(q[t]);
+          let sc = cmap.get(qc);
           if (sc === undefined) {
             sc = cmap.size;
-            cmap.set(q[t], sc);
-            out.cols[out.cptr[a] + sc] = q[t];
+            cmap.set(qc, sc);
+            out.cols[out.cptr[a] + sc] = qc;
           }
           out.slotR[u] = sr;
           out.slotC[u] = sc;
