@@ -47,6 +47,8 @@ interface HermitianEntries {
    * columns (cols[cptr[a]..]) with each entry's slot in them: for W A W = T₀ + T₀*, T₀ = W[:,R] Ã₀ W[C,:].
    */
   hptr: Int32Array;
+  hP: Int32Array;
+  hQ: Int32Array;
   hIdx: Int32Array;
   hRe: Float64Array;
   hIm: Float64Array;
@@ -126,6 +128,8 @@ export class SchurSystem {
         group: new Int32Array(mk),
         local: new Int32Array(mk),
         hptr: new Int32Array(mk + 1),
+        hP: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hQ: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
         hIdx: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
         hRe: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
         hIm: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
@@ -188,6 +192,8 @@ export class SchurSystem {
           const pr = flip ? q[t] : p[t];
           const qc = flip ? p[t] : q[t];
           const half = p[t] === q[t] ? 0.5 : 1;
+          out.hP[u] = pr;
+          out.hQ[u] = qc;
           out.hIdx[u] = qc * h + pr;
           out.hRe[u] = half * re[t];
           out.hIm[u] = p[t] === q[t] ? 0 : flip ? -im[t] : im[t];
@@ -390,29 +396,41 @@ export class SchurSystem {
           row[b] = sum;
         }
       } else {
+        // Pairs of entries directly, over A₀ only: Re tr(A W B W) = 2 Re[tr(A₀ W B₀ W) + tr(A₀ W B₀* W)]
+        // (A = A₀ + A₀*, W Hermitian), with tr(αE_pq W βE_rs W) = αβ W_qr W_sp: a quarter of the pairs of
+        // the expanded entries.
+        const HP = E.hptr;
+        const HPp = E.hP;
+        const HQ = E.hQ;
+        const HR = E.hRe;
+        const HM = E.hIm;
+        const t0 = HP[a];
+        const t1 = HP[a + 1];
         for (let b = a; b < mk; b++) {
           let sum = 0;
-          for (let t = a0; t < a1; t++) {
-            const po = P[t];
-            const qo = Q[t] * n;
-            const ar = RE[t];
-            const ai = IM[t];
-            for (let u = ptr[b]; u < ptr[b + 1]; u++) {
-              // Re(α β W_qr W_sp)
-              const br = RE[u];
-              const bi = IM[u];
-              const abr = ar * br - ai * bi;
-              const abi = ar * bi + ai * br;
-              const i1 = qo + P[u];
-              const i2 = Q[u] * n + po;
-              const w1r = wr[i1];
-              const w1i = wi[i1];
-              const w2r = wr[i2];
-              const w2i = wi[i2];
-              sum += abr * (w1r * w2r - w1i * w2i) - abi * (w1r * w2i + w1i * w2r);
+          for (let t = t0; t < t1; t++) {
+            const pa = HPp[t];
+            const qo = HQ[t] * n;
+            const ar = HR[t];
+            const ai = HM[t];
+            for (let u = HP[b]; u < HP[b + 1]; u++) {
+              const rb = HPp[u];
+              const sb = HQ[u];
+              const br = HR[u];
+              const bi = HM[u];
+              const i1 = qo + rb;
+              const i2 = sb * n + pa;
+              const i3 = qo + sb;
+              const i4 = rb * n + pa;
+              const x1r = wr[i1] * wr[i2] - wi[i1] * wi[i2];
+              const x1i = wr[i1] * wi[i2] + wi[i1] * wr[i2];
+              const x2r = wr[i3] * wr[i4] - wi[i3] * wi[i4];
+              const x2i = wr[i3] * wi[i4] + wi[i3] * wr[i4];
+              // αβ·x₁ + αβ̄·x₂, real part
+              sum += (ar * br - ai * bi) * x1r - (ar * bi + ai * br) * x1i + (ar * br + ai * bi) * x2r - (ai * br - ar * bi) * x2i;
             }
           }
-          row[b] = sum;
+          row[b] = 2 * sum;
         }
       }
       // Scatter ½·row into the Schur complement (−½·row for a subtracted term).
