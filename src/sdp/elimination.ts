@@ -221,7 +221,13 @@ export class EliminatedSchur implements SchurSolver {
   private readonly restIm: Float64Array[];
   private w: Float64Array = new Float64Array(0);
   private readonly pt: Float64Array; // P on I₂ × I₂, zero elsewhere (complex n×n)
-  private readonly w11inv: Float64Array; // W₁₁⁻¹ placed on I₁ × I₁ (complex n×n)
+  private readonly w11inv: Float64Array; // W₁₁⁻¹ (complex s×s, s = |I₁|)
+  private readonly localFixed: Int32Array; // 0..s−1
+  private readonly lp: Int32Array; // each ℓ's p and q as positions in I₁
+  private readonly lq: Int32Array;
+  private readonly xs: Float64Array; // complex s×s scratch
+  private readonly ts: Float64Array;
+  private readonly gs: Float64Array;
   private readonly x: Float64Array;
   private readonly x2: Float64Array;
   private readonly g: Float64Array;
@@ -249,7 +255,16 @@ export class EliminatedSchur implements SchurSolver {
     this.restIm = blk.complex!.im;
     const nn = fb.n * fb.n;
     this.pt = new Float64Array(2 * nn);
-    this.w11inv = new Float64Array(2 * nn);
+    const sf = fb.fixed.length;
+    this.w11inv = new Float64Array(2 * sf * sf);
+    this.xs = new Float64Array(2 * sf * sf);
+    this.ts = new Float64Array(2 * sf * sf);
+    this.gs = new Float64Array(2 * sf * sf);
+    this.localFixed = Int32Array.from({ length: sf }, (_, i) => i);
+    const pos = new Map<number, number>();
+    fb.fixed.forEach((i, l) => pos.set(i, l));
+    this.lp = Int32Array.from(fb.p, (i) => pos.get(i)!);
+    this.lq = Int32Array.from(fb.q, (i) => pos.get(i)!);
     this.x = new Float64Array(2 * nn);
     this.x2 = new Float64Array(2 * nn);
     this.g = new Float64Array(2 * nn);
@@ -325,7 +340,8 @@ export class EliminatedSchur implements SchurSolver {
         Fi[io + c] *= inv;
       }
     }
-    const gram = (c0: number, c1: number, idx: Int32Array, out: Float64Array) => {
+    const gram = (c0: number, c1: number, idx: Int32Array, out: Float64Array, n: number) => {
+      const nn = n * n;
       out.fill(0);
       for (let a = c0; a < c1; a++) {
         for (let b = a; b < c1; b++) {
@@ -344,8 +360,8 @@ export class EliminatedSchur implements SchurSolver {
         }
       }
     };
-    gram(0, t, other, this.pt);
-    gram(t, cols, fixed, this.w11inv);
+    gram(0, t, other, this.pt, n);
+    gram(t, cols, this.localFixed, this.w11inv, s);
     this.inner.assembleAndFactor(W, d, { block: this.fb.k, w: this.pt });
     this.dependent = this.inner.dependent;
   }
@@ -380,14 +396,16 @@ export class EliminatedSchur implements SchurSolver {
     }
   }
 
-  /** v ← M₁₁⁻¹ v = (c₁†)⁻¹(2 W₁₁⁻¹ c₁⁻¹(v) W₁₁⁻¹). */
+  /** v ← M₁₁⁻¹ v = (c₁†)⁻¹(2 W₁₁⁻¹ c₁⁻¹(v) W₁₁⁻¹), in s×s arithmetic on I₁. */
   private solveFixed(v: Float64Array): void {
-    const { n, p, q, kind, a } = this.fb;
+    const { kind, a } = this.fb;
+    const { lp, lq } = this;
+    const n = this.fb.fixed.length;
     const nn = n * n;
-    const x = this.x;
+    const x = this.xs;
     x.fill(0);
     for (let l = 0; l < v.length; l++) {
-      const pp = p[l], qq = q[l];
+      const pp = lp[l], qq = lq[l];
       const c = v[l] / a[l];
       if (kind[l] === 0) x[pp * n + pp] = c;
       else if (kind[l] === 1) {
@@ -398,11 +416,11 @@ export class EliminatedSchur implements SchurSolver {
         x[nn + qq * n + pp] = -c;
       }
     }
-    cMul(this.w11inv, x, n, this.t);
-    cMul(this.t, this.w11inv, n, this.g);
-    const g = this.g;
+    cMul(this.w11inv, x, n, this.ts);
+    cMul(this.ts, this.w11inv, n, this.gs);
+    const g = this.gs;
     for (let l = 0; l < v.length; l++) {
-      const pp = p[l], qq = q[l];
+      const pp = lp[l], qq = lq[l];
       const k = pp * n + qq;
       if (kind[l] === 0) v[l] = (2 * g[k]) / a[l];
       else if (kind[l] === 1) v[l] = (2 * (g[k] + g[qq * n + pp])) / a[l];
@@ -475,7 +493,8 @@ export class EliminatedSchur implements SchurSolver {
     this.scatterFixed(u1, this.x);
     this.congruence(this.w, this.x, this.g);
     this.gatherRest(this.g, rR, -0.5);
-    const yR = this.inner.solve(rR, 1, this.vR2);
+    // No refinement inside: solve() refines against the full system (the reduced matrix as assembled included).
+    const yR = this.inner.solve(rR, 0, this.vR2);
     // y₁ = M₁₁⁻¹ (r₁ − M₁₂ y_R)
     this.scatterRest(yR, this.x);
     this.congruence(this.w, this.x, this.g);
