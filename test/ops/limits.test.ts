@@ -152,6 +152,16 @@ describe('presets refuse what they would build above the limits, before building
     refusedQuickly({ op: 'channel-preset', name: 'erasure', d: 1024, p: 0.1 });
   });
 
+  it('fidelity-of-recovery: (2,4,4) and (4,2,4) are within the limits (their Schur complement is N² + d_B² = 1040 and 1028 rows once the ρ block is eliminated, src/sdp/elimination.ts), (4,4,6) is refused', () => {
+    const op = listOps().find((o) => o.name === 'fidelity-of-recovery')!;
+    for (const dims of [[2, 4, 4], [4, 2, 4]]) {
+      const c = op.cost!({ rho: { matrix: packed(32), dims }, a: [0], b: [1], c: [2] } as any);
+      assert.ok(c.flops <= MAX_WORK && c.bytes <= MAX_BYTES && (c.step ?? 0) <= MAX_STEP_WORK, `${dims}: ${JSON.stringify(c)}`);
+      assert.match(c.basis ?? '', /Schur complement is 10(40|28)×10(40|28)/);
+    }
+    refusedQuickly({ op: 'fidelity-of-recovery', rho: { matrix: packed(96), dims: [4, 4, 6] }, a: [0], b: [1], c: [2] });
+  });
+
   it('depolarizing d = 33 would have 1089 Kraus operators, above the 1024 the engine takes as input', () => {
     const a = refusedQuickly({ op: 'channel-preset', name: 'depolarizing', d: 33, p: 0.5 });
     assert.ok(!a.ok && /1089 Kraus operators/.test(a.error.message) && a.error.path === 'd');
