@@ -7,8 +7,12 @@
  *
  * Assembly cost is per block: block k of internal size n touched by m_k constraints costs at most
  * m_k·min(nnz·n², 2n³) + m_k²·nnz, whichever of "form W A W densely" or "pair sparse entries
- * directly" is cheaper for each constraint (partial-trace constraints have n^(1/2)-ish entries).
- * Nothing is ever of size "total dimension squared".
+ * directly" is cheaper for each constraint (partial-trace constraints have n^(1/2)-ish entries). On
+ * Hermitian blocks a coefficient is taken as A = A₀ + A₀* (one of each mirrored pair, oriented so A₀ has
+ * few distinct rows R): W A W = T₀ + T₀* with T₀ = W[:,R] Ã₀ W[C,:] at |R|·n² instead of nnz·n², and
+ * pairs are summed over A₀ only (Re tr(A W B W) = 2 Re[tr(A₀WB₀W) + tr(A₀WB₀*W)]), a quarter of the
+ * entry pairs. Nothing is ever of size "total dimension squared". A term ½ Re tr(A_a P A_b P) can be
+ * subtracted on one block (elimination.ts, which eliminates a fixed sub-block in closed form).
  *
  * Factorization follows compile.ts's grouping: M restricted to a group is dense (Cholesky of each
  * group, hand-written for the tiny sizes here, see dense.ts), groups are coupled only through
