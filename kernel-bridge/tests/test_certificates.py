@@ -346,3 +346,21 @@ def test_values_at_the_end_of_their_range_are_clipped_stated_and_still_certified
             assert clip["excess"] > 0 and clip["excess"] <= 1e-6, clip
             assert max(clip["from"], clip["bracket"]["upper"]) > 1, clip
         assert C.check(r, a)["certified"], r["op"]
+
+
+def test_fidelity_of_recovery_at_4_2_4_is_certified_and_matches_cvxopt_on_the_dual_sdp():
+    """A Hilbert–Schmidt state on (d_A, d_B, d_C) = (4, 2, 4), the size the eliminated Schur complement is for
+    (src/sdp/elimination.ts): the engine's answer is certified by this checker, its value agrees with cvxopt's
+    dual SDP (committed test/reference/data/recovery-cases.json, scripts/reference/cvxopt_recovery.py) to 1e-6
+    relative, and a Choi matrix moved by 1e-3 is refused (Tr_out J = 1_B fails)."""
+    ref = json.loads((DATA / "recovery-cases.json").read_text())
+    case = next(c for c in ref["recovery"] if c["rho"]["dims"] == [4, 2, 4])
+    r = {"op": "fidelity-of-recovery", "rho": case["rho"], "a": case["a"], "b": case["b"], "c": case["c"]}
+    (a,) = cli_compute([r])
+    assert a["ok"], a.get("error")
+    v = C.check(r, a)
+    assert v["certified"], [c for c in v["checks"] if not c["ok"]]
+    assert abs(a["value"] - case["value"]) <= 1e-6 * case["value"], (a["value"], case["value"])
+    b = copy.deepcopy(a)
+    b["certificate"]["primal"]["choi"] = _perturb(b["certificate"]["primal"]["choi"], np.random.default_rng(5), 1e-3)
+    assert not C.check(r, b)["certified"]

@@ -119,6 +119,95 @@ export const HUGE_PIVOT = 1e64;
  * constraints in interior-point codes. Returns the number of such pivots.
  */
 export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-13): number {
+  const diag = new Float64Array(n);
+  for (let i = 0; i < n; i++) diag[i] = a[i * n + i];
+  if (n < 2 * CHOLESKY_PANEL) return factorColumns(a, n, 0, n, diag, relTol);
+  // Blocked (left-looking by panels of CHOLESKY_PANEL columns): each panel first takes the contributions
+  // of all columns left of it (panelUpdate: every row below is read once per panel instead of once per
+  // two columns, the pivot rows stay in cache), then is factored by the two-column kernel over its own
+  // columns only. Same arithmetic, summed in another order; at n ≈ 1000 (the fidelity of recovery's
+  // Schur complement, 8 MB) the unblocked kernel streams the matrix from memory for every column pair.
+  let dependent = 0;
+  for (let j0 = 0; j0 < n; j0 += CHOLESKY_PANEL) {
+    const j1 = Math.min(n, j0 + CHOLESKY_PANEL);
+    if (j0 > 0) panelUpdate(a, n, j0, j1);
+    dependent += factorColumns(a, n, j0, j1, diag, relTol);
+  }
+  return dependent;
+}
+
+/** Columns per panel of the blocked Cholesky (even, so panels keep the kernel's column pairs). */
+const CHOLESKY_PANEL = 64;
+
+/** a[i][c] −= Σ_{k<j0} a[i][k]·a[c][k] for rows i ≥ j0 and panel columns c in [j0, j1) (upper entries of the panel's own rows get garbage that factorColumns zeroes). */
+function panelUpdate(a: Float64Array, n: number, j0: number, j1: number): void {
+  let i = j0;
+  for (; i + 3 < n; i += 4) {
+    const i0 = i * n;
+    const i1 = i0 + n;
+    const i2 = i1 + n;
+    const i3 = i2 + n;
+    const cEnd = Math.min(j1, i + 4);
+    let c = j0;
+    for (; c + 1 < cEnd; c += 2) {
+      const co = c * n;
+      const c1o = co + n;
+      let s00 = 0, s01 = 0, s10 = 0, s11 = 0, s20 = 0, s21 = 0, s30 = 0, s31 = 0;
+      for (let k = 0; k < j0; k++) {
+        const p = a[co + k];
+        const q = a[c1o + k];
+        const x0 = a[i0 + k];
+        const x1 = a[i1 + k];
+        const x2 = a[i2 + k];
+        const x3 = a[i3 + k];
+        s00 += x0 * p;
+        s01 += x0 * q;
+        s10 += x1 * p;
+        s11 += x1 * q;
+        s20 += x2 * p;
+        s21 += x2 * q;
+        s30 += x3 * p;
+        s31 += x3 * q;
+      }
+      a[i0 + c] -= s00;
+      a[i0 + c + 1] -= s01;
+      a[i1 + c] -= s10;
+      a[i1 + c + 1] -= s11;
+      a[i2 + c] -= s20;
+      a[i2 + c + 1] -= s21;
+      a[i3 + c] -= s30;
+      a[i3 + c + 1] -= s31;
+    }
+    for (; c < cEnd; c++) {
+      const co = c * n;
+      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+      for (let k = 0; k < j0; k++) {
+        const p = a[co + k];
+        s0 += a[i0 + k] * p;
+        s1 += a[i1 + k] * p;
+        s2 += a[i2 + k] * p;
+        s3 += a[i3 + k] * p;
+      }
+      a[i0 + c] -= s0;
+      a[i1 + c] -= s1;
+      a[i2 + c] -= s2;
+      a[i3 + c] -= s3;
+    }
+  }
+  for (; i < n; i++) {
+    const io = i * n;
+    const cEnd = Math.min(j1, i + 1);
+    for (let c = j0; c < cEnd; c++) {
+      const co = c * n;
+      let sum = 0;
+      for (let k = 0; k < j0; k++) sum += a[io + k] * a[co + k];
+      a[io + c] -= sum;
+    }
+  }
+}
+
+function factorColumns(a: Float64Array, n: number, j0: number, j1: number, diag: Float64Array, relTol: number): number {
+  // Columns j0..j1−1 of the factor; contributions of columns < j0 were already subtracted (panelUpdate).
   let dependent = 0;
   const pivot = (d: number, orig: number): number => {
     if (!(d > relTol * Math.abs(orig)) || !(d > 0)) {
@@ -131,24 +220,24 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
   // below and two of the pivot rows for eight multiply-adds (the Schur complement's factorization
   // is the largest dense kernel of an iteration at a few hundred constraints; bench/RESULTS.md
   // has the measurement that chose this register blocking).
-  let j = 0;
-  for (; j + 1 < n; j += 2) {
+  let j = j0;
+  for (; j + 1 < j1; j += 2) {
     const jo = j * n;
     const j1o = jo + n;
     // The 2×2 diagonal block.
     let d0 = a[jo + j];
     let s10 = a[j1o + j];
     let d1 = a[j1o + j + 1];
-    for (let k = 0; k < j; k++) {
+    for (let k = j0; k < j; k++) {
       const x = a[jo + k];
       const y = a[j1o + k];
       d0 -= x * x;
       s10 -= y * x;
       d1 -= y * y;
     }
-    const l00 = pivot(d0, a[jo + j]);
+    const l00 = pivot(d0, diag[j]);
     const l10 = s10 / l00;
-    const l11 = pivot(d1 - l10 * l10, a[j1o + j + 1]);
+    const l11 = pivot(d1 - l10 * l10, diag[j + 1]);
     a[jo + j] = l00;
     a[j1o + j] = l10;
     a[j1o + j + 1] = l11;
@@ -170,7 +259,7 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
       let s21 = a[i2 + j + 1];
       let s30 = a[i3 + j];
       let s31 = a[i3 + j + 1];
-      for (let k = 0; k < j; k++) {
+      for (let k = j0; k < j; k++) {
         const p = a[jo + k];
         const q = a[j1o + k];
         const x0 = a[i0 + k];
@@ -207,7 +296,7 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
       const io = i * n;
       let s0 = a[io + j];
       let s1 = a[io + j + 1];
-      for (let k = 0; k < j; k++) {
+      for (let k = j0; k < j; k++) {
         const x = a[io + k];
         s0 -= x * a[jo + k];
         s1 -= x * a[j1o + k];
@@ -220,12 +309,12 @@ export function choleskyInPlaceGuarded(a: Float64Array, n: number, relTol = 1e-1
     for (let k = j + 1; k < n; k++) a[jo + k] = 0;
     for (let k = j + 2; k < n; k++) a[j1o + k] = 0;
   }
-  if (j < n) {
+  if (j < j1) {
     // last column (odd n): only its diagonal
     const jo = j * n;
     let d = a[jo + j];
-    for (let k = 0; k < j; k++) d -= a[jo + k] * a[jo + k];
-    a[jo + j] = pivot(d, a[jo + j]);
+    for (let k = j0; k < j; k++) d -= a[jo + k] * a[jo + k];
+    a[jo + j] = pivot(d, diag[j]);
   }
   return dependent;
 }

@@ -103,7 +103,13 @@ defineOp({
   cost: (req) => {
     const [dA, dB, dC] = [req.a, req.b, req.c].map((g) => groupDimension(req.rho, g));
     const n = dA * dB * dC;
-    return sdp({ blocks: [{ size: 2 * n, hermitian: true }, { size: dB * dB * dC, hermitian: true }], constraints: 2 * n * n + dB * dB }, dense(sideOf(req.rho), 6));
+    // The r² ≤ n² constraints fixing the ρ_ABC block are eliminated in closed form (src/sdp/elimination.ts): the
+    // Schur complement is the n² σ-coupling rows plus d_B² channel rows.
+    return sdp({
+      blocks: [{ size: 2 * n, hermitian: true }, { size: dB * dB * dC, hermitian: true }],
+      constraints: 2 * n * n + dB * dB,
+      schur: { groups: [n * n + dB * dB], globals: 0, eliminated: n * n },
+    }, dense(sideOf(req.rho), 6));
   },
   run(req, { tolerance }): OpResult {
     const g = readGroupedState(req, tolerance);

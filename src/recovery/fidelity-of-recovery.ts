@@ -32,8 +32,13 @@
  * Deliberately not here: the Petz map (petz.ts), other recoverability measures (relative entropy of
  * recovery, surprisal of measured recovery), optimisations over restricted channel classes.
  * Cost: N = d_A d_B d_C; one Hermitian block of size r + N and one of size d_B² d_C; r² + N² + d_B²
- * constraints, each σ-constraint with up to d_B² entries; the Schur complement is O((N²)²) memory
- * and O(N⁶) time per iteration — fine for three qubits (N = 8), slow around N = 27.
+ * constraints, each σ-constraint with up to d_B² entries. The r² constraints fixing the ρ_ABC block are
+ * eliminated from the Schur complement in closed form (src/sdp/elimination.ts), so it is (N² + d_B²)²:
+ * 16(N² + d_B²)² bytes and (N² + d_B²)³/3 multiply-adds per iteration for its Cholesky factor, plus its
+ * assembly, about N²·d_B·(d_B² d_C)² complex multiply-adds (each σ-constraint's W A W formed from its
+ * d_B rows, schur.ts). Measured (bench/recovery.ts, bench/RESULTS.md, a loaded shared machine): (2,4,4)
+ * in 9–18 s wall (about 8 s of CPU), (4,2,4) in 7–12 s, 10–40× faster than cvxopt on the dual SDP; N = 64
+ * is accepted by the limits but takes minutes (the deadline stops it).
  */
 import {
   CMatrix, adjoint, eigh, hermitianPart, identity, kron, mul, partialTrace, scale, trace, zeros,

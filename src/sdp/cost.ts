@@ -16,12 +16,16 @@
  * (m = 1297 and 2402: 0.21 s and 1.1 s per iteration here, 3.5–4 × 10⁹ of these operations per second;
  * 97 MB of buffers at m = 2402, against 92 MB estimated).
  *
+ * A fixed principal sub-block (elimination.ts: Watrous's fidelity SDP with ρ given) leaves the Schur
+ * complement; the shape says so (`schur.eliminated`) and the groups are those of the rest.
+ *
  * Deliberately not here: timing (no estimate is turned into seconds; machines differ), and any change
  * to how the solver works. Cost: O(number of blocks) for sdpCost; shapeOf walks the constraints' terms.
  */
 import { overLimits, type CostEstimate } from '../limits.js';
 import type { SdpProblem } from './types.js';
-import { GLOBAL_ATOM_THRESHOLD } from './compile.js';
+import { GLOBAL_ATOM_THRESHOLD, compile } from './compile.js';
+import { findFixedBlock } from './elimination.js';
 
 /** Iterations a solve is assumed to take in the estimate. */
 export const SDP_TYPICAL_ITERATIONS = 25;
@@ -34,9 +38,11 @@ export interface SdpShape {
   /**
    * Optional: how the Schur complement splits (compile.ts groups constraints that share blocks; two
    * groups share no entry): the sizes of the groups and the number of global rows coupling them.
-   * Without it the Schur complement is taken as one dense m × m matrix.
+   * Without it the Schur complement is taken as one dense m × m matrix. `eliminated`: constraints that
+   * fix a principal sub-block and are solved in closed form (elimination.ts), in none of the groups;
+   * they cost O(h³) per solve on their block, within the block work below.
    */
-  schur?: { groups: readonly number[]; globals: number };
+  schur?: { groups: readonly number[]; globals: number; eliminated?: number };
 }
 
 /** The estimate of a solve of this shape (see the header for the model). */
@@ -77,7 +83,7 @@ export function sdpCost(shape: SdpShape): CostEstimate {
     flops: SDP_TYPICAL_ITERATIONS * perIteration,
     step: perIteration,
     bytes: 16 * entries + blockBytes + 64 * m + 160 * vectorSize,
-    basis: `an SDP with ${blocks || 'no blocks'} and ${m} constraints${groups.length === 1 && r === 0 ? ` (its Schur complement is ${m}×${m})` : ''}`,
+    basis: `an SDP with ${blocks || 'no blocks'} and ${m} constraints${groups.length === 1 && r === 0 ? ` (its Schur complement is ${groups[0]}×${groups[0]}${shape.schur?.eliminated ? `, ${shape.schur.eliminated} fixed coordinates eliminated in closed form` : ''})` : ''}`,
   };
 }
 
@@ -87,7 +93,7 @@ export function sdpCost(shape: SdpShape): CostEstimate {
  * than GLOBAL_ATOM_THRESHOLD blocks is a global row), except that a vector block counts as one block
  * here (compile.ts splits it into coordinates), which can only make the groups larger.
  */
-export function shapeOf(problem: SdpProblem): SdpShape {
+export function shapeOf(problem: SdpProblem, eliminate?: { cone: number; count: number }): SdpShape {
   const nb = problem.cones.length;
   const parent = Array.from({ length: nb }, (_, k) => k);
   const find = (k: number): number => {
@@ -108,16 +114,24 @@ export function shapeOf(problem: SdpProblem): SdpShape {
   }
   const count = new Map<number, number>();
   for (const b of owner) count.set(find(b), (count.get(find(b)) ?? 0) + 1);
+  if (eliminate) count.set(find(eliminate.cone), (count.get(find(eliminate.cone)) ?? 0) - eliminate.count);
   return {
     blocks: problem.cones.map((c) => ({ size: c.size, hermitian: c.kind === 'hermitian', vector: c.kind === 'nonnegative' || c.kind === 'free' })),
     constraints: problem.constraints.length,
-    schur: { groups: [...count.values()], globals },
+    schur: { groups: [...count.values()].filter((g) => g > 0), globals, ...(eliminate ? { eliminated: eliminate.count } : {}) },
   };
 }
 
-/** Throws RhoError 'too-large' when the estimate of `problem` is above the engine's limits (src/limits.ts). */
+/**
+ * Throws RhoError 'too-large' when the estimate of `problem` is above the engine's limits (src/limits.ts).
+ * Only when the plain estimate is over them is the problem compiled to look for a fixed sub-block that
+ * the solver eliminates (elimination.ts), and the estimate redone without it.
+ */
 export function checkSdpLimits(problem: SdpProblem): void {
-  const c = sdpCost(shapeOf(problem));
-  const refusal = overLimits(c);
+  let refusal = overLimits(sdpCost(shapeOf(problem)));
+  if (!refusal) return;
+  const cp = compile(problem);
+  const fb = findFixedBlock(cp);
+  if (fb) refusal = overLimits(sdpCost(shapeOf(problem, { cone: cp.psd[fb.k].cone, count: fb.rows.length })));
   if (refusal) throw refusal;
 }

@@ -18,14 +18,14 @@ import { congruence, congruenceT, matMul } from '../linalg/dense.js';
 import { cCongruence, cCongruenceH, cMul, embedComplex, extractHermitian } from '../linalg/dense-complex.js';
 import { dotv, type Iterate, type SolverData, type Workspace } from './iterate.js';
 import { applyA, applyAT } from './residuals.js';
-import type { SchurSystem } from './schur.js';
+import type { SchurSolver } from './elimination.js';
 
 /**
  * What stays fixed within one iteration: the Schur complement assembled and factored for the current
  * scaling, D c = W C W (orthant: d∘c), A(Dc), p = K⁻¹[A D c + b; c_f], the denominator of Δτ and
  * W r_d W. Needs ws.nt (ntScaling) and ws.res (computeResiduals) of `it`.
  */
-export function prepareDirections(d: SolverData, it: Iterate, ws: Workspace, schur: SchurSystem): void {
+export function prepareDirections(d: SolverData, it: Iterate, ws: Workspace, schur: SchurSolver): void {
   const { cp, nb, m, nL, nF, herm, hs, sizes, cC } = d;
   const { W, dL } = ws.nt;
   const { Dc, DcL, adc, h2, tmp1, tmp3, WrdW } = ws;
@@ -67,7 +67,7 @@ export function prepareDirections(d: SolverData, it: Iterate, ws: Workspace, sch
  * terms of ws.corr / ws.corrL when `useCorr` (mehrotraCorrector), and `corrTK` for the τκ equation.
  * Needs prepareDirections for this iteration.
  */
-export function newtonDirection(d: SolverData, it: Iterate, ws: Workspace, schur: SchurSystem, eta: number, sigmaMu: number, useCorr: boolean, corrTK: number): void {
+export function newtonDirection(d: SolverData, it: Iterate, ws: Workspace, schur: SchurSolver, eta: number, sigmaMu: number, useCorr: boolean, corrTK: number): void {
   const { cp, nb, m, nL, nF, herm, hs, sizes } = d;
   const { G, lam, gL, lamL, dL } = ws.nt;
   const { rp, rdK, rdL, rdF, rg } = ws.res;

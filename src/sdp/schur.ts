@@ -7,8 +7,12 @@
  *
  * Assembly cost is per block: block k of internal size n touched by m_k constraints costs at most
  * m_k·min(nnz·n², 2n³) + m_k²·nnz, whichever of "form W A W densely" or "pair sparse entries
- * directly" is cheaper for each constraint (partial-trace constraints have n^(1/2)-ish entries).
- * Nothing is ever of size "total dimension squared".
+ * directly" is cheaper for each constraint (partial-trace constraints have n^(1/2)-ish entries). On
+ * Hermitian blocks a coefficient is taken as A = A₀ + A₀* (one of each mirrored pair, oriented so A₀ has
+ * few distinct rows R): W A W = T₀ + T₀* with T₀ = W[:,R] Ã₀ W[C,:] at |R|·n² instead of nnz·n², and
+ * pairs are summed over A₀ only (Re tr(A W B W) = 2 Re[tr(A₀WB₀W) + tr(A₀WB₀*W)]), a quarter of the
+ * entry pairs. Nothing is ever of size "total dimension squared". A term ½ Re tr(A_a P A_b P) can be
+ * subtracted on one block (elimination.ts, which eliminates a fixed sub-block in closed form).
  *
  * Factorization follows compile.ts's grouping: M restricted to a group is dense (Cholesky of each
  * group, hand-written for the tiny sizes here, see dense.ts), groups are coupled only through
@@ -41,6 +45,23 @@ interface HermitianEntries {
   idx: Int32Array;
   group: Int32Array;
   local: Int32Array;
+  /**
+   * The same coefficients as A = A₀ + A₀* (A₀: the stored entries p ≤ q, diagonal ones halved), per
+   * constraint hptr[a]..hptr[a+1]−1 with hIdx = q·n + p, and A₀'s distinct rows (rows[rptr[a]..]) and
+   * columns (cols[cptr[a]..]) with each entry's slot in them: for W A W = T₀ + T₀*, T₀ = W[:,R] Ã₀ W[C,:].
+   */
+  hptr: Int32Array;
+  hP: Int32Array;
+  hQ: Int32Array;
+  hIdx: Int32Array;
+  hRe: Float64Array;
+  hIm: Float64Array;
+  rptr: Int32Array;
+  rows: Int32Array;
+  cptr: Int32Array;
+  cols: Int32Array;
+  slotR: Int32Array;
+  slotC: Int32Array;
 }
 
 export class SchurSystem {
@@ -68,6 +89,8 @@ export class SchurSystem {
   private readonly cT: Float64Array;
   private readonly cA: Float64Array;
   private readonly cU: Float64Array;
+  private readonly cSmall: Float64Array;
+  private readonly cY: Float64Array;
   dependent = 0;
 
   constructor(cp: Compiled) {
@@ -108,6 +131,18 @@ export class SchurSystem {
         idx: new Int32Array(tot),
         group: new Int32Array(mk),
         local: new Int32Array(mk),
+        hptr: new Int32Array(mk + 1),
+        hP: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hQ: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hIdx: new Int32Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hRe: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        hIm: new Float64Array(cx.p.reduce((t, x) => t + x.length, 0)),
+        rptr: new Int32Array(mk + 1),
+        rows: new Int32Array(tot),
+        cptr: new Int32Array(mk + 1),
+        cols: new Int32Array(tot),
+        slotR: new Int32Array(tot),
+        slotC: new Int32Array(tot),
       };
       for (let a = 0; a < mk; a++) {
         const p = cx.p[a];
@@ -129,11 +164,70 @@ export class SchurSystem {
         }
         out.group[a] = cp.groupOf[blk.cons[a]];
         out.local[a] = cp.localIndex[blk.cons[a]];
+        // A₀ (one of each mirrored pair, diagonal halved) with its distinct rows and columns. Each pair may
+        // enter A₀ either way round; a greedy vertex cover picks the orientation, so that the rows are few
+        // (the σ-coupling constraints: d_B rows (b, o) against d_B columns (b′, o′)).
+        const len = p.length;
+        const cnt = new Map<number, number>();
+        for (let t = 0; t < len; t++) {
+          cnt.set(p[t], (cnt.get(p[t]) ?? 0) + 1);
+          if (p[t] !== q[t]) cnt.set(q[t], (cnt.get(q[t]) ?? 0) + 1);
+        }
+        const rowOf = new Int32Array(len).fill(-1);
+        for (let left = len; left > 0;) {
+          let x = -1;
+          let best = 0;
+          for (const [key, c] of cnt) if (c > best) [x, best] = [key, c];
+          cnt.set(x, 0);
+          for (let t = 0; t < len; t++) {
+            if (rowOf[t] >= 0 || (p[t] !== x && q[t] !== x)) continue;
+            rowOf[t] = x;
+            left--;
+            const other = p[t] === x ? q[t] : p[t];
+            if (other !== x) cnt.set(other, (cnt.get(other) ?? 0) - 1);
+          }
+        }
+        const rmap = new Map<number, number>();
+        const cmap = new Map<number, number>();
+        const h0 = out.hptr[a];
+        for (let t = 0; t < len; t++) {
+          const u = h0 + t;
+          const flip = rowOf[t] !== p[t];
+          const pr = flip ? q[t] : p[t];
+          const qc = flip ? p[t] : q[t];
+          const half = p[t] === q[t] ? 0.5 : 1;
+          out.hP[u] = pr;
+          out.hQ[u] = qc;
+          out.hIdx[u] = qc * h + pr;
+          out.hRe[u] = half * re[t];
+          out.hIm[u] = p[t] === q[t] ? 0 : flip ? -im[t] : im[t];
+          let sr = rmap.get(pr);
+          if (sr === undefined) {
+            sr = rmap.size;
+            rmap.set(pr, sr);
+            out.rows[out.rptr[a] + sr] = pr;
+          }
+          let sc = cmap.get(qc);
+          if (sc === undefined) {
+            sc = cmap.size;
+            cmap.set(qc, sc);
+            out.cols[out.cptr[a] + sc] = qc;
+          }
+          out.slotR[u] = sr;
+          out.slotC[u] = sc;
+        }
+        out.hptr[a + 1] = h0 + p.length;
+        out.rptr[a + 1] = out.rptr[a] + rmap.size;
+        out.cptr[a + 1] = out.cptr[a] + cmap.size;
       }
       return out;
     });
     const hmax = Math.max(1, ...cp.psd.filter((b) => b.complex).map((b) => b.n / 2));
     const hh = hmax * hmax;
+    let rc = 1;
+    for (const e of this.hx) if (e) for (let a = 0; a + 1 < e.rptr.length; a++) rc = Math.max(rc, (e.rptr[a + 1] - e.rptr[a]) * (e.cptr[a + 1] - e.cptr[a]));
+    this.cSmall = new Float64Array(2 * rc);
+    this.cY = new Float64Array(2 * hh);
     this.cT = new Float64Array(2 * hh);
     this.cA = new Float64Array(2 * hh);
     this.cU = new Float64Array(2 * hh);
@@ -150,7 +244,7 @@ export class SchurSystem {
    * O(m_k²) pair loop of coordinate-type constraints (one or two entries each, the bulk of the
    * one-shot quantities' rows) runs without per-pair dispatch.
    */
-  private assembleHermitianBlock(k: number, w: Float64Array): void {
+  private assembleHermitianBlock(k: number, w: Float64Array, sign = 1): void {
     const blk = this.cp.psd[k];
     const E = this.hx[k]!;
     const n = blk.n / 2;
@@ -183,7 +277,73 @@ export class SchurSystem {
       const pairCost = 2 * na * suffix[a];
       if (formCost < pairCost) {
         // T = W A_a W (complex n×n)
-        if (na * n < 2 * nn) {
+        const nr = E.rptr[a + 1] - E.rptr[a];
+        const nc = E.cptr[a + 1] - E.cptr[a];
+        let halfPairs = false;
+        if (nr * nn + nr * nc * n < Math.min(na * nn, 2 * nn * n)) {
+          // Few distinct rows R and columns C of A₀: T₀ = W[:,R] Ã₀ W[C,:], T = T₀ + T₀* (σ-coupling
+          // constraints of the fidelity of recovery: d_B rows for d_B² entries).
+          halfPairs = true;
+          const As = this.cSmall;
+          const ncc = nr * nc;
+          As.fill(0, 0, 2 * ncc);
+          for (let u = E.hptr[a]; u < E.hptr[a + 1]; u++) {
+            const sl = E.slotR[u] * nc + E.slotC[u];
+            As[sl] += E.hRe[u];
+            As[ncc + sl] += E.hIm[u];
+          }
+          // Y = Ã₀ W[C,:] (|R| × n)
+          const Y = this.cY;
+          const r0 = E.rptr[a];
+          const c0 = E.cptr[a];
+          Y.fill(0, 0, 2 * nr * n);
+          for (let i = 0; i < nr; i++) {
+            const yo = i * n;
+            for (let j = 0; j < nc; j++) {
+              const ar = As[i * nc + j];
+              const ai = As[ncc + i * nc + j];
+              if (ar === 0 && ai === 0) continue;
+              const wo = E.cols[c0 + j] * n;
+              for (let y = 0; y < n; y++) {
+                const wr0 = wr[wo + y];
+                const wi0 = wi[wo + y];
+                Y[yo + y] += ar * wr0 - ai * wi0;
+                Y[nr * n + yo + y] += ar * wi0 + ai * wr0;
+              }
+            }
+          }
+          // T₀ = W[:,R] Y, then T = T₀ + T₀*
+          Tr.fill(0, 0, nn);
+          Ti.fill(0, 0, nn);
+          for (let x = 0; x < n; x++) {
+            const xo = x * n;
+            for (let i = 0; i < nr; i++) {
+              const col = E.rows[r0 + i];
+              const cr = wr[xo + col];
+              const ci = wi[xo + col];
+              const yo = i * n;
+              const yio = nr * n + yo;
+              for (let y = 0; y < n; y++) {
+                const yr = Y[yo + y];
+                const yi = Y[yio + y];
+                Tr[xo + y] += cr * yr - ci * yi;
+                Ti[xo + y] += cr * yi + ci * yr;
+              }
+            }
+          }
+          for (let x = 0; x < n; x++) {
+            Tr[x * n + x] *= 2;
+            Ti[x * n + x] = 0;
+            for (let y = x + 1; y < n; y++) {
+              const sr = Tr[x * n + y] + Tr[y * n + x];
+              const si = Ti[x * n + y] - Ti[y * n + x];
+              Tr[x * n + y] = sr;
+              Ti[x * n + y] = si;
+              Tr[y * n + x] = sr;
+              Ti[y * n + x] = -si;
+            }
+          }
+        } else if (na * n < 2 * nn) {
           Tr.fill(0, 0, nn);
           Ti.fill(0, 0, nn);
           for (let t = a0; t < a1; t++) {
@@ -216,8 +376,22 @@ export class SchurSystem {
           cMul(w, A, n, this.cU);
           cMul(this.cU, w, n, T);
         }
-        // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r.
-        for (let b = a; b < mk; b++) {
+        // Re(β T_sr) summed over b's expanded entries (r, s, β); IDX holds s·n + r. T is Hermitian, so
+        // twice the sum over A₀'s entries is the same number (half the work) when T is exactly so.
+        if (halfPairs) {
+          const HI = E.hIdx;
+          const HR = E.hRe;
+          const HM = E.hIm;
+          const HP = E.hptr;
+          for (let b = a; b < mk; b++) {
+            let sum = 0;
+            for (let u = HP[b]; u < HP[b + 1]; u++) {
+              const idx = HI[u];
+              sum += HR[u] * Tr[idx] - HM[u] * Ti[idx];
+            }
+            row[b] = 2 * sum;
+          }
+        } else for (let b = a; b < mk; b++) {
           let sum = 0;
           for (let u = ptr[b]; u < ptr[b + 1]; u++) {
             const idx = IDX[u];
@@ -226,32 +400,45 @@ export class SchurSystem {
           row[b] = sum;
         }
       } else {
+        // Pairs of entries directly, over A₀ only: Re tr(A W B W) = 2 Re[tr(A₀ W B₀ W) + tr(A₀ W B₀* W)]
+        // (A = A₀ + A₀*, W Hermitian), with tr(αE_pq W βE_rs W) = αβ W_qr W_sp: a quarter of the pairs of
+        // the expanded entries.
+        const HP = E.hptr;
+        const HPp = E.hP;
+        const HQ = E.hQ;
+        const HR = E.hRe;
+        const HM = E.hIm;
+        const t0 = HP[a];
+        const t1 = HP[a + 1];
         for (let b = a; b < mk; b++) {
           let sum = 0;
-          for (let t = a0; t < a1; t++) {
-            const po = P[t];
-            const qo = Q[t] * n;
-            const ar = RE[t];
-            const ai = IM[t];
-            for (let u = ptr[b]; u < ptr[b + 1]; u++) {
-              // Re(α β W_qr W_sp)
-              const br = RE[u];
-              const bi = IM[u];
-              const abr = ar * br - ai * bi;
-              const abi = ar * bi + ai * br;
-              const i1 = qo + P[u];
-              const i2 = Q[u] * n + po;
-              const w1r = wr[i1];
-              const w1i = wi[i1];
-              const w2r = wr[i2];
-              const w2i = wi[i2];
-              sum += abr * (w1r * w2r - w1i * w2i) - abi * (w1r * w2i + w1i * w2r);
+          for (let t = t0; t < t1; t++) {
+            const pa = HPp[t];
+            const qo = HQ[t] * n;
+            const ar = HR[t];
+            const ai = HM[t];
+            for (let u = HP[b]; u < HP[b + 1]; u++) {
+              const rb = HPp[u];
+              const sb = HQ[u];
+              const br = HR[u];
+              const bi = HM[u];
+              const i1 = qo + rb;
+              const i2 = sb * n + pa;
+              const i3 = qo + sb;
+              const i4 = rb * n + pa;
+              const x1r = wr[i1] * wr[i2] - wi[i1] * wi[i2];
+              const x1i = wr[i1] * wi[i2] + wi[i1] * wr[i2];
+              const x2r = wr[i3] * wr[i4] - wi[i3] * wi[i4];
+              const x2i = wr[i3] * wi[i4] + wi[i3] * wr[i4];
+              // αβ·x₁ + αβ̄·x₂, real part
+              sum += (ar * br - ai * bi) * x1r - (ar * bi + ai * br) * x1i + (ar * br + ai * bi) * x2r - (ai * br - ar * bi) * x2i;
             }
           }
-          row[b] = sum;
+          row[b] = 2 * sum;
         }
       }
-      // Scatter ½·row into the Schur complement.
+      // Scatter ½·row into the Schur complement (−½·row for a subtracted term).
+      if (sign !== 1) for (let b = a; b < mk; b++) row[b] *= sign;
       const ga = grp[a];
       const i = blk.cons[a];
       if (ga >= 0) {
@@ -299,12 +486,14 @@ export class SchurSystem {
    * Assemble and factor for scalings W (per PSD block: dense n×n real for symmetric blocks, the
    * complex n/2×n/2 scaling in complexdense.ts's layout for Hermitian blocks) and orthant weights d.
    */
-  assembleAndFactor(W: Float64Array[], d: Float64Array): void {
+  assembleAndFactor(W: Float64Array[], d: Float64Array, subtract?: { block: number; w: Float64Array }): void {
     const cp = this.cp;
     for (const a of this.D) a.fill(0);
     for (const a of this.B) a.fill(0);
     this.R.fill(0);
     cp.psd.forEach((blk, k) => (blk.complex ? this.assembleHermitianBlock(k, W[k]) : this.assembleBlock(blk, W[k])));
+    // A term ½ Re tr(A_a P A_b P) taken off one Hermitian block (elimination.ts: a fixed sub-block solved in closed form).
+    if (subtract) this.assembleHermitianBlock(subtract.block, subtract.w, -1);
     for (let p = 0; p < cp.nL; p++) {
       const s = cp.linColPtr[p];
       const e = cp.linColPtr[p + 1];
@@ -541,6 +730,24 @@ export class SchurSystem {
     return this.zBuf;
   }
 
+  /** The unfactored system times v (length m + free variables), into out. */
+  apply(v: Float64Array, out: Float64Array): Float64Array {
+    this.ensureBuffers();
+    return this.multiply(v, out);
+  }
+
+  private ensureBuffers(): void {
+    const len = this.cp.m + this.cp.nF;
+    if (this.bufRes.length !== len) {
+      this.bufAx = new Float64Array(len);
+      this.bufRes = new Float64Array(len);
+      this.bufDx = new Float64Array(len);
+      this.bufR1 = new Float64Array(this.r);
+      this.bufR2 = new Float64Array(this.r);
+      this.bufR3 = new Float64Array(this.r);
+    }
+  }
+
   /** Multiply by the unfactored system. */
   private multiply(v: Float64Array, out: Float64Array): Float64Array {
     const cp = this.cp;
@@ -584,14 +791,7 @@ export class SchurSystem {
    */
   solve(rhs: Float64Array, refinements = 1, out?: Float64Array): Float64Array {
     const len = this.cp.m + this.cp.nF;
-    if (this.bufRes.length !== len) {
-      this.bufAx = new Float64Array(len);
-      this.bufRes = new Float64Array(len);
-      this.bufDx = new Float64Array(len);
-      this.bufR1 = new Float64Array(this.r);
-      this.bufR2 = new Float64Array(this.r);
-      this.bufR3 = new Float64Array(this.r);
-    }
+    this.ensureBuffers();
     const x = this.solveOnce(rhs, out ?? new Float64Array(len));
     if (this.dependent > 0) return x; // refinement would fight the dropped rows
     for (let k = 0; k < refinements; k++) {

@@ -74,7 +74,7 @@ import { deadlineError, deadlinePassed, reportProgress } from '../deadline.js';
 import {
   BestIterate, detectInfeasibility, iterationInfo, meetsTolerances, merit, userBlocks, userInfo, type Tolerances,
 } from './termination.js';
-import { SchurSystem } from './schur.js';
+import { schurSystemFor } from './elimination.js';
 import type { Certificate } from './types.js';
 
 export const DEFAULT_OPTIONS = {
@@ -153,7 +153,7 @@ export function solveSdpWith(problem: SdpProblem, options: SdpOptions, internals
 
   const it = Iterate.start(d);
   const ws = new Workspace(d);
-  const schur = new SchurSystem(d.cp);
+  const schur = schurSystemFor(d.cp);
   const best = new BestIterate();
   let status: SdpStatus = 'iteration-limit';
   let message: string | undefined;

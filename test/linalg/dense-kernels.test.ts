@@ -51,7 +51,8 @@ describe('real dense kernels (src/linalg)', () => {
 
   it('guarded Cholesky reproduces A = L Lᵀ for a positive definite A and flags a duplicated row as dependent (definition of the factorization; common practice, no published source)', () => {
     const r = rng(9);
-    for (const n of [1, 3, 6, 13, 37]) {
+    // 131 and 200 take the blocked path (panels of 64 columns, an odd last panel for 131).
+    for (const n of [1, 3, 6, 13, 37, 131, 200]) {
       const g = Array.from({ length: n * n }, () => gaussian(r));
       const a = new Float64Array(n * n);
       for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) {
@@ -72,5 +73,13 @@ describe('real dense kernels (src/linalg)', () => {
     const gram = new Float64Array(9);
     for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) gram[i * 3 + j] = v[i].reduce((s, x, k) => s + x * v[j][k], 0);
     assert.equal(choleskyInPlaceGuarded(gram, 3), 1);
+    // The same on the blocked path: rows 150 and 199 of a 200×200 Gram matrix repeat rows 3 and 70.
+    const n = 200;
+    const vs = Array.from({ length: n }, (_, i) => Array.from({ length: n }, () => gaussian(r)));
+    vs[150] = vs[3];
+    vs[199] = vs[70];
+    const big = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) big[i * n + j] = vs[i].reduce((s, x, k) => s + x * vs[j][k], 0);
+    assert.equal(choleskyInPlaceGuarded(big, n), 2);
   });
 });

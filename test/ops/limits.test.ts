@@ -48,7 +48,7 @@ const OVERSIZED: Record<string, Record<string, unknown> | null> = {
   entropy: { rho: packed(1025) },
   'expectation-divergence': { rho: packed(1025), blocks: [1025] },
   fidelity: { rho: packed(1025), sigma: packed(1025) },
-  'fidelity-of-recovery': { rho: { matrix: packed(64), dims: [4, 4, 4] }, a: [0], b: [1], c: [2] },
+  'fidelity-of-recovery': { rho: { matrix: packed(96), dims: [4, 4, 6] }, a: [0], b: [1], c: [2] },
   'fidelity-sdp': { rho: packed(64), sigma: packed(64) },
   'fisher-information': { rho: packed(1025), derivative: packed(1025) },
   'guessing-probability': { probabilities: [0.25, 0.25, 0.25, 0.25], states: [packed(128), packed(128), packed(128), packed(128)] },
@@ -150,6 +150,16 @@ describe('presets refuse what they would build above the limits, before building
     refusedQuickly({ op: 'state-preset', name: 'werner', d: 33, p: 0.5 });
     refusedQuickly({ op: 'channel-preset', name: 'partial-trace', dims: [1024, 1024], traceOut: [1] });
     refusedQuickly({ op: 'channel-preset', name: 'erasure', d: 1024, p: 0.1 });
+  });
+
+  it('fidelity-of-recovery: (2,4,4) and (4,2,4) are within the limits (their Schur complement is N² + d_B² = 1040 and 1028 rows once the ρ block is eliminated, src/sdp/elimination.ts), (4,4,6) is refused', () => {
+    const op = listOps().find((o) => o.name === 'fidelity-of-recovery')!;
+    for (const dims of [[2, 4, 4], [4, 2, 4]]) {
+      const c = op.cost!({ rho: { matrix: packed(32), dims }, a: [0], b: [1], c: [2] } as any);
+      assert.ok(c.flops <= MAX_WORK && c.bytes <= MAX_BYTES && (c.step ?? 0) <= MAX_STEP_WORK, `${dims}: ${JSON.stringify(c)}`);
+      assert.match(c.basis ?? '', /Schur complement is 10(40|28)×10(40|28)/);
+    }
+    refusedQuickly({ op: 'fidelity-of-recovery', rho: { matrix: packed(96), dims: [4, 4, 6] }, a: [0], b: [1], c: [2] });
   });
 
   it('depolarizing d = 33 would have 1089 Kraus operators, above the 1024 the engine takes as input', () => {

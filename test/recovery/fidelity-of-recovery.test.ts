@@ -1,6 +1,7 @@
 // Fidelity of recovery F(A;C|B) = max over channels R: B → BC of F(ρ_ABC, (id_A ⊗ R)(ρ_AB))
 // (Seshadreesan & Wilde 2015): against cvxopt (cvxopt from PyPI in .venv, the SDP built independently
-// with numpy in scripts/reference/cvxopt_guessing.py), the Fawzi–Renner bound, the Petz map as a
+// with numpy in scripts/reference/cvxopt_guessing.py, and its dual at (4,2,4) in
+// scripts/reference/cvxopt_recovery.py), the Fawzi–Renner bound, the Petz map as a
 // feasible channel, Markov chains, and the fidelity-of-recovery op.
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
@@ -11,6 +12,7 @@ import { fidelityOfRecovery } from '../../src/recovery/fidelity-of-recovery.js';
 import { petzRecovery } from '../../src/recovery/petz.js';
 import { krausSum } from '../../src/quantum/channels.js';
 import '../../src/ops/recovery-ops.js';
+import '../../src/ops/verify-ops.js';
 import { handle } from '../../src/ops/handle.js';
 import { randomDensity, rng } from '../helpers/random.js';
 import { cmi, markovChain } from './fixtures.js';
@@ -50,6 +52,22 @@ describe('fidelity of recovery F(A;C|B) (Seshadreesan & Wilde, Phys. Rev. A 92, 
   it('matches cvxopt.solvers.sdp on a random three-qubit state generated in this run (seed 41) to 1e-6 relative', () => {
     const ref = liveReference<ReferenceFile>([script, '--seed', '41', '--count', '0', '--recovery', '1', '--out', '-'], 'cvxopt (bash scripts/setup.sh)');
     if (ref) check(ref, 'live');
+  });
+
+  it('matches cvxopt.solvers.sdp on the dual SDP at the sizes researchers use, (2,2,2) and (4,2,4), to 1e-6 relative, and the op\'s (4,2,4) certificate passes verify-answer (committed test/reference/data/recovery-cases.json from scripts/reference/cvxopt_recovery.py, Hilbert–Schmidt states)', () => {
+    const ref = JSON.parse(readFileSync(`${root}test/reference/data/recovery-cases.json`, 'utf8')) as ReferenceFile & { generator: string };
+    assert.equal(ref.generator, 'scripts/reference/cvxopt_recovery.py');
+    assert.ok(ref.recovery.some((c) => c.rho.dims.join(',') === '4,2,4'));
+    check({ ...ref, recovery: ref.recovery.filter((c) => c.rho.dims.join(',') !== '4,2,4') }, 'committed (dual SDP)');
+    // (4,2,4) through the op: its value against cvxopt's, and its certificate re-checked by verify-answer.
+    const big = ref.recovery.find((c) => c.rho.dims.join(',') === '4,2,4')!;
+    const request = { op: 'fidelity-of-recovery', rho: big.rho, a: big.a, b: big.b, c: big.c };
+    const answer = JSON.parse(JSON.stringify(handle(request)));
+    assert.equal(answer.ok, true, JSON.stringify(answer).slice(0, 300));
+    assert.equal(answer.certificate.status, 'optimal');
+    assert.ok(Math.abs(answer.value - big.value) / big.value <= 1e-6, `(4,2,4): ours ${answer.value}, cvxopt ${big.value} (cvxopt ${ref.cvxopt}, seed ${ref.seed})`);
+    const v = handle({ op: 'verify-answer', request, answer }) as Record<string, any>;
+    assert.equal(v.value, true, JSON.stringify(v).slice(0, 600));
   });
 
   it('obeys I(A;C|B) ≥ −log₂ F(A;C|B) on random states, full rank and rank-deficient (Fawzi & Renner, Commun. Math. Phys. 340, 575 (2015), in the form of Seshadreesan & Wilde 2015)', () => {
