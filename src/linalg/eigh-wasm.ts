@@ -30,8 +30,9 @@ export interface EighKernels {
   ): void;
   tridiagonalize(
     are: number, aim: number, n: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
-    betas: number, p: number, pI: number, w0: number, w0I: number, w1: number, w1I: number,
+    betas: number, work: number,
   ): void;
+  tridiagonalValues(d: number, e: number, n: number): number;
   phaseRows(zt: number, dRe: number, dIm: number, mRe: number, mIm: number, n: number): void;
   transposePair(mRe: number, mIm: number, n: number, tRe: number, tIm: number): void;
   copyRows(src: number, perm: number, dst: number, dstStride: number, m: number): void;

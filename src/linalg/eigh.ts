@@ -101,7 +101,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
   const inv = 1 / scaleBy;
   // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8, 10 * n + 8, 48, n >= SIMD_MIN_N);
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N);
   // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
   const are = ws.f64(n * n);
   const aim = ws.f64(n * n);
@@ -123,7 +123,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   tridiagonalize(are, aim, n, d, eRe, eIm, vRe, vIm, betas, ws);
 
   // Phases making the off-diagonal real: delta_{k+1} = delta_k e_k / |e_k|.
-  const e = new Float64Array(n);
+  const e = ws.f64(n);
   const dRe = ws.f64(n);
   const dIm = ws.f64(n);
   dRe[0] = 1;
@@ -142,7 +142,11 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
 
   if (!wantVectors) {
-    tridiagonalQL(d, e, null, n);
+    if (ws.kernels) {
+      if (ws.kernels.tridiagonalValues(d.byteOffset, e.byteOffset, n) !== 0) {
+        throw new EigenSolverError('eigh: QL iteration did not converge');
+      }
+    } else tridiagonalQL(d, e, null, n);
     const values = Float64Array.from(d).sort();
     for (let i = 0; i < n; i++) values[i] *= scaleBy;
     return { values };
@@ -197,6 +201,11 @@ export function eigvalsh(h: CMatrix): Float64Array {
   return eigh(h, { vectors: false }).values;
 }
 
+/** Doubles of scratch the kernels' reduction needs: the interleaved lower triangle and the step's vectors. */
+function reductionScratch(n: number): number {
+  return 2 * n * (n + 1) + 8 * (n + 2);
+}
+
 /**
  * Householder reduction of the Hermitian matrix whose lower triangle is (are, aim) to tridiagonal
  * form: diagonal d, subdiagonal e (complex, e[k] at position (k+1, k)). Reflector k is stored in
@@ -212,6 +221,16 @@ function tridiagonalize(
   vRe: Float64Array, vIm: Float64Array, betas: Float64Array, ws: Workspace,
 ): void {
   const kern = ws.kernels;
+  if (kern) {
+    // The whole loop below, in the kernels (the same steps and sums, on an interleaved copy of the
+    // lower triangle, pairs of rows and columns in SIMD): scratch for the copy and the step's vectors.
+    const work = ws.f64(reductionScratch(n));
+    kern.tridiagonalize(
+      are.byteOffset, aim.byteOffset, n, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
+      betas.byteOffset, work.byteOffset,
+    );
+    return;
+  }
   const pRe = ws.f64(n);
   const pIm = ws.f64(n);
   // Current update vectors (v, w) of the previous step, full length n (zeros outside range).
@@ -220,14 +239,6 @@ function tridiagonalize(
   let wIm = ws.f64(n);
   let nwRe = ws.f64(n);
   let nwIm = ws.f64(n);
-  if (kern) {
-    // The whole loop below, in the kernels (the same steps and sums, pairs of rows in SIMD).
-    kern.tridiagonalize(
-      are.byteOffset, aim.byteOffset, n, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
-      betas.byteOffset, pRe.byteOffset, pIm.byteOffset, wRe.byteOffset, wIm.byteOffset, nwRe.byteOffset, nwIm.byteOffset,
-    );
-    return;
-  }
   let prevBase = 0;
 
   for (let k = 0; k < n; k++) {
