@@ -29,9 +29,10 @@ export interface EighKernels {
     r0: number, r1: number, q0: number, q1: number,
   ): void;
   tridiagonalize(
-    are: number, aim: number, n: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
+    are: number, aim: number, n: number, inv: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
     betas: number, work: number,
   ): void;
+  largestEntry(re: number, im: number, count: number): number;
   tridiagonalValues(d: number, e: number, n: number): number;
   phaseRows(zt: number, dRe: number, dIm: number, mRe: number, mIm: number, n: number): void;
   transposePair(mRe: number, mIm: number, n: number, tRe: number, tIm: number): void;

@@ -86,31 +86,42 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   if (n === 0) return { values: new Float64Array(0), vectors: wantVectors ? zeros(0, 0) : undefined };
 
   // Work on the Hermitian part, scaled to unit largest entry (guards against overflow/underflow).
-  let scaleBy = 0;
+  // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N);
+  const K = ws.kernels;
   const hr = h.re;
   const hi = h.im;
-  for (let k = 0; k < n * n; k++) {
-    const a = Math.abs(hr[k]) + Math.abs(hi[k]);
-    if (!(a < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
-    if (a > scaleBy) scaleBy = a;
+  const are = ws.f64(n * n);
+  const aim = ws.f64(n * n);
+  let scaleBy = 0;
+  if (K) {
+    // The kernels take the whole matrix and form the scaled Hermitian part as they copy it (below).
+    are.set(hr);
+    aim.set(hi);
+    scaleBy = K.largestEntry(are.byteOffset, aim.byteOffset, n * n);
+  } else {
+    for (let k = 0; k < n * n; k++) {
+      const a = Math.abs(hr[k]) + Math.abs(hi[k]);
+      if (!(a < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
+      if (a > scaleBy) scaleBy = a;
+    }
   }
+  if (!(scaleBy < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
   if (scaleBy === 0) {
     const vectors = zeros(n, n);
     for (let i = 0; i < n; i++) vectors.re[i * n + i] = 1;
     return { values: new Float64Array(n), vectors: wantVectors ? vectors : undefined };
   }
   const inv = 1 / scaleBy;
-  // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N);
-  // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
-  const are = ws.f64(n * n);
-  const aim = ws.f64(n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      are[i * n + j] = 0.5 * (hr[i * n + j] + hr[j * n + i]) * inv;
-      aim[i * n + j] = 0.5 * (hi[i * n + j] - hi[j * n + i]) * inv;
+  if (!K) {
+    // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j <= i; j++) {
+        are[i * n + j] = 0.5 * (hr[i * n + j] + hr[j * n + i]) * inv;
+        aim[i * n + j] = 0.5 * (hi[i * n + j] - hi[j * n + i]) * inv;
+      }
+      aim[i * n + i] = 0;
     }
-    aim[i * n + i] = 0;
   }
 
   const d = ws.f64(n);
@@ -120,7 +131,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   const vRe = ws.f64(n * n);
   const vIm = ws.f64(n * n);
   const betas = ws.f64(n);
-  tridiagonalize(are, aim, n, d, eRe, eIm, vRe, vIm, betas, ws);
+  tridiagonalize(are, aim, n, inv, d, eRe, eIm, vRe, vIm, betas, ws);
 
   // Phases making the off-diagonal real: delta_{k+1} = delta_k e_k / |e_k|.
   const e = ws.f64(n);
@@ -162,7 +173,6 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   // longer needed).
   const mRe = are;
   const mIm = aim;
-  const K = ws.kernels;
   if (K) K.phaseRows(zt.byteOffset, dRe.byteOffset, dIm.byteOffset, mRe.byteOffset, mIm.byteOffset, n);
   else {
     for (let c = 0; c < n; c++) {
@@ -214,9 +224,12 @@ function reductionScratch(n: number): number {
  * Step k: p = beta A22 v, w = p - (beta/2)(v* p) v, A22 -= v w* + w v*. The update of step k is
  * applied to column k+1 first, reflector k+1 is formed from it, and then one pass over the rest of
  * the lower triangle both applies the update of step k and accumulates A33 v_{k+1}.
+ *
+ * With the kernels, (are, aim) hold the whole unscaled matrix instead, and the kernels form the
+ * lower triangle of its Hermitian part times `inv` as they copy it into their own layout.
  */
 function tridiagonalize(
-  are: Float64Array, aim: Float64Array, n: number,
+  are: Float64Array, aim: Float64Array, n: number, inv: number,
   d: Float64Array, eRe: Float64Array, eIm: Float64Array,
   vRe: Float64Array, vIm: Float64Array, betas: Float64Array, ws: Workspace,
 ): void {
@@ -226,7 +239,7 @@ function tridiagonalize(
     // lower triangle, pairs of rows and columns in SIMD): scratch for the copy and the step's vectors.
     const work = ws.f64(reductionScratch(n));
     kern.tridiagonalize(
-      are.byteOffset, aim.byteOffset, n, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
+      are.byteOffset, aim.byteOffset, n, inv, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
       betas.byteOffset, work.byteOffset,
     );
     return;

@@ -149,6 +149,36 @@ function fillRows(
 }
 
 // ---------------------------------------------------------------------------------------------------
+// Rows already read into typed arrays
+
+/**
+ * Matrices given as rows of finite numbers, all rows of the same length, read into a row-major
+ * Float64Array by the size walk every request passes first (src/ops/sizes.ts), which looks at every
+ * entry anyway: the request's validation then skips them (handle's stand-ins) and the readers below
+ * take the array instead of reading the rows again. Keyed by the rows array itself (forgotten with
+ * the request); a reader takes an entry out, so two readers of one array never share storage.
+ */
+const numericRows = new WeakMap<unknown[], Float64Array>();
+
+/** Records `values` as the row-major entries of `rows` (all finite numbers, rows of equal length). */
+export function rememberNumericRows(rows: unknown[], values: Float64Array): void {
+  numericRows.set(rows, values);
+}
+
+/** Whether `rows` was read into a typed array by the size walk (rows of finite numbers, of equal length). */
+export function isNumericRows(rows: unknown): boolean {
+  return Array.isArray(rows) && numericRows.has(rows);
+}
+
+/** The entries of `rows` read by the size walk, when there are `count` of them; removed from the record. */
+function takeNumericRows(rows: unknown[], count: number): Float64Array | undefined {
+  const values = numericRows.get(rows);
+  if (values === undefined) return undefined;
+  numericRows.delete(rows);
+  return values.length === count ? values : undefined;
+}
+
+// ---------------------------------------------------------------------------------------------------
 // Matrices and kets
 
 /** The encoding name of the packed matrix form (protocol 1.1). */
@@ -248,24 +278,27 @@ export function readMatrix(value: unknown, path: string): CMatrix {
     }
     refuseUnknownKeys(value, ['re', 'im'], path, 'a complex matrix');
     const { rows, cols } = rowsShape(value.re, `${path}.re`);
-    const m = zeros(rows, cols);
-    fillRows(value.re as unknown[], `${path}.re`, cols, m.re, (v, p, k) => {
-      m.re[k] = realEntry(v, p);
-    });
-    if (value.im !== undefined) {
-      const shape = rowsShape(value.im, `${path}.im`);
-      if (shape.rows !== rows || shape.cols !== cols) {
-        throw new RhoError(
-          'dimension-mismatch',
-          `The imaginary part is ${shape.rows}x${shape.cols} but the real part is ${rows}x${cols}.`,
-          `${path}.im`,
-        );
-      }
-      fillRows(value.im as unknown[], `${path}.im`, cols, m.im, (v, p, k) => {
-        m.im[k] = realEntry(v, p);
+    // Each part: the size walk's typed array when it made one, else read here.
+    const part = (rowsValue: unknown[], at: string): Float64Array => {
+      const ready = takeNumericRows(rowsValue, rows * cols);
+      if (ready) return ready;
+      const target = new Float64Array(rows * cols);
+      fillRows(rowsValue, at, cols, target, (v, p, k) => {
+        target[k] = realEntry(v, p);
       });
+      return target;
+    };
+    const re = part(value.re as unknown[], `${path}.re`);
+    if (value.im === undefined) return { rows, cols, re, im: new Float64Array(rows * cols) };
+    const shape = rowsShape(value.im, `${path}.im`);
+    if (shape.rows !== rows || shape.cols !== cols) {
+      throw new RhoError(
+        'dimension-mismatch',
+        `The imaginary part is ${shape.rows}x${shape.cols} but the real part is ${rows}x${cols}.`,
+        `${path}.im`,
+      );
     }
-    return m;
+    return { rows, cols, re, im: part(value.im as unknown[], `${path}.im`) };
   }
   if (!Array.isArray(value)) {
     throw new RhoError(
@@ -275,6 +308,8 @@ export function readMatrix(value: unknown, path: string): CMatrix {
     );
   }
   const { rows, cols } = rowsShape(value, path);
+  const re = takeNumericRows(value, rows * cols);
+  if (re) return { rows, cols, re, im: new Float64Array(rows * cols) };
   const m = zeros(rows, cols);
   let expressions = 0;
   fillRows(value, path, cols, m.re, (v, p, k) => {

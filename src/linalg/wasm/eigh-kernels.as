@@ -183,25 +183,59 @@ function rowOneX(r: usize, B: usize, i: i32, j0: i32): void {
 }
 
 /**
- * Reduction of the Hermitian matrix whose lower triangle is (are, aim) (n x n, row-major) to
- * tridiagonal form: the algorithm of tridiagonalize in eigh.ts (see there), on the interleaved
- * copy described above. Outputs d, eRe, eIm (n each), the reflectors in the rows of vRe/vIm and
- * their betas. work: scratch, 16-byte aligned, of at least 2 n (n + 1) + 8 (n + 2) doubles (X,
- * then B); (are, aim) are left as they were.
+ * max_k |re_k| + |im_k| over count entries: the scale of eigh's input (Infinity or NaN when an
+ * entry is not finite; the host refuses the matrix then).
+ */
+export function largestEntry(re: usize, im: usize, count: i32): f64 {
+  let M = f64x2.splat(0);
+  let bad = f64x2.splat(0);
+  let k = 0;
+  for (; k + 1 < count; k += 2) {
+    const o = (<usize>k) << 3;
+    const a = f64x2.add(f64x2.abs(v128.load(re + o)), f64x2.abs(v128.load(im + o)));
+    M = f64x2.pmax(M, a);
+    bad = f64x2.add(bad, f64x2.sub(a, a)); // NaN from here on once an entry is infinite or NaN
+  }
+  let m = f64x2.extract_lane(M, 0) > f64x2.extract_lane(M, 1) ? f64x2.extract_lane(M, 0) : f64x2.extract_lane(M, 1);
+  if (k < count) {
+    const a = Math.abs(f64At(re, k)) + Math.abs(f64At(im, k));
+    if (a > m) m = a;
+    if (a - a != 0) return NaN;
+  }
+  if (f64x2.extract_lane(bad, 0) != 0 || f64x2.extract_lane(bad, 1) != 0) return NaN;
+  return m;
+}
+
+/**
+ * Reduction of the Hermitian part of the matrix (are, aim) (n x n, row-major, the whole matrix)
+ * times inv to tridiagonal form: the algorithm of tridiagonalize in eigh.ts (see there), on the
+ * interleaved copy described above, made in tiles of 16 x 16 (the transposed reads stay in
+ * cache). Outputs d, eRe, eIm (n each), the reflectors in the rows of vRe/vIm and their betas.
+ * work: scratch, 16-byte aligned, of at least 2 n (n + 1) + 8 (n + 2) doubles (X, then B);
+ * (are, aim) are left as they were.
  */
 export function tridiagonalize(
-  are: usize, aim: usize, n: i32, d: usize, eRe: usize, eIm: usize, vRe: usize, vIm: usize, betas: usize, work: usize,
+  are: usize, aim: usize, n: i32, inv: f64, d: usize, eRe: usize, eIm: usize, vRe: usize, vIm: usize,
+  betas: usize, work: usize,
 ): void {
   const rb = ((<usize>(n + 1)) >> 1) << 5;
   const X = work;
   const B = X + (<usize>n) * rb;
   const nb = (<usize>n) << 3;
-  for (let i = 0; i < n; i++) {
-    const src = (<usize>i) * nb, row = X + (<usize>i) * rb;
-    for (let j = 0; j <= i; j++) {
-      const o = (<usize>j) << 3;
-      store<f64>(row + colX(j), load<f64>(are + src + o));
-      store<f64>(row + colX(j), load<f64>(aim + src + o), 16);
+  const half = 0.5 * inv;
+  for (let ib = 0; ib < n; ib += 16) {
+    const iEnd = ib + 16 < n ? ib + 16 : n;
+    for (let jb = 0; jb <= ib; jb += 16) {
+      for (let i = ib; i < iEnd; i++) {
+        const src = (<usize>i) * nb, row = X + (<usize>i) * rb;
+        const jEnd = jb + 16 < i + 1 ? jb + 16 : i + 1;
+        for (let j = jb; j < jEnd; j++) {
+          const o = (<usize>j) << 3;
+          const t = (<usize>j) * nb + ((<usize>i) << 3);
+          store<f64>(row + colX(j), (load<f64>(are + src + o) + load<f64>(are + t)) * half);
+          store<f64>(row + colX(j), j == i ? 0 : (load<f64>(aim + src + o) - load<f64>(aim + t)) * half, 16);
+        }
+      }
     }
   }
   memory.fill(B, 0, ((<usize>(n + 2)) >> 1) << 7);
