@@ -217,7 +217,7 @@ function decodeBytes(bytes: Buffer): string | undefined {
 /** Parses one request's text: JSON, then the duplicate-key check. */
 function parseText(text: string): { value: unknown; duplicates: DuplicateKey[] } {
   const value = JSON.parse(text);
-  return { value, duplicates: findDuplicateKeys(text, value) };
+  return { value, duplicates: findDuplicateKeys(text) };
 }
 
 async function computeWhole(file: string | undefined, pretty: boolean, deadline: number, io: Io): Promise<number> {
