@@ -32,6 +32,7 @@ export interface EighKernels {
     are: number, aim: number, n: number, inv: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
     betas: number, work: number,
   ): void;
+  squareFacts(re: number, im: number, n: number, limit: number, out: number): number;
   largestEntry(re: number, im: number, count: number): number;
   tridiagonalValues(d: number, e: number, n: number): number;
   phaseRows(zt: number, dRe: number, dIm: number, mRe: number, mIm: number, n: number): void;
@@ -166,4 +167,26 @@ export class Workspace {
     if (this.offset > this.limit) throw new Error('eigh: workspace too small (internal error)');
     return at;
   }
+}
+
+/**
+ * The codec's pass over a square matrix (src/ops/codec.ts, squareFacts) in the kernels: the sum of
+ * squared magnitudes and the Hermiticity defect's square with its place (row j, column i), or
+ * `bad`, the first row-major index of an entry not of magnitude at most `limit`. Null where the
+ * kernels are off. The same loops in the same order as the codec's, so the same numbers; compiled
+ * code from the first call, where the TypeScript loops run cold in a fresh process.
+ */
+export function kernelSquareFacts(
+  re: Float64Array, im: Float64Array, n: number, limit: number,
+): { bad: number; sum: number; worst: number; row: number; col: number } | null {
+  const ws = Workspace.create(2 * n * n + 4, 0, 3);
+  const K = ws.kernels;
+  if (!K) return null;
+  const a = ws.f64(n * n);
+  const b = ws.f64(n * n);
+  const out = ws.f64(4);
+  a.set(re);
+  b.set(im);
+  const bad = K.squareFacts(a.byteOffset, b.byteOffset, n, limit, out.byteOffset);
+  return { bad, sum: out[0], worst: out[1], row: out[2], col: out[3] };
 }

@@ -1031,3 +1031,48 @@ export function tridiagonalValues(d: usize, e: usize, n: i32): i32 {
   }
   return 0;
 }
+
+// ---------------------------------------------------------------------------------------------
+// The codec's one pass over a square matrix (squareFacts in src/ops/codec.ts, the same loops and
+// order, so the same sums and the same entry reported on ties).
+// ---------------------------------------------------------------------------------------------
+
+/**
+ * For the n x n matrix (re, im): the first row-major index whose real or imaginary part is not of
+ * magnitude at most `limit` (NaN included), or -1; then (when -1) out[0] = Σ |m_k|², out[1] =
+ * max |m_ij − conj(m_ji)|² over i ≤ j in tiles of 32 × 32, out[2], out[3] = its row j and column i.
+ */
+export function squareFacts(re: usize, im: usize, n: i32, limit: f64, out: usize): i32 {
+  const count = n * n;
+  let sum: f64 = 0;
+  for (let k = 0; k < count; k++) {
+    const x = f64At(re, k), y = f64At(im, k);
+    if (!(Math.abs(x) <= limit && Math.abs(y) <= limit)) return k;
+    sum += x * x + y * y;
+  }
+  let worst: f64 = 0;
+  let row = 0, col = 0;
+  for (let ib = 0; ib < n; ib += 32) {
+    for (let jb = ib; jb < n; jb += 32) {
+      const iEnd = ib + 32 < n ? ib + 32 : n;
+      const jEnd = jb + 32 < n ? jb + 32 : n;
+      for (let i = ib; i < iEnd; i++) {
+        for (let j = jb > i ? jb : i; j < jEnd; j++) {
+          const dr = f64At(re, i * n + j) - f64At(re, j * n + i);
+          const di = f64At(im, i * n + j) + f64At(im, j * n + i);
+          const d2 = dr * dr + di * di;
+          if (d2 > worst) {
+            worst = d2;
+            row = j;
+            col = i;
+          }
+        }
+      }
+    }
+  }
+  f64Set(out, 0, sum);
+  f64Set(out, 1, worst);
+  f64Set(out, 2, <f64>row);
+  f64Set(out, 3, <f64>col);
+  return -1;
+}
