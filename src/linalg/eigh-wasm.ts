@@ -1,7 +1,8 @@
 /**
  * Loader and workspace for the eigensolver's WebAssembly SIMD kernels (src/linalg/wasm/).
  *
- * What it is for: instantiating the kernels synchronously at first use (`new WebAssembly.Module`
+ * What it is for (besides `kernelSquareFacts`, the codec's pass over a square matrix in the same
+ * kernels, below): instantiating the kernels synchronously at first use (`new WebAssembly.Module`
  * and `new WebAssembly.Instance` on bytes committed as base64, so it works in Node and in a web
  * worker with no build step and no fetch), and handing eigh.ts a workspace of Float64Array/
  * Int32Array views into the kernels' memory, grown as needed.
@@ -13,7 +14,7 @@
  * a different order) to the same accuracy.
  *
  * What it does not do: share the memory between threads, or shrink it (it keeps the largest size
- * asked for, about 7n² + 24n doubles for the largest n seen: 3.7 MB at n = 256).
+ * asked for, about 9n² + 34n doubles for the largest n seen: 4.8 MB at n = 256).
  * Cost: decoding and compiling about 12 kB of WebAssembly once, well under a millisecond.
  */
 import { EIGH_KERNELS_WASM_BASE64 } from './wasm/eigh-kernels.wasm.js';

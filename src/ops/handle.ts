@@ -4,7 +4,9 @@
  *
  * Steps: check the request is an object with a known "op"; check the sizes of every matrix, ket and
  * the request's expression strings against the limits (sizes.ts: the same 'too-large' in every form);
- * validate it with ajv against the op's argument schema plus the common fields; estimate the op's cost
+ * validate it with ajv against the op's argument schema plus the common fields (matrices of numbers
+ * given as rows, which the size walk has already read and checked, are seen by ajv as one-entry
+ * stand-ins: withStandIns below; same verdicts and errors); estimate the op's cost
  * from the request's sizes (the op's `cost`, src/ops/cost.ts) and refuse it with 'too-large' above the
  * limits of src/limits.ts; run the op within its deadline (the request's "deadline" in milliseconds, or
  * the caller's default; src/deadline.ts); turn a RhoError into a failure answer and any other exception
@@ -14,7 +16,8 @@
  * answers to requests.
  *
  * Deliberately not here: numerics (ops do that), JSON text (callers parse and print), and any I/O.
- * Cost: schema compilation once per op (cached), then validation linear in the size of the request.
+ * Cost: schema compilation once per op (cached), then validation linear in the size of the request
+ * outside its matrices of numbers given as rows.
  */
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import { RhoError, type ErrorCode } from '../errors.js';

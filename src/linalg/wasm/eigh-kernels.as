@@ -4,10 +4,13 @@
 // browser bundles need no compiler; a test checks that the committed module equals a fresh compile.
 //
 // What it is for: the loops that hold nearly all of eigh's work, written with 128-bit vectors of
-// two doubles: the whole Householder reduction loop (its fused pass over pairs of rows), the
+// two doubles: the input's scale and Hermitian part, the whole Householder reduction loop (its
+// fused pass over pairs of rows, on an interleaved copy), the QL iteration for eigenvalues only, the
 // reflector pairs of the back-transformation, the O(k²) parts of each divide-and-conquer merge
 // (secular equation, Gu–Eisenstat ẑ, the normalised vectors of the rank-one update) and its matrix
-// product, and the data movement around them (phases, final transpose, merge write-back). The
+// product, and the data movement around them (phases, final transpose, merge write-back); also
+// the codec's pass over a square matrix (src/ops/codec.ts: finiteness, norm, Hermiticity defect),
+// so that a fresh process runs compiled code from its first matrix. The
 // extension is .as (not .ts) so that the project's TypeScript compiler does not try to type-check
 // AssemblyScript's types (f64, usize, v128).
 // What it deliberately does not do: allocate, throw, or call out; every argument is a byte address
