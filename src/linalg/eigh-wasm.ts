@@ -139,15 +139,17 @@ export class Workspace {
   /**
    * A workspace for at most `doubles` Float64 and `ints` Int32 entries in total (each array rounded
    * up to 16 bytes), in the kernels' memory when the SIMD path is active and useKernels is set.
+   * zero = false skips zero-filling the kernels' memory (a few megabytes at n = 256), for callers
+   * that write every entry they read; arrays outside the kernels' memory are always zero.
    */
-  static create(doubles: number, ints: number, arrays: number, useKernels = true): Workspace {
+  static create(doubles: number, ints: number, arrays: number, useKernels = true, zero = true): Workspace {
     if (!useKernels || !eighWasmStatus().active) return new Workspace(null, null);
     const l = loaded!;
     const bytes = 8 * doubles + 4 * ints + 16 * arrays;
     const have = l.memory.buffer.byteLength;
     if (bytes > have) l.memory.grow(Math.ceil((bytes - have) / 65536));
     const buffer = l.memory.buffer;
-    new Uint8Array(buffer, 0, bytes).fill(0);
+    if (zero) new Uint8Array(buffer, 0, bytes).fill(0);
     return new Workspace(l.kernels, buffer);
   }
 
@@ -180,7 +182,7 @@ export class Workspace {
 export function kernelSquareFacts(
   re: Float64Array, im: Float64Array, n: number, limit: number,
 ): { bad: number; sum: number; worst: number; row: number; col: number } | null {
-  const ws = Workspace.create(2 * n * n + 4, 0, 3);
+  const ws = Workspace.create(2 * n * n + 4, 0, 3, true, false); // every entry is written before it is read
   const K = ws.kernels;
   if (!K) return null;
   const a = ws.f64(n * n);

@@ -97,7 +97,9 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
 
   // Work on the Hermitian part, scaled to unit largest entry (guards against overflow/underflow).
   // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N);
+  // Eigenvalues only, every entry read is written first (the kernels' reduction, the phases, QL), so
+  // the kernels' memory is not zero-filled; divide and conquer and the back-transformation rely on zeros.
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N, wantVectors);
   const K = ws.kernels;
   const hr = h.re;
   const hi = h.im;
@@ -148,6 +150,7 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   const dRe = ws.f64(n);
   const dIm = ws.f64(n);
   dRe[0] = 1;
+  dIm[0] = 0;
   for (let k = 0; k < n - 1; k++) {
     const m = Math.sqrt(eRe[k] * eRe[k] + eIm[k] * eIm[k]);
     e[k] = m;
