@@ -187,7 +187,12 @@ export const PACKED_ENCODING = 'float64-le';
 
 // A search for one bad character (about 1 ms per megabyte); an anchored /^[...]*$/ backtracks ten times slower.
 const NOT_BASE64 = /[^A-Za-z0-9+/=]/;
-const NodeBuffer = (globalThis as { Buffer?: { from(text: string, encoding: 'base64'): Uint8Array } }).Buffer;
+interface NodeBufferApi {
+  from(text: string, encoding: 'base64'): Uint8Array;
+  from(memory: ArrayBuffer, byteOffset: number, length: number): { write(text: string, offset: number, length: number, encoding: 'base64'): number };
+  byteLength(text: string, encoding: 'base64'): number;
+}
+const NodeBuffer = (globalThis as { Buffer?: NodeBufferApi }).Buffer;
 
 /** Bytes of `b64` (standard base64, padded), checked to be exactly `bytes` long before decoding. */
 function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
@@ -230,6 +235,11 @@ function fillPacked(bytes: Uint8Array, target: Float64Array, path: string): void
   if (LITTLE_ENDIAN && bytes.byteOffset % 8 === 0) target.set(new Float64Array(bytes.buffer, bytes.byteOffset, target.length));
   else if (LITTLE_ENDIAN) new Uint8Array(target.buffer, target.byteOffset, bytes.length).set(bytes);
   else for (let k = 0; k < target.length; k++) target[k] = view.getFloat64(8 * k, true);
+  checkFinite(target, path);
+}
+
+/** Refuses a packed matrix with a NaN or infinite entry, naming the first. */
+function checkFinite(target: Float64Array, path: string): void {
   for (let k = 0; k < target.length; k++) {
     if (!Number.isFinite(target[k])) {
       throw new RhoError('invalid-argument', `Entry ${k} (row-major) of the packed matrix is NaN or infinite; entries must be finite.`, path);
@@ -256,8 +266,20 @@ function readPackedMatrix(value: Record<string, unknown>, path: string): CMatrix
   if (cols > MAX_DIMENSION) throw tooLarge(`${path}.shape[1]`, 'The number of columns', cols, MAX_DIMENSION);
   if (value.re === undefined) throw new RhoError('missing-argument', 'A packed matrix needs "re".', `${path}.re`);
   const m = zeros(rows, cols);
-  fillPacked(decodeBase64(value.re, 8 * rows * cols, `${path}.re`), m.re, `${path}.re`);
-  if (value.im !== undefined) fillPacked(decodeBase64(value.im, 8 * rows * cols, `${path}.im`), m.im, `${path}.im`);
+  const part = (text: unknown, target: Float64Array, at: string): void => {
+    // In Node, well-formed text of the right length is decoded straight into the matrix's storage (no
+    // buffer of its own, no copy); anything else takes decodeBase64's path, which names the fault.
+    const bytes = target.byteLength;
+    if (NodeBuffer && LITTLE_ENDIAN && typeof text === 'string' && text.length === 4 * Math.ceil(bytes / 3) && NodeBuffer.byteLength(text, 'base64') === bytes) {
+      if (NodeBuffer.from(target.buffer as ArrayBuffer, target.byteOffset, bytes).write(text, 0, bytes, 'base64') === bytes) {
+        checkFinite(target, at);
+        return;
+      }
+    }
+    fillPacked(decodeBase64(text, bytes, at), target, at);
+  };
+  part(value.re, m.re, `${path}.re`);
+  if (value.im !== undefined) part(value.im, m.im, `${path}.im`);
   return m;
 }
 
