@@ -12,7 +12,9 @@
  *    numpy_eigh_bench.py). Goals ≤ 2× packed, ≤ 3× rows.
  *
  * Needs the build (`npm run build`: bin/rhosigma.js runs dist/cli/bundle.cjs with its code cache) and .venv (numpy).
- * Prints medians and ratios only; asserts nothing (not a test). Cost: about a minute.
+ * Also in CPU time (user + system of the command, read by .venv's Python as its child's rusage, against
+ * numpy's process time), which other load on a shared machine disturbs much less than wall time.
+ * Prints medians and ratios only; asserts nothing (not a test). Cost: about a minute and a half.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync, existsSync } from 'node:fs';
@@ -65,13 +67,26 @@ function rowsForm(m: { re: Float64Array; im: Float64Array }, n: number) {
   return { re: rows(m.re), im: rows(m.im) };
 }
 
-function numpyEigvalsh(): number {
+/**
+ * CPU milliseconds (user + system) of one run of a command, measured by .venv's Python as the rusage
+ * of its child: much less disturbed than wall time by other load on a shared machine.
+ */
+function cpu(cmd: string, args: string[]): number {
+  const code = 'import resource, subprocess, sys\nsubprocess.run(sys.argv[1:], stdout=subprocess.DEVNULL)\nr = resource.getrusage(resource.RUSAGE_CHILDREN)\nprint(r.ru_utime + r.ru_stime)';
+  const r = spawnSync(PYTHON, ['-c', code, cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 20 });
+  if (r.status !== 0) throw new Error(`cpu(${cmd}) failed: ${r.stderr}`);
+  return 1000 * Number(r.stdout.trim());
+}
+
+/** numpy.linalg.eigvalsh at n = N: wall-clock and CPU milliseconds (medians of its own repetitions). */
+function numpyEigvalshTimes(): { wall: number; cpu: number } {
   const env: NodeJS.ProcessEnv = { ...process.env, OPENBLAS_NUM_THREADS: '1' };
   delete env.OPENBLAS_CORETYPE;
   delete env.OPENBLAS_L2_SIZE;
   const r = spawnSync(PYTHON, [join(root, 'scripts/reference/numpy_eigh_bench.py'), String(N), '--reps', '15'], { encoding: 'utf8', env });
   if (r.status !== 0) throw new Error(`numpy_eigh_bench.py failed: ${r.stderr}`);
-  return 1000 * (JSON.parse(r.stdout) as { sizes: Record<string, { eigvalsh: number }> }).sizes[String(N)].eigvalsh;
+  const t = (JSON.parse(r.stdout) as { sizes: Record<string, { eigvalsh: number; eigvalsh_cpu: number }> }).sizes[String(N)];
+  return { wall: 1000 * t.eigvalsh, cpu: 1000 * t.eigvalsh_cpu };
 }
 
 export default async function transport(): Promise<void> {
@@ -95,7 +110,10 @@ export default async function transport(): Promise<void> {
   const bare: number[] = [];
   const perMatrix: Record<'packed' | 'rows', number[]> = { packed: [], rows: [] };
   const numpy: number[] = [];
+  const numpyCpu: number[] = [];
+  const cpuPerMatrix: Record<'packed' | 'rows', number[]> = { packed: [], rows: [] };
   const ratios = { start: [] as number[], packed: [] as number[], rows: [] as number[] };
+  const cpuRatios = { packed: [] as number[], rows: [] as number[] };
   wall('node', [BIN, 'compute', one]); // fills the file cache
   for (let r = 0; r < rounds; r++) {
     // Start-up: pairs of (bare node, our command), alternating, medians of the pairs.
@@ -108,14 +126,18 @@ export default async function transport(): Promise<void> {
     bare.push(median(b));
     start.push(median(s));
     ratios.start.push(median(s) / median(b));
-    const np = numpyEigvalsh();
+    const { wall: np, cpu: npCpu } = numpyEigvalshTimes();
     numpy.push(np);
+    numpyCpu.push(npCpu);
     for (const form of ['packed', 'rows'] as const) {
       const batch = wall('node', [BIN, 'compute', '--lines', files[form].batch]);
       const single = wall('node', [BIN, 'compute', '--lines', files[form].single]);
       const per = (batch - single) / (K - 1);
       perMatrix[form].push(per);
       ratios[form].push(per / np);
+      const perCpu = (cpu('node', [BIN, 'compute', '--lines', files[form].batch]) - cpu('node', [BIN, 'compute', '--lines', files[form].single])) / (K - 1);
+      cpuPerMatrix[form].push(perCpu);
+      cpuRatios[form].push(perCpu / npCpu);
     }
   }
   const f = (x: number) => x.toFixed(1);
@@ -127,4 +149,7 @@ export default async function transport(): Promise<void> {
   console.log(`  packed          ${f(median(perMatrix.packed))}   ratio ${g(median(ratios.packed))} (goal ≤ 2)`);
   console.log(`  {re, im} rows   ${f(median(perMatrix.rows))}   ratio ${g(median(ratios.rows))} (goal ≤ 3)`);
   console.log(`  per-round ratios: start ${ratios.start.map(g).join(' ')}; packed ${ratios.packed.map(g).join(' ')}; rows ${ratios.rows.map(g).join(' ')}`);
+  console.log('The same in CPU time (user + system of the command per matrix; numpy\'s process time), less disturbed by other load:');
+  console.log(`  numpy ${f(median(numpyCpu))}   packed ${f(median(cpuPerMatrix.packed))} ratio ${g(median(cpuRatios.packed))}   rows ${f(median(cpuPerMatrix.rows))} ratio ${g(median(cpuRatios.rows))}`);
+  console.log(`  per-round CPU ratios: packed ${cpuRatios.packed.map(g).join(' ')}; rows ${cpuRatios.rows.map(g).join(' ')}`);
 }

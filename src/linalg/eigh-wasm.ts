@@ -1,7 +1,8 @@
 /**
  * Loader and workspace for the eigensolver's WebAssembly SIMD kernels (src/linalg/wasm/).
  *
- * What it is for: instantiating the kernels synchronously at first use (`new WebAssembly.Module`
+ * What it is for (besides `kernelSquareFacts`, the codec's pass over a square matrix in the same
+ * kernels, below): instantiating the kernels synchronously at first use (`new WebAssembly.Module`
  * and `new WebAssembly.Instance` on bytes committed as base64, so it works in Node and in a web
  * worker with no build step and no fetch), and handing eigh.ts a workspace of Float64Array/
  * Int32Array views into the kernels' memory, grown as needed.
@@ -13,7 +14,7 @@
  * a different order) to the same accuracy.
  *
  * What it does not do: share the memory between threads, or shrink it (it keeps the largest size
- * asked for, about 7n² + 24n doubles for the largest n seen: 3.7 MB at n = 256).
+ * asked for, about 9n² + 34n doubles for the largest n seen: 4.8 MB at n = 256).
  * Cost: decoding and compiling about 12 kB of WebAssembly once, well under a millisecond.
  */
 import { EIGH_KERNELS_WASM_BASE64 } from './wasm/eigh-kernels.wasm.js';
@@ -29,9 +30,12 @@ export interface EighKernels {
     r0: number, r1: number, q0: number, q1: number,
   ): void;
   tridiagonalize(
-    are: number, aim: number, n: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
-    betas: number, p: number, pI: number, w0: number, w0I: number, w1: number, w1I: number,
+    are: number, aim: number, n: number, inv: number, d: number, eRe: number, eIm: number, vRe: number, vIm: number,
+    betas: number, work: number,
   ): void;
+  squareFacts(re: number, im: number, n: number, limit: number, out: number): number;
+  largestEntry(re: number, im: number, count: number): number;
+  tridiagonalValues(d: number, e: number, n: number): number;
   phaseRows(zt: number, dRe: number, dIm: number, mRe: number, mIm: number, n: number): void;
   transposePair(mRe: number, mIm: number, n: number, tRe: number, tIm: number): void;
   copyRows(src: number, perm: number, dst: number, dstStride: number, m: number): void;
@@ -135,15 +139,17 @@ export class Workspace {
   /**
    * A workspace for at most `doubles` Float64 and `ints` Int32 entries in total (each array rounded
    * up to 16 bytes), in the kernels' memory when the SIMD path is active and useKernels is set.
+   * zero = false skips zero-filling the kernels' memory (a few megabytes at n = 256), for callers
+   * that write every entry they read; arrays outside the kernels' memory are always zero.
    */
-  static create(doubles: number, ints: number, arrays: number, useKernels = true): Workspace {
+  static create(doubles: number, ints: number, arrays: number, useKernels = true, zero = true): Workspace {
     if (!useKernels || !eighWasmStatus().active) return new Workspace(null, null);
     const l = loaded!;
     const bytes = 8 * doubles + 4 * ints + 16 * arrays;
     const have = l.memory.buffer.byteLength;
     if (bytes > have) l.memory.grow(Math.ceil((bytes - have) / 65536));
     const buffer = l.memory.buffer;
-    new Uint8Array(buffer, 0, bytes).fill(0);
+    if (zero) new Uint8Array(buffer, 0, bytes).fill(0);
     return new Workspace(l.kernels, buffer);
   }
 
@@ -164,4 +170,26 @@ export class Workspace {
     if (this.offset > this.limit) throw new Error('eigh: workspace too small (internal error)');
     return at;
   }
+}
+
+/**
+ * The codec's pass over a square matrix (src/ops/codec.ts, squareFacts) in the kernels: the sum of
+ * squared magnitudes and the Hermiticity defect's square with its place (row j, column i), or
+ * `bad`, the first row-major index of an entry not of magnitude at most `limit`. Null where the
+ * kernels are off. The same loops in the same order as the codec's, so the same numbers; compiled
+ * code from the first call, where the TypeScript loops run cold in a fresh process.
+ */
+export function kernelSquareFacts(
+  re: Float64Array, im: Float64Array, n: number, limit: number,
+): { bad: number; sum: number; worst: number; row: number; col: number } | null {
+  const ws = Workspace.create(2 * n * n + 4, 0, 3, true, false); // every entry is written before it is read
+  const K = ws.kernels;
+  if (!K) return null;
+  const a = ws.f64(n * n);
+  const b = ws.f64(n * n);
+  const out = ws.f64(4);
+  a.set(re);
+  b.set(im);
+  const bad = K.squareFacts(a.byteOffset, b.byteOffset, n, limit, out.byteOffset);
+  return { bad, sum: out[0], worst: out[1], row: out[2], col: out[3] };
 }

@@ -31,11 +31,13 @@
  *
  * Two paths compute the same thing. Where WebAssembly with 128-bit SIMD is available (Node 20,
  * current browsers and web workers), from order 16 up, the kernels (src/linalg/wasm/
- * eigh-kernels.as, loaded by eigh-wasm.ts) run the whole Householder reduction loop (its pairs of
- * rows as f64x2), the reflector pairs of the back-transformation, the O(k²) parts of each divide
- * and conquer merge (secular equation, ẑ, the normalised vectors of the rank-one update) and its
- * matrix product, and the copies around them (phases, final transpose, merge write-back). The
- * deflation bookkeeping, the QL leaves and the scaling of the input stay in TypeScript; the
+ * eigh-kernels.as, loaded by eigh-wasm.ts) run the scale and the scaled Hermitian part of the input
+ * (formed while copying it into their own interleaved layout), the whole Householder reduction loop
+ * (pairs of rows and of columns as f64x2), for eigenvalues only the QL iteration, the reflector
+ * pairs of the back-transformation, the O(k²) parts of each divide and conquer merge (secular
+ * equation, ẑ, the normalised vectors of the rank-one update) and its matrix product, and the
+ * copies around them (phases, final transpose, merge write-back). The deflation bookkeeping and
+ * the QL leaves of divide and conquer stay in TypeScript; the
  * whole solver is the scalar TypeScript below where the kernels are unavailable or switched off
  * (RHOSIGMA_EIGH_WASM=0 or setEighWasmEnabled(false)). The kernels sum in a different order, so
  * the two paths agree to rounding, not bit for bit. Measured (CPU-time medians, bench/eigh.ts,
@@ -45,6 +47,14 @@
  * 256; eigenvalues only 0.71–1.12×, 1.13–1.36×, 1.19–1.41×. A fourth run, with numpy at its
  * quiet-machine times, gave 1.99×, 2.04×, 1.90× (see bench/eigh.ts: the ratio moves with the load
  * during each side's part of the run).
+ *
+ * Eigenvalues only at n = 256 (2026-12-03, CPU-time medians of the kernels alone, load 7): the
+ * reduction 6.3 ms (89.5 Mflop: 14 GFlop/s, near numpy's zhetrd rate with AVX-512 and fused
+ * multiply-add, which WebAssembly's 128-bit SIMD lacks), the QL iteration 1.1 ms, the scale and
+ * copy 0.1 ms. The interleaved layout took the reduction from about 7.4 to 6.3 ms: with split
+ * real/imaginary arrays its inner loop walked a dozen pointers. Removing a quarter of the inner
+ * loop's arithmetic (an experiment, not kept) cut its time by a sixth: the loop is bound by its
+ * instruction throughput, not by memory.
  *
  * Hand-written because no JavaScript library offers a fast complex Hermitian eigensolver: mathjs's
  * `eigs` and ml-matrix's real symmetric solver on the 2n embedding are one to three orders of
@@ -86,31 +96,44 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   if (n === 0) return { values: new Float64Array(0), vectors: wantVectors ? zeros(0, 0) : undefined };
 
   // Work on the Hermitian part, scaled to unit largest entry (guards against overflow/underflow).
-  let scaleBy = 0;
+  // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
+  // Eigenvalues only, every entry read is written first (the kernels' reduction, the phases, QL), so
+  // the kernels' memory is not zero-filled; divide and conquer and the back-transformation rely on zeros.
+  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8 + reductionScratch(n), 10 * n + 8, 48, n >= SIMD_MIN_N, wantVectors);
+  const K = ws.kernels;
   const hr = h.re;
   const hi = h.im;
-  for (let k = 0; k < n * n; k++) {
-    const a = Math.abs(hr[k]) + Math.abs(hi[k]);
-    if (!(a < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
-    if (a > scaleBy) scaleBy = a;
+  const are = ws.f64(n * n);
+  const aim = ws.f64(n * n);
+  let scaleBy = 0;
+  if (K) {
+    // The kernels take the whole matrix and form the scaled Hermitian part as they copy it (below).
+    are.set(hr);
+    aim.set(hi);
+    scaleBy = K.largestEntry(are.byteOffset, aim.byteOffset, n * n);
+  } else {
+    for (let k = 0; k < n * n; k++) {
+      const a = Math.abs(hr[k]) + Math.abs(hi[k]);
+      if (!(a < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
+      if (a > scaleBy) scaleBy = a;
+    }
   }
+  if (!(scaleBy < Infinity)) throw new EigenSolverError('eigh: matrix has a non-finite entry');
   if (scaleBy === 0) {
     const vectors = zeros(n, n);
     for (let i = 0; i < n; i++) vectors.re[i * n + i] = 1;
     return { values: new Float64Array(n), vectors: wantVectors ? vectors : undefined };
   }
   const inv = 1 / scaleBy;
-  // Arrays the SIMD kernels touch live in one workspace (in the kernels' memory when they are on).
-  const ws = Workspace.create((wantVectors ? 7 : 4) * n * n + 24 * n + 8, 10 * n + 8, 48, n >= SIMD_MIN_N);
-  // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
-  const are = ws.f64(n * n);
-  const aim = ws.f64(n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      are[i * n + j] = 0.5 * (hr[i * n + j] + hr[j * n + i]) * inv;
-      aim[i * n + j] = 0.5 * (hi[i * n + j] - hi[j * n + i]) * inv;
+  if (!K) {
+    // Lower triangle (with diagonal) of the scaled Hermitian part; the upper triangle is unused.
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j <= i; j++) {
+        are[i * n + j] = 0.5 * (hr[i * n + j] + hr[j * n + i]) * inv;
+        aim[i * n + j] = 0.5 * (hi[i * n + j] - hi[j * n + i]) * inv;
+      }
+      aim[i * n + i] = 0;
     }
-    aim[i * n + i] = 0;
   }
 
   const d = ws.f64(n);
@@ -120,13 +143,14 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   const vRe = ws.f64(n * n);
   const vIm = ws.f64(n * n);
   const betas = ws.f64(n);
-  tridiagonalize(are, aim, n, d, eRe, eIm, vRe, vIm, betas, ws);
+  tridiagonalize(are, aim, n, inv, d, eRe, eIm, vRe, vIm, betas, ws);
 
   // Phases making the off-diagonal real: delta_{k+1} = delta_k e_k / |e_k|.
-  const e = new Float64Array(n);
+  const e = ws.f64(n);
   const dRe = ws.f64(n);
   const dIm = ws.f64(n);
   dRe[0] = 1;
+  dIm[0] = 0;
   for (let k = 0; k < n - 1; k++) {
     const m = Math.sqrt(eRe[k] * eRe[k] + eIm[k] * eIm[k]);
     e[k] = m;
@@ -142,7 +166,11 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   }
 
   if (!wantVectors) {
-    tridiagonalQL(d, e, null, n);
+    if (ws.kernels) {
+      if (ws.kernels.tridiagonalValues(d.byteOffset, e.byteOffset, n) !== 0) {
+        throw new EigenSolverError('eigh: QL iteration did not converge');
+      }
+    } else tridiagonalQL(d, e, null, n);
     const values = Float64Array.from(d).sort();
     for (let i = 0; i < n; i++) values[i] *= scaleBy;
     return { values };
@@ -158,7 +186,6 @@ export function eigh(h: CMatrix, options: { vectors?: boolean } = {}): EighResul
   // longer needed).
   const mRe = are;
   const mIm = aim;
-  const K = ws.kernels;
   if (K) K.phaseRows(zt.byteOffset, dRe.byteOffset, dIm.byteOffset, mRe.byteOffset, mIm.byteOffset, n);
   else {
     for (let c = 0; c < n; c++) {
@@ -197,6 +224,11 @@ export function eigvalsh(h: CMatrix): Float64Array {
   return eigh(h, { vectors: false }).values;
 }
 
+/** Doubles of scratch the kernels' reduction needs: the interleaved lower triangle and the step's vectors. */
+function reductionScratch(n: number): number {
+  return 2 * n * (n + 1) + 8 * (n + 2);
+}
+
 /**
  * Householder reduction of the Hermitian matrix whose lower triangle is (are, aim) to tridiagonal
  * form: diagonal d, subdiagonal e (complex, e[k] at position (k+1, k)). Reflector k is stored in
@@ -205,13 +237,26 @@ export function eigvalsh(h: CMatrix): Float64Array {
  * Step k: p = beta A22 v, w = p - (beta/2)(v* p) v, A22 -= v w* + w v*. The update of step k is
  * applied to column k+1 first, reflector k+1 is formed from it, and then one pass over the rest of
  * the lower triangle both applies the update of step k and accumulates A33 v_{k+1}.
+ *
+ * With the kernels, (are, aim) hold the whole unscaled matrix instead, and the kernels form the
+ * lower triangle of its Hermitian part times `inv` as they copy it into their own layout.
  */
 function tridiagonalize(
-  are: Float64Array, aim: Float64Array, n: number,
+  are: Float64Array, aim: Float64Array, n: number, inv: number,
   d: Float64Array, eRe: Float64Array, eIm: Float64Array,
   vRe: Float64Array, vIm: Float64Array, betas: Float64Array, ws: Workspace,
 ): void {
   const kern = ws.kernels;
+  if (kern) {
+    // The whole loop below, in the kernels (the same steps and sums, on an interleaved copy of the
+    // lower triangle, pairs of rows and columns in SIMD): scratch for the copy and the step's vectors.
+    const work = ws.f64(reductionScratch(n));
+    kern.tridiagonalize(
+      are.byteOffset, aim.byteOffset, n, inv, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
+      betas.byteOffset, work.byteOffset,
+    );
+    return;
+  }
   const pRe = ws.f64(n);
   const pIm = ws.f64(n);
   // Current update vectors (v, w) of the previous step, full length n (zeros outside range).
@@ -220,14 +265,6 @@ function tridiagonalize(
   let wIm = ws.f64(n);
   let nwRe = ws.f64(n);
   let nwIm = ws.f64(n);
-  if (kern) {
-    // The whole loop below, in the kernels (the same steps and sums, pairs of rows in SIMD).
-    kern.tridiagonalize(
-      are.byteOffset, aim.byteOffset, n, d.byteOffset, eRe.byteOffset, eIm.byteOffset, vRe.byteOffset, vIm.byteOffset,
-      betas.byteOffset, pRe.byteOffset, pIm.byteOffset, wRe.byteOffset, wIm.byteOffset, nwRe.byteOffset, nwIm.byteOffset,
-    );
-    return;
-  }
   let prevBase = 0;
 
   for (let k = 0; k < n; k++) {

@@ -19,6 +19,7 @@ import {
   CMatrix, adjoint, frobeniusNorm, hermitianPart, hermiticityDefect, mul, scale, trace, zeros,
 } from '../linalg/cmatrix.js';
 import { eigh } from '../linalg/eigh.js';
+import { kernelSquareFacts } from '../linalg/eigh-wasm.js';
 import { product } from '../linalg/subsystems.js';
 import { RhoError } from '../errors.js';
 import type { Channel, State } from '../quantum/types.js';
@@ -149,6 +150,36 @@ function fillRows(
 }
 
 // ---------------------------------------------------------------------------------------------------
+// Rows already read into typed arrays
+
+/**
+ * Matrices given as rows of finite numbers, all rows of the same length, read into a row-major
+ * Float64Array by the size walk every request passes first (src/ops/sizes.ts), which looks at every
+ * entry anyway: the request's validation then skips them (handle's stand-ins) and the readers below
+ * take the array instead of reading the rows again. Keyed by the rows array itself (forgotten with
+ * the request); a reader takes an entry out, so two readers of one array never share storage.
+ */
+const numericRows = new WeakMap<unknown[], Float64Array>();
+
+/** Records `values` as the row-major entries of `rows` (all finite numbers, rows of equal length). */
+export function rememberNumericRows(rows: unknown[], values: Float64Array): void {
+  numericRows.set(rows, values);
+}
+
+/** Whether `rows` was read into a typed array by the size walk (rows of finite numbers, of equal length). */
+export function isNumericRows(rows: unknown): boolean {
+  return Array.isArray(rows) && numericRows.has(rows);
+}
+
+/** The entries of `rows` read by the size walk, when there are `count` of them; removed from the record. */
+function takeNumericRows(rows: unknown[], count: number): Float64Array | undefined {
+  const values = numericRows.get(rows);
+  if (values === undefined) return undefined;
+  numericRows.delete(rows);
+  return values.length === count ? values : undefined;
+}
+
+// ---------------------------------------------------------------------------------------------------
 // Matrices and kets
 
 /** The encoding name of the packed matrix form (protocol 1.1). */
@@ -156,7 +187,12 @@ export const PACKED_ENCODING = 'float64-le';
 
 // A search for one bad character (about 1 ms per megabyte); an anchored /^[...]*$/ backtracks ten times slower.
 const NOT_BASE64 = /[^A-Za-z0-9+/=]/;
-const NodeBuffer = (globalThis as { Buffer?: { from(text: string, encoding: 'base64'): Uint8Array } }).Buffer;
+interface NodeBufferApi {
+  from(text: string, encoding: 'base64'): Uint8Array;
+  from(memory: ArrayBuffer, byteOffset: number, length: number): { write(text: string, offset: number, length: number, encoding: 'base64'): number };
+  byteLength(text: string, encoding: 'base64'): number;
+}
+const NodeBuffer = (globalThis as { Buffer?: NodeBufferApi }).Buffer;
 
 /** Bytes of `b64` (standard base64, padded), checked to be exactly `bytes` long before decoding. */
 function decodeBase64(b64: unknown, bytes: number, path: string): Uint8Array {
@@ -199,6 +235,11 @@ function fillPacked(bytes: Uint8Array, target: Float64Array, path: string): void
   if (LITTLE_ENDIAN && bytes.byteOffset % 8 === 0) target.set(new Float64Array(bytes.buffer, bytes.byteOffset, target.length));
   else if (LITTLE_ENDIAN) new Uint8Array(target.buffer, target.byteOffset, bytes.length).set(bytes);
   else for (let k = 0; k < target.length; k++) target[k] = view.getFloat64(8 * k, true);
+  checkFinite(target, path);
+}
+
+/** Refuses a packed matrix with a NaN or infinite entry, naming the first. */
+function checkFinite(target: Float64Array, path: string): void {
   for (let k = 0; k < target.length; k++) {
     if (!Number.isFinite(target[k])) {
       throw new RhoError('invalid-argument', `Entry ${k} (row-major) of the packed matrix is NaN or infinite; entries must be finite.`, path);
@@ -225,8 +266,20 @@ function readPackedMatrix(value: Record<string, unknown>, path: string): CMatrix
   if (cols > MAX_DIMENSION) throw tooLarge(`${path}.shape[1]`, 'The number of columns', cols, MAX_DIMENSION);
   if (value.re === undefined) throw new RhoError('missing-argument', 'A packed matrix needs "re".', `${path}.re`);
   const m = zeros(rows, cols);
-  fillPacked(decodeBase64(value.re, 8 * rows * cols, `${path}.re`), m.re, `${path}.re`);
-  if (value.im !== undefined) fillPacked(decodeBase64(value.im, 8 * rows * cols, `${path}.im`), m.im, `${path}.im`);
+  const part = (text: unknown, target: Float64Array, at: string): void => {
+    // In Node, well-formed text of the right length is decoded straight into the matrix's storage (no
+    // buffer of its own, no copy); anything else takes decodeBase64's path, which names the fault.
+    const bytes = target.byteLength;
+    if (NodeBuffer && LITTLE_ENDIAN && typeof text === 'string' && text.length === 4 * Math.ceil(bytes / 3) && NodeBuffer.byteLength(text, 'base64') === bytes) {
+      if (NodeBuffer.from(target.buffer as ArrayBuffer, target.byteOffset, bytes).write(text, 0, bytes, 'base64') === bytes) {
+        checkFinite(target, at);
+        return;
+      }
+    }
+    fillPacked(decodeBase64(text, bytes, at), target, at);
+  };
+  part(value.re, m.re, `${path}.re`);
+  if (value.im !== undefined) part(value.im, m.im, `${path}.im`);
   return m;
 }
 
@@ -248,24 +301,27 @@ export function readMatrix(value: unknown, path: string): CMatrix {
     }
     refuseUnknownKeys(value, ['re', 'im'], path, 'a complex matrix');
     const { rows, cols } = rowsShape(value.re, `${path}.re`);
-    const m = zeros(rows, cols);
-    fillRows(value.re as unknown[], `${path}.re`, cols, m.re, (v, p, k) => {
-      m.re[k] = realEntry(v, p);
-    });
-    if (value.im !== undefined) {
-      const shape = rowsShape(value.im, `${path}.im`);
-      if (shape.rows !== rows || shape.cols !== cols) {
-        throw new RhoError(
-          'dimension-mismatch',
-          `The imaginary part is ${shape.rows}x${shape.cols} but the real part is ${rows}x${cols}.`,
-          `${path}.im`,
-        );
-      }
-      fillRows(value.im as unknown[], `${path}.im`, cols, m.im, (v, p, k) => {
-        m.im[k] = realEntry(v, p);
+    // Each part: the size walk's typed array when it made one, else read here.
+    const part = (rowsValue: unknown[], at: string): Float64Array => {
+      const ready = takeNumericRows(rowsValue, rows * cols);
+      if (ready) return ready;
+      const target = new Float64Array(rows * cols);
+      fillRows(rowsValue, at, cols, target, (v, p, k) => {
+        target[k] = realEntry(v, p);
       });
+      return target;
+    };
+    const re = part(value.re as unknown[], `${path}.re`);
+    if (value.im === undefined) return { rows, cols, re, im: new Float64Array(rows * cols) };
+    const shape = rowsShape(value.im, `${path}.im`);
+    if (shape.rows !== rows || shape.cols !== cols) {
+      throw new RhoError(
+        'dimension-mismatch',
+        `The imaginary part is ${shape.rows}x${shape.cols} but the real part is ${rows}x${cols}.`,
+        `${path}.im`,
+      );
     }
-    return m;
+    return { rows, cols, re, im: part(value.im as unknown[], `${path}.im`) };
   }
   if (!Array.isArray(value)) {
     throw new RhoError(
@@ -275,6 +331,8 @@ export function readMatrix(value: unknown, path: string): CMatrix {
     );
   }
   const { rows, cols } = rowsShape(value, path);
+  const re = takeNumericRows(value, rows * cols);
+  if (re) return { rows, cols, re, im: new Float64Array(rows * cols) };
   const m = zeros(rows, cols);
   let expressions = 0;
   fillRows(value, path, cols, m.re, (v, p, k) => {
@@ -303,6 +361,9 @@ function squareFacts(m: CMatrix, path: string): { norm: number; defect: { size: 
   const n = m.rows;
   const re = m.re;
   const im = m.im;
+  // From order 16 in the eigensolver's kernels (the same loops); a bad entry is named by the loops below.
+  const fast = n >= 16 ? kernelSquareFacts(re, im, n, MAX_ENTRY_MAGNITUDE) : null;
+  if (fast && fast.bad < 0) return { norm: Math.sqrt(fast.sum), defect: { size: Math.sqrt(fast.worst), row: fast.row, col: fast.col } };
   let sum = 0;
   for (let k = 0; k < n * n; k++) {
     const x = re[k];

@@ -4,7 +4,9 @@
  *
  * Steps: check the request is an object with a known "op"; check the sizes of every matrix, ket and
  * the request's expression strings against the limits (sizes.ts: the same 'too-large' in every form);
- * validate it with ajv against the op's argument schema plus the common fields; estimate the op's cost
+ * validate it with ajv against the op's argument schema plus the common fields (matrices of numbers
+ * given as rows, which the size walk has already read and checked, are seen by ajv as one-entry
+ * stand-ins: withStandIns below; same verdicts and errors); estimate the op's cost
  * from the request's sizes (the op's `cost`, src/ops/cost.ts) and refuse it with 'too-large' above the
  * limits of src/limits.ts; run the op within its deadline (the request's "deadline" in milliseconds, or
  * the caller's default; src/deadline.ts); turn a RhoError into a failure answer and any other exception
@@ -14,7 +16,8 @@
  * answers to requests.
  *
  * Deliberately not here: numerics (ops do that), JSON text (callers parse and print), and any I/O.
- * Cost: schema compilation once per op (cached), then validation linear in the size of the request.
+ * Cost: schema compilation once per op (cached), then validation linear in the size of the request
+ * outside its matrices of numbers given as rows.
  */
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import { RhoError, type ErrorCode } from '../errors.js';
@@ -23,7 +26,7 @@ import { DEFAULT_TOLERANCE } from '../quantum/validate.js';
 import { withDeadline } from '../deadline.js';
 import { overLimits, type CostEstimate } from '../limits.js';
 import { getOp, listOps, type OpContext, type OpDefinition } from './registry.js';
-import { ADJUSTMENT_RULE, collectingAdjustments, withAnswerMatrices, writeMatrix } from './codec.js';
+import { ADJUSTMENT_RULE, collectingAdjustments, isNumericRows, schemas, withAnswerMatrices, writeMatrix } from './codec.js';
 import { checkRequestSizes, type RequestSizes } from './sizes.js';
 import { dense } from './cost.js';
 import { validators as precompiled } from './validators.generated.js';
@@ -367,6 +370,47 @@ function clip(s: string, n = 200): string {
   return s.length > n ? `${s.slice(0, n)}…` : s;
 }
 
+/** A matrix of one number in each form of rows: valid wherever rows of finite numbers are. */
+const ROWS_STAND_IN = [[0]];
+
+/** A matrix value with its rows of numbers (read by the size walk) replaced by stand-ins; itself when none was. */
+function matrixStandIn(v: unknown): unknown {
+  if (isNumericRows(v)) return ROWS_STAND_IN;
+  if (typeof v !== 'object' || v === null || Array.isArray(v)) return v;
+  const m = v as Record<string, unknown>;
+  const re = isNumericRows(m.re);
+  const im = isNumericRows(m.im);
+  if (!re && !im) return v;
+  return { ...m, re: re ? ROWS_STAND_IN : m.re, ...(im ? { im: ROWS_STAND_IN } : {}) };
+}
+
+/**
+ * The request as its validator should see it: each top-level matrix or state field (schemas.matrix,
+ * schemas.state) whose rows of numbers the size walk has already read and checked (finite numbers,
+ * rows of equal length within the limits: everything the schema asks of them) gets a one-entry stand-in
+ * in their place, so that ajv does not walk tens of thousands of numbers again. The stand-in is valid
+ * exactly where the rows were, so the verdict and every error (code, path) are the same as for the
+ * request itself, which the error messages are built from. A shallow copy, or the request itself.
+ */
+function withStandIns(def: OpDefinition, req: Record<string, unknown>): Record<string, unknown> {
+  let out: Record<string, unknown> | undefined;
+  const props = def.args.properties as Record<string, { anyOf?: unknown } | undefined>;
+  for (const key in props) {
+    const v = req[key];
+    if (typeof v !== 'object' || v === null) continue;
+    const anyOf = props[key]?.anyOf;
+    let w: unknown = v;
+    if (anyOf === schemas.matrix.anyOf) w = matrixStandIn(v);
+    else if (anyOf === schemas.state.anyOf) {
+      const s = v as Record<string, unknown>;
+      w = !Array.isArray(v) && 'matrix' in s ? { ...s, matrix: matrixStandIn(s.matrix) } : matrixStandIn(v);
+      if (w !== v && !Array.isArray(v) && 'matrix' in s && (w as Record<string, unknown>).matrix === s.matrix) w = v;
+    }
+    if (w !== v) (out ??= { ...req })[key] = w;
+  }
+  return out ?? req;
+}
+
 /** The estimate of an op without its own `cost`: a few dense steps on its largest matrix. */
 function fallbackCost(sizes: RequestSizes): CostEstimate {
   return dense(Math.max(1, sizes.largestSide), 4, 'four dense steps (this op declares no cost of its own)');
@@ -410,7 +454,7 @@ export function handle(request: unknown, options: HandleOptions = {}): Answer {
     const sizes = sizesOf(req);
     lastSizes = undefined; // do not keep the request alive
     const validate = validatorFor(def);
-    if (!validate(req)) throw schemaError(validate.errors ?? [], def, req);
+    if (!validate(withStandIns(def, req))) throw schemaError(validate.errors ?? [], def, req);
     if (req.base === 1) throw new RhoError('invalid-argument', 'The logarithm base must not be 1.', 'base');
     const estimate = def.cost ? def.cost(req) : fallbackCost(sizes);
     const refusal = overLimits(estimate);

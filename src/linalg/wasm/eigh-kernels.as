@@ -4,10 +4,13 @@
 // browser bundles need no compiler; a test checks that the committed module equals a fresh compile.
 //
 // What it is for: the loops that hold nearly all of eigh's work, written with 128-bit vectors of
-// two doubles: the whole Householder reduction loop (its fused pass over pairs of rows), the
+// two doubles: the input's scale and Hermitian part, the whole Householder reduction loop (its
+// fused pass over pairs of rows, on an interleaved copy), the QL iteration for eigenvalues only, the
 // reflector pairs of the back-transformation, the O(k²) parts of each divide-and-conquer merge
 // (secular equation, Gu–Eisenstat ẑ, the normalised vectors of the rank-one update) and its matrix
-// product, and the data movement around them (phases, final transpose, merge write-back). The
+// product, and the data movement around them (phases, final transpose, merge write-back); also
+// the codec's pass over a square matrix (src/ops/codec.ts: finiteness, norm, Hermiticity defect),
+// so that a fresh process runs compiled code from its first matrix. The
 // extension is .as (not .ts) so that the project's TypeScript compiler does not try to type-check
 // AssemblyScript's types (f64, usize, v128).
 // What it deliberately does not do: allocate, throw, or call out; every argument is a byte address
@@ -27,98 +30,314 @@
 // n = 64, 128 and 256.
 
 // ---------------------------------------------------------------------------------------------
-// Householder reduction: the fused pass over pairs of rows of the trailing lower triangle.
+// Householder reduction (tridiagonalize in eigh.ts, step for step), on an interleaved copy.
 // ---------------------------------------------------------------------------------------------
+//
+// Layout: the lower triangle is copied into X, where row i holds its columns in pairs, 32 bytes
+// per pair: [re_j, re_j+1, im_j, im_j+1] (rows padded to an even length). The vectors of a step
+// live in B, 128 bytes per pair of indices: eight f64x2 fields, each [x_j, x_j+1]: the previous
+// reflector v and its update vector w (the pending update A -= v w* + w v*), the new reflector u,
+// and the accumulator p = A u. So the inner loop walks three pointers with constant offsets (the
+// split storage needed a dozen, whose address arithmetic and spills cost more than the
+// arithmetic). Fields that do not apply in a step (no pending update, or no new reflector) are
+// zero, which leaves the values exact (a - 0 = a).
+
+const F_VR: usize = 0, F_VI: usize = 16, F_WR: usize = 32, F_WI: usize = 48;
+const F_UR: usize = 64, F_UI: usize = 80, F_PR: usize = 96, F_PI: usize = 112;
+
+/** The same threshold as eigh.ts's TINY2. */
+const TINY2: f64 = 1e-290;
+
+@inline function f64At(p: usize, i: i32): f64 {
+  return load<f64>(p + ((<usize>i) << 3));
+}
+@inline function f64Set(p: usize, i: i32, x: f64): void {
+  store<f64>(p + ((<usize>i) << 3), x);
+}
+/** Byte offset of column j within a row of X (real part; the imaginary part is 16 bytes on). */
+@inline function colX(j: i32): usize {
+  return (((<usize>j) >> 1) << 5) + (((<usize>j) & 1) << 3);
+}
+/** Byte offset of index j within B (field 0; field f is f bytes on). */
+@inline function idxB(j: i32): usize {
+  return (((<usize>j) >> 1) << 7) + (((<usize>j) & 1) << 3);
+}
 
 /**
- * Rows i and i+1 of the fused pass (columns j0..i+1 of the lower triangle): apply A -= v w* + w v*
- * (v at v/vI, w at w/wI, indexed by the global row) and accumulate p += A u (u at u/uI), using
- * Hermitian symmetry for the upper part. Called by tridiagonalize below.
+ * Rows i and i+1 of the fused pass, columns j0..i+1 of the lower triangle: A -= v w* + w v*, then
+ * p += A u (Hermitian symmetry for the upper part). r0, r1: addresses of rows i and i+1 in X.
  */
-function rowPair(
-  are: usize, aim: usize, n: i32, i: i32, j0: i32,
-  v: usize, vI: usize, w: usize, wI: usize, u: usize, uI: usize, p: usize, pI: usize,
-): void {
-  const i1 = i + 1;
-  const oi = (<usize>i) << 3;
-  const oi1 = (<usize>i1) << 3;
-  const row0 = (<usize>(i * n)) << 3;
-  const row1 = row0 + ((<usize>n) << 3);
-  const a0R = are + row0, a0I = aim + row0, a1R = are + row1, a1I = aim + row1;
-  const v0r = load<f64>(v + oi), v0i = load<f64>(vI + oi), w0r = load<f64>(w + oi), w0i = load<f64>(wI + oi);
-  const v1r = load<f64>(v + oi1), v1i = load<f64>(vI + oi1), w1r = load<f64>(w + oi1), w1i = load<f64>(wI + oi1);
-  const u0r = load<f64>(u + oi), u0i = load<f64>(uI + oi);
-  const u1r = load<f64>(u + oi1), u1i = load<f64>(uI + oi1);
+function rowPairX(r0: usize, r1: usize, B: usize, i: i32, j0: i32): void {
+  const b0 = B + idxB(i), b1 = B + idxB(i + 1);
+  const v0r = load<f64>(b0, F_VR), v0i = load<f64>(b0, F_VI), w0r = load<f64>(b0, F_WR), w0i = load<f64>(b0, F_WI);
+  const v1r = load<f64>(b1, F_VR), v1i = load<f64>(b1, F_VI), w1r = load<f64>(b1, F_WR), w1i = load<f64>(b1, F_WI);
+  const u0r = load<f64>(b0, F_UR), u0i = load<f64>(b0, F_UI), u1r = load<f64>(b1, F_UR), u1i = load<f64>(b1, F_UI);
+  let s0r: f64 = 0, s0i: f64 = 0, s1r: f64 = 0, s1i: f64 = 0;
+  let j = j0;
+  if ((j & 1) != 0 && j < i) {
+    // A leading odd column, on its own, so that the vector loop starts at a pair.
+    const x0 = r0 + colX(j), x1 = r1 + colX(j), bj = B + idxB(j);
+    const vjr = load<f64>(bj, F_VR), vji = load<f64>(bj, F_VI), wjr = load<f64>(bj, F_WR), wji = load<f64>(bj, F_WI);
+    const ujr = load<f64>(bj, F_UR), uji = load<f64>(bj, F_UI);
+    const a0r = load<f64>(x0) - (v0r * wjr + v0i * wji + (w0r * vjr + w0i * vji));
+    const a0i = load<f64>(x0, 16) - (v0i * wjr - v0r * wji + (w0i * vjr - w0r * vji));
+    const a1r = load<f64>(x1) - (v1r * wjr + v1i * wji + (w1r * vjr + w1i * vji));
+    const a1i = load<f64>(x1, 16) - (v1i * wjr - v1r * wji + (w1i * vjr - w1r * vji));
+    store<f64>(x0, a0r); store<f64>(x0, a0i, 16); store<f64>(x1, a1r); store<f64>(x1, a1i, 16);
+    s0r += a0r * ujr - a0i * uji; s0i += a0r * uji + a0i * ujr;
+    s1r += a1r * ujr - a1i * uji; s1i += a1r * uji + a1i * ujr;
+    store<f64>(bj, load<f64>(bj, F_PR) + (a0r * u0r + a0i * u0i + (a1r * u1r + a1i * u1i)), F_PR);
+    store<f64>(bj, load<f64>(bj, F_PI) + (a0r * u0i - a0i * u0r + (a1r * u1i - a1i * u1r)), F_PI);
+    j++;
+  }
   const V0r = f64x2.splat(v0r), V0i = f64x2.splat(v0i), W0r = f64x2.splat(w0r), W0i = f64x2.splat(w0i);
   const V1r = f64x2.splat(v1r), V1i = f64x2.splat(v1i), W1r = f64x2.splat(w1r), W1i = f64x2.splat(w1i);
   const U0r = f64x2.splat(u0r), U0i = f64x2.splat(u0i), U1r = f64x2.splat(u1r), U1i = f64x2.splat(u1i);
   let S0r = f64x2.splat(0), S0i = f64x2.splat(0), S1r = f64x2.splat(0), S1i = f64x2.splat(0);
-  let j = j0;
-  for (; j + 1 < i; j += 2) {
-    const o = (<usize>j) << 3;
-    const vjr = v128.load(v + o), vji = v128.load(vI + o);
-    const wjr = v128.load(w + o), wji = v128.load(wI + o);
-    const ujr = v128.load(u + o), uji = v128.load(uI + o);
-    const a0r = f64x2.sub(v128.load(a0R + o), f64x2.add(
+  let x0 = r0 + colX(j), x1 = r1 + colX(j), bj = B + idxB(j);
+  const end = r0 + colX(i & ~1);
+  for (; x0 < end; x0 += 32, x1 += 32, bj += 128) {
+    const vjr = v128.load(bj, F_VR), vji = v128.load(bj, F_VI);
+    const wjr = v128.load(bj, F_WR), wji = v128.load(bj, F_WI);
+    const a0r = f64x2.sub(v128.load(x0), f64x2.add(
       f64x2.add(f64x2.mul(V0r, wjr), f64x2.mul(V0i, wji)), f64x2.add(f64x2.mul(W0r, vjr), f64x2.mul(W0i, vji))));
-    const a0i = f64x2.sub(v128.load(a0I + o), f64x2.add(
+    const a0i = f64x2.sub(v128.load(x0, 16), f64x2.add(
       f64x2.sub(f64x2.mul(V0i, wjr), f64x2.mul(V0r, wji)), f64x2.sub(f64x2.mul(W0i, vjr), f64x2.mul(W0r, vji))));
-    const a1r = f64x2.sub(v128.load(a1R + o), f64x2.add(
+    const a1r = f64x2.sub(v128.load(x1), f64x2.add(
       f64x2.add(f64x2.mul(V1r, wjr), f64x2.mul(V1i, wji)), f64x2.add(f64x2.mul(W1r, vjr), f64x2.mul(W1i, vji))));
-    const a1i = f64x2.sub(v128.load(a1I + o), f64x2.add(
+    const a1i = f64x2.sub(v128.load(x1, 16), f64x2.add(
       f64x2.sub(f64x2.mul(V1i, wjr), f64x2.mul(V1r, wji)), f64x2.sub(f64x2.mul(W1i, vjr), f64x2.mul(W1r, vji))));
-    v128.store(a0R + o, a0r);
-    v128.store(a0I + o, a0i);
-    v128.store(a1R + o, a1r);
-    v128.store(a1I + o, a1i);
+    v128.store(x0, a0r);
+    v128.store(x0, a0i, 16);
+    v128.store(x1, a1r);
+    v128.store(x1, a1i, 16);
+    const ujr = v128.load(bj, F_UR), uji = v128.load(bj, F_UI);
     S0r = f64x2.add(S0r, f64x2.sub(f64x2.mul(a0r, ujr), f64x2.mul(a0i, uji)));
     S0i = f64x2.add(S0i, f64x2.add(f64x2.mul(a0r, uji), f64x2.mul(a0i, ujr)));
     S1r = f64x2.add(S1r, f64x2.sub(f64x2.mul(a1r, ujr), f64x2.mul(a1i, uji)));
     S1i = f64x2.add(S1i, f64x2.add(f64x2.mul(a1r, uji), f64x2.mul(a1i, ujr)));
-    v128.store(p + o, f64x2.add(v128.load(p + o), f64x2.add(
-      f64x2.add(f64x2.mul(a0r, U0r), f64x2.mul(a0i, U0i)), f64x2.add(f64x2.mul(a1r, U1r), f64x2.mul(a1i, U1i)))));
-    v128.store(pI + o, f64x2.add(v128.load(pI + o), f64x2.add(
-      f64x2.sub(f64x2.mul(a0r, U0i), f64x2.mul(a0i, U0r)), f64x2.sub(f64x2.mul(a1r, U1i), f64x2.mul(a1i, U1r)))));
+    v128.store(bj, f64x2.add(v128.load(bj, F_PR), f64x2.add(
+      f64x2.add(f64x2.mul(a0r, U0r), f64x2.mul(a0i, U0i)), f64x2.add(f64x2.mul(a1r, U1r), f64x2.mul(a1i, U1i)))), F_PR);
+    v128.store(bj, f64x2.add(v128.load(bj, F_PI), f64x2.add(
+      f64x2.sub(f64x2.mul(a0r, U0i), f64x2.mul(a0i, U0r)), f64x2.sub(f64x2.mul(a1r, U1i), f64x2.mul(a1i, U1r)))), F_PI);
   }
-  let s0r = f64x2.extract_lane(S0r, 0) + f64x2.extract_lane(S0r, 1);
-  let s0i = f64x2.extract_lane(S0i, 0) + f64x2.extract_lane(S0i, 1);
-  let s1r = f64x2.extract_lane(S1r, 0) + f64x2.extract_lane(S1r, 1);
-  let s1i = f64x2.extract_lane(S1i, 0) + f64x2.extract_lane(S1i, 1);
-  if (j < i) {
-    const o = (<usize>j) << 3;
-    const vjr = load<f64>(v + o), vji = load<f64>(vI + o);
-    const wjr = load<f64>(w + o), wji = load<f64>(wI + o);
-    const ujr = load<f64>(u + o), uji = load<f64>(uI + o);
-    const a0r = load<f64>(a0R + o) - (v0r * wjr + v0i * wji + (w0r * vjr + w0i * vji));
-    const a0i = load<f64>(a0I + o) - (v0i * wjr - v0r * wji + (w0i * vjr - w0r * vji));
-    const a1r = load<f64>(a1R + o) - (v1r * wjr + v1i * wji + (w1r * vjr + w1i * vji));
-    const a1i = load<f64>(a1I + o) - (v1i * wjr - v1r * wji + (w1i * vjr - w1r * vji));
-    store<f64>(a0R + o, a0r);
-    store<f64>(a0I + o, a0i);
-    store<f64>(a1R + o, a1r);
-    store<f64>(a1I + o, a1i);
-    s0r += a0r * ujr - a0i * uji;
-    s0i += a0r * uji + a0i * ujr;
-    s1r += a1r * ujr - a1i * uji;
-    s1i += a1r * uji + a1i * ujr;
-    store<f64>(p + o, load<f64>(p + o) + (a0r * u0r + a0i * u0i + (a1r * u1r + a1i * u1i)));
-    store<f64>(pI + o, load<f64>(pI + o) + (a0r * u0i - a0i * u0r + (a1r * u1i - a1i * u1r)));
+  s0r += f64x2.extract_lane(S0r, 0) + f64x2.extract_lane(S0r, 1);
+  s0i += f64x2.extract_lane(S0i, 0) + f64x2.extract_lane(S0i, 1);
+  s1r += f64x2.extract_lane(S1r, 0) + f64x2.extract_lane(S1r, 1);
+  s1i += f64x2.extract_lane(S1i, 0) + f64x2.extract_lane(S1i, 1);
+  if ((i & 1) != 0 && j < i) {
+    // The column i-1 (even) left before the diagonal pair.
+    const jj = i - 1;
+    const y0 = r0 + colX(jj), y1 = r1 + colX(jj), bq = B + idxB(jj);
+    const vjr = load<f64>(bq, F_VR), vji = load<f64>(bq, F_VI), wjr = load<f64>(bq, F_WR), wji = load<f64>(bq, F_WI);
+    const ujr = load<f64>(bq, F_UR), uji = load<f64>(bq, F_UI);
+    const a0r = load<f64>(y0) - (v0r * wjr + v0i * wji + (w0r * vjr + w0i * vji));
+    const a0i = load<f64>(y0, 16) - (v0i * wjr - v0r * wji + (w0i * vjr - w0r * vji));
+    const a1r = load<f64>(y1) - (v1r * wjr + v1i * wji + (w1r * vjr + w1i * vji));
+    const a1i = load<f64>(y1, 16) - (v1i * wjr - v1r * wji + (w1i * vjr - w1r * vji));
+    store<f64>(y0, a0r); store<f64>(y0, a0i, 16); store<f64>(y1, a1r); store<f64>(y1, a1i, 16);
+    s0r += a0r * ujr - a0i * uji; s0i += a0r * uji + a0i * ujr;
+    s1r += a1r * ujr - a1i * uji; s1i += a1r * uji + a1i * ujr;
+    store<f64>(bq, load<f64>(bq, F_PR) + (a0r * u0r + a0i * u0i + (a1r * u1r + a1i * u1i)), F_PR);
+    store<f64>(bq, load<f64>(bq, F_PI) + (a0r * u0i - a0i * u0r + (a1r * u1i - a1i * u1r)), F_PI);
   }
   // Element (i+1, i) and the two diagonal entries.
-  const ar = load<f64>(a1R + oi) - (v1r * w0r + v1i * w0i + w1r * v0r + w1i * v0i);
-  const ai = load<f64>(a1I + oi) - (v1i * w0r - v1r * w0i + w1i * v0r - w1r * v0i);
-  store<f64>(a1R + oi, ar);
-  store<f64>(a1I + oi, ai);
-  const d0 = load<f64>(a0R + oi) - 2 * (v0r * w0r + v0i * w0i);
-  const d1 = load<f64>(a1R + oi1) - 2 * (v1r * w1r + v1i * w1i);
-  store<f64>(a0R + oi, d0);
-  store<f64>(a1R + oi1, d1);
+  const e10 = r1 + colX(i), e00 = r0 + colX(i), e11 = r1 + colX(i + 1);
+  const ar = load<f64>(e10) - (v1r * w0r + v1i * w0i + w1r * v0r + w1i * v0i);
+  const ai = load<f64>(e10, 16) - (v1i * w0r - v1r * w0i + w1i * v0r - w1r * v0i);
+  store<f64>(e10, ar);
+  store<f64>(e10, ai, 16);
+  const d0 = load<f64>(e00) - 2 * (v0r * w0r + v0i * w0i);
+  const d1 = load<f64>(e11) - 2 * (v1r * w1r + v1i * w1i);
+  store<f64>(e00, d0);
+  store<f64>(e11, d1);
   s1r += ar * u0r - ai * u0i;
   s1i += ar * u0i + ai * u0r;
-  store<f64>(p + oi, load<f64>(p + oi) + (s0r + d0 * u0r + ar * u1r + ai * u1i));
-  store<f64>(pI + oi, load<f64>(pI + oi) + (s0i + d0 * u0i + ar * u1i - ai * u1r));
-  store<f64>(p + oi1, load<f64>(p + oi1) + (s1r + d1 * u1r));
-  store<f64>(pI + oi1, load<f64>(pI + oi1) + (s1i + d1 * u1i));
+  store<f64>(b0, load<f64>(b0, F_PR) + (s0r + d0 * u0r + ar * u1r + ai * u1i), F_PR);
+  store<f64>(b0, load<f64>(b0, F_PI) + (s0i + d0 * u0i + ar * u1i - ai * u1r), F_PI);
+  store<f64>(b1, load<f64>(b1, F_PR) + (s1r + d1 * u1r), F_PR);
+  store<f64>(b1, load<f64>(b1, F_PI) + (s1i + d1 * u1i), F_PI);
+}
+
+/** Row i alone (the last row of an odd count): the same as rowPairX for one row. */
+function rowOneX(r: usize, B: usize, i: i32, j0: i32): void {
+  const b = B + idxB(i);
+  const vir = load<f64>(b, F_VR), vii = load<f64>(b, F_VI), wir = load<f64>(b, F_WR), wii = load<f64>(b, F_WI);
+  const uir = load<f64>(b, F_UR), uii = load<f64>(b, F_UI);
+  let sr: f64 = 0, si: f64 = 0;
+  for (let j = j0; j < i; j++) {
+    const x = r + colX(j), bj = B + idxB(j);
+    const vjr = load<f64>(bj, F_VR), vji = load<f64>(bj, F_VI), wjr = load<f64>(bj, F_WR), wji = load<f64>(bj, F_WI);
+    const ar = load<f64>(x) - (vir * wjr + vii * wji + wir * vjr + wii * vji);
+    const ai = load<f64>(x, 16) - (vii * wjr - vir * wji + wii * vjr - wir * vji);
+    store<f64>(x, ar);
+    store<f64>(x, ai, 16);
+    const ujr = load<f64>(bj, F_UR), uji = load<f64>(bj, F_UI);
+    sr += ar * ujr - ai * uji;
+    si += ar * uji + ai * ujr;
+    store<f64>(bj, load<f64>(bj, F_PR) + (ar * uir + ai * uii), F_PR);
+    store<f64>(bj, load<f64>(bj, F_PI) + (ar * uii - ai * uir), F_PI);
+  }
+  const x = r + colX(i);
+  const dii = load<f64>(x) - 2 * (vir * wir + vii * wii);
+  store<f64>(x, dii);
+  store<f64>(b, load<f64>(b, F_PR) + (sr + dii * uir), F_PR);
+  store<f64>(b, load<f64>(b, F_PI) + (si + dii * uii), F_PI);
+}
+
+/**
+ * max_k |re_k| + |im_k| over count entries: the scale of eigh's input (Infinity or NaN when an
+ * entry is not finite; the host refuses the matrix then).
+ */
+export function largestEntry(re: usize, im: usize, count: i32): f64 {
+  let M = f64x2.splat(0);
+  let bad = f64x2.splat(0);
+  let k = 0;
+  for (; k + 1 < count; k += 2) {
+    const o = (<usize>k) << 3;
+    const a = f64x2.add(f64x2.abs(v128.load(re + o)), f64x2.abs(v128.load(im + o)));
+    M = f64x2.pmax(M, a);
+    bad = f64x2.add(bad, f64x2.sub(a, a)); // NaN from here on once an entry is infinite or NaN
+  }
+  let m = f64x2.extract_lane(M, 0) > f64x2.extract_lane(M, 1) ? f64x2.extract_lane(M, 0) : f64x2.extract_lane(M, 1);
+  if (k < count) {
+    const a = Math.abs(f64At(re, k)) + Math.abs(f64At(im, k));
+    if (a > m) m = a;
+    if (a - a != 0) return NaN;
+  }
+  if (f64x2.extract_lane(bad, 0) != 0 || f64x2.extract_lane(bad, 1) != 0) return NaN;
+  return m;
+}
+
+/**
+ * Reduction of the Hermitian part of the matrix (are, aim) (n x n, row-major, the whole matrix)
+ * times inv to tridiagonal form: the algorithm of tridiagonalize in eigh.ts (see there), on the
+ * interleaved copy described above, made in tiles of 16 x 16 (the transposed reads stay in
+ * cache). Outputs d, eRe, eIm (n each), the reflectors in the rows of vRe/vIm and their betas.
+ * work: scratch, 16-byte aligned, of at least 2 n (n + 1) + 8 (n + 2) doubles (X, then B);
+ * (are, aim) are left as they were.
+ */
+export function tridiagonalize(
+  are: usize, aim: usize, n: i32, inv: f64, d: usize, eRe: usize, eIm: usize, vRe: usize, vIm: usize,
+  betas: usize, work: usize,
+): void {
+  const rb = ((<usize>(n + 1)) >> 1) << 5;
+  const X = work;
+  const B = X + (<usize>n) * rb;
+  const nb = (<usize>n) << 3;
+  const half = 0.5 * inv;
+  for (let ib = 0; ib < n; ib += 16) {
+    const iEnd = ib + 16 < n ? ib + 16 : n;
+    for (let jb = 0; jb <= ib; jb += 16) {
+      for (let i = ib; i < iEnd; i++) {
+        const src = (<usize>i) * nb, row = X + (<usize>i) * rb;
+        const jEnd = jb + 16 < i + 1 ? jb + 16 : i + 1;
+        for (let j = jb; j < jEnd; j++) {
+          const o = (<usize>j) << 3;
+          const t = (<usize>j) * nb + ((<usize>i) << 3);
+          store<f64>(row + colX(j), (load<f64>(are + src + o) + load<f64>(are + t)) * half);
+          store<f64>(row + colX(j), j == i ? 0 : (load<f64>(aim + src + o) - load<f64>(aim + t)) * half, 16);
+        }
+      }
+    }
+  }
+  memory.fill(B, 0, ((<usize>(n + 2)) >> 1) << 7);
+  let haveUpdate = false;
+  for (let k = 0; k < n; k++) {
+    if (haveUpdate) {
+      // 1. The pending update on column k, rows k..n-1.
+      const bk = B + idxB(k);
+      const vkr = load<f64>(bk, F_VR), vki = load<f64>(bk, F_VI), wkr = load<f64>(bk, F_WR), wki = load<f64>(bk, F_WI);
+      const ck = colX(k);
+      for (let i = k; i < n; i++) {
+        const bi = B + idxB(i), x = X + (<usize>i) * rb + ck;
+        const vir = load<f64>(bi, F_VR), vii = load<f64>(bi, F_VI), wir = load<f64>(bi, F_WR), wii = load<f64>(bi, F_WI);
+        store<f64>(x, load<f64>(x) - (vir * wkr + vii * wki + wir * vkr + wii * vki));
+        store<f64>(x, load<f64>(x, 16) - (vii * wkr - vir * wki + wii * vkr - wir * vki), 16);
+      }
+      store<f64>(X + (<usize>k) * rb + ck, 0, 16);
+    }
+    f64Set(d, k, load<f64>(X + (<usize>k) * rb + colX(k)));
+    if (k >= n - 1) break;
+
+    // 2. Reflector k from column k, rows k+1..n-1, into u (and row k of vRe/vIm).
+    const ck = colX(k);
+    const vB = vRe + ((<usize>(k * n)) << 3), vBI = vIm + ((<usize>(k * n)) << 3);
+    let xnorm2: f64 = 0;
+    for (let i = k + 1; i < n; i++) {
+      const x = X + (<usize>i) * rb + ck;
+      const xr = load<f64>(x), xi = load<f64>(x, 16);
+      xnorm2 += xr * xr + xi * xi;
+    }
+    const x0 = X + (<usize>(k + 1)) * rb + ck;
+    const x0r = load<f64>(x0), x0i = load<f64>(x0, 16);
+    const alpha2 = x0r * x0r + x0i * x0i;
+    let beta: f64 = 0;
+    if (k < n - 2 && xnorm2 - alpha2 > TINY2) {
+      const alpha = Math.sqrt(alpha2);
+      const xnorm = Math.sqrt(xnorm2);
+      const phr = alpha > 0 ? x0r / alpha : 1;
+      const phi = alpha > 0 ? x0i / alpha : 0;
+      const sc = 1 / Math.sqrt(2 * xnorm * (xnorm + alpha));
+      for (let i = k + 1; i < n; i++) {
+        const x = X + (<usize>i) * rb + ck;
+        let ur = load<f64>(x) * sc, ui = load<f64>(x, 16) * sc;
+        if (i == k + 1) {
+          ur += phr * xnorm * sc;
+          ui += phi * xnorm * sc;
+        }
+        f64Set(vB, i, ur);
+        f64Set(vBI, i, ui);
+        const bi = B + idxB(i);
+        store<f64>(bi, ur, F_UR);
+        store<f64>(bi, ui, F_UI);
+      }
+      beta = 2;
+      f64Set(eRe, k, -phr * xnorm);
+      f64Set(eIm, k, -phi * xnorm);
+    } else {
+      f64Set(eRe, k, x0r);
+      f64Set(eIm, k, x0i);
+    }
+    f64Set(betas, k, beta);
+
+    const useV = beta != 0;
+    if (!haveUpdate && !useV) continue;
+    // 3. One pass over rows/columns k+1..n-1: the pending update, and p = A u.
+    for (let i = k + 1; i < n; i++) {
+      const bi = B + idxB(i);
+      store<f64>(bi, 0, F_PR);
+      store<f64>(bi, 0, F_PI);
+      if (!useV) {
+        store<f64>(bi, 0, F_UR);
+        store<f64>(bi, 0, F_UI);
+      }
+    }
+    let i = k + 1;
+    for (; i + 1 < n; i += 2) rowPairX(X + (<usize>i) * rb, X + (<usize>(i + 1)) * rb, B, i, k + 1);
+    if (i < n) rowOneX(X + (<usize>i) * rb, B, i, k + 1);
+
+    // 4. The next update: v <- u, w <- beta p - (beta²/2)(u* p) u; none when there is no reflector.
+    let vpr: f64 = 0;
+    if (useV) {
+      for (let q = k + 1; q < n; q++) {
+        const bq = B + idxB(q);
+        vpr += load<f64>(bq, F_UR) * load<f64>(bq, F_PR) + load<f64>(bq, F_UI) * load<f64>(bq, F_PI);
+      }
+    }
+    const K = 0.5 * beta * beta * vpr;
+    for (let q = k + 1; q < n; q++) {
+      const bq = B + idxB(q);
+      const ur = load<f64>(bq, F_UR), ui = load<f64>(bq, F_UI);
+      store<f64>(bq, ur, F_VR);
+      store<f64>(bq, ui, F_VI);
+      store<f64>(bq, beta * load<f64>(bq, F_PR) - K * ur, F_WR);
+      store<f64>(bq, beta * load<f64>(bq, F_PI) - K * ui, F_WI);
+      store<f64>(bq, 0, F_UR);
+      store<f64>(bq, 0, F_UI);
+    }
+    haveUpdate = useV;
+  }
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -675,152 +894,6 @@ export function gemmRows(
 }
 
 // ---------------------------------------------------------------------------------------------
-// Householder reduction: the whole driver (tridiagonalize in eigh.ts, step for step).
-// ---------------------------------------------------------------------------------------------
-
-/** The same threshold as eigh.ts's TINY2. */
-const TINY2: f64 = 1e-290;
-
-@inline function f64At(p: usize, i: i32): f64 {
-  return load<f64>(p + ((<usize>i) << 3));
-}
-@inline function f64Set(p: usize, i: i32, x: f64): void {
-  store<f64>(p + ((<usize>i) << 3), x);
-}
-
-/**
- * Reduction of the Hermitian matrix whose lower triangle is (are, aim) (n x n, row-major) to
- * tridiagonal form: the algorithm of tridiagonalize in eigh.ts (see there), with its loops here so
- * that no step crosses between JavaScript and WebAssembly. Outputs d, eRe, eIm (n each), the
- * reflectors in the rows of vRe/vIm and their betas; p/pI, w/wI, x/xI: scratch of n doubles each,
- * zero on entry.
- */
-export function tridiagonalize(
-  are: usize, aim: usize, n: i32, d: usize, eRe: usize, eIm: usize, vRe: usize, vIm: usize, betas: usize,
-  p: usize, pI: usize, w0: usize, w0I: usize, w1: usize, w1I: usize,
-): void {
-  let haveUpdate = false;
-  let wR = w0, wI = w0I, nwR = w1, nwI = w1I;
-  let prevBase: i32 = 0;
-  const nb = (<usize>n) << 3;
-  for (let k = 0; k < n; k++) {
-    const pb = prevBase;
-    const vP = vRe + ((<usize>pb) << 3), vPI = vIm + ((<usize>pb) << 3);
-    if (haveUpdate) {
-      const vkr = f64At(vP, k), vki = f64At(vPI, k), wkr = f64At(wR, k), wki = f64At(wI, k);
-      for (let i = k; i < n; i++) {
-        const vir = f64At(vP, i), vii = f64At(vPI, i), wir = f64At(wR, i), wii = f64At(wI, i);
-        const a = ((<usize>(i * n + k)) << 3);
-        store<f64>(are + a, load<f64>(are + a) - (vir * wkr + vii * wki + wir * vkr + wii * vki));
-        store<f64>(aim + a, load<f64>(aim + a) - (vii * wkr - vir * wki + wii * vkr - wir * vki));
-      }
-      store<f64>(aim + ((<usize>(k * n + k)) << 3), 0);
-    }
-    f64Set(d, k, load<f64>(are + ((<usize>(k * n + k)) << 3)));
-    if (k >= n - 1) break;
-
-    const base = k * n;
-    const vB = vRe + ((<usize>base) << 3), vBI = vIm + ((<usize>base) << 3);
-    let xnorm2: f64 = 0;
-    for (let i = k + 1; i < n; i++) {
-      const a = ((<usize>(i * n + k)) << 3);
-      const xr = load<f64>(are + a), xi = load<f64>(aim + a);
-      xnorm2 += xr * xr + xi * xi;
-    }
-    const a0 = (<usize>((k + 1) * n + k)) << 3;
-    const x0r = load<f64>(are + a0), x0i = load<f64>(aim + a0);
-    const alpha2 = x0r * x0r + x0i * x0i;
-    let beta: f64 = 0;
-    if (k < n - 2 && xnorm2 - alpha2 > TINY2) {
-      const alpha = Math.sqrt(alpha2);
-      const xnorm = Math.sqrt(xnorm2);
-      const phr = alpha > 0 ? x0r / alpha : 1;
-      const phi = alpha > 0 ? x0i / alpha : 0;
-      const sc = 1 / Math.sqrt(2 * xnorm * (xnorm + alpha));
-      for (let i = k + 1; i < n; i++) {
-        const a = ((<usize>(i * n + k)) << 3);
-        f64Set(vB, i, load<f64>(are + a) * sc);
-        f64Set(vBI, i, load<f64>(aim + a) * sc);
-      }
-      f64Set(vB, k + 1, f64At(vB, k + 1) + phr * xnorm * sc);
-      f64Set(vBI, k + 1, f64At(vBI, k + 1) + phi * xnorm * sc);
-      beta = 2;
-      f64Set(eRe, k, -phr * xnorm);
-      f64Set(eIm, k, -phi * xnorm);
-    } else {
-      f64Set(eRe, k, x0r);
-      f64Set(eIm, k, x0i);
-    }
-    f64Set(betas, k, beta);
-
-    const useV = beta != 0;
-    if (!haveUpdate && !useV) continue;
-    for (let i = k + 1; i < n; i++) {
-      f64Set(p, i, 0);
-      f64Set(pI, i, 0);
-    }
-    let i0 = k + 1;
-    if (haveUpdate && useV) {
-      for (; i0 + 1 < n; i0 += 2) rowPair(are, aim, n, i0, k + 1, vP, vPI, wR, wI, vB, vBI, p, pI);
-    }
-    for (let i = i0; i < n; i++) {
-      const row = (<usize>i) * nb;
-      const rR = are + row, rI = aim + row;
-      const uir = useV ? f64At(vB, i) : 0;
-      const uii = useV ? f64At(vBI, i) : 0;
-      let sr: f64 = 0, si: f64 = 0;
-      if (haveUpdate) {
-        const vir = f64At(vP, i), vii = f64At(vPI, i), wir = f64At(wR, i), wii = f64At(wI, i);
-        for (let j = k + 1; j < i; j++) {
-          const vjr = f64At(vP, j), vji = f64At(vPI, j), wjr = f64At(wR, j), wji = f64At(wI, j);
-          const ar = f64At(rR, j) - (vir * wjr + vii * wji + wir * vjr + wii * vji);
-          const ai = f64At(rI, j) - (vii * wjr - vir * wji + wii * vjr - wir * vji);
-          f64Set(rR, j, ar);
-          f64Set(rI, j, ai);
-          if (useV) {
-            const ujr = f64At(vB, j), uji = f64At(vBI, j);
-            sr += ar * ujr - ai * uji;
-            si += ar * uji + ai * ujr;
-            f64Set(p, j, f64At(p, j) + (ar * uir + ai * uii));
-            f64Set(pI, j, f64At(pI, j) + (ar * uii - ai * uir));
-          }
-        }
-        f64Set(rR, i, f64At(rR, i) - 2 * (vir * wir + vii * wii));
-      } else {
-        for (let j = k + 1; j < i; j++) {
-          const ar = f64At(rR, j), ai = f64At(rI, j);
-          const ujr = f64At(vB, j), uji = f64At(vBI, j);
-          sr += ar * ujr - ai * uji;
-          si += ar * uji + ai * ujr;
-          f64Set(p, j, f64At(p, j) + (ar * uir + ai * uii));
-          f64Set(pI, j, f64At(pI, j) + (ar * uii - ai * uir));
-        }
-      }
-      const dii = f64At(rR, i);
-      f64Set(p, i, f64At(p, i) + (sr + dii * uir));
-      f64Set(pI, i, f64At(pI, i) + (si + dii * uii));
-    }
-    haveUpdate = false;
-    if (!useV) continue;
-
-    let vpr: f64 = 0;
-    for (let i = k + 1; i < n; i++) vpr += f64At(vB, i) * f64At(p, i) + f64At(vBI, i) * f64At(pI, i);
-    const K = 0.5 * beta * beta * vpr;
-    for (let i = k + 1; i < n; i++) {
-      f64Set(nwR, i, beta * f64At(p, i) - K * f64At(vB, i));
-      f64Set(nwI, i, beta * f64At(pI, i) - K * f64At(vBI, i));
-    }
-    const tr = wR, ti = wI;
-    wR = nwR;
-    wI = nwI;
-    nwR = tr;
-    nwI = ti;
-    haveUpdate = true;
-    prevBase = base;
-  }
-}
-
-// ---------------------------------------------------------------------------------------------
 // Data movement around the kernels above.
 // ---------------------------------------------------------------------------------------------
 
@@ -881,4 +954,128 @@ export function copyRows(src: usize, perm: usize, dst: usize, dstStride: i32, m:
     }
     if (r < m) store<f64>(d + ((<usize>r) << 3), load<f64>(s + ((<usize>r) << 3)));
   }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Eigenvalues only: implicit QL on the real tridiagonal (tridiagonalQL in eigh.ts without
+// vectors, step for step).
+// ---------------------------------------------------------------------------------------------
+
+/** sqrt(a² + b²), rescaled only when squares could over/underflow (eigh.ts's hypot). */
+function hypotScaled(a: f64, b: f64): f64 {
+  const x = Math.abs(a), y = Math.abs(b);
+  const big = x > y ? x : y;
+  if (big > 1e150 || big < 1e-150) {
+    if (big == 0) return 0;
+    const sx = x / big, sy = y / big;
+    return big * Math.sqrt(sx * sx + sy * sy);
+  }
+  return Math.sqrt(x * x + y * y);
+}
+
+/**
+ * Eigenvalues (unsorted, into d) of the symmetric tridiagonal with diagonal d and off-diagonal e
+ * (e[i] couples i and i+1; e is overwritten). Returns 0, or 1 when an eigenvalue took more than
+ * 60 iterations (the host throws, as eigh.ts does).
+ */
+export function tridiagonalValues(d: usize, e: usize, n: i32): i32 {
+  f64Set(e, n - 1, 0);
+  let f: f64 = 0;
+  let tst1: f64 = 0;
+  for (let l = 0; l < n; l++) {
+    const t = Math.abs(f64At(d, l)) + Math.abs(f64At(e, l));
+    if (t > tst1) tst1 = t;
+    let m = l;
+    while (m < n) {
+      if (Math.abs(f64At(e, m)) <= EPS * tst1) break;
+      m++;
+    }
+    if (m > l) {
+      let iter = 0;
+      do {
+        if (++iter > 60) return 1;
+        let g = f64At(d, l);
+        let p = (f64At(d, l + 1) - g) / (2 * f64At(e, l));
+        let r = Math.sqrt(p * p + 1);
+        if (!(Math.abs(p) < 1e150)) r = Math.abs(p) * Math.sqrt(1 + (1 / p) * (1 / p));
+        if (p < 0) r = -r;
+        f64Set(d, l, f64At(e, l) / (p + r));
+        f64Set(d, l + 1, f64At(e, l) * (p + r));
+        const dl1 = f64At(d, l + 1);
+        let h = g - f64At(d, l);
+        for (let i = l + 2; i < n; i++) f64Set(d, i, f64At(d, i) - h);
+        f += h;
+        p = f64At(d, m);
+        let c: f64 = 1, c2: f64 = 1, c3: f64 = 1;
+        const el1 = f64At(e, l + 1);
+        let s: f64 = 0, s2: f64 = 0;
+        for (let i = m - 1; i >= l; i--) {
+          c3 = c2;
+          c2 = c;
+          s2 = s;
+          const ei = f64At(e, i);
+          g = c * ei;
+          h = c * p;
+          r = hypotScaled(p, ei);
+          f64Set(e, i + 1, s * r);
+          s = ei / r;
+          c = p / r;
+          const di = f64At(d, i);
+          p = c * di - s * g;
+          f64Set(d, i + 1, h + s * (c * g + s * di));
+        }
+        p = (-s * s2 * c3 * el1 * f64At(e, l)) / dl1;
+        f64Set(e, l, s * p);
+        f64Set(d, l, c * p);
+      } while (Math.abs(f64At(e, l)) > EPS * tst1);
+    }
+    f64Set(d, l, f64At(d, l) + f);
+    f64Set(e, l, 0);
+  }
+  return 0;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The codec's one pass over a square matrix (squareFacts in src/ops/codec.ts, the same loops and
+// order, so the same sums and the same entry reported on ties).
+// ---------------------------------------------------------------------------------------------
+
+/**
+ * For the n x n matrix (re, im): the first row-major index whose real or imaginary part is not of
+ * magnitude at most `limit` (NaN included), or -1; then (when -1) out[0] = Σ |m_k|², out[1] =
+ * max |m_ij − conj(m_ji)|² over i ≤ j in tiles of 32 × 32, out[2], out[3] = its row j and column i.
+ */
+export function squareFacts(re: usize, im: usize, n: i32, limit: f64, out: usize): i32 {
+  const count = n * n;
+  let sum: f64 = 0;
+  for (let k = 0; k < count; k++) {
+    const x = f64At(re, k), y = f64At(im, k);
+    if (!(Math.abs(x) <= limit && Math.abs(y) <= limit)) return k;
+    sum += x * x + y * y;
+  }
+  let worst: f64 = 0;
+  let row = 0, col = 0;
+  for (let ib = 0; ib < n; ib += 32) {
+    for (let jb = ib; jb < n; jb += 32) {
+      const iEnd = ib + 32 < n ? ib + 32 : n;
+      const jEnd = jb + 32 < n ? jb + 32 : n;
+      for (let i = ib; i < iEnd; i++) {
+        for (let j = jb > i ? jb : i; j < jEnd; j++) {
+          const dr = f64At(re, i * n + j) - f64At(re, j * n + i);
+          const di = f64At(im, i * n + j) + f64At(im, j * n + i);
+          const d2 = dr * dr + di * di;
+          if (d2 > worst) {
+            worst = d2;
+            row = j;
+            col = i;
+          }
+        }
+      }
+    }
+  }
+  f64Set(out, 0, sum);
+  f64Set(out, 1, worst);
+  f64Set(out, 2, <f64>row);
+  f64Set(out, 3, <f64>col);
+  return -1;
 }
