@@ -24,12 +24,19 @@ import { build } from 'esbuild';
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const builtins = new Set(builtinModules.flatMap((m) => [m, `node:${m}`]));
 
-/** esbuild plugin: fail on any import of a Node built-in, naming the importing module. */
+/**
+ * esbuild plugin: fail on any import of a Node built-in, naming the importing module. One exception, the
+ * same as the webpack builds' `fallback: { crypto: false }`: seedrandom (inside mathjs, whose parser the
+ * expression reader loads) requires 'crypto' in a try/catch, only to seed itself when no seed is given; it
+ * gets an empty module, and falls back to the browser's own sources.
+ */
 const refuseNodeBuiltins = {
   name: 'refuse-node-builtins',
   setup(b) {
+    b.onLoad({ filter: /.*/, namespace: 'empty-builtin' }, () => ({ contents: 'module.exports = {};', loader: 'js' }));
     b.onResolve({ filter: /.*/ }, (args) => {
       if (!builtins.has(args.path) && !args.path.startsWith('node:')) return undefined;
+      if (args.path === 'crypto' && /[\\/]node_modules[\\/]seedrandom[\\/]/.test(args.importer)) return { path: 'crypto', namespace: 'empty-builtin' };
       return {
         errors: [{
           text: `Node built-in "${args.path}" imported by ${relative(root, args.importer) || args.importer}: the engine must run without Node`,
