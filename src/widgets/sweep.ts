@@ -31,6 +31,7 @@ import { defaultsOf } from './base.js';
 import { pageEngine } from './engine.js';
 import { SweepPanel, type SweepLine, type SweepPanelState, type SweepPlot } from '../ui/sweep-panel.js';
 import type { Answer } from '../worker/types.js';
+import type { JSONValue } from '@lumino/coreutils';
 
 /** The deadline of one sweep-points request: the protocol's largest, as Python's `sweep_rows` sends
  * (each request of a point keeps its own default deadline). */
@@ -144,7 +145,7 @@ export class SweepModel extends DOMWidgetModel {
       const start = rows.length;
       rows = [...rows, ...lines];
       this.localRows = rows;
-      this.send({ event: 'rows', start, rows: lines }, {});
+      this.send({ event: 'rows', start, rows: lines as unknown as JSONValue[] }, {});
       publish({ done: rows.length });
     };
     let rows: SweepLine[] = [];
