@@ -563,17 +563,20 @@ class Sweep(_FrontendAware, _Base):
     def _append_rows(self, start: Any, rows: Any) -> None:
         """One chunk's lines from the front end, at position `start` of the run's rows.
 
-        The comm delivers messages in order, so `start` is the number of rows already here (the run's reset of
-        `rows` to [] came before as a state update); a message that does not fit (a front end of another
-        version) is ignored rather than leaving rows out of order. The new list is set without sending it back
+        The comm delivers messages in order: a run's first message has start 0 and replaces the rows (a new
+        run starts with an empty one), each later one starts at the number of rows already here; a message
+        that does not fit is ignored rather than leaving rows out of order. The new list is set without sending it back
         to the front end, which has these rows (ipywidgets would send the whole list on every change): the
         trait's value is replaced and traitlets' observers notified, skipping only ipywidgets' sync."""
         if not (isinstance(start, int) and isinstance(rows, list) and all(isinstance(r, dict) for r in rows)):
             return
         old = self.rows
-        if start != len(old):
+        if start == 0:
+            new = list(rows)
+        elif start == len(old):
+            new = old + rows
+        else:
             return
-        new = old + rows
         self._trait_values["rows"] = new
         super(Widget, self).notify_change(t.Bunch(name="rows", old=old, new=new, owner=self, type="change"))
 

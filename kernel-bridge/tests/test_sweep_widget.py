@@ -99,3 +99,8 @@ def test_front_end_chunks_are_appended_once_in_order_without_echo():
     assert w.rows == expected
     assert seen == [1, 3, 5]
     assert sent == []
+    # A new run (Run again, or run() from Python) starts with an empty message at 0: the rows restart.
+    w._on_custom(w, {"event": "rows", "start": 0, "rows": []}, [])
+    w._on_custom(w, {"event": "rows", "start": 0, "rows": expected[:2]}, [])
+    assert w.rows == expected[:2]
+    assert sent == []

@@ -5,7 +5,7 @@
  * `rhosigma.sweep(spec)` and `rhosigma sweep SPEC` give for the same index: a point's line depends only on
  * the spec (its seed) and the index, never on the chunking. After each chunk it sends the kernel only that
  * chunk's lines, as a custom message {event: "rows", start, rows} (start: the position of the first of them
- * in the run's rows), then sets `done`/`total` and `save_changes()`; Python appends them to its `rows`
+ * in the run's rows; a run starts with an empty one at 0), then sets `done`/`total` and `save_changes()`; Python appends them to its `rows`
  * (widgets.py), so the transfer is linear in the number of rows. Messages and state updates travel in order
  * on the widget's comm, so Python has every row of the run, once and in order, before it sees `done` move
  * or the status change (also after a Cancel). The page keeps the run's rows itself (`localRows`) for the view;
@@ -150,6 +150,9 @@ export class SweepModel extends DOMWidgetModel {
     };
     let rows: SweepLine[] = [];
     try {
+      // The kernel's rows restart empty: a message with start 0 (the synced field may already read [] here,
+      // and an unchanged field is not sent again).
+      this.send({ event: 'rows', start: 0, rows: [] }, {});
       if (!spec) {
         publish({ rows: [], done: 0, total: 0, status: 'idle', error: null, computed_by: null });
         return;
