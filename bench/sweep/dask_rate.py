@@ -1,6 +1,6 @@
 """Dask rates for bench/sweep.ts: rhosigma.sweep of the given spec on a LocalCluster (127.0.0.1, no dashboard)
 with one and with two worker processes (one thread each), after a warm-up sweep that starts each worker's
-engine. Prints {"one": points/s, "two": points/s, "points": n, "cpuOne", "cpuTwo": the engines' CPU time per
+engine and runs about a thousand points on each, and a pause for the engines' own idle warm-up. Prints {"one": points/s, "two": points/s, "points": n, "cpuOne", "cpuTwo": the engines' CPU time per
 point in µs, from /proc of each worker's engine process}. The clusters are closed before it exits."""
 import json
 import sys
@@ -29,8 +29,12 @@ def rate(spec, workers):
     cluster = distributed.LocalCluster(n_workers=workers, threads_per_worker=1, processes=True, host="127.0.0.1", dashboard_address=None)
     try:
         with distributed.Client(cluster) as client:
-            warm = dict(spec, samples=4)
-            sweep_rows(warm, client=client, shards=workers, chunk=64)
+            # Warm each worker's engine: about a thousand points each (the JIT compiles the point's path), then
+            # idle time for the engine's own warm-up (src/ops/warm-up.ts runs after 250 ms without a request;
+            # about a second of one core), so that neither is counted in the measured sweep.
+            warm = dict(spec, samples=500 * workers, seed=spec["seed"] + 1)
+            sweep_rows(warm, client=client, shards=workers, chunk=128)
+            time.sleep(4)
             c0 = client.run(_engine_cpu)
             t0 = time.perf_counter()
             rows, _ = sweep_rows(spec, client=client, shards=workers, chunk=128)
