@@ -6,14 +6,13 @@
  * sweep through rhosigma.sweep on a Dask LocalCluster (127.0.0.1) with one and with two worker processes.
  * Goals: two workers ≥ 1.8× one, our rate ≥ numpy's, Dask two workers ≥ 1.8× one. Rounds alternate; medians.
  *
- * Deliberately not a test: it asserts nothing. Cost: about a minute (`npm run bench -- sweep`; `--quick` for less).
+ * Deliberately not a test: it asserts nothing. Needs the build (`npm run build`). Cost: about a minute
+ * (`npm run bench -- sweep`; `--quick` for less).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { readSpec } from '../src/sweep/spec.js';
-import { runSweep } from '../src/sweep/runner.js';
 import { median } from './timing.js';
 import { runPython } from '../test/helpers/python.js';
 
@@ -34,7 +33,22 @@ export function rateSpec(samples: number, seed = 1) {
   };
 }
 
+/**
+ * The built sweep modules (dist/, `npm run build`): the command's code, whose worker threads start from
+ * dist/sweep/worker.js. From source, each worker thread would compile the TypeScript again under tsx: not
+ * the code users run, and a start-up (about a second of CPU per thread) that the long − short difference
+ * must cancel.
+ */
+async function builtSweep(): Promise<{ readSpec: typeof import('../src/sweep/spec.js').readSpec; runSweep: typeof import('../src/sweep/runner.js').runSweep }> {
+  const dist = new URL('../dist/sweep/', import.meta.url);
+  if (!existsSync(new URL('runner.js', dist))) throw new Error('bench/sweep.ts measures the built command: run `npm run build` first.');
+  const spec = (await import(new URL('spec.js', dist).href)) as typeof import('../src/sweep/spec.js');
+  const runner = (await import(new URL('runner.js', dist).href)) as typeof import('../src/sweep/runner.js');
+  return { readSpec: spec.readSpec, runSweep: runner.runSweep };
+}
+
 export default async function main(flags: string[]): Promise<void> {
+  const { readSpec, runSweep } = await builtSweep();
   const quick = flags.includes('--quick');
   const samples = quick ? 800 : 4000;
   const rounds = quick ? 1 : 3;
