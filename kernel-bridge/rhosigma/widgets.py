@@ -34,7 +34,7 @@ from typing import Any, Sequence
 
 import numpy as np
 import traitlets as t
-from ipywidgets import DOMWidget, widget_serialization
+from ipywidgets import DOMWidget, Widget, widget_serialization
 
 from ._frontend import MODULE_NAME, MODULE_VERSION
 from .answer import Answer
@@ -521,8 +521,10 @@ class Sweep(_FrontendAware, _Base):
         >>> sw.frame()                # the DataFrame that rhosigma.sweep(spec) returns for these rows
 
     With a front end the browser runs the points through the page's worker with the op `sweep-points`, the
-    op `rhosigma.sweep` asks the headless engine, and writes `rows` (the lines, plain data), `done`, `total`
-    and `status` after each chunk; `observe(cb, "rows")` sees them. A point's line depends only on the spec's
+    op `rhosigma.sweep` asks the headless engine; after each chunk it sends only that chunk's lines (a
+    custom message {"event": "rows", "start", "rows"}), which are appended to `rows` here (so the transfer is
+    linear in the rows, not quadratic), then `done`, `total` and `status`; `observe(cb, "rows")` sees each
+    chunk. A point's line depends only on the spec's
     seed and its index, so the rows equal `rhosigma.sweep(spec)`'s. `auto` (default true) makes the front end
     run when the widget's model is made and whenever `spec` changes. Without a front end nothing runs until
     `run()`, which computes the same rows headless through `sweep_rows` (blocking; `done`/`total` move per
@@ -552,6 +554,31 @@ class Sweep(_FrontendAware, _Base):
         self._facts: tuple[str, dict] | None = None
         super().__init__(**kwargs)
         self.on_msg(self._on_custom)
+
+    def _on_custom(self, widget: Any, content: Any, buffers: Any) -> None:
+        super()._on_custom(widget, content, buffers)
+        if isinstance(content, dict) and content.get("event") == "rows":
+            self._append_rows(content.get("start"), content.get("rows"))
+
+    def _append_rows(self, start: Any, rows: Any) -> None:
+        """One chunk's lines from the front end, at position `start` of the run's rows.
+
+        The comm delivers messages in order: a run's first message has start 0 and replaces the rows (a new
+        run starts with an empty one), each later one starts at the number of rows already here; a message
+        that does not fit is ignored rather than leaving rows out of order. The new list is set without sending it back
+        to the front end, which has these rows (ipywidgets would send the whole list on every change): the
+        trait's value is replaced and traitlets' observers notified, skipping only ipywidgets' sync."""
+        if not (isinstance(start, int) and isinstance(rows, list) and all(isinstance(r, dict) for r in rows)):
+            return
+        old = self.rows
+        if start == 0:
+            new = list(rows)
+        elif start == len(old):
+            new = old + rows
+        else:
+            return
+        self._trait_values["rows"] = new
+        super(Widget, self).notify_change(t.Bunch(name="rows", old=old, new=new, owner=self, type="change"))
 
     def run(self, *, chunk: int = DEFAULT_CHUNK, engine: Any = None) -> list[dict] | None:
         """Run the sweep from its first point: in the browser when a front end is attached (the rows arrive

@@ -80,3 +80,27 @@ def test_a_refused_spec_sets_status_error_naming_the_field():
 def test_nothing_runs_headless_before_run():
     w = Sweep(petz_spec())
     assert w.status == "idle" and w.rows == [] and w.done == 0
+
+
+def test_front_end_chunks_are_appended_once_in_order_without_echo():
+    # The front end's per-chunk message (src/widgets/sweep.ts): only the chunk's lines, at position `start`.
+    # Python appends them (every row once, in order), tells observers per chunk, and sends nothing back:
+    # the transfer stays linear in the rows (common practice for incremental updates over a channel).
+    spec = petz_spec(count=5)
+    expected, _ = sweep_rows(spec)
+    w = Sweep(spec, auto=False)
+    sent: list = []
+    w.send_state = lambda key=None: sent.append(key)  # what ipywidgets would send to the front end
+    seen: list = []
+    w.observe(lambda c: seen.append(len(c["new"])), "rows")
+    for start, stop in ((0, 1), (1, 3), (3, 5)):
+        w._on_custom(w, {"event": "rows", "start": start, "rows": expected[start:stop]}, [])
+    w._on_custom(w, {"event": "rows", "start": 2, "rows": expected[2:3]}, [])  # out of place: ignored
+    assert w.rows == expected
+    assert seen == [1, 3, 5]
+    assert sent == []
+    # A new run (Run again, or run() from Python) starts with an empty message at 0: the rows restart.
+    w._on_custom(w, {"event": "rows", "start": 0, "rows": []}, [])
+    w._on_custom(w, {"event": "rows", "start": 0, "rows": expected[:2]}, [])
+    assert w.rows == expected[:2]
+    assert sent == []

@@ -343,7 +343,7 @@ async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line
  * nothing piles up). Returns what happened, for the exit code.
  */
 async function answerLines(
-  stream: Readable, io: Io, deadline: number, out: Output, state: { busy: boolean } = { busy: false },
+  stream: Readable, io: Io, deadline: number, out: Output, state: { busy: boolean; lastAnswer?: number } = { busy: false },
 ): Promise<{ notJson: boolean; failed: boolean; answers: number }> {
   let notJson = false;
   let failed = false;
@@ -376,6 +376,7 @@ async function answerLines(
     answers++;
     const delivered = await out.write(`${JSON.stringify(answer)}\n`);
     state.busy = false;
+    state.lastAnswer = performance.now();
     if (!delivered) {
       (stream as Readable).destroy();
       break;
@@ -405,14 +406,21 @@ export const PROTOCOL_VERSION = '1.1';
  * from a failed start. Then exactly one answer line per request line, in order. Failed requests do not
  * change the exit status: it is 0 when standard input ends, 3 when an answer could not be written.
  */
+/** `serve` warms up only after this many milliseconds without a request being answered. */
+const WARM_AFTER_IDLE_MS = 250;
+
 async function serve(deadline: number, warm: boolean, io: Io): Promise<number> {
   const out = new Output(io);
   await out.write(`${JSON.stringify({ ready: true, engine: 'rhosigma', version: version(), protocol: PROTOCOL_VERSION })}\n`);
   // Warm the solver while idle (src/ops/warm-up.ts): one small step at a time, never while a request is
-  // being answered, stopped when the input ends. It changes speed only, never an answer.
-  const state = { busy: false };
+  // being answered nor until the engine has been idle for WARM_AFTER_IDLE_MS, stopped when the input ends.
+  // It changes speed only, never an answer. (Without the idle wait, warm-up steps ran in the millisecond
+  // gaps between the chunks of a sweep: a second or more of solver work inside every Dask worker's first
+  // sweep, which made two workers look no faster than one in bench/sweep.ts.)
+  const state: { busy: boolean; lastAnswer?: number } = { busy: false };
   const stop = { aborted: false };
-  const warming = warm ? warmUp({ busy: () => state.busy, signal: stop }) : Promise.resolve();
+  const busy = () => state.busy || (state.lastAnswer !== undefined && performance.now() - state.lastAnswer < WARM_AFTER_IDLE_MS);
+  const warming = warm ? warmUp({ busy, signal: stop }) : Promise.resolve();
   const { answers } = await answerLines(io.stdin, io, deadline, out, state);
   stop.aborted = true;
   await warming;

@@ -6,9 +6,12 @@
  * or a structured clone unchanged. This module knows matrices only: no states, no physics, no
  * validation of quantum-mechanical conditions (that is `quantum`'s job).
  *
- * Cost notes: `mul` is O(n^3) with a cache-friendly i-k-j loop over split real/imaginary
+ * Small matrices' arrays are views into shared slabs (src/linalg/small-arrays.ts): a structured clone of
+ * one copies its slab. Cost notes: `mul` is O(n^3) with a cache-friendly i-k-j loop over split real/imaginary
  * storage; everything else is O(size).
  */
+
+import { float64 } from './small-arrays.js';
 
 export interface CMatrix {
   readonly rows: number;
@@ -26,7 +29,8 @@ export interface Complex {
 }
 
 export function zeros(rows: number, cols: number = rows): CMatrix {
-  return { rows, cols, re: new Float64Array(rows * cols), im: new Float64Array(rows * cols) };
+  // Small ones are views into a shared slab (src/linalg/small-arrays.ts): several times cheaper to make.
+  return { rows, cols, re: float64(rows * cols), im: float64(rows * cols) };
 }
 
 export function identity(n: number): CMatrix {

@@ -18,6 +18,7 @@
  * Cost: decoding and compiling about 12 kB of WebAssembly once, well under a millisecond.
  */
 import { EIGH_KERNELS_WASM_BASE64 } from './wasm/eigh-kernels.wasm.js';
+import { float64, int32 } from './small-arrays.js';
 
 /** The kernels' exports; every pointer argument is a byte address in the kernels' memory. */
 export interface EighKernels {
@@ -154,13 +155,13 @@ export class Workspace {
   }
 
   f64(len: number): Float64Array {
-    if (!this.buffer) return new Float64Array(len);
+    if (!this.buffer) return float64(len);
     const a = new Float64Array(this.buffer, this.take(8 * len), len);
     return a;
   }
 
   i32(len: number): Int32Array {
-    if (!this.buffer) return new Int32Array(len);
+    if (!this.buffer) return int32(len);
     return new Int32Array(this.buffer, this.take(4 * len), len);
   }
 

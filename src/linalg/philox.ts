@@ -14,12 +14,17 @@
  * A uniform double is (w >> 11) · 2^-53 for the next word w, in [0, 1), as numpy's `random()` makes it from
  * a bit generator. Normals come in pairs from two uniforms by the Box–Muller transform (Box and Muller
  * 1958): r = sqrt(−2 ln(1 − u1)), (r cos 2πu2, r sin 2πu2); the second of a pair is kept for the next call.
+ * The logarithm, sine and cosine are src/linalg/portable-math.ts's, built only from exactly rounded operations,
+ * so the normals (and every ensemble made from them) are the same bits in every JavaScript engine (Node, a
+ * browser's worker); `Math.log`/`Math.sin`/`Math.cos` may differ between engines in the last place.
  *
  * Hand-written because no maintained npm package offers a counter-based generator with numpy's word
  * order; the 64-bit products are done on 32-bit halves, exactly (no BigInt, no allocation).
  * Deliberately not here: ensembles of matrices or states (src/linalg/random.ts, src/quantum/random.ts).
  * Cost: ten rounds of two 64×64→128-bit products per block of four words; about 0.1 µs per word.
  */
+
+import { portableLog, sinCosTurn } from './portable-math.js';
 
 const TWO32 = 4294967296;
 
@@ -171,9 +176,9 @@ export class PhiloxStream implements VariateSource {
     }
     const u1 = this.uniform();
     const u2 = this.uniform();
-    const r = Math.sqrt(-2 * Math.log(1 - u1));
-    const t = 2 * Math.PI * u2;
-    this.spare = r * Math.sin(t);
-    return r * Math.cos(t);
+    const r = Math.sqrt(-2 * portableLog(1 - u1));
+    const [sin, cos] = sinCosTurn(u2);
+    this.spare = r * sin;
+    return r * cos;
   }
 }

@@ -11,11 +11,13 @@
  *   unique (R with positive diagonal) and Q exactly Haar distributed whatever sign convention the QR uses.
  *
  * The QR is hand-written (Householder reflections, Golub & Van Loan §5.2) because ml-matrix's QR is for
- * real matrices only. Deliberately not here: the generator (src/linalg/philox.ts).
+ * real matrices only. Only exactly rounded operations (no `**`, `Math.hypot`: src/linalg/portable-math.ts), so
+ * the matrices are the same bits in every JavaScript engine. Deliberately not here: the generator (src/linalg/philox.ts).
  * Cost: a Ginibre matrix takes 2·rows·cols normals; the QR of an m×n matrix O(m n²).
  */
 import { zeros, type CMatrix } from './cmatrix.js';
 import type { VariateSource } from './philox.js';
+import { portableHypot } from './portable-math.js';
 
 /** An m×n complex Ginibre matrix (E|G_ij|² = 1) from `source`. */
 export function ginibre(rows: number, cols: number, source: VariateSource): CMatrix {
@@ -40,7 +42,7 @@ export function qrThin(a: CMatrix): { q: CMatrix; rDiagonal: { re: Float64Array;
   const dRe = new Float64Array(n), dIm = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     let norm2 = 0;
-    for (let i = k; i < m; i++) norm2 += re[i * n + k] ** 2 + im[i * n + k] ** 2;
+    for (let i = k; i < m; i++) norm2 += re[i * n + k] * re[i * n + k] + im[i * n + k] * im[i * n + k];
     const norm = Math.sqrt(norm2);
     if (norm === 0) {
       vs.push(null); // a zero column: no reflection (H = I), R_kk = 0
@@ -48,7 +50,7 @@ export function qrThin(a: CMatrix): { q: CMatrix; rDiagonal: { re: Float64Array;
     }
     const vRe = new Float64Array(m - k), vIm = new Float64Array(m - k);
     const x0r = re[k * n + k], x0i = im[k * n + k];
-    const x0abs = Math.hypot(x0r, x0i);
+    const x0abs = portableHypot(x0r, x0i);
     // α = −e^{i arg x0} ‖x‖ avoids cancellation in v = x − α e1.
     const pr = x0abs === 0 ? 1 : x0r / x0abs, pi = x0abs === 0 ? 0 : x0i / x0abs;
     const alphaRe = -pr * norm, alphaIm = -pi * norm;
@@ -59,7 +61,7 @@ export function qrThin(a: CMatrix): { q: CMatrix; rDiagonal: { re: Float64Array;
     vRe[0] -= alphaRe;
     vIm[0] -= alphaIm;
     let vn2 = 0;
-    for (let i = 0; i < m - k; i++) vn2 += vRe[i] ** 2 + vIm[i] ** 2;
+    for (let i = 0; i < m - k; i++) vn2 += vRe[i] * vRe[i] + vIm[i] * vIm[i];
     const vn = Math.sqrt(vn2);
     for (let i = 0; i < m - k; i++) {
       vRe[i] /= vn;
@@ -114,7 +116,7 @@ export function haarIsometry(m: number, n: number, source: VariateSource): CMatr
   const { q, rDiagonal } = qrThin(ginibre(m, n, source));
   for (let j = 0; j < n; j++) {
     const r = rDiagonal.re[j], s = rDiagonal.im[j];
-    const abs = Math.hypot(r, s);
+    const abs = portableHypot(r, s);
     const pr = abs === 0 ? 1 : r / abs, pi = abs === 0 ? 0 : s / abs;
     for (let i = 0; i < m; i++) {
       const a = q.re[i * n + j], b = q.im[i * n + j];
@@ -140,7 +142,7 @@ export function simplexPoint(n: number, source: VariateSource): Float64Array {
   const p = new Float64Array(n);
   let sum = 0;
   for (let k = 0; k < n; k++) {
-    p[k] = g.re[k] ** 2 + g.im[k] ** 2;
+    p[k] = g.re[k] * g.re[k] + g.im[k] * g.im[k];
     sum += p[k];
   }
   for (let k = 0; k < n; k++) p[k] = sum === 0 ? 1 / n : p[k] / sum;

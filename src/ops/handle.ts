@@ -310,12 +310,31 @@ function isCMatrixLike(v: Record<string, unknown>): boolean {
   return typeof v.rows === 'number' && typeof v.cols === 'number' && v.re instanceof Float64Array && v.im instanceof Float64Array;
 }
 
-/** Plain JSON data from an op's result: ±Infinity → strings, typed arrays → lists, NaN/functions → NotPlain. */
+/**
+ * Plain JSON data from an op's result: ±Infinity → strings, typed arrays → lists, NaN/functions → NotPlain.
+ * The place of a NotPlain (`where` plus the keys below it) is built only when one is thrown: building the
+ * path of every entry of every answer cost a sweep point about a tenth of its time (bench/sweep.ts).
+ */
 function toPlain(v: unknown, where: string, depth: number): unknown {
-  if (depth > MAX_DEPTH) throw new NotPlain(where, 'nesting too deep (a cycle?)');
+  try {
+    return plainOf(v, depth);
+  } catch (err) {
+    if (err instanceof PlainPath) throw new NotPlain(where + err.path.reverse().join(''), err.what);
+    throw err;
+  }
+}
+
+/** Thrown by plainOf; the keys of the path are pushed innermost first while it unwinds. */
+class PlainPath {
+  readonly path: string[] = [];
+  constructor(readonly what: string) {}
+}
+
+function plainOf(v: unknown, depth: number): unknown {
+  if (depth > MAX_DEPTH) throw new PlainPath('nesting too deep (a cycle?)');
   switch (typeof v) {
     case 'number':
-      if (Number.isNaN(v)) throw new NotPlain(where, 'NaN');
+      if (Number.isNaN(v)) throw new PlainPath('NaN');
       if (v === Infinity) return 'Infinity';
       if (v === -Infinity) return '-Infinity';
       return v === 0 ? 0 : v;
@@ -325,27 +344,52 @@ function toPlain(v: unknown, where: string, depth: number): unknown {
     case 'object': {
       if (v === null) return null;
       if (Array.isArray(v)) {
-        return v.map((x, k) => {
-          if (x === undefined) throw new NotPlain(`${where}[${k}]`, 'undefined');
-          return toPlain(x, `${where}[${k}]`, depth + 1);
-        });
+        const out = new Array<unknown>(v.length);
+        for (let k = 0; k < v.length; k++) {
+          const x = v[k];
+          try {
+            if (x === undefined) throw new PlainPath('undefined');
+            out[k] = plainOf(x, depth + 1);
+          } catch (err) {
+            if (err instanceof PlainPath) err.path.push(`[${k}]`);
+            throw err;
+          }
+        }
+        return out;
       }
       if (ArrayBuffer.isView(v) && !(v instanceof DataView)) {
-        return Array.from(v as unknown as ArrayLike<number>, (x, k) => toPlain(Number(x), `${where}[${k}]`, depth + 1));
+        const a = v as unknown as ArrayLike<number>;
+        const out = new Array<unknown>(a.length);
+        for (let k = 0; k < a.length; k++) {
+          try {
+            out[k] = plainOf(Number(a[k]), depth + 1);
+          } catch (err) {
+            if (err instanceof PlainPath) err.path.push(`[${k}]`);
+            throw err;
+          }
+        }
+        return out;
       }
       const proto = Object.getPrototypeOf(v);
-      if (proto !== Object.prototype && proto !== null) throw new NotPlain(where, `an instance of ${proto?.constructor?.name ?? 'a class'}`);
+      if (proto !== Object.prototype && proto !== null) throw new PlainPath(`an instance of ${proto?.constructor?.name ?? 'a class'}`);
       const obj = v as Record<string, unknown>;
       if (isCMatrixLike(obj)) return writeMatrix(obj as never);
       const out: Record<string, unknown> = {};
-      for (const [key, x] of Object.entries(obj)) {
+      for (const key in obj) {
+        if (!Object.prototype.hasOwnProperty.call(obj, key)) continue;
+        const x = obj[key];
         if (x === undefined) continue;
-        out[key] = toPlain(x, `${where}.${key}`, depth + 1);
+        try {
+          out[key] = plainOf(x, depth + 1);
+        } catch (err) {
+          if (err instanceof PlainPath) err.path.push(`.${key}`);
+          throw err;
+        }
       }
       return out;
     }
     default:
-      throw new NotPlain(where, `a ${typeof v}`);
+      throw new PlainPath(`a ${typeof v}`);
   }
 }
 

@@ -33,7 +33,7 @@ import { stinespringToKraus } from './channels.js';
 export function randomPureKet(d: number, source: VariateSource): CMatrix {
   const g = ginibre(d, 1, source);
   let n2 = 0;
-  for (let k = 0; k < d; k++) n2 += g.re[k] ** 2 + g.im[k] ** 2;
+  for (let k = 0; k < d; k++) n2 += g.re[k] * g.re[k] + g.im[k] * g.im[k];
   const s = 1 / Math.sqrt(n2);
   return scale(g, s);
 }

@@ -3,8 +3,14 @@
  * points of its `spec` in chunks through the page's worker, with the op `sweep-points` that Python's
  * `rhosigma.sweep` sends to its headless engine (src/sweep/op.ts), so a row here is the line that
  * `rhosigma.sweep(spec)` and `rhosigma sweep SPEC` give for the same index: a point's line depends only on
- * the spec (its seed) and the index, never on the chunking. After each chunk it appends the lines to `rows`,
- * sets `done`/`total` and `save_changes()`, so the kernel sees the rows as they come. Modes as in
+ * the spec (its seed) and the index, never on the chunking. After each chunk it sends the kernel only that
+ * chunk's lines, as a custom message {event: "rows", start, rows} (start: the position of the first of them
+ * in the run's rows; a run starts with an empty one at 0), then sets `done`/`total` and `save_changes()`; Python appends them to its `rows`
+ * (widgets.py), so the transfer is linear in the number of rows. Messages and state updates travel in order
+ * on the widget's comm, so Python has every row of the run, once and in order, before it sees `done` move
+ * or the status change (also after a Cancel). The page keeps the run's rows itself (`localRows`) for the view;
+ * the synced `rows` field is only reset to [] when a run starts (and carries the rows of a headless run that
+ * Python made). Modes as in
  * `sweep_rows`: "first-violation" stops after the first violating point; the search mode refines the
  * points with the smallest gaps afterwards, one request each.
  *
@@ -17,15 +23,15 @@
  * The view is src/ui's SweepPanel: the spec's summary, the progress bar with count and rate, Run, Cancel,
  * and the live chart of the rows through src/ui/plot.ts; the chosen axes are written to `plot`.
  *
- * Deliberately not here: any numerics (the worker's); the full rows are sent with each chunk's update
- * (ipywidgets syncs a field whole), which suits the sweeps of a notebook (thousands of points), not
- * millions: those are for `rhosigma sweep` and its shards. Cost: one request per chunk, in the worker.
+ * Deliberately not here: any numerics (the worker's). Cost: one request per chunk, in the worker; one
+ * message per chunk with that chunk's lines to the kernel.
  */
 import { DOMWidgetModel, DOMWidgetView } from '@jupyter-widgets/base';
 import { defaultsOf } from './base.js';
 import { pageEngine } from './engine.js';
 import { SweepPanel, type SweepLine, type SweepPanelState, type SweepPlot } from '../ui/sweep-panel.js';
 import type { Answer } from '../worker/types.js';
+import type { JSONValue } from '@lumino/coreutils';
 
 /** The deadline of one sweep-points request: the protocol's largest, as Python's `sweep_rows` sends
  * (each request of a point keeps its own default deadline). */
@@ -57,6 +63,8 @@ export class SweepModel extends DOMWidgetModel {
   // Backbone calls initialize() from its constructor, before field initializers run: declared, set there.
   private declare generation: number;
   private declare stop: AbortController | null;
+  /** The rows of this page's run (sent to the kernel chunk by chunk, not synced whole), or null. */
+  declare localRows: SweepLine[] | null;
 
   override defaults() {
     return defaultsOf('SweepModel', super.defaults());
@@ -68,6 +76,7 @@ export class SweepModel extends DOMWidgetModel {
     super.initialize(attributes, options);
     this.generation = 0;
     this.stop = null;
+    this.localRows = null;
     this.on('change:spec', () => {
       if (this.get('auto') !== false) void this.run();
     });
@@ -130,12 +139,25 @@ export class SweepModel extends DOMWidgetModel {
       this.set(fields);
       this.save_changes();
     };
+    /** Appends lines to the run's rows: to the kernel as one message of just these lines, then `done`. */
+    const append = (lines: SweepLine[]) => {
+      if (generation !== this.generation) throw new Stopped('stale');
+      const start = rows.length;
+      rows = [...rows, ...lines];
+      this.localRows = rows;
+      this.send({ event: 'rows', start, rows: lines as unknown as JSONValue[] }, {});
+      publish({ done: rows.length });
+    };
     let rows: SweepLine[] = [];
     try {
+      // The kernel's rows restart empty: a message with start 0 (the synced field may already read [] here,
+      // and an unchanged field is not sent again).
+      this.send({ event: 'rows', start: 0, rows: [] }, {});
       if (!spec) {
         publish({ rows: [], done: 0, total: 0, status: 'idle', error: null, computed_by: null });
         return;
       }
+      this.localRows = rows;
       publish({ rows: [], done: 0, total: 0, status: 'running', error: null, computed_by: 'browser' });
       const header = await this.ask(spec, { indices: [] }, stop.signal);
       const total = header.points as number;
@@ -156,9 +178,8 @@ export class SweepModel extends DOMWidgetModel {
             break;
           }
         }
-        rows = [...rows, ...kept];
         start += indices.length;
-        publish({ rows, done: rows.length });
+        append(kept);
         chunk = Math.max(1, Math.min(MAX_CHUNK, chunk * 4, Math.round((chunk * CHUNK_TARGET_MS) / Math.max(ms, 1))));
       }
       const search = (spec.mode as { search?: { refine?: number } } | undefined)?.search;
@@ -166,8 +187,7 @@ export class SweepModel extends DOMWidgetModel {
         const jobs = refineCandidates(rows, search.refine ?? 5).map((i, rank) => [i, rank]);
         publish({ total: total + jobs.length });
         for (const job of jobs) {
-          rows = [...rows, ...(await this.lines(spec, { refine: [job] }, stop.signal))];
-          publish({ rows, done: rows.length });
+          append(await this.lines(spec, { refine: [job] }, stop.signal));
         }
       }
       publish({ status: 'done' });
@@ -187,7 +207,8 @@ function panelState(model: DOMWidgetModel): SweepPanelState {
   const plot = (model.get('plot') ?? {}) as Partial<SweepPlot>;
   return {
     spec: model.get('spec') ?? null,
-    rows: (model.get('rows') ?? []) as SweepLine[],
+    // This page's run keeps its rows itself (they go to the kernel chunk by chunk); a headless run's come synced.
+    rows: ((model as SweepModel).localRows && model.get('computed_by') === 'browser' ? (model as SweepModel).localRows : model.get('rows') ?? []) as SweepLine[],
     done: Number(model.get('done') ?? 0),
     total: Number(model.get('total') ?? 0),
     status: String(model.get('status') ?? 'idle'),

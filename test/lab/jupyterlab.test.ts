@@ -272,8 +272,14 @@ maybe('the sweep widget in a real JupyterLab (Chromium)', () => {
     const cmp = JSON.parse(text.slice(text.indexOf('RESULT') + 6).trim()) as { rows: any[]; headless: any[]; exact: boolean; frame: boolean };
     assert.equal(cmp.rows.length, 12);
     assert.deepEqual(cmp.rows.map((r) => r.index), [...Array(12).keys()]);
-    assert.equal(difference(cmp.rows, cmp.headless, 1e-12), '', 'browser rows vs headless rows');
-    if (!cmp.exact) console.warn(`sweep widget: rows equal the headless ones within 1e-12 relative, not bit for bit: ${difference(cmp.rows, cmp.headless, 0)}`);
+    // The draws (recorded states) bit for bit: the random path uses only exactly rounded operations
+    // (src/linalg/portable-math.ts). The divergence's value goes through Math.pow and Math.log, which
+    // Chromium's and Node's JavaScript engines may round differently in the last place (amplified by the
+    // formula's cancellation): exact where they agree, else within 1e-12 relative (docs/sweeps.md).
+    const withoutValues = (rows: any[]) => rows.map(({ value, ...rest }) => rest);
+    assert.equal(difference(withoutValues(cmp.rows), withoutValues(cmp.headless), 0), '', 'browser draws and lines vs headless, exactly');
+    assert.equal(difference(cmp.rows, cmp.headless, 1e-12), '', 'browser values vs headless, within 1e-12 relative');
+    if (!cmp.exact) console.warn(`sweep widget: values equal the headless ones within 1e-12 relative, not bit for bit: ${difference(cmp.rows, cmp.headless, 0)}`);
     assert.equal(cmp.frame, cmp.exact, 'frame() equals rhosigma.sweep(spec) exactly when the rows do');
     // Cancel: a 6000-point sweep, cancelled from its view as soon as rows arrive, stops before its end.
     await lab.runCell(3);
