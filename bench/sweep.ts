@@ -50,7 +50,9 @@ async function builtSweep(): Promise<{ readSpec: typeof import('../src/sweep/spe
 export default async function main(flags: string[]): Promise<void> {
   const { readSpec, runSweep } = await builtSweep();
   const quick = flags.includes('--quick');
-  const samples = quick ? 800 : 4000;
+  // Long enough that each worker thread reaches the optimised code of its own isolate well inside the short run
+  // (a thread compiles on its own): at 4000 samples the marginal rate of two threads was still warm-up.
+  const samples = quick ? 800 : 16000;
   const rounds = quick ? 1 : 3;
   const dir = mkdtempSync(join(tmpdir(), 'rhosigma-bench-sweep-'));
   const rates: Record<string, number[]> = { one: [], two: [], numpy: [] };

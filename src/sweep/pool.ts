@@ -26,10 +26,11 @@ export interface PoolOptions {
 
 /**
  * A worker thread running worker.js next to this module; from source (tests, under tsx) worker.ts, loaded
- * after registering tsx in the thread (module hooks of the main thread do not reach workers in Node 20).
+ * after registering tsx in the thread (module hooks of the main thread do not reach workers in Node 20);
+ * from the command's one-file bundle (dist/cli/bundle.cjs), the compiled dist/sweep/worker.js.
  * The paths are built at run time so that bundlers leave them alone (webpack 5 mis-rewrites
- * `new Worker(new URL(...))` for Node targets); where no worker file exists beside this module (the
- * single-file engine bundle), undefined: the caller then runs the jobs in its own thread.
+ * `new Worker(new URL(...))` for Node targets); where no worker file exists (the Python wheel's
+ * single-file engine), undefined: the caller then runs the jobs in its own thread.
  */
 function workerStarter(): (() => ThreadWorker) | undefined {
   const here = import.meta.url;
@@ -39,9 +40,20 @@ function workerStarter(): (() => ThreadWorker) | undefined {
     const code = `import(${JSON.stringify(tsx)}).then((m) => { m.register(); return import(${JSON.stringify(url)}); });`;
     return () => new ThreadWorker(code, { eval: true });
   }
-  const file = here.startsWith('file:') ? fileURLToPath(here.replace(/pool\.js$/, ['worker', 'js'].join('.'))) : '';
-  if (!file.endsWith('worker.js') || !existsSync(file)) return undefined;
+  const file = sweepWorkerFile(here);
+  if (!file) return undefined;
   return () => new ThreadWorker(file);
+}
+
+/**
+ * The compiled worker module for a pool module at `moduleUrl`: worker.js beside it (dist/sweep/pool.js), or,
+ * from the command's one-file bundle (dist/cli/bundle.cjs), dist/sweep/worker.js beside the bundle's folder;
+ * undefined when neither exists.
+ */
+export function sweepWorkerFile(moduleUrl: string): string | undefined {
+  if (!moduleUrl.startsWith('file:')) return undefined;
+  const candidates = [moduleUrl.replace(/pool\.js$/, ['worker', 'js'].join('.')), new URL(['..', 'sweep', 'worker.js'].join('/'), moduleUrl).href];
+  return candidates.map((u) => fileURLToPath(u)).find((f) => f.endsWith('worker.js') && existsSync(f));
 }
 
 /** Runs jobs 0..count−1 (`jobAt` builds each) and hands the results to `consume` in order. */

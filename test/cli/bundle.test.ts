@@ -11,7 +11,7 @@ import { spawnSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const built = existsSync(join(root, 'dist/cli/bundle.cjs')) && existsSync(join(root, 'dist/cli/bundle.cjs.cache'));
@@ -96,6 +96,25 @@ describe('the built command (bundle with its code cache)', () => {
     }
     // The list is the real one: the modules the command does use are in it.
     assert.ok(loaded.includes('NativeModule vm'), 'process.moduleLoadList does not list node:vm, which the launcher uses');
+  });
+
+  maybe('runs `sweep --workers 2` on worker threads from the bundle (the compiled dist/sweep/worker.js beside it), with the same bytes as one worker (the sweep\'s determinism contract, docs/sweeps.md)', async () => {
+    const { sweepWorkerFile } = await import('../../src/sweep/pool.js');
+    // The bundle's own location: the pool module inside it resolves the worker from there.
+    assert.equal(sweepWorkerFile(pathToFileURL(join(root, 'dist/cli/bundle.cjs')).href), join(root, 'dist/sweep/worker.js'));
+    // A copy of the bundle with no dist/sweep beside it has no worker file: the jobs then run in its own thread.
+    const { dir } = copy();
+    assert.equal(sweepWorkerFile(pathToFileURL(join(dir, 'dist/cli/bundle.cjs')).href), undefined);
+    const spec = JSON.parse(readFileSync(join(root, 'docs/sweeps/strong-subadditivity.json'), 'utf8')) as { samples: number };
+    spec.samples = 40;
+    writeFileSync(join(dir, 'spec.json'), JSON.stringify(spec));
+    const run = (workers: number) => {
+      const out = join(dir, `out-${workers}.jsonl`);
+      const r = spawnSync(process.execPath, [join(root, 'bin/rhosigma.js'), 'sweep', join(dir, 'spec.json'), '-o', out, '--workers', String(workers)], { encoding: 'utf8' });
+      assert.equal(r.status, 0, `the sweep with ${workers} workers failed: ${r.stderr}`);
+      return readFileSync(out);
+    };
+    assert.ok(run(2).equals(run(1)), 'two worker threads wrote other bytes than one');
   });
 
   maybe('computes a sweep through the bundle, with the spec hash (SHA-256 by @noble/hashes, the spec validator precompiled)', () => {
