@@ -35,6 +35,7 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix
 
+from reference_output import write_reference
 from cvxopt_ladder import solve_sdp
 
 from embedding import embed, hermitian_basis
@@ -292,12 +293,7 @@ def main():
         "diamond": [diamond_case(rng) for _ in range(args.count)],
         "recovery": [recovery_case(rng) for _ in range(nrec)],
     }
-    text = json.dumps(out)
-    if args.out == "-":
-        sys.stdout.write(text)
-    else:
-        with open(args.out, "w") as f:
-            f.write(text + "\n")
+    write_reference(out, args.out)
 
 
 if __name__ == "__main__":

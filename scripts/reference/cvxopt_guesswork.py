@@ -30,14 +30,13 @@ value, dualValue, cvxoptStatus, cvxoptTolerance}]}.
 """
 import argparse
 import itertools
-import json
-import sys
 import time
 
 import numpy as np
 import cvxopt
 from cvxopt import matrix
 
+from reference_output import write_reference
 from cvxopt_ladder import solve_sdp
 from embedding import embed, hermitian_basis
 
@@ -133,12 +132,7 @@ def main():
         "seed": a.seed,
         "cases": make_cases(a.seed, a.count, [tuple(int(v) for v in s.split("x")) for s in a.shapes.split(",") if s], a.bb84, a.time),
     }
-    text = json.dumps(doc, indent=1)
-    if a.out == "-":
-        sys.stdout.write(text)
-    else:
-        with open(a.out, "w") as f:
-            f.write(text + "\n")
+    write_reference(doc, a.out, indent=1)
 
 
 if __name__ == "__main__":

@@ -37,6 +37,7 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix, spmatrix
 
+from reference_output import write_reference
 from cvxopt_ladder import solve_sdp
 from embedding import hermitian_basis
 
@@ -168,12 +169,7 @@ def main():
             case = {"rho": {"matrix": cplx(rho), "dims": dims}, "a": [0], "b": [1], "c": [2]}
             case.update(solve(rho, dims))
             out["recovery"].append(case)
-    text = json.dumps(out)
-    if args.out == "-":
-        sys.stdout.write(text)
-    else:
-        with open(args.out, "w") as f:
-            f.write(text + "\n")
+    write_reference(out, args.out)
 
 
 if __name__ == "__main__":

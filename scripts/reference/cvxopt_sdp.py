@@ -30,6 +30,7 @@ import numpy as np
 import cvxopt
 from cvxopt import matrix
 
+from reference_output import write_reference
 from cvxopt_ladder import solve_sdp
 
 
@@ -334,12 +335,7 @@ def main():
         "seed": args.seed,
         "cases": cases,
     }
-    text = json.dumps(out)
-    if args.out == "-":
-        sys.stdout.write(text)
-    else:
-        with open(args.out, "w") as f:
-            f.write(text + "\n")
+    write_reference(out, args.out)
 
 
 if __name__ == "__main__":

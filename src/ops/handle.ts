@@ -447,8 +447,11 @@ function withStandIns(def: OpDefinition, req: Record<string, unknown>): Record<s
     if (anyOf === schemas.matrix.anyOf) w = matrixStandIn(v);
     else if (anyOf === schemas.state.anyOf) {
       const s = v as Record<string, unknown>;
-      w = !Array.isArray(v) && 'matrix' in s ? { ...s, matrix: matrixStandIn(s.matrix) } : matrixStandIn(v);
-      if (w !== v && !Array.isArray(v) && 'matrix' in s && (w as Record<string, unknown>).matrix === s.matrix) w = v;
+      if (Array.isArray(v) || !('matrix' in s)) w = matrixStandIn(v);
+      else {
+        const m = matrixStandIn(s.matrix);
+        if (m !== s.matrix) w = { ...s, matrix: m };
+      }
     }
     if (w !== v) (out ??= { ...req })[key] = w;
   }

@@ -11,7 +11,7 @@
  * with "re" holding rows is a complex matrix; a list of numbers or strings under the key "ket" is a ket.
  * Everything else is walked into (lists of states, Kraus lists, channels), to a depth of 16.
  *
- * On the way, a matrix given as rows of finite numbers, all rows as long as the first, is read into a
+ * On the way, a matrix given as rows of finite numbers (PRE_READ_ENTRIES or more), all rows as long as the first, is read into a
  * row-major Float64Array (codec.ts, rememberNumericRows): the request's validation then skips its rows
  * (handle's stand-ins) and the codec's readers take the array, so the entries are looked at once.
  *
@@ -22,6 +22,9 @@
  */
 import { RhoError } from '../errors.js';
 import { MAX_DIMENSION, rememberNumericRows } from './codec.js';
+
+/** Matrices given as rows with at least this many entries are read into a typed array by the walk. */
+const PRE_READ_ENTRIES = 256;
 
 /** Largest number of expression strings in one request (each costs a parse). */
 export const MAX_REQUEST_EXPRESSIONS = 65536;
@@ -85,7 +88,9 @@ export function checkRequestSizes(request: Record<string, unknown>): RequestSize
     // Rows of finite numbers, all as long as the first, are read into a typed array on the way (the
     // codec's readers and handle's validation then use it instead of walking the rows again).
     const cols = (v[0] as unknown[]).length;
-    let values: Float64Array | undefined = cols >= 1 && cols <= MAX_DIMENSION ? new Float64Array(v.length * cols) : undefined;
+    // Small matrices are left to ajv and the codec (a fresh typed array costs more than their walk).
+    const big = cols >= 1 && cols <= MAX_DIMENSION && v.length * cols >= PRE_READ_ENTRIES;
+    let values: Float64Array | undefined = big ? new Float64Array(v.length * cols) : undefined;
     for (let i = 0; i < v.length; i++) {
       const row = v[i];
       if (!Array.isArray(row)) {

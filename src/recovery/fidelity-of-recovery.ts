@@ -36,8 +36,8 @@
  * eliminated from the Schur complement in closed form (src/sdp/elimination.ts), so it is (N² + d_B²)²:
  * 16(N² + d_B²)² bytes and (N² + d_B²)³/3 multiply-adds per iteration for its Cholesky factor, plus its
  * assembly, about N²·d_B·(d_B² d_C)² complex multiply-adds (each σ-constraint's W A W formed from its
- * d_B rows, schur.ts). Measured (bench/recovery.ts, bench/RESULTS.md, a loaded shared machine): (2,4,4)
- * in 9–18 s wall (about 8 s of CPU), (4,2,4) in 7–12 s, 10–40× faster than cvxopt on the dual SDP; N = 64
+ * d_B rows, schur.ts). Measured (bench/recovery.ts, bench/RESULTS.md): on a quiet machine (2,4,4) in 8.3 s
+ * and (4,2,4) in 4.9 s (9–18 s and 7–12 s when the machine was shared), 8–40× faster than cvxopt on the dual SDP; N = 64
  * is accepted by the limits but takes minutes (the deadline stops it).
  */
 import {

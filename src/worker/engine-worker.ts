@@ -57,12 +57,7 @@ const api: WorkerApi = {
   compute: answer,
   async computeMany(requests: unknown[]): Promise<Answer[]> {
     const out: Answer[] = [];
-    busy++;
-    try {
-      for (const request of requests) out.push(await answer(request));
-    } finally {
-      busy--;
-    }
+    for (const request of requests) out.push(await answer(request));
     return out;
   },
   async ready() {
