@@ -3,7 +3,9 @@
  * its reference measured in the same run, in alternating rounds:
  *
  *  - start-up: a one-line request (`spectrum` of a 2 × 2 matrix) through `node bin/rhosigma.js compute
- *    FILE` from a cold process, against a bare `node -e 0`; goal ≤ 2×.
+ *    FILE` from a cold process, against a bare `node -e 0`; goal ≤ 2×. The same through the Python wheel's
+ *    engine (scripts/bundle-cli.mjs bundleWheelEngine, built into a temporary folder outside the checkout,
+ *    its code cache written by a first run).
  *  - transport: `spectrum` at n = 256, values only, per matrix in a batch through `compute --lines`,
  *    transport included (JSON text in, parsing, checks, the eigensolver, the answer out): the batch of K
  *    matrices minus a batch of one, divided by K − 1 (so start-up cancels), in the packed form and with
@@ -114,18 +116,28 @@ export default async function transport(): Promise<void> {
   const cpuPerMatrix: Record<'packed' | 'rows', number[]> = { packed: [], rows: [] };
   const ratios = { start: [] as number[], packed: [] as number[], rows: [] as number[] };
   const cpuRatios = { packed: [] as number[], rows: [] as number[] };
+  const { bundleWheelEngine } = (await import(new URL('../scripts/bundle-cli.mjs', import.meta.url).href)) as { bundleWheelEngine(dir: string): Promise<void> };
+  await bundleWheelEngine(join(dir, '_bundle'));
+  const WHEEL = join(dir, '_bundle/bin/rhosigma.js');
+  const wheel: number[] = [];
+  const wheelRatios: number[] = [];
   wall('node', [BIN, 'compute', one]); // fills the file cache
+  wall('node', [WHEEL, 'compute', one]); // writes the wheel engine's code cache
   for (let r = 0; r < rounds; r++) {
     // Start-up: pairs of (bare node, our command), alternating, medians of the pairs.
     const b: number[] = [];
     const s: number[] = [];
+    const w: number[] = [];
     for (let k = 0; k < 5; k++) {
       b.push(wall('node', ['-e', '0']));
       s.push(wall('node', [BIN, 'compute', one]));
+      w.push(wall('node', [WHEEL, 'compute', one]));
     }
     bare.push(median(b));
     start.push(median(s));
     ratios.start.push(median(s) / median(b));
+    wheel.push(median(w));
+    wheelRatios.push(median(w) / median(b));
     const { wall: np, cpu: npCpu } = numpyEigvalshTimes();
     numpy.push(np);
     numpyCpu.push(npCpu);
@@ -144,6 +156,7 @@ export default async function transport(): Promise<void> {
   const g = (x: number) => x.toFixed(2);
   console.log(`Start-up (median of ${rounds} rounds, 5 pairs each), ms:`);
   console.log(`  node -e 0 ${f(median(bare))}   rhosigma compute (one request) ${f(median(start))}   ratio ${g(median(ratios.start))} (goal ≤ 2)`);
+  console.log(`  the Python wheel's engine (one request) ${f(median(wheel))}   ratio ${g(median(wheelRatios))} (goal ≤ 2; per round ${wheelRatios.map(g).join(' ')})`);
   console.log(`spectrum n = ${N}, values only, per matrix in a batch of ${K} through compute --lines, ms (median of ${rounds} rounds):`);
   console.log(`  numpy.linalg.eigvalsh (1 thread) ${f(median(numpy))}`);
   console.log(`  packed          ${f(median(perMatrix.packed))}   ratio ${g(median(ratios.packed))} (goal ≤ 2)`);

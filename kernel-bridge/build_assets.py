@@ -3,8 +3,8 @@
 - The labextension (`npm run build:labextension` at the repository root fills rhosigma/labextension/,
   shipped as share/jupyter/labextensions/rhosigma). For an editable install it is skipped when the
   folder already holds a built extension.
-- The engine bundle (`npm run build:engine-bundle`: rhosigma/_bundle/rhosigma.mjs, the whole command in
-  one file for `node`), so that the installed package runs headless outside the checkout. Skipped for
+- The engine bundle (`npm run build:engine-bundle`: rhosigma/_bundle/, the command's launcher, its bundle
+  and the few packages it loads on first need, laid out as in the checkout; scripts/bundle-cli.mjs), so that the installed package runs headless outside the checkout. Skipped for
   editable installs, which run the checkout's bin/rhosigma.js.
 Both need the repository's npm packages: `npm ci` runs first when node_modules/ is missing. Every
 command's failure stops the build (hatch-jupyter-builder turns it into a warning for editable installs,
@@ -25,7 +25,7 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 LABEXTENSION = HERE / "rhosigma" / "labextension"
-BUNDLE = HERE / "rhosigma" / "_bundle" / "rhosigma.mjs"
+BUNDLE = HERE / "rhosigma" / "_bundle" / "bin" / "rhosigma.js"
 
 
 def _npm(*args: str) -> None:

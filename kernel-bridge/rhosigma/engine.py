@@ -54,8 +54,9 @@ from .errors import EngineNotFound, EngineStartError
 __all__ = ["Engine", "engine_command", "default_engine", "set_default_engine", "shutdown", "compute", "compute_batch", "compute_async"]
 
 _PACKAGE_DIR = Path(__file__).resolve().parent
-#: The engine bundle shipped inside the wheel (built by `npm run build:engine-bundle`).
-BUNDLE_PATH = _PACKAGE_DIR / "_bundle" / "rhosigma.mjs"
+#: The launcher of the engine shipped inside the wheel (`npm run build:engine-bundle`: the checkout's
+#: bin/rhosigma.js and bundle in the same layout, so it starts with V8's code cache as the checkout does).
+BUNDLE_PATH = _PACKAGE_DIR / "_bundle" / "bin" / "rhosigma.js"
 #: The checkout's command (kernel-bridge/rhosigma/ → the repository root).
 CHECKOUT_BIN = _PACKAGE_DIR.parent.parent / "bin" / "rhosigma.js"
 

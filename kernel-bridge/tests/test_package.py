@@ -45,7 +45,7 @@ def test_the_wheel_runs_its_own_engine_outside_the_checkout(tmp_path):
     with zipfile.ZipFile(wheel) as z:
         names = z.namelist()
         z.extractall(tmp_path / "site")
-    assert "rhosigma/_bundle/rhosigma.mjs" in names and "rhosigma/engine.py" in names
+    assert "rhosigma/_bundle/bin/rhosigma.js" in names and "rhosigma/_bundle/dist/cli/bundle.cjs" in names and "rhosigma/engine.py" in names
     assert not any(n.startswith("rhosigma/labextension/") for n in names)     # only under share/
     if with_lab:
         assert f"rhosigma-{rhosigma.__version__}.data/data/share/jupyter/labextensions/rhosigma/package.json" in names
@@ -61,8 +61,18 @@ def test_the_wheel_runs_its_own_engine_outside_the_checkout(tmp_path):
     assert run.returncode == 0, run.stderr.decode("utf-8", "replace")
     got = json.loads(run.stdout)
     assert got["file"].startswith(str(tmp_path / "site"))
-    assert got["command"][-1] == str(tmp_path / "site" / "rhosigma" / "_bundle" / "rhosigma.mjs")
+    assert got["command"][-1] == str(tmp_path / "site" / "rhosigma" / "_bundle" / "bin" / "rhosigma.js")
     assert np.allclose(got["value"], np.linalg.eigvalsh(h), atol=1e-12)   # numpy.linalg.eigvalsh
+    # The packages the engine loads on first need are inside the wheel: an entry given as an expression
+    # (mathjs's own file under _bundle/node_modules), read by the extracted engine outside the checkout.
+    for part in ("node_modules/mathjs/lib/browser/math.js", "dist/sweep/worker.js", "dist/cli/vendor/vega.cjs"):
+        assert f"rhosigma/_bundle/{part}" in names, part
+    req = tmp_path / "expr.json"
+    req.write_text(json.dumps({"op": "spectrum", "matrix": [["2", "exp(i*pi/2)"], ["-i", "2"]]}))
+    out = subprocess.run(["node", got["command"][-1], "compute", str(req)], cwd=tmp_path, capture_output=True, timeout=60)
+    assert out.returncode == 0, out.stderr.decode("utf-8", "replace")
+    # numpy.linalg.eigvalsh of [[2, i], [-i, 2]] (exp(iπ/2) = i): 1 and 3
+    assert np.allclose(json.loads(out.stdout)["value"], np.linalg.eigvalsh(np.array([[2, 1j], [-1j, 2]])), atol=1e-12)
 
 
 def test_the_public_names_are_all_importable_and_listed_once():

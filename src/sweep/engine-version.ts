@@ -13,8 +13,8 @@ export function engineVersion(): string {
     | { readFileSync(path: URL, encoding: 'utf8'): string }
     | undefined;
   if (!fs) return 'unknown';
-  // A literal: the wheel's engine bundle (kernel-bridge/webpack.engine.config.cjs) copies the file it names
-  // beside itself and points this URL there; browser bundles copy it too, unread.
+  // A literal, so that browser bundles (webpack) copy the file it names, unread; the command's bundle and the
+  // wheel's (scripts/bundle-cli.mjs) find it two folders up, as the compiled modules do.
   try {
     const pkg = JSON.parse(fs.readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version?: string };
     return pkg.version ?? 'unknown';

@@ -5,10 +5,12 @@
  * Default axes: x the first parameter (else the point index), y the gap when the spec has an inequality
  * (else the value), colour the second parameter. Failed points are left out and counted in the subtitle;
  * violations are drawn as crosses, and a rule marks gap = 0.
+ * vega and vega-lite are loaded by import() in plotSvg, not imported at the top: vega's canvas module awaits
+ * at its top level, which Node's require() refuses, and the command's one-file CommonJS bundle turns top
+ * imports of a package it leaves outside into require() (`sweep plot` failed there).
  * Deliberately not here: any styling of the front end, any numerics. Cost: linear in the number of points.
  */
-import * as vega from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import type { TopLevelSpec } from 'vega-lite';
 import { RhoError } from '../errors.js';
 import type { ParsedFile } from './file.js';
 
@@ -84,6 +86,7 @@ export function plotSpec(file: ParsedFile, options: PlotOptions = {}): TopLevelS
 /** The SVG text and the Vega-Lite specification it was rendered from. */
 export async function plotSvg(file: ParsedFile, options: PlotOptions = {}): Promise<{ svg: string; vegaLite: TopLevelSpec }> {
   const vegaLite = plotSpec(file, options);
+  const [vega, { compile }] = await Promise.all([import('vega'), import('vega-lite')]);
   const view = new vega.View(vega.parse(compile(vegaLite).spec), { renderer: 'none' });
   const svg = await view.toSVG();
   view.finalize();

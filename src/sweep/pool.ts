@@ -29,8 +29,8 @@ export interface PoolOptions {
  * after registering tsx in the thread (module hooks of the main thread do not reach workers in Node 20);
  * from the command's one-file bundle (dist/cli/bundle.cjs), the compiled dist/sweep/worker.js.
  * The paths are built at run time so that bundlers leave them alone (webpack 5 mis-rewrites
- * `new Worker(new URL(...))` for Node targets); where no worker file exists (the Python wheel's
- * single-file engine), undefined: the caller then runs the jobs in its own thread.
+ * `new Worker(new URL(...))` for Node targets); where no worker file exists (a copy of the bundle without
+ * dist/sweep/), undefined: the caller then runs the jobs in its own thread. The Python wheel's engine has one.
  */
 function workerStarter(): (() => ThreadWorker) | undefined {
   const here = import.meta.url;

@@ -8,7 +8,7 @@
 import { describe, it } from '@jest/globals';
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -83,6 +83,30 @@ describe('the built command (bundle with its code cache)', () => {
     assert.ok(statSync(cache).mtimeMs >= statSync(bundle).mtimeMs, 'the old cache was left in place');
   });
 
+  maybe('keeps the cache in the user cache folder ($RHOSIGMA_CACHE_DIR) when it cannot be written beside the bundle, and uses it there', () => {
+    const { dir, bin, cache } = copy();
+    // Something that is not a file in the cache's place stands for a read-only folder (the tests run as
+    // root, for whom file modes do not refuse a write): neither readable as a cache nor replaceable.
+    rmSync(cache);
+    mkdirSync(join(cache, 'in-the-way'), { recursive: true });
+    const userDir = join(dir, 'user-cache');
+    const env = { ...process.env, RHOSIGMA_CACHE_DIR: userDir };
+    const run = () => {
+      const r = spawnSync(process.execPath, [bin, 'compute', join(dir, 'one.json')], { encoding: 'utf8', env });
+      assert.equal(r.status, 0, `the command failed: ${r.stderr}`);
+      closeTo((JSON.parse(r.stdout) as { value: number[] }).value, [1, 3]);
+    };
+    run();
+    const files = readdirSync(userDir);
+    assert.equal(files.length, 1, `expected one cache file in the user folder, found ${files.join(', ')}`);
+    const userCache = join(userDir, files[0]);
+    assert.ok(statSync(userCache).size > 10_000, 'the user-folder cache is not a real code cache');
+    assert.equal(readdirSync(join(dir, 'dist/cli')).sort().join(' '), 'bundle.cjs bundle.cjs.cache', 'a temporary file was left beside the bundle');
+    const before = readFileSync(userCache);
+    run();
+    assert.ok(readFileSync(userCache).equals(before), 'the user-folder cache was rewritten, so it was not used (or V8 rejected it)');
+  });
+
   maybe('loads none of child_process, crypto and worker_threads for one request (they load on first use)', () => {
     const { dir, bin } = copy();
     const hook = join(dir, 'modules.cjs');
@@ -115,6 +139,25 @@ describe('the built command (bundle with its code cache)', () => {
       return readFileSync(out);
     };
     assert.ok(run(2).equals(run(1)), 'two worker threads wrote other bytes than one');
+  });
+
+  maybe('draws the progress bar in a terminal through the cached bundle (a script compiled from V8\'s code cache cannot import(): the bundle holds none)', () => {
+    // No import() call is left in the bundle (esbuild turns them into require(); Node 20's vm.Script drops
+    // the dynamic-import callback of a script compiled from cached data).
+    assert.equal(/\bimport\(\s*["'`]/.exec(readFileSync(join(root, 'dist/cli/bundle.cjs'), 'utf8')), null, 'the bundle still calls import()');
+    const dir = mkdtempSync(join(tmpdir(), 'rhosigma-bundle-tty-'));
+    const spec = JSON.parse(readFileSync(join(root, 'docs/sweeps/strong-subadditivity.json'), 'utf8')) as { samples: number };
+    spec.samples = 20;
+    writeFileSync(join(dir, 'spec.json'), JSON.stringify(spec));
+    const out = join(dir, 'out.jsonl');
+    // util-linux's script(1) gives the command a pseudo-terminal (Debian's essential bsdutils).
+    const command = [process.execPath, join(root, 'bin/rhosigma.js'), 'sweep', join(dir, 'spec.json'), '-o', out].map((a) => `'${a}'`).join(' ');
+    const r = spawnSync('script', ['-qec', command, '/dev/null'], { encoding: 'utf8' });
+    assert.equal(r.status, 0, `the sweep in a terminal failed: ${r.stdout}${r.stderr}`);
+    const lines = readFileSync(out, 'utf8').trim().split('\n');
+    const { points } = JSON.parse(lines[0]) as { points: number };
+    assert.ok(points > 0 && lines.length > points, `${lines.length} lines for ${points} points`);
+    assert.ok(r.stdout.includes(`${points}/${points}`), 'no progress bar was drawn');
   });
 
   maybe('computes a sweep through the bundle, with the spec hash (SHA-256 by @noble/hashes, the spec validator precompiled)', () => {
