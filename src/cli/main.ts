@@ -26,6 +26,7 @@ import '../ops/all.js';
 import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
 import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
+import { liftMatrices } from '../ops/json-matrices.js';
 import { warmUp } from '../ops/warm-up.js';
 import { runDemo } from './demo.js';
 import { addSweepCommands } from './sweep.js';
@@ -211,15 +212,50 @@ async function readBytes(stream: Readable, limit: number): Promise<Buffer | unde
  * The text of UTF-8 bytes, or undefined when they are not UTF-8. Node's native checks first: ASCII
  * (the usual case, and the base64 of packed matrices) is decoded as one-byte text, three times faster.
  */
-function decodeBytes(bytes: Buffer): string | undefined {
-  if (isAscii(bytes)) return bytes.toString('latin1');
-  return isUtf8(bytes) ? decodeUtf8(bytes) : undefined;
+function decodeBytes(bytes: Uint8Array): string | undefined {
+  const b = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (isAscii(b)) return b.toString('latin1');
+  return isUtf8(b) ? decodeUtf8(b) : undefined;
 }
 
 /** Parses one request's text: JSON, then the duplicate-key check. */
 function parseText(text: string): { value: unknown; duplicates: DuplicateKey[] } {
   const value = JSON.parse(text);
   return { value, duplicates: findDuplicateKeys(text) };
+}
+
+/** One request's bytes parsed: its value and duplicate keys; or the text JSON.parse refused, with why; or not UTF-8. */
+type Parsed = { value: unknown; duplicates: DuplicateKey[] } | { text: string; error: unknown } | { notUtf8: true };
+
+/**
+ * Parses one request's bytes. Large matrices of numbers are first read straight from the bytes
+ * (src/ops/json-matrices.ts) and only the rest goes to JSON.parse and the duplicate-key check; when
+ * that path declines or anything on it fails, the whole bytes take the ordinary path (decode, parse,
+ * check), so that every verdict and error message is the one of the ordinary path.
+ */
+function parseBytes(bytes: Buffer): Parsed {
+  const lifted = liftMatrices(bytes);
+  if (lifted) {
+    const text = decodeBytes(lifted.bytes);
+    if (text !== undefined) {
+      let value: unknown;
+      let parsedOk = true;
+      try {
+        value = JSON.parse(text);
+      } catch {
+        parsedOk = false;
+      }
+      const restored = parsedOk ? lifted.restore(value) : undefined;
+      if (restored) return { value: restored.value, duplicates: findDuplicateKeys(text) };
+    }
+  }
+  const text = decodeBytes(bytes);
+  if (text === undefined) return { notUtf8: true };
+  try {
+    return parseText(text);
+  } catch (error) {
+    return { text, error };
+  }
 }
 
 async function computeWhole(file: string | undefined, pretty: boolean, deadline: number, io: Io): Promise<number> {
@@ -241,16 +277,13 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
     await out.write(`${JSON.stringify(a)}\n`);
     return out.code(1, 1);
   }
-  const text = decodeBytes(bytes);
-  if (text === undefined) {
+  const parsed = parseBytes(bytes);
+  if ('notUtf8' in parsed) {
     io.stderr.write('rhosigma compute: the input is not valid UTF-8 text (JSON must be UTF-8); nothing was computed.\n');
     return 2;
   }
-  let parsed: { value: unknown; duplicates: DuplicateKey[] };
-  try {
-    parsed = parseText(text);
-  } catch (err) {
-    const hint = text.trim() === '' ? 'the input is empty' : describeJsonError(err, text);
+  if ('error' in parsed) {
+    const hint = parsed.text.trim() === '' ? 'the input is empty' : describeJsonError(parsed.error, parsed.text);
     io.stderr.write(`rhosigma compute: the input is not JSON: ${hint}. (For one request per line, use --lines.)\n`);
     return 2;
   }
@@ -354,22 +387,21 @@ async function answerLines(
     if ('tooLong' in line) {
       answer = failureAnswer('too-large', `Line ${line.number} is ${line.tooLong} bytes long, above the limit of ${MAX_LINE_BYTES} bytes for one request.`);
     } else {
-      const text = decodeBytes(line.bytes);
-      if (text === undefined) {
+      const parsed = parseBytes(line.bytes);
+      if ('notUtf8' in parsed) {
         notJson = true;
         answer = failureAnswer('parse-error', `Line ${line.number} is not valid UTF-8 text (JSON must be UTF-8).`);
-      } else if (text.trim() === '') {
-        state.busy = false;
-        continue;
-      } else {
-        try {
-          const { value, duplicates } = parseText(text);
-          answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
-        } catch (err) {
-          // The line keeps its place in the output, so answers still line up with requests.
-          notJson = true;
-          answer = failureAnswer('parse-error', `Line ${line.number} is not JSON: ${describeJsonError(err, text, true)}.`);
+      } else if ('error' in parsed) {
+        if (parsed.text.trim() === '') {
+          state.busy = false;
+          continue;
         }
+        // The line keeps its place in the output, so answers still line up with requests.
+        notJson = true;
+        answer = failureAnswer('parse-error', `Line ${line.number} is not JSON: ${describeJsonError(parsed.error, parsed.text, true)}.`);
+      } else {
+        const { value, duplicates } = parsed;
+        answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
       }
     }
     if (!answer.ok) failed = true;
