@@ -58,12 +58,21 @@ interface WasmApi {
   Memory: new (desc: { initial: number }) => WasmMemory;
 }
 
-let enabled = true;
+let enabled: boolean | null = null;
 let loaded: { reader: Reader; memory: WasmMemory } | null | undefined;
 
-/** Turns the lifting on or off (on by default; off, `liftMatrices` always returns undefined). For tests and benchmarks. */
+/**
+ * Turns the lifting on or off (on by default; off, `liftMatrices` always returns undefined), for tests.
+ * The environment variable RHOSIGMA_LIFT_MATRICES=0 (read once, at first use, where a `process` object
+ * exists) turns it off too, for benchmarks (bench/transport.ts times the command both ways).
+ */
 export function setMatrixLiftEnabled(on: boolean): void {
   enabled = on;
+}
+
+function envEnabled(): boolean {
+  const v = (globalThis as { process?: { env?: Record<string, string | undefined> } }).process?.env?.RHOSIGMA_LIFT_MATRICES;
+  return !(v === '0' || v === 'false' || v === 'off');
 }
 
 function load(): { reader: Reader; memory: WasmMemory } | null {
@@ -104,6 +113,7 @@ const align8 = (x: number): number => (x + 7) & ~7;
  */
 export function liftMatrices(bytes: Uint8Array): LiftedRequest | undefined {
   const len = bytes.length;
+  enabled ??= envEnabled();
   if (!enabled || len < MIN_LIFT_BYTES || len > MAX_LIFT_BYTES) return undefined;
   const l = load();
   if (!l) return undefined;
