@@ -108,6 +108,20 @@ export interface LiftedRequest {
 const align8 = (x: number): number => (x + 7) & ~7;
 
 /**
+ * Whether some "[" of the bytes is followed, after JSON whitespace, by another "[" (strings not
+ * excepted): without one there is no array of rows to find, and the reader is not run (the packed form's
+ * base64 has no "["). Native searches (indexOf) only.
+ */
+function mayHoldRows(bytes: Uint8Array): boolean {
+  for (let i = bytes.indexOf(91); i >= 0; i = bytes.indexOf(91, i + 1)) {
+    let k = i + 1;
+    while (k < bytes.length && (bytes[k] === 32 || bytes[k] === 10 || bytes[k] === 13 || bytes[k] === 9)) k++;
+    if (bytes[k] === 91) return true;
+  }
+  return false;
+}
+
+/**
  * The request's large numeric matrices lifted out of its bytes, or undefined when there is none (or
  * the lifting is off, WebAssembly is missing, or the text is outside [MIN_LIFT_BYTES, MAX_LIFT_BYTES]).
  */
@@ -115,6 +129,7 @@ export function liftMatrices(bytes: Uint8Array): LiftedRequest | undefined {
   const len = bytes.length;
   enabled ??= envEnabled();
   if (!enabled || len < MIN_LIFT_BYTES || len > MAX_LIFT_BYTES) return undefined;
+  if (!mayHoldRows(bytes)) return undefined;
   const l = load();
   if (!l) return undefined;
   const { reader, memory } = l;

@@ -178,6 +178,14 @@ describe('numbers read by the WebAssembly reader, with V8\'s JSON.parse as refer
     assert.equal(liftMatrices(Buffer.from(m.replace('0.5', '-'))), undefined, 'a lone minus');
     assert.equal(liftMatrices(Buffer.from(`[${new Array(15).fill(`[${row}]`).join(',')}]`.replace('0.5', '0.5,0.5'))), undefined, 'a longer row');
     assert.equal(liftMatrices(Buffer.from(`[${new Array(8).fill(`[${row}]`).join(',')}]`.slice(0, 200))), undefined, 'below 256 entries');
+    // Strings are skipped eight bytes at a time: escapes and quotes at every offset within those eight.
+    for (let pad = 0; pad < 18; pad++) {
+      const str = `"${'x'.repeat(pad)}\\"${m}\\\\"`;
+      const lifted = liftMatrices(Buffer.from(`[${str},${m}]`));
+      assert.ok(lifted, `pad ${pad}`);
+      assert.equal(Buffer.from(lifted.bytes).toString(), `[${str},"rhosigma lifted matrix 0"]`, `pad ${pad}`);
+      assert.deepEqual(lifted.restore(JSON.parse(Buffer.from(lifted.bytes).toString()))?.value, JSON.parse(`[${str},${m}]`));
+    }
     const nested = liftMatrices(Buffer.from(`[${m},[${m}],{"a":${m}}]`));
     assert.ok(nested);
     assert.equal(Buffer.from(nested.bytes).toString(), '["rhosigma lifted matrix 0",["rhosigma lifted matrix 1"],{"a":"rhosigma lifted matrix 2"}]');

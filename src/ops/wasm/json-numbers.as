@@ -342,6 +342,13 @@ function readRows(s: usize, end: usize, out: usize, minEntries: i32, maxSide: i3
   return p;
 }
 
+/** Whether one of the 8 bytes of v is a quote (0x22) or a backslash (0x5c): the zero-byte test of v ^ byte. */
+@inline function quoteOrBackslash(v: u64): bool {
+  const q = v ^ 0x2222222222222222;
+  const b = v ^ 0x5c5c5c5c5c5c5c5c;
+  return ((((q - 0x0101010101010101) & ~q) | ((b - 0x0101010101010101) & ~b)) & 0x8080808080808080) != 0;
+}
+
 /** Where the host may put its data: the first byte after the module's static data. */
 export function dataEnd(): usize {
   return __heap_base;
@@ -362,8 +369,10 @@ export function scan(input: usize, len: i32, out: usize, runs: usize, maxRuns: i
   while (p < end) {
     const c = load<u8>(p);
     if (c == 34) {
-      // a string: skipped to its closing quote (an escape takes the next byte with it)
+      // a string: skipped to its closing quote (an escape takes the next byte with it), eight bytes
+      // at a time while none of them is a quote or a backslash (the base64 text of packed matrices)
       p++;
+      while (p + 8 <= end && !quoteOrBackslash(load<u64>(p))) p += 8;
       while (p < end) {
         const d = load<u8>(p);
         if (d == 34) break;
