@@ -59,7 +59,7 @@ let prodLo: u64 = 0;
 let result: f64 = 0;
 
 /** Eisel–Lemire: man · 10^exp10 (man ≠ 0) correctly rounded into `result`, or false when undecided. */
-function eiselLemire(man: u64, exp10: i32, neg: bool): bool {
+@inline function eiselLemire(man: u64, exp10: i32, neg: bool): bool {
   if (exp10 < POW10_MIN || exp10 > POW10_MAX) return false;
   const lz = <i64>clz<u64>(man);
   man <<= lz;
@@ -158,7 +158,7 @@ function readDigitsCarefully(p: usize, end: usize): void {
 }
 
 /** Reads the JSON number at p (p < end) into `result` and its end into numberEnd; false if not one or undecided. */
-function readNumber(p: usize, end: usize): bool {
+@inline function readNumber(p: usize, end: usize): bool {
   let c = <u32>load<u8>(p);
   let neg = false;
   if (c == 45) {
