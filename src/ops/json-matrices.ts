@@ -137,7 +137,13 @@ export function liftMatrices(bytes: Uint8Array): LiftedRequest | undefined {
   const out = align8(input + len);
   const runs = align8(out + 8 * ((len >> 1) + 2));
   const need = runs + 16 * MAX_RUNS;
-  if (need > memory.buffer.byteLength) memory.grow(Math.ceil((need - memory.buffer.byteLength) / 65536));
+  if (need > memory.buffer.byteLength) {
+    try {
+      memory.grow(Math.ceil((need - memory.buffer.byteLength) / 65536));
+    } catch {
+      return undefined; // no memory for the reader: the ordinary path, which may still fit
+    }
+  }
   new Uint8Array(memory.buffer, input, len).set(bytes);
   const found = reader.scan(input, len, out, runs, MAX_RUNS, PRE_READ_ENTRIES, MAX_DIMENSION);
   if (found === 0) return undefined;
