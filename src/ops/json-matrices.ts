@@ -25,8 +25,8 @@
  * JavaScript arrays and numbers that this avoids (V8's JSON.parse is already the fastest of those).
  * Deliberately not here: decoding or parsing the rest (the caller's JSON.parse), browsers' paths
  * (workers receive structured clones, not text). Cost: a copy of the bytes into the reader's memory
- * and one pass over them (about 5 bytes of memory per byte of text, kept for the next request; lines
- * above MAX_LIFT_BYTES are left to the ordinary path); per matrix a Float64Array and its rows as
+ * and one pass over them (about 5 bytes of memory per byte of text, kept for the next request up to
+ * KEEP_MEMORY_BYTES; texts above MAX_LIFT_BYTES are left to the ordinary path); per matrix a Float64Array and its rows as
  * arrays (bench/RESULTS.md, "spectrum transport").
  */
 import { JSON_NUMBERS_WASM_BASE64 } from './wasm/json-numbers.wasm.js';
@@ -37,6 +37,8 @@ import { PRE_READ_ENTRIES } from './sizes.js';
 const MIN_LIFT_BYTES = 2 * PRE_READ_ENTRIES;
 /** Texts longer than this are left to the ordinary path (the reader's memory is about five times the text). */
 export const MAX_LIFT_BYTES = 1 << 25;
+/** The reader's memory is kept for the next text only up to this size (enough for lines of about 12 MB). */
+const KEEP_MEMORY_BYTES = 64 << 20;
 /** At most this many matrices are lifted from one text; the rest are left to JSON.parse. */
 const MAX_RUNS = 4096;
 /** Deepest nesting of the rest that `restore` walks; deeper texts take the ordinary path. */
@@ -75,19 +77,25 @@ function envEnabled(): boolean {
   return !(v === '0' || v === 'false' || v === 'off');
 }
 
+let compiled: object | null | undefined;
+
 function load(): { reader: Reader; memory: WasmMemory } | null {
   if (loaded !== undefined) return loaded;
   loaded = null;
   const api = (globalThis as { WebAssembly?: WasmApi }).WebAssembly;
-  if (!api) return null;
+  if (!api || compiled === null) return null;
   try {
-    const bin = atob(JSON_NUMBERS_WASM_BASE64);
-    const bytes = new Uint8Array(bin.length);
-    for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+    if (compiled === undefined) {
+      const bin = atob(JSON_NUMBERS_WASM_BASE64);
+      const bytes = new Uint8Array(bin.length);
+      for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+      compiled = new api.Module(bytes);
+    }
     const memory = new api.Memory({ initial: 1 });
-    const inst = new api.Instance(new api.Module(bytes), { env: { memory } });
+    const inst = new api.Instance(compiled, { env: { memory } });
     loaded = { reader: inst.exports as unknown as Reader, memory };
   } catch {
+    compiled = null;
     loaded = null;
   }
   return loaded;
@@ -232,5 +240,8 @@ export function liftMatrices(bytes: Uint8Array): LiftedRequest | undefined {
     if (top >= 0) return count === found ? { value: put(top) } : undefined;
     return walk(value, 0) && count === found ? { value } : undefined;
   };
+  // A memory grown for a very long text is let go (a fresh one is made for the next text), so that a
+  // long-lived engine (serve) does not keep five times its largest request for good.
+  if (memory.buffer.byteLength > KEEP_MEMORY_BYTES) loaded = undefined;
   return { bytes: reduced, restore };
 }

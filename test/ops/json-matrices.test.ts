@@ -12,7 +12,7 @@ import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { liftMatrices } from '../../src/ops/json-matrices.js';
+import { MAX_LIFT_BYTES, liftMatrices } from '../../src/ops/json-matrices.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 
@@ -189,6 +189,22 @@ describe('numbers read by the WebAssembly reader, with V8\'s JSON.parse as refer
     const nested = liftMatrices(Buffer.from(`[${m},[${m}],{"a":${m}}]`));
     assert.ok(nested);
     assert.equal(Buffer.from(nested.bytes).toString(), '["rhosigma lifted matrix 0",["rhosigma lifted matrix 1"],{"a":"rhosigma lifted matrix 2"}]');
+  });
+
+  it('reads a 1024 × 1024 matrix of 17-digit numbers (about 19 MB), and the next text after it; leaves texts above MAX_LIFT_BYTES alone', () => {
+    const row = Array.from({ length: 1024 }, () => unit().toPrecision(17)).join(',');
+    const big = `[${new Array(1024).fill(`[${row}]`).join(',')}]`;
+    assert.ok(big.length > 16 << 20 && big.length < MAX_LIFT_BYTES);
+    const lifted = liftMatrices(Buffer.from(big));
+    assert.ok(lifted);
+    const value = lifted.restore(JSON.parse(Buffer.from(lifted.bytes).toString()))!.value as number[][];
+    const first = JSON.parse(`[${row}]`) as number[];
+    assert.ok(value.length === 1024 && value[1023].every((x, j) => Object.is(x, first[j])));
+    checkChunk(forms['shortest text of values in (-1/2, 1/2)'], 16, 16);
+    assert.ok(checkOne('0.1'));
+    const tooLong = `[${new Array(1800).fill(`[${row}]`).join(',')}]`;
+    assert.ok(tooLong.length > MAX_LIFT_BYTES);
+    assert.equal(liftMatrices(Buffer.from(tooLong)), undefined);
   });
 
   it('the committed module src/ops/wasm/json-numbers.wasm.ts equals a fresh AssemblyScript compile of json-numbers.as', () => {
