@@ -14,9 +14,11 @@
  *    numpy_eigh_bench.py). Goals ≤ 2× packed, ≤ 3× rows.
  *
  * Needs the build (`npm run build`: bin/rhosigma.js runs dist/cli/bundle.cjs with its code cache) and .venv (numpy).
+ * The rows are also timed (CPU only) with the reader of matrices from bytes switched off
+ * (RHOSIGMA_LIFT_MATRICES=0, src/ops/json-matrices.ts), the ordinary path of JSON.parse and the size walk.
  * Also in CPU time (user + system of the command, read by .venv's Python as its child's rusage, against
  * numpy's process time), which other load on a shared machine disturbs much less than wall time.
- * Prints medians and ratios only; asserts nothing (not a test). Cost: about a minute and a half.
+ * Prints medians and ratios only; asserts nothing (not a test). Cost: about a minute and three quarters.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync, existsSync } from 'node:fs';
@@ -73,9 +75,9 @@ function rowsForm(m: { re: Float64Array; im: Float64Array }, n: number) {
  * CPU milliseconds (user + system) of one run of a command, measured by .venv's Python as the rusage
  * of its child: much less disturbed than wall time by other load on a shared machine.
  */
-function cpu(cmd: string, args: string[]): number {
+function cpu(cmd: string, args: string[], env?: NodeJS.ProcessEnv): number {
   const code = 'import resource, subprocess, sys\nsubprocess.run(sys.argv[1:], stdout=subprocess.DEVNULL)\nr = resource.getrusage(resource.RUSAGE_CHILDREN)\nprint(r.ru_utime + r.ru_stime)';
-  const r = spawnSync(PYTHON, ['-c', code, cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 20 });
+  const r = spawnSync(PYTHON, ['-c', code, cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 20, env: env ?? process.env });
   if (r.status !== 0) throw new Error(`cpu(${cmd}) failed: ${r.stderr}`);
   return 1000 * Number(r.stdout.trim());
 }
@@ -121,6 +123,8 @@ export default async function transport(): Promise<void> {
   const WHEEL = join(dir, '_bundle/bin/rhosigma.js');
   const wheel: number[] = [];
   const wheelRatios: number[] = [];
+  const cpuRowsOff: number[] = [];
+  const cpuRatiosRowsOff: number[] = [];
   wall('node', [BIN, 'compute', one]); // fills the file cache
   wall('node', [WHEEL, 'compute', one]); // writes the wheel engine's code cache
   for (let r = 0; r < rounds; r++) {
@@ -151,6 +155,11 @@ export default async function transport(): Promise<void> {
       cpuPerMatrix[form].push(perCpu);
       cpuRatios[form].push(perCpu / npCpu);
     }
+    // Rows again with the reader of matrices from bytes switched off (src/ops/json-matrices.ts): what it saves.
+    const off = { ...process.env, RHOSIGMA_LIFT_MATRICES: '0' };
+    const offCpu = (cpu('node', [BIN, 'compute', '--lines', files.rows.batch], off) - cpu('node', [BIN, 'compute', '--lines', files.rows.single], off)) / (K - 1);
+    cpuRowsOff.push(offCpu);
+    cpuRatiosRowsOff.push(offCpu / npCpu);
   }
   const f = (x: number) => x.toFixed(1);
   const g = (x: number) => x.toFixed(2);
@@ -165,4 +174,5 @@ export default async function transport(): Promise<void> {
   console.log('The same in CPU time (user + system of the command per matrix; numpy\'s process time), less disturbed by other load:');
   console.log(`  numpy ${f(median(numpyCpu))}   packed ${f(median(cpuPerMatrix.packed))} ratio ${g(median(cpuRatios.packed))}   rows ${f(median(cpuPerMatrix.rows))} ratio ${g(median(cpuRatios.rows))}`);
   console.log(`  per-round CPU ratios: packed ${cpuRatios.packed.map(g).join(' ')}; rows ${cpuRatios.rows.map(g).join(' ')}`);
+  console.log(`  rows with the reader of matrices from bytes off (RHOSIGMA_LIFT_MATRICES=0): ${f(median(cpuRowsOff))} ratio ${g(median(cpuRatiosRowsOff))}`);
 }

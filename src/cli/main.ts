@@ -26,6 +26,7 @@ import '../ops/all.js';
 import { handleAsync, requestSchema, closeOpNames, DEFAULT_DEADLINE_MS, MAX_DEADLINE_MS, type Answer } from '../ops/handle.js';
 import { getOp, listOps } from '../ops/registry.js';
 import { decodeUtf8, findDuplicateKeys, type DuplicateKey } from '../ops/json-text.js';
+import { liftMatrices } from '../ops/json-matrices.js';
 import { warmUp } from '../ops/warm-up.js';
 import { runDemo } from './demo.js';
 import { addSweepCommands } from './sweep.js';
@@ -211,15 +212,50 @@ async function readBytes(stream: Readable, limit: number): Promise<Buffer | unde
  * The text of UTF-8 bytes, or undefined when they are not UTF-8. Node's native checks first: ASCII
  * (the usual case, and the base64 of packed matrices) is decoded as one-byte text, three times faster.
  */
-function decodeBytes(bytes: Buffer): string | undefined {
-  if (isAscii(bytes)) return bytes.toString('latin1');
-  return isUtf8(bytes) ? decodeUtf8(bytes) : undefined;
+function decodeBytes(bytes: Uint8Array): string | undefined {
+  const b = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (isAscii(b)) return b.toString('latin1');
+  return isUtf8(b) ? decodeUtf8(b) : undefined;
 }
 
 /** Parses one request's text: JSON, then the duplicate-key check. */
 function parseText(text: string): { value: unknown; duplicates: DuplicateKey[] } {
   const value = JSON.parse(text);
   return { value, duplicates: findDuplicateKeys(text) };
+}
+
+/** One request's bytes parsed: its value and duplicate keys; or the text JSON.parse refused, with why; or not UTF-8. */
+type Parsed = { value: unknown; duplicates: DuplicateKey[] } | { text: string; error: unknown } | { notUtf8: true };
+
+/**
+ * Parses one request's bytes. Large matrices of numbers are first read straight from the bytes
+ * (src/ops/json-matrices.ts) and only the rest goes to JSON.parse and the duplicate-key check; when
+ * that path declines or anything on it fails, the whole bytes take the ordinary path (decode, parse,
+ * check), so that every verdict and error message is the one of the ordinary path.
+ */
+function parseBytes(bytes: Buffer): Parsed {
+  const lifted = liftMatrices(bytes);
+  if (lifted) {
+    const text = decodeBytes(lifted.bytes);
+    if (text !== undefined) {
+      let value: unknown;
+      let parsedOk = true;
+      try {
+        value = JSON.parse(text);
+      } catch {
+        parsedOk = false;
+      }
+      const restored = parsedOk ? lifted.restore(value) : undefined;
+      if (restored) return { value: restored.value, duplicates: findDuplicateKeys(text) };
+    }
+  }
+  const text = decodeBytes(bytes);
+  if (text === undefined) return { notUtf8: true };
+  try {
+    return parseText(text);
+  } catch (error) {
+    return { text, error };
+  }
 }
 
 async function computeWhole(file: string | undefined, pretty: boolean, deadline: number, io: Io): Promise<number> {
@@ -241,16 +277,13 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
     await out.write(`${JSON.stringify(a)}\n`);
     return out.code(1, 1);
   }
-  const text = decodeBytes(bytes);
-  if (text === undefined) {
+  const parsed = parseBytes(bytes);
+  if ('notUtf8' in parsed) {
     io.stderr.write('rhosigma compute: the input is not valid UTF-8 text (JSON must be UTF-8); nothing was computed.\n');
     return 2;
   }
-  let parsed: { value: unknown; duplicates: DuplicateKey[] };
-  try {
-    parsed = parseText(text);
-  } catch (err) {
-    const hint = text.trim() === '' ? 'the input is empty' : describeJsonError(err, text);
+  if ('error' in parsed) {
+    const hint = parsed.text.trim() === '' ? 'the input is empty' : describeJsonError(parsed.error, parsed.text);
     io.stderr.write(`rhosigma compute: the input is not JSON: ${hint}. (For one request per line, use --lines.)\n`);
     return 2;
   }
@@ -287,6 +320,9 @@ async function computeWhole(file: string | undefined, pretty: boolean, deadline:
   return out.code(failed ? 1 : 0, value.length);
 }
 
+/** Longest line joined into splitLines' buffer kept from line to line (longer lines get their own). */
+const SCRATCH_LIMIT = 1 << 25;
+
 /** One line of JSON Lines input: its bytes, or how long it was when it was too long to keep. */
 type Line = { number: number; bytes: Buffer } | { number: number; tooLong: number };
 
@@ -300,6 +336,21 @@ async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line
   let length = 0;
   let skipping = false;
   let number = 0;
+  // A line spread over several chunks is joined into one buffer kept from line to line (up to
+  // SCRATCH_LIMIT bytes): a fresh buffer per line cost its page faults, a millisecond per 2.6 MB line.
+  // Safe because a line's bytes are used only until the next line is asked for (answerLines reads,
+  // parses and answers a line before it takes the next; nothing parsed keeps a view of the bytes).
+  let scratch: Buffer | undefined;
+  const joined = (): Buffer => {
+    if (length > SCRATCH_LIMIT) return Buffer.concat(parts, length);
+    if (scratch === undefined || scratch.length < length) scratch = Buffer.allocUnsafe(Math.min(SCRATCH_LIMIT, Math.max(length, 2 * (scratch?.length ?? 0))));
+    let at = 0;
+    for (const part of parts) {
+      part.copy(scratch, at);
+      at += part.length;
+    }
+    return scratch.subarray(0, length);
+  };
   const take = (): Line => {
     number++;
     if (skipping) {
@@ -308,7 +359,7 @@ async function* splitLines(stream: Readable, limit: number): AsyncGenerator<Line
       length = 0;
       return line;
     }
-    let bytes = parts.length === 1 ? parts[0] : Buffer.concat(parts, length);
+    let bytes = parts.length === 1 ? parts[0] : joined();
     if (bytes.length && bytes[bytes.length - 1] === 13) bytes = bytes.subarray(0, bytes.length - 1);
     parts = [];
     length = 0;
@@ -354,22 +405,21 @@ async function answerLines(
     if ('tooLong' in line) {
       answer = failureAnswer('too-large', `Line ${line.number} is ${line.tooLong} bytes long, above the limit of ${MAX_LINE_BYTES} bytes for one request.`);
     } else {
-      const text = decodeBytes(line.bytes);
-      if (text === undefined) {
+      const parsed = parseBytes(line.bytes);
+      if ('notUtf8' in parsed) {
         notJson = true;
         answer = failureAnswer('parse-error', `Line ${line.number} is not valid UTF-8 text (JSON must be UTF-8).`);
-      } else if (text.trim() === '') {
-        state.busy = false;
-        continue;
-      } else {
-        try {
-          const { value, duplicates } = parseText(text);
-          answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
-        } catch (err) {
-          // The line keeps its place in the output, so answers still line up with requests.
-          notJson = true;
-          answer = failureAnswer('parse-error', `Line ${line.number} is not JSON: ${describeJsonError(err, text, true)}.`);
+      } else if ('error' in parsed) {
+        if (parsed.text.trim() === '') {
+          state.busy = false;
+          continue;
         }
+        // The line keeps its place in the output, so answers still line up with requests.
+        notJson = true;
+        answer = failureAnswer('parse-error', `Line ${line.number} is not JSON: ${describeJsonError(parsed.error, parsed.text, true)}.`);
+      } else {
+        const { value, duplicates } = parsed;
+        answer = duplicates.length ? duplicateAnswer(value, duplicates) : await safeHandle(value, deadline);
       }
     }
     if (!answer.ok) failed = true;

@@ -166,6 +166,28 @@ export function rememberNumericRows(rows: unknown[], values: Float64Array): void
   numericRows.set(rows, values);
 }
 
+/** Forgets what was recorded for `rows` (the size walk found them not to be numbers only this time). */
+export function forgetNumericRows(rows: unknown[]): void {
+  numericRows.delete(rows);
+}
+
+/** Rows recorded from a request's bytes (src/ops/json-matrices.ts), which the size walk need not look at. */
+const liftedRows = new WeakSet<unknown[]>();
+
+/** Records `values` for rows that src/ops/json-matrices.ts has just built from a request's bytes. */
+export function rememberLiftedRows(rows: unknown[], values: Float64Array): void {
+  numericRows.set(rows, values);
+  liftedRows.add(rows);
+}
+
+/**
+ * Whether `rows` were built from a request's bytes with their values recorded and not yet looked at
+ * by a size walk; true once only (a request walked a second time, perhaps changed since, is read again).
+ */
+export function takeLiftedRows(rows: unknown[]): boolean {
+  return liftedRows.delete(rows) && numericRows.has(rows);
+}
+
 /** Whether `rows` was read into a typed array by the size walk (rows of finite numbers, of equal length). */
 export function isNumericRows(rows: unknown): boolean {
   return Array.isArray(rows) && numericRows.has(rows);

@@ -13,7 +13,9 @@
  *
  * On the way, a matrix given as rows of finite numbers (PRE_READ_ENTRIES or more), all rows as long as the first, is read into a
  * row-major Float64Array (codec.ts, rememberNumericRows): the request's validation then skips its rows
- * (handle's stand-ins) and the codec's readers take the array, so the entries are looked at once.
+ * (handle's stand-ins) and the codec's readers take the array, so the entries are looked at once. Rows
+ * that src/ops/json-matrices.ts already read from the request's bytes (recorded the same way) are not
+ * looked at again.
  *
  * Deliberately not here: any other validation (the op's JSON Schema and the codec's readers do that,
  * and check the sizes again themselves). Cost: one look at each entry of rows and kets (to count the
@@ -21,10 +23,10 @@
  * one Float64Array per matrix of numbers given as rows (8 bytes per entry, less than the parsed rows).
  */
 import { RhoError } from '../errors.js';
-import { MAX_DIMENSION, rememberNumericRows } from './codec.js';
+import { MAX_DIMENSION, forgetNumericRows, rememberNumericRows, takeLiftedRows } from './codec.js';
 
 /** Matrices given as rows with at least this many entries are read into a typed array by the walk. */
-const PRE_READ_ENTRIES = 256;
+export const PRE_READ_ENTRIES = 256;
 
 /** Largest number of expression strings in one request (each costs a parse). */
 export const MAX_REQUEST_EXPRESSIONS = 65536;
@@ -85,9 +87,12 @@ export function checkRequestSizes(request: Record<string, unknown>): RequestSize
   const rows = (v: unknown[], path: string): void => {
     if (v.length > MAX_DIMENSION) throw tooLarge(path, 'The number of rows', v.length, MAX_DIMENSION);
     side(v.length);
+    const cols = (v[0] as unknown[]).length;
+    // Rows already read into a typed array (src/ops/json-matrices.ts, from the request's bytes):
+    // finite numbers, all rows as long as the first, sides within the limit; nothing more to look at.
+    if (takeLiftedRows(v)) return side(cols);
     // Rows of finite numbers, all as long as the first, are read into a typed array on the way (the
     // codec's readers and handle's validation then use it instead of walking the rows again).
-    const cols = (v[0] as unknown[]).length;
     // Small matrices are left to ajv and the codec (a fresh typed array costs more than their walk).
     const big = cols >= 1 && cols <= MAX_DIMENSION && v.length * cols >= PRE_READ_ENTRIES;
     let values: Float64Array | undefined = big ? new Float64Array(v.length * cols) : undefined;
@@ -113,6 +118,7 @@ export function checkRequestSizes(request: Record<string, unknown>): RequestSize
       countStrings(row, `${path}[${i}]`);
     }
     if (values !== undefined) rememberNumericRows(v, values);
+    else forgetNumericRows(v); // nothing recorded by an earlier walk of the same rows may outlive a change to them
   };
 
   const ket = (v: unknown[], path: string): void => {

@@ -22,18 +22,20 @@ export const ASC_FLAGS = [
   '--enable', 'simd', '-O3', '--runtime', 'stub', '--noAssert', '--importMemory', '--noExportMemory',
 ];
 
-/** Compiles the kernel source; resolves to the wasm bytes. */
-export async function compileKernels() {
+/**
+ * Compiles AssemblyScript source text (handed to the compiler as `name`.ts) with `flags`; resolves to
+ * the wasm bytes. Shared with src/ops/wasm/build.mjs.
+ */
+export async function compileAssemblyScript(name, source, flags) {
   const { default: asc } = await import('assemblyscript/asc');
-  const source = readFileSync(SOURCE, 'utf8');
   // The compiler wants a .ts entry file; the source keeps the .as extension so that the project's
   // TypeScript compiler leaves it alone, and is handed over under a virtual name.
   let binary = null;
   const errors = [];
-  const { error } = await asc.main(['eigh-kernels.ts', ...ASC_FLAGS, '--outFile', 'eigh-kernels.wasm'], {
-    readFile: (name) => (name === 'eigh-kernels.ts' ? source : null),
-    writeFile: (name, contents) => {
-      if (name.endsWith('.wasm')) binary = contents;
+  const { error } = await asc.main([`${name}.ts`, ...flags, '--outFile', `${name}.wasm`], {
+    readFile: (file) => (file === `${name}.ts` ? source : null),
+    writeFile: (file, contents) => {
+      if (file.endsWith('.wasm')) binary = contents;
     },
     listFiles: () => [],
     stdout: { write: () => true },
@@ -41,6 +43,11 @@ export async function compileKernels() {
   });
   if (error || !binary) throw new Error(`AssemblyScript compile failed: ${error?.message ?? ''}\n${errors.join('')}`);
   return new Uint8Array(binary);
+}
+
+/** Compiles the kernel source; resolves to the wasm bytes. */
+export async function compileKernels() {
+  return compileAssemblyScript('eigh-kernels', readFileSync(SOURCE, 'utf8'), ASC_FLAGS);
 }
 
 /** The text of the generated module for the given bytes. */
