@@ -87,20 +87,27 @@ const vendored = {
   },
 };
 
+/** One package (`contents` the entry's text, resolved from the checkout) as one minified CommonJS file. */
+function buildPackageFile(contents, outfile, extra = {}) {
+  return build({
+    stdin: { contents, resolveDir: root, loader: 'js' },
+    outfile,
+    bundle: true,
+    platform: 'node',
+    format: 'cjs',
+    target: ['node20'],
+    minify: true,
+    logLevel: 'warning',
+    ...extra,
+  });
+}
+
 /** Writes dist/cli/vendor/NAME.cjs (`vendored`) under `cliDir`, each one minified CommonJS file, with its licence. */
 async function bundleVendored(cliDir) {
   for (const name of VENDORED) {
-    await build({
-      stdin: { contents: `export * from ${JSON.stringify(name)};`, resolveDir: root, loader: 'js' },
-      outfile: join(cliDir, 'vendor', `${name}.cjs`),
-      bundle: true,
-      platform: 'node',
-      format: 'cjs',
-      target: ['node20'],
-      minify: true,
+    await buildPackageFile(`export * from ${JSON.stringify(name)};`, join(cliDir, 'vendor', `${name}.cjs`), {
       alias: { 'vega-canvas': join(root, 'node_modules/vega-canvas/build/vega-canvas.browser.js') },
       external: ['canvas'],
-      logLevel: 'warning',
     });
     copyFileSync(join(root, 'node_modules', name, 'LICENSE'), join(cliDir, 'vendor', `${name}.LICENSE`));
   }
@@ -197,16 +204,7 @@ export async function bundleWheelEngine(dir = join(root, 'kernel-bridge/rhosigma
   const mathjs = vendor('mathjs', './lib/browser/math.js');
   mkdirSync(join(mathjs, 'lib/browser'), { recursive: true });
   copyFileSync(join(root, 'node_modules/mathjs/lib/browser/math.js'), join(mathjs, 'lib/browser/math.js'));
-  await build({
-    stdin: { contents: "module.exports = require('cli-progress');", resolveDir: root, loader: 'js' },
-    outfile: join(vendor('cli-progress', './index.cjs'), 'index.cjs'),
-    bundle: true,
-    platform: 'node',
-    format: 'cjs',
-    target: ['node20'],
-    minify: true,
-    logLevel: 'warning',
-  });
+  await buildPackageFile("module.exports = require('cli-progress');", join(vendor('cli-progress', './index.cjs'), 'index.cjs'));
 }
 
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
